@@ -1,0 +1,64 @@
+import Link from "next/link";
+
+const features = [
+  {
+    title: "Conductance you can cite",
+    text: "Two-terminal Landauer conductance per valley and in total, in e²/h, siemens and ohms, with transmission eigenvalues, Fano factor, temperature smearing and contact resistance.",
+  },
+  {
+    title: "Spectra and densities of states",
+    text: "Bloch bands of the periodic network at any rational flux, densities of states per moiré cell and per area, carrier density, and local density-of-states maps.",
+  },
+  {
+    title: "Sweeps at scale",
+    text: "Grids over energy, field, node probabilities, disorder and size, each point optionally an ensemble of disorder seeds, shared across many workers.",
+  },
+  {
+    title: "Fits to your measurements",
+    text: "Upload magnetoconductance, read the moiré period off the oscillations, and fit node probabilities, mode velocity and contact resistance with honest uncertainties.",
+  },
+];
+
+export default function LandingPage() {
+  return (
+    <main className="mx-auto max-w-5xl px-gutter py-16">
+      <header className="flex items-center justify-between">
+        <span className="text-title font-semibold tracking-tight">Triskel</span>
+        <nav className="flex gap-6 text-body text-ink-soft">
+          <Link href="/pricing" className="hover:text-wall-700">Pricing</Link>
+          <Link href="/manual" className="hover:text-wall-700">Model manual</Link>
+          <Link href="/sign-in" className="rounded-full bg-ink px-4 py-1.5 text-paper hover:bg-wall-700">Sign in</Link>
+        </nav>
+      </header>
+
+      <section className="mt-20 max-w-3xl">
+        <p className="font-mono text-caption uppercase tracking-widest text-wall-700">chiral scattering networks</p>
+        <h1 className="mt-3 text-display font-semibold">Coherent transport through networks of one-way channels.</h1>
+        <p className="mt-6 text-lead text-ink-soft">
+          Describe a triangular domain-wall network or a square network at the quantum Hall transition. Triskel&apos;s
+          workers compute conductance, spectra and densities of states, and hand back plots, tables and files for your
+          paper.
+        </p>
+        <div className="mt-8 flex gap-4">
+          <Link href="/sign-up" className="rounded-full bg-wall-700 px-5 py-2 text-paper hover:bg-wall-900">Start free</Link>
+          <a href="/api/v1/health" className="rounded-full border border-ink/20 px-5 py-2 hover:border-wall-500">Service status</a>
+        </div>
+      </section>
+
+      <section className="mt-20 grid gap-6 sm:grid-cols-2">
+        {features.map((f) => (
+          <article key={f.title} className="rounded-card bg-paper-raised p-6 shadow-sm ring-1 ring-ink/5">
+            <h2 className="text-lead font-semibold">{f.title}</h2>
+            <p className="mt-2 text-body text-ink-soft">{f.text}</p>
+          </article>
+        ))}
+      </section>
+
+      <p className="mt-16 border-t border-ink/10 pt-6 text-caption text-ink-faint">
+        Results are predictions of a phenomenological model, not measurements; node probabilities and mode velocity are
+        model parameters to be fitted, not material constants. Costs are shown before any job is charged. Nothing here
+        controls instruments.
+      </p>
+    </main>
+  );
+}

@@ -1,0 +1,59 @@
+/**
+ * Plan figures (product.md "Plans"; demo figures, invented). Kept here as configuration:
+ * code reads limits from this table, never from literals.
+ */
+export type PlanId = "free" | "lab";
+
+export interface PlanLimits {
+  id: PlanId;
+  label: string;
+  /** Price per seat and month, USD. */
+  seatPriceUsdPerMonth: number;
+  /** Metered price of compute, USD per compute-hour. */
+  computePriceUsdPerHour: number;
+  /** Compute included each month, seconds (0: every second is metered). */
+  includedComputeSeconds: number;
+  /** Largest network, cells along each side (columns and rows). */
+  maxCellsPerSide: number;
+  maxSweepPoints: number;
+  maxEnsembleSamples: number;
+  /** BullMQ priority: lower numbers run first. */
+  queuePriority: number;
+  queuePriorityLabel: "low" | "normal";
+  /** Members allowed; null means "as many as seats bought". */
+  maxMembers: number | null;
+}
+
+export const PLANS: Record<PlanId, PlanLimits> = {
+  free: {
+    id: "free",
+    label: "Free",
+    seatPriceUsdPerMonth: 0,
+    computePriceUsdPerHour: 0,
+    includedComputeSeconds: 30 * 60,
+    maxCellsPerSide: 40,
+    maxSweepPoints: 100,
+    maxEnsembleSamples: 50,
+    queuePriority: 10,
+    queuePriorityLabel: "low",
+    maxMembers: 1,
+  },
+  lab: {
+    id: "lab",
+    label: "Lab",
+    seatPriceUsdPerMonth: 24,
+    computePriceUsdPerHour: 0.6,
+    includedComputeSeconds: 0,
+    maxCellsPerSide: 400,
+    maxSweepPoints: 20_000,
+    maxEnsembleSamples: 1_000,
+    queuePriority: 1,
+    queuePriorityLabel: "normal",
+    maxMembers: null,
+  },
+};
+
+/** Cost in USD of some compute-seconds on a plan (before included minutes). */
+export function computeCostUsd(plan: PlanId, computeSeconds: number): number {
+  return (computeSeconds / 3600) * PLANS[plan].computePriceUsdPerHour;
+}

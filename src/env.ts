@@ -1,0 +1,61 @@
+import { z } from "zod";
+
+/**
+ * Every environment variable Triskel reads, validated once at start-up. The scripts in
+ * scripts/ export working local defaults, so nothing needs editing on a developer's machine.
+ * A bad or missing value stops the process with one line naming it (see `loadEnv`).
+ */
+const url = (what: string) => z.string().url({ message: `must be a URL (${what})` });
+
+export const envSchema = z.object({
+  NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
+  DATABASE_URL: url("postgres://user@host:port/db").refine((v) => /^postgres(ql)?:\/\//.test(v), "must start with postgres://"),
+  REDIS_URL: url("redis://host:port").refine((v) => /^rediss?:\/\//.test(v), "must start with redis://"),
+  /** Public base URL of the web app, used in e-mails and redirects. */
+  APP_URL: url("http://127.0.0.1:3000").default("http://127.0.0.1:3000"),
+  /** BullMQ key prefix, so several instances can share one Redis. */
+  QUEUE_PREFIX: z.string().regex(/^[a-z0-9:_-]+$/i, "letters, digits, ':', '_' and '-' only").default("triskel"),
+  /** Engine runs in parallel per worker process (threads in the pool). */
+  WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(2),
+  LOG_LEVEL: z.enum(["debug", "info", "warn", "error"]).default("info"),
+});
+
+export type Env = z.infer<typeof envSchema>;
+
+export class EnvError extends Error {}
+
+/** Parses an environment; throws EnvError whose message is one line per bad variable. */
+export function parseEnv(source: Record<string, string | undefined>): Env {
+  const parsed = envSchema.safeParse(source);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((issue) => {
+      const name = issue.path.join(".");
+      const value = source[name];
+      const problem = value === undefined || value === "" ? "is missing" : `is invalid (${JSON.stringify(value.length > 60 ? value.slice(0, 60) + "…" : value)})`;
+      return `environment variable ${name} ${problem}: ${issue.message}`;
+    });
+    throw new EnvError(lines.join("\n"));
+  }
+  return parsed.data;
+}
+
+let cached: Env | undefined;
+
+/** The validated environment of this process. In a CLI or worker, a bad value exits with status 78. */
+export function env(): Env {
+  if (!cached) cached = parseEnv(process.env);
+  return cached;
+}
+
+/** For entry points: validate at start-up, print the one-line reason and exit instead of a stack trace. */
+export function loadEnvOrExit(): Env {
+  try {
+    return env();
+  } catch (err) {
+    if (err instanceof EnvError) {
+      console.error(`Triskel cannot start: ${err.message}`);
+      process.exit(78);
+    }
+    throw err;
+  }
+}

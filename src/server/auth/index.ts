@@ -1,0 +1,85 @@
+import { and, eq, isNull } from "drizzle-orm";
+import { getDb } from "@/server/db";
+import { apiTokens, memberships, workspaces } from "@/server/db/schema";
+import { ApiError } from "@/server/http/errors";
+import { can, describeAction, lesserRole, rolesAllowed, ROLE_LABELS, type Action, type Role } from "./permissions";
+import { hashToken, looksLikeToken } from "./tokens";
+
+export type { Action, Role } from "./permissions";
+
+/** Who is calling, in which workspace, with which role. Every server module takes one. */
+export interface Caller {
+  userId: string;
+  workspaceId: string;
+  role: Role;
+  plan: "free" | "lab";
+  via: "session" | "token";
+  tokenId?: string;
+}
+
+/**
+ * Resolves the caller of an API request: `Authorization: Bearer <API token>` or the browser
+ * session. The one place a route learns its workspace, so no query can forget the scope.
+ */
+export async function getCaller(req: Request): Promise<Caller> {
+  const header = req.headers.get("authorization");
+  if (header) {
+    const match = /^Bearer\s+(\S+)$/i.exec(header.trim());
+    if (!match) throw new ApiError("unauthenticated", "Authorization header must be `Bearer <API token>`.");
+    return callerFromToken(match[1]);
+  }
+  const fromSession = await sessionResolver?.(req);
+  if (fromSession) return fromSession;
+  throw new ApiError("unauthenticated", "Sign in, or send `Authorization: Bearer <API token>` (create one under Workspace → API tokens).");
+}
+
+/** The sign-in integration registers how a browser session becomes a Caller (src/server/auth/session.ts). */
+type SessionResolver = (req: Request) => Promise<Caller | null>;
+let sessionResolver: SessionResolver | undefined;
+export function registerSessionResolver(resolver: SessionResolver): void {
+  sessionResolver = resolver;
+}
+
+const lastUsedWrites = new Map<string, number>();
+
+export async function callerFromToken(secret: string): Promise<Caller> {
+  if (!looksLikeToken(secret)) throw new ApiError("unauthenticated", "That is not a Triskel API token (they start with `trk_`).");
+  const db = getDb();
+  const [row] = await db
+    .select({
+      id: apiTokens.id,
+      userId: apiTokens.userId,
+      workspaceId: apiTokens.workspaceId,
+      role: apiTokens.role,
+      revokedAt: apiTokens.revokedAt,
+      memberRole: memberships.role,
+      plan: workspaces.plan,
+    })
+    .from(apiTokens)
+    .innerJoin(workspaces, eq(workspaces.id, apiTokens.workspaceId))
+    .leftJoin(memberships, and(eq(memberships.workspaceId, apiTokens.workspaceId), eq(memberships.userId, apiTokens.userId)))
+    .where(eq(apiTokens.tokenHash, hashToken(secret)))
+    .limit(1);
+  if (!row) throw new ApiError("unauthenticated", "Unknown API token.");
+  if (row.revokedAt) throw new ApiError("unauthenticated", "This API token was revoked; create a new one.");
+  if (!row.memberRole) throw new ApiError("unauthenticated", "The member who created this API token is no longer in its workspace.");
+  // Record last use at most once a minute per token.
+  const now = Date.now();
+  if ((lastUsedWrites.get(row.id) ?? 0) < now - 60_000) {
+    lastUsedWrites.set(row.id, now);
+    await db.update(apiTokens).set({ lastUsedAt: new Date(now) }).where(and(eq(apiTokens.id, row.id), isNull(apiTokens.revokedAt)));
+  }
+  return { userId: row.userId, workspaceId: row.workspaceId, role: lesserRole(row.role, row.memberRole), plan: row.plan, via: "token", tokenId: row.id };
+}
+
+/** Throws 403 with a message naming the action and the roles that may do it. */
+export function requirePermission(caller: Caller, action: Action): void {
+  if (can(caller.role, action)) return;
+  const allowed = rolesAllowed(action).map((r) => ROLE_LABELS[r]).join(", ");
+  throw new ApiError("forbidden", `Your role (${ROLE_LABELS[caller.role]}) cannot ${describeAction(action)}; allowed: ${allowed}.`, {
+    action,
+    role: caller.role,
+  });
+}
+
+export { can };

@@ -1,0 +1,71 @@
+/**
+ * Who may do what (product.md, "Roles"): the one table every route and server action consults.
+ * The UI hides what a role cannot do; the server refuses it regardless.
+ */
+export const ROLES = ["owner", "billing_admin", "researcher", "viewer"] as const;
+export type Role = (typeof ROLES)[number];
+
+export const ROLE_LABELS: Record<Role, string> = {
+  owner: "Owner",
+  billing_admin: "Billing admin",
+  researcher: "Researcher",
+  viewer: "Viewer",
+};
+
+export type Action =
+  | "results.view" // see networks, runs, sweeps, datasets, fits and their results
+  | "work.create" // create networks, runs, sweeps, datasets, fits
+  | "work.manageOthers" // cancel or delete another member's runs, sweeps, networks
+  | "members.manage" // invite or remove members, change roles
+  | "seats.manage" // change the number of seats
+  | "billing.manage" // plan, payment, spend cap, invoices
+  | "usage.view" // compute use per member
+  | "tokens.own"; // create and revoke one's own API tokens
+
+const TABLE: Record<Action, readonly Role[]> = {
+  "results.view": ["owner", "billing_admin", "researcher", "viewer"],
+  "work.create": ["owner", "researcher"],
+  "work.manageOthers": ["owner"],
+  "members.manage": ["owner"],
+  "seats.manage": ["owner", "billing_admin"],
+  "billing.manage": ["owner", "billing_admin"],
+  "usage.view": ["owner", "billing_admin", "researcher", "viewer"],
+  "tokens.own": ["owner", "billing_admin", "researcher", "viewer"],
+};
+
+export function can(role: Role, action: Action): boolean {
+  return TABLE[action].includes(role);
+}
+
+/** Roles a member may give to a token: no higher than their own (viewers: read-only tokens). */
+const RANK: Record<Role, number> = { viewer: 0, billing_admin: 1, researcher: 1, owner: 2 };
+export function tokenRolesFor(role: Role): Role[] {
+  if (role === "owner") return [...ROLES];
+  return ROLES.filter((r) => r === role || r === "viewer");
+}
+
+/** The lesser of two roles (a token can never do more than its member). */
+export function lesserRole(a: Role, b: Role): Role {
+  if (a === b) return a;
+  if (RANK[a] !== RANK[b]) return RANK[a] < RANK[b] ? a : b;
+  // researcher vs billing_admin: incomparable; the intersection of their rights is a viewer's.
+  return "viewer";
+}
+
+export function describeAction(action: Action): string {
+  const words: Record<Action, string> = {
+    "results.view": "see this workspace's work",
+    "work.create": "create networks, runs, sweeps, datasets or fits",
+    "work.manageOthers": "cancel or delete another member's work",
+    "members.manage": "invite or remove members or change roles",
+    "seats.manage": "change seats",
+    "billing.manage": "change the plan, payment, spend cap or read invoices",
+    "usage.view": "see compute use",
+    "tokens.own": "manage API tokens",
+  };
+  return words[action];
+}
+
+export function rolesAllowed(action: Action): readonly Role[] {
+  return TABLE[action];
+}

@@ -1,0 +1,29 @@
+// What scripts/test.sh exports for the integration and browser tests.
+import { readFileSync } from "node:fs";
+
+function required(name: string): string {
+  const v = process.env[name];
+  if (!v) throw new Error(`${name} is not set: run integration and browser tests through \`npm test\` (scripts/test.sh starts the services)`);
+  return v;
+}
+
+export const appUrl = () => required("APP_URL");
+export const databaseUrl = () => required("DATABASE_URL");
+export const redisUrl = () => required("REDIS_URL");
+
+export type DemoTokenKey = "owner" | "billingAdmin" | "researcher" | "viewer" | "student";
+export function demoTokens(): Record<DemoTokenKey, string> {
+  return JSON.parse(readFileSync(required("DEMO_TOKENS_FILE"), "utf8"));
+}
+
+/** fetch against the running app with a demo member's token. */
+export async function api(path: string, init: RequestInit & { as?: DemoTokenKey | null; json?: unknown } = {}): Promise<Response> {
+  const headers = new Headers(init.headers);
+  if (init.as !== null) headers.set("authorization", `Bearer ${demoTokens()[init.as ?? "researcher"]}`);
+  let body = init.body;
+  if (init.json !== undefined) {
+    headers.set("content-type", "application/json");
+    body = JSON.stringify(init.json);
+  }
+  return fetch(new URL(path, appUrl()), { ...init, headers, body });
+}

@@ -1,0 +1,29 @@
+import { describe, expect, it } from "vitest";
+import { can, lesserRole, tokenRolesFor } from "@/server/auth/permissions";
+
+// The expected values are the Roles table of product.md, copied by hand.
+describe("role permissions (product.md, Roles)", () => {
+  it("everyone sees results; only Owner and Researcher create work", () => {
+    for (const r of ["owner", "billing_admin", "researcher", "viewer"] as const) expect(can(r, "results.view")).toBe(true);
+    expect(can("owner", "work.create")).toBe(true);
+    expect(can("researcher", "work.create")).toBe(true);
+    expect(can("billing_admin", "work.create")).toBe(false);
+    expect(can("viewer", "work.create")).toBe(false);
+  });
+
+  it("billing is Owner and Billing admin; members are Owner only, seats also Billing admin", () => {
+    expect(can("billing_admin", "billing.manage")).toBe(true);
+    expect(can("researcher", "billing.manage")).toBe(false);
+    expect(can("billing_admin", "members.manage")).toBe(false);
+    expect(can("billing_admin", "seats.manage")).toBe(true);
+    expect(can("owner", "work.manageOthers")).toBe(true);
+    expect(can("researcher", "work.manageOthers")).toBe(false);
+  });
+
+  it("a token never outranks its member", () => {
+    expect(tokenRolesFor("viewer")).toEqual(["viewer"]);
+    expect(tokenRolesFor("researcher")).toEqual(["researcher", "viewer"]);
+    expect(lesserRole("owner", "viewer")).toBe("viewer");
+    expect(lesserRole("researcher", "billing_admin")).toBe("viewer");
+  });
+});
