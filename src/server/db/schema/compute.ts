@@ -1,4 +1,5 @@
-import { index, integer, jsonb, pgEnum, pgTable, real, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
+import { sql } from "drizzle-orm";
+import { index, integer, json, jsonb, pgEnum, pgTable, real, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
 import { planName, users, workspaces } from "./accounts";
 
 /** Status of a run or a sweep (issue 4 contract). */
@@ -41,6 +42,8 @@ export const sweeps = pgTable(
     workspaceId: uuid("workspace_id").notNull().references(() => workspaces.id, { onDelete: "cascade" }),
     createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
     networkVersionId: uuid("network_version_id").references(() => networkVersions.id, { onDelete: "restrict" }),
+    /** A title for lists, e.g. "conductance versus field". */
+    name: text("name"),
     /** The base `{ network, computation }` every point starts from. */
     input: jsonb("input").notNull(),
     axes: jsonb("axes").notNull(),
@@ -57,7 +60,7 @@ export const sweeps = pgTable(
     finishedAt: timestamp("finished_at", { withTimezone: true }),
     cancelRequestedAt: timestamp("cancel_requested_at", { withTimezone: true }),
   },
-  (t) => [index("sweeps_workspace_created").on(t.workspaceId, t.createdAt)],
+  (t) => [index("sweeps_workspace_created").on(t.workspaceId, t.createdAt), index("sweeps_network_version").on(t.networkVersionId)],
 );
 
 /** One computation on one network; sweep points are runs with sweep_id set. */
@@ -76,7 +79,8 @@ export const runs = pgTable(
     input: jsonb("input").notNull(),
     status: jobStatus("status").notNull().default("queued"),
     progress: real("progress").notNull().default(0),
-    result: jsonb("result"),
+    /** Exactly the engine's result (json, not jsonb, so key order is kept as the command line prints it). */
+    result: json("result"),
     error: jsonb("error"),
     estimatedComputeSeconds: real("estimated_compute_seconds").notNull().default(0),
     computeSeconds: real("compute_seconds"),
@@ -88,9 +92,15 @@ export const runs = pgTable(
     startedAt: timestamp("started_at", { withTimezone: true }),
     finishedAt: timestamp("finished_at", { withTimezone: true }),
     cancelRequestedAt: timestamp("cancel_requested_at", { withTimezone: true }),
+    /** Last sign of life from the worker computing it (progress writes); recovery uses it. */
+    heartbeatAt: timestamp("heartbeat_at", { withTimezone: true }),
+    /** Process that last claimed it (host:pid), for operators. */
+    workerId: text("worker_id"),
   },
   (t) => [
     index("runs_workspace_created").on(t.workspaceId, t.createdAt),
+    index("runs_network_version").on(t.networkVersionId),
+    index("runs_unfinished").on(t.createdAt).where(sql`status in ('queued', 'running')`),
     index("runs_workspace_status").on(t.workspaceId, t.status),
     uniqueIndex("runs_sweep_point").on(t.sweepId, t.sweepPointIndex),
   ],
