@@ -18,6 +18,16 @@ export const envSchema = z.object({
   /** Engine runs in parallel per worker process (threads in the pool). */
   WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(2),
   LOG_LEVEL: z.enum(["debug", "info", "warn", "error"]).default("info"),
+  // --- runs and sweeps worker (issue 4) ---
+  /** Engine threads per worker process (piscina pool); default: WORKER_CONCURRENCY. */
+  WORKER_POOL_SIZE: z.coerce.number().int().min(1).max(64).optional(),
+  /** How long a job's lock lives without renewal; a dead worker's jobs are retried after it. */
+  WORKER_LOCK_MS: z.coerce.number().int().min(2000).max(600_000).default(10_000),
+  /** How often a worker looks for stalled jobs (whose worker died). */
+  WORKER_STALLED_INTERVAL_MS: z.coerce.number().int().min(1000).max(600_000).default(5_000),
+  /** How often a worker re-enqueues runs the database holds as queued but Redis has no job for. */
+  WORKER_RECOVERY_INTERVAL_MS: z.coerce.number().int().min(1000).max(3_600_000).default(10_000),
+  // --- end runs and sweeps worker ---
 });
 
 export type Env = z.infer<typeof envSchema>;
