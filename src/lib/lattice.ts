@@ -1,0 +1,171 @@
+/**
+ * Geometry of a network for drawing (physics.md section 2), in units of the link length l.
+ *
+ * Triangular: a1 = (1, 0), a2 = (-1/2, sqrt3/2), a3 = (-1/2, -sqrt3/2). Nodes sit in rows
+ * stacked along y; odd rows are shifted by a1/2 so the sample is a rectangle of `columns` x
+ * `rows` nodes. Valley K: the link of direction j runs from R to R + a_j; valley K' reverses it.
+ * Leads sit on the faces perpendicular to a1 (left and right): links that leave through a face
+ * are drawn as stubs into the lead. With a periodic transverse boundary, links that leave through
+ * the top or bottom come back on the other side (drawn as stubs with a marker).
+ *
+ * Square: nodes on a square grid; horizontal links run right on even rows and left on odd rows,
+ * vertical links run up on even columns and down on odd ones, so every node has two links in and
+ * two out (the network of the quantum Hall transition). Valley K' reverses every link.
+ *
+ * Output is flat typed arrays so a 200 x 200 network (120,000 links) draws in one pass.
+ */
+export interface NetworkShape {
+  lattice: "triangular" | "square";
+  columns: number;
+  rows: number;
+  transverse: "periodic" | "open";
+  valley: "K" | "K'";
+}
+
+export interface NetworkGeometry {
+  nodeCount: number;
+  /** x, y per node, in units of l; y grows upward. */
+  nodes: Float32Array;
+  linkCount: number;
+  /** x0, y0, x1, y1 per link (tail to head, in the chosen valley). */
+  links: Float32Array;
+  /** Per link: 0 inner, 1 into/out of a lead, 2 wrapped across the periodic boundary. */
+  linkKind: Uint8Array;
+  /** Bounding box of the sample (nodes), in l. */
+  bounds: { xMin: number; xMax: number; yMin: number; yMax: number };
+  /** Lead faces: x positions of the left and right lead, in l. */
+  leads: { leftX: number; rightX: number };
+}
+
+const S3 = Math.sqrt(3) / 2;
+
+export function linkCountOf(shape: Pick<NetworkShape, "lattice" | "columns" | "rows">): number {
+  return shape.lattice === "triangular" ? 3 * shape.columns * shape.rows : 2 * shape.columns * shape.rows;
+}
+
+export function networkGeometry(shape: NetworkShape): NetworkGeometry {
+  return shape.lattice === "triangular" ? triangular(shape) : square(shape);
+}
+
+function triangular({ columns: C, rows: Rn, transverse, valley }: NetworkShape): NetworkGeometry {
+  const nodeCount = C * Rn;
+  const nodes = new Float32Array(2 * nodeCount);
+  const xOf = (i: number, m: number) => i + (m & 1) * 0.5;
+  const yOf = (m: number) => m * S3;
+  for (let m = 0; m < Rn; m++)
+    for (let i = 0; i < C; i++) {
+      const k = m * C + i;
+      nodes[2 * k] = xOf(i, m);
+      nodes[2 * k + 1] = yOf(m);
+    }
+  const linkCount = 3 * nodeCount;
+  const links = new Float32Array(4 * linkCount);
+  const linkKind = new Uint8Array(linkCount);
+  const dirs: [number, number][] = [
+    [1, 0],
+    [-0.5, S3],
+    [-0.5, -S3],
+  ];
+  const rev = valley === "K'";
+  let n = 0;
+  const xMax = C - 1 + (Rn > 1 ? 0.5 : 0);
+  for (let m = 0; m < Rn; m++)
+    for (let i = 0; i < C; i++) {
+      const x0 = xOf(i, m);
+      const y0 = yOf(m);
+      for (let j = 0; j < 3; j++) {
+        const [dx, dy] = dirs[j];
+        let x1 = x0 + dx;
+        let y1 = y0 + dy;
+        let kind = 0;
+        const mt = m + (j === 1 ? 1 : j === 2 ? -1 : 0);
+        if (x1 < -1e-6 || x1 > xMax + 1e-6) kind = 1; // leaves through a lead face
+        else if (mt < 0 || mt >= Rn) {
+          kind = 2;
+          if (transverse === "open") {
+            // Open edge: the link is kept as a short stub pointing out (the edge rule reflects it back).
+            x1 = x0 + dx * 0.45;
+            y1 = y0 + dy * 0.45;
+          } else {
+            x1 = x0 + dx * 0.5;
+            y1 = y0 + dy * 0.5;
+          }
+        }
+        if (kind === 1) {
+          x1 = x0 + dx * 0.5;
+          y1 = y0 + dy * 0.5;
+        }
+        const o = 4 * n;
+        if (rev) {
+          links[o] = x1;
+          links[o + 1] = y1;
+          links[o + 2] = x0;
+          links[o + 3] = y0;
+        } else {
+          links[o] = x0;
+          links[o + 1] = y0;
+          links[o + 2] = x1;
+          links[o + 3] = y1;
+        }
+        linkKind[n] = kind;
+        n++;
+      }
+    }
+  return {
+    nodeCount,
+    nodes,
+    linkCount: n,
+    links,
+    linkKind,
+    bounds: { xMin: 0, xMax, yMin: 0, yMax: (Rn - 1) * S3 },
+    leads: { leftX: -0.6, rightX: xMax + 0.6 },
+  };
+}
+
+function square({ columns: C, rows: Rn, valley }: NetworkShape): NetworkGeometry {
+  const nodeCount = C * Rn;
+  const nodes = new Float32Array(2 * nodeCount);
+  for (let m = 0; m < Rn; m++)
+    for (let i = 0; i < C; i++) {
+      const k = m * C + i;
+      nodes[2 * k] = i;
+      nodes[2 * k + 1] = m;
+    }
+  const linkCount = 2 * nodeCount;
+  const links = new Float32Array(4 * linkCount);
+  const linkKind = new Uint8Array(linkCount);
+  const rev = valley === "K'";
+  let n = 0;
+  const put = (x0: number, y0: number, x1: number, y1: number, kind: number) => {
+    const o = 4 * n;
+    if (rev) [x0, y0, x1, y1] = [x1, y1, x0, y0];
+    links[o] = x0;
+    links[o + 1] = y0;
+    links[o + 2] = x1;
+    links[o + 3] = y1;
+    linkKind[n] = kind;
+    n++;
+  };
+  for (let m = 0; m < Rn; m++)
+    for (let i = 0; i < C; i++) {
+      // Horizontal link leaving node (i, m).
+      const hx = m % 2 === 0 ? 1 : -1;
+      const xt = i + hx;
+      if (xt < 0 || xt >= C) put(i, m, i + hx * 0.5, m, 1);
+      else put(i, m, xt, m, 0);
+      // Vertical link leaving node (i, m).
+      const vy = i % 2 === 0 ? 1 : -1;
+      const yt = m + vy;
+      if (yt < 0 || yt >= Rn) put(i, m, i, m + vy * 0.45, 2);
+      else put(i, m, i, yt, 0);
+    }
+  return {
+    nodeCount,
+    nodes,
+    linkCount: n,
+    links,
+    linkKind,
+    bounds: { xMin: 0, xMax: C - 1, yMin: 0, yMax: Rn - 1 },
+    leads: { leftX: -0.6, rightX: C - 1 + 0.6 },
+  };
+}
