@@ -1,0 +1,284 @@
+/**
+ * Parses an uploaded measurement (CSV) with its column mapping into a curve in the engine's
+ * units. Pure (papaparse only; runs in the browser too, so the upload form shows the same errors
+ * the server gives). Every problem names the file line ("row", 1-based, counting the header and
+ * comment lines) and the column.
+ */
+import Papa from "papaparse";
+import { convertX, convertY, isXUnit, isYUnit, recogniseUnit, X_UNIT_INFO, Y_UNIT_INFO, type XQuantity, type XUnit, type YUnit } from "./units";
+
+export const DATASET_MAX_BYTES = 5 * 1024 * 1024;
+export const DATASET_MAX_ROWS = 100_000;
+export const DATASET_MIN_ROWS = 4;
+const MAX_ISSUES = 20;
+
+export interface ColumnMapping {
+  xColumn: string;
+  xUnit: XUnit;
+  yColumn: string;
+  yUnit: YUnit;
+  /** Uncertainty of y, in the same unit as y. */
+  sigmaColumn?: string;
+  /** Sample temperature per row, in kelvin. */
+  temperatureColumn?: string;
+}
+
+export type CsvIssueCode =
+  | "empty_file"
+  | "missing_column"
+  | "duplicate_column"
+  | "missing_value"
+  | "non_numeric"
+  | "not_finite"
+  | "mixed_units"
+  | "unit_mismatch"
+  | "unsorted_x"
+  | "duplicate_x"
+  | "nonpositive_resistance"
+  | "nonpositive_sigma"
+  | "negative_temperature"
+  | "too_few_rows"
+  | "too_many_rows"
+  | "malformed_row";
+
+export interface CsvIssue {
+  code: CsvIssueCode;
+  /** File line (1-based), or null when the problem is not tied to one line. */
+  row: number | null;
+  /** Column name as in the header, or null. */
+  column: string | null;
+  message: string;
+}
+
+export class DatasetCsvError extends Error {
+  constructor(readonly issues: CsvIssue[]) {
+    super(issues.length === 1 ? issues[0].message : `${issues[0].message} (and ${issues.length - 1} more problem${issues.length > 2 ? "s" : ""})`);
+    this.name = "DatasetCsvError";
+  }
+}
+
+export interface ParsedDataset {
+  /** What x measures and its stored unit (field: T, gate voltage: V, density: m^-2). */
+  xQuantity: XQuantity;
+  xCanonicalUnit: string;
+  /** Ascending x in the canonical unit. */
+  x: number[];
+  /** Conductance in e^2/h. */
+  y: number[];
+  /** Uncertainty of the conductance in e^2/h, when a sigma column was mapped. */
+  sigma: number[] | null;
+  temperatureK: number[] | null;
+  rows: number;
+  /** The file's x ran downwards (it is stored ascending). */
+  xDescending: boolean;
+  columns: string[];
+  mapping: ColumnMapping;
+}
+
+interface RawTable {
+  header: string[];
+  headerLine: number;
+  rows: { line: number; cells: string[] }[];
+}
+
+/** Splits the file into a header and rows with their file line numbers. Comment lines start with '#'. */
+export function readCsvTable(text: string): RawTable {
+  const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+  const records: { line: number; cells: string[] }[] = [];
+  let counted = 0; // characters scanned for newlines
+  let lines = 0; // newlines seen before `counted`
+  Papa.parse<string[]>(body, {
+    comments: "#",
+    skipEmptyLines: "greedy",
+    step: (r) => {
+      let end = r.meta.cursor;
+      while (end > 0 && (body[end - 1] === "\n" || body[end - 1] === "\r")) end--;
+      for (; counted < end; counted++) if (body.charCodeAt(counted) === 10) lines++;
+      let inner = 0;
+      for (const c of r.data) for (let i = 0; i < c.length; i++) if (c.charCodeAt(i) === 10) inner++;
+      records.push({ line: lines + 1 - inner, cells: r.data });
+    },
+  });
+  if (records.length === 0) throw new DatasetCsvError([{ code: "empty_file", row: null, column: null, message: "The file has no header and no rows; expected a header line naming the columns, then one line per point." }]);
+  const [head, ...rows] = records;
+  return { header: head.cells.map((h) => h.trim()), headerLine: head.line, rows };
+}
+
+/** The column names and the first rows, for the column-mapping step. */
+export function previewCsv(text: string, rows = 8): { columns: string[]; rows: string[][]; totalRows: number; guessedUnits: Record<string, string | undefined> } {
+  const t = readCsvTable(text);
+  const guessedUnits: Record<string, string | undefined> = {};
+  for (const h of t.header) guessedUnits[h] = headerUnit(h);
+  return { columns: t.header, rows: t.rows.slice(0, rows).map((r) => r.cells), totalRows: t.rows.length, guessedUnits };
+}
+
+/** A unit written in a header such as "B (mT)", "R [kohm]" or "G_e2/h". */
+function headerUnit(header: string): string | undefined {
+  const m = /[([]\s*([^)\]]+?)\s*[)\]]\s*$/.exec(header);
+  if (!m) return undefined;
+  return recogniseUnit(m[1]);
+}
+
+const NUMBER = /^\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*?)\s*$/;
+
+type Cell = { ok: true; value: number; unit?: string } | { ok: false; issue: CsvIssue };
+
+function readCell(raw: string | undefined, line: number, column: string): Cell {
+  const text = (raw ?? "").trim();
+  if (text === "") return { ok: false, issue: { code: "missing_value", row: line, column, message: `Row ${line}, column "${column}": the cell is empty; every point needs a number here.` } };
+  if (/^[+-]?(nan|inf|infinity)$/i.test(text)) {
+    return { ok: false, issue: { code: "not_finite", row: line, column, message: `Row ${line}, column "${column}": "${clip(text)}" is not a finite number.` } };
+  }
+  const m = NUMBER.exec(text);
+  if (!m) {
+    return { ok: false, issue: { code: "non_numeric", row: line, column, message: `Row ${line}, column "${column}": "${clip(text)}" is not a number (expected e.g. 0.125 or 1.5e-3, optionally followed by its unit).` } };
+  }
+  const value = Number(m[1]);
+  if (!Number.isFinite(value)) return { ok: false, issue: { code: "not_finite", row: line, column, message: `Row ${line}, column "${column}": "${clip(text)}" is out of range.` } };
+  if (m[2]) {
+    const unit = recogniseUnit(m[2]);
+    if (!unit) {
+      return { ok: false, issue: { code: "non_numeric", row: line, column, message: `Row ${line}, column "${column}": "${clip(text)}" is not a number (the text after it, "${clip(m[2])}", is not a unit we know).` } };
+    }
+    return { ok: true, value, unit };
+  }
+  return { ok: true, value };
+}
+
+const clip = (s: string) => (s.length > 40 ? s.slice(0, 40) + "…" : s);
+
+function findColumn(header: string[], name: string): number {
+  const exact = header.indexOf(name);
+  if (exact >= 0) return exact;
+  const lower = name.trim().toLowerCase();
+  return header.findIndex((h) => h.toLowerCase() === lower);
+}
+
+/** Parses the CSV with its mapping. Throws DatasetCsvError listing (up to 20) problems. */
+export function parseDatasetCsv(text: string, mapping: ColumnMapping): ParsedDataset {
+  if (!isXUnit(mapping.xUnit)) throw new DatasetCsvError([{ code: "unit_mismatch", row: null, column: mapping.xColumn, message: `xUnit "${mapping.xUnit}" is not allowed; use one of T, mT, V, cm^-2.` }]);
+  if (!isYUnit(mapping.yUnit)) throw new DatasetCsvError([{ code: "unit_mismatch", row: null, column: mapping.yColumn, message: `yUnit "${mapping.yUnit}" is not allowed; use one of S, uS, e2/h, ohm, kohm.` }]);
+  const table = readCsvTable(text);
+  const issues: CsvIssue[] = [];
+  const push = (i: CsvIssue) => {
+    if (issues.length < MAX_ISSUES) issues.push(i);
+  };
+  const done = () => issues.length >= MAX_ISSUES;
+
+  const wanted: { role: "x" | "y" | "sigma" | "temperature"; name: string; unit?: string }[] = [
+    { role: "x", name: mapping.xColumn, unit: mapping.xUnit },
+    { role: "y", name: mapping.yColumn, unit: mapping.yUnit },
+  ];
+  if (mapping.sigmaColumn) wanted.push({ role: "sigma", name: mapping.sigmaColumn, unit: mapping.yUnit });
+  if (mapping.temperatureColumn) wanted.push({ role: "temperature", name: mapping.temperatureColumn });
+  const index: Partial<Record<"x" | "y" | "sigma" | "temperature", number>> = {};
+  for (const w of wanted) {
+    const i = findColumn(table.header, w.name);
+    if (i < 0) {
+      push({ code: "missing_column", row: table.headerLine, column: w.name, message: `Column "${w.name}" (mapped as ${w.role}) is not in the header on row ${table.headerLine}; the file has: ${table.header.map((h) => `"${h}"`).join(", ") || "no columns"}.` });
+      continue;
+    }
+    const dupes = table.header.filter((h) => h.toLowerCase() === table.header[i].toLowerCase()).length;
+    if (dupes > 1) push({ code: "duplicate_column", row: table.headerLine, column: w.name, message: `Column "${w.name}" appears ${dupes} times in the header on row ${table.headerLine}; rename one so the mapping is unambiguous.` });
+    const hu = headerUnit(table.header[i]);
+    if (w.unit && hu && hu !== w.unit) {
+      push({ code: "unit_mismatch", row: table.headerLine, column: table.header[i], message: `Column "${table.header[i]}" says ${hu} in its header, but it was mapped with unit ${w.unit}; pick the unit the column is in.` });
+    }
+    index[w.role] = i;
+  }
+  if (issues.length) throw new DatasetCsvError(issues);
+  if (table.rows.length > DATASET_MAX_ROWS) {
+    throw new DatasetCsvError([{ code: "too_many_rows", row: null, column: null, message: `The file has ${table.rows.length} rows; at most ${DATASET_MAX_ROWS} are allowed.` }]);
+  }
+
+  const xRaw: number[] = [];
+  const yRaw: number[] = [];
+  const sRaw: number[] = [];
+  const tRaw: number[] = [];
+  const lineOf: number[] = [];
+  const unitSeen: Partial<Record<string, { unit: string; line: number }>> = {};
+  for (const r of table.rows) {
+    if (done()) break;
+    let rowOk = true;
+    const values: Partial<Record<string, number>> = {};
+    for (const w of wanted) {
+      const col = table.header[index[w.role]!];
+      const cell = readCell(r.cells[index[w.role]!], r.line, col);
+      if (!cell.ok) {
+        push(cell.issue);
+        rowOk = false;
+        continue;
+      }
+      if (cell.unit) {
+        const first = unitSeen[w.role];
+        if (first && first.unit !== cell.unit) {
+          push({ code: "mixed_units", row: r.line, column: col, message: `Row ${r.line}, column "${col}": this cell is in ${cell.unit} but row ${first.line} is in ${first.unit}; one column must use one unit.` });
+          rowOk = false;
+          continue;
+        }
+        if (!first) unitSeen[w.role] = { unit: cell.unit, line: r.line };
+        if (w.unit && cell.unit !== w.unit) {
+          push({ code: "mixed_units", row: r.line, column: col, message: `Row ${r.line}, column "${col}": this cell is in ${cell.unit} but the column was mapped with unit ${w.unit}.` });
+          rowOk = false;
+          continue;
+        }
+        if (w.role === "temperature" && cell.unit) {
+          push({ code: "unit_mismatch", row: r.line, column: col, message: `Row ${r.line}, column "${col}": temperatures are plain numbers in kelvin, without a unit.` });
+          rowOk = false;
+          continue;
+        }
+      }
+      values[w.role] = cell.value;
+    }
+    if (!rowOk) continue;
+    if (Y_UNIT_INFO[mapping.yUnit].kind === "resistance" && !(values.y! > 0)) {
+      push({ code: "nonpositive_resistance", row: r.line, column: table.header[index.y!], message: `Row ${r.line}, column "${table.header[index.y!]}": a resistance of ${values.y} ${mapping.yUnit} cannot be turned into a conductance; resistances must be positive.` });
+      continue;
+    }
+    if (values.sigma !== undefined && !(values.sigma > 0)) {
+      push({ code: "nonpositive_sigma", row: r.line, column: table.header[index.sigma!], message: `Row ${r.line}, column "${table.header[index.sigma!]}": an uncertainty must be positive (got ${values.sigma}).` });
+      continue;
+    }
+    if (values.temperature !== undefined && !(values.temperature >= 0)) {
+      push({ code: "negative_temperature", row: r.line, column: table.header[index.temperature!], message: `Row ${r.line}, column "${table.header[index.temperature!]}": a temperature in kelvin cannot be negative (got ${values.temperature}).` });
+      continue;
+    }
+    xRaw.push(values.x!);
+    yRaw.push(values.y!);
+    if (values.sigma !== undefined) sRaw.push(values.sigma);
+    if (values.temperature !== undefined) tRaw.push(values.temperature);
+    lineOf.push(r.line);
+  }
+  if (issues.length) throw new DatasetCsvError(issues);
+
+  // x must be strictly monotonic (either direction): report the first row that breaks the order.
+  const xCol = table.header[index.x!];
+  const descending = xRaw.length >= 2 && xRaw[1] < xRaw[0];
+  for (let i = 1; i < xRaw.length && !done(); i++) {
+    if (xRaw[i] === xRaw[i - 1]) {
+      push({ code: "duplicate_x", row: lineOf[i], column: xCol, message: `Row ${lineOf[i]}, column "${xCol}": x = ${xRaw[i]} repeats row ${lineOf[i - 1]}; each x may appear once (average repeated measurements first).` });
+    } else if (descending ? xRaw[i] > xRaw[i - 1] : xRaw[i] < xRaw[i - 1]) {
+      push({ code: "unsorted_x", row: lineOf[i], column: xCol, message: `Row ${lineOf[i]}, column "${xCol}": x = ${xRaw[i]} comes after ${xRaw[i - 1]} (row ${lineOf[i - 1]}), but the column runs ${descending ? "downwards" : "upwards"}; x must be sorted (one direction, no repeats).` });
+    }
+  }
+  if (issues.length) throw new DatasetCsvError(issues);
+  if (xRaw.length < DATASET_MIN_ROWS) {
+    throw new DatasetCsvError([{ code: "too_few_rows", row: null, column: null, message: `The file has ${xRaw.length} data row${xRaw.length === 1 ? "" : "s"}; at least ${DATASET_MIN_ROWS} are needed.` }]);
+  }
+
+  const n = xRaw.length;
+  const x = new Array<number>(n);
+  const y = new Array<number>(n);
+  const sigma = mapping.sigmaColumn ? new Array<number>(n) : null;
+  const temperatureK = mapping.temperatureColumn ? new Array<number>(n) : null;
+  for (let k = 0; k < n; k++) {
+    const i = descending ? n - 1 - k : k;
+    x[k] = convertX(xRaw[i], mapping.xUnit);
+    const c = convertY(yRaw[i], mapping.yUnit, sigma ? sRaw[i] : undefined)!;
+    y[k] = c.g;
+    if (sigma) sigma[k] = c.sigma!;
+    if (temperatureK) temperatureK[k] = tRaw[i];
+  }
+  const info = X_UNIT_INFO[mapping.xUnit];
+  return { xQuantity: info.quantity, xCanonicalUnit: info.canonicalUnit, x, y, sigma, temperatureK, rows: n, xDescending: descending, columns: table.header, mapping };
+}
