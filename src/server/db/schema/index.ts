@@ -1,3 +1,4 @@
 // One file per domain; each later feature adds its own file and a line here.
 export * from "./accounts";
 export * from "./compute";
+export * from "./invitations";
