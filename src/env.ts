@@ -18,6 +18,13 @@ export const envSchema = z.object({
   /** Engine runs in parallel per worker process (threads in the pool). */
   WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(2),
   LOG_LEVEL: z.enum(["debug", "info", "warn", "error"]).default("info"),
+  // --- billing (docs/billing.md): Stripe through its SDK; the local stand-in sets all of these.
+  STRIPE_SECRET_KEY: z.string().regex(/^(sk|rk)_(test|live)_/, "must be a Stripe secret key (sk_test_... or sk_live_...)").optional(),
+  STRIPE_WEBHOOK_SECRET: z.string().regex(/^whsec_/, "must be a webhook signing secret (whsec_...)").optional(),
+  /** Only for the local stand-in: where the SDK sends requests (default: api.stripe.com over https). */
+  STRIPE_API_HOST: z.string().optional(),
+  STRIPE_API_PORT: z.coerce.number().int().min(1).max(65535).optional(),
+  STRIPE_API_PROTOCOL: z.enum(["http", "https"]).optional(),
   // --- runs and sweeps worker (issue 4) ---
   /** Engine threads per worker process (piscina pool); default: WORKER_CONCURRENCY. */
   WORKER_POOL_SIZE: z.coerce.number().int().min(1).max(64).optional(),

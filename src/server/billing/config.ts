@@ -1,0 +1,38 @@
+/**
+ * Billing settings that are not plan figures (those live in src/config/plans.ts): names of the
+ * Stripe objects Triskel creates, the grace period after a failed payment, the meter sender's
+ * pace. Figures here are configuration, read by code, never repeated as literals elsewhere.
+ */
+export const STRIPE_OBJECTS = {
+  seatProductId: "triskel_lab_seat",
+  computeProductId: "triskel_compute",
+  /** Lookup keys find the current prices without storing their ids. */
+  seatPriceLookupKey: "triskel_lab_seat_monthly",
+  computePriceLookupKey: "triskel_compute_seconds_metered",
+  /** The billing meter: event name and aggregation. */
+  meterEventName: "compute_seconds",
+  meterDisplayName: "Triskel compute-seconds",
+} as const;
+
+export const BILLING_RULES = {
+  /** Days a workspace keeps Lab limits after a failed payment before it works under Free limits. */
+  graceDays: 7,
+  /** Spend-cap notices, as fractions of the cap (product: 80 % and 100 %). */
+  spendCapNoticeFractions: [0.8, 1] as const,
+};
+
+export const METER_SENDER = {
+  /** How often the sender looks for work, ms. */
+  intervalMs: Number(process.env.METER_SENDER_INTERVAL_MS ?? 2000),
+  batchSize: 50,
+  /** A claimed row is left alone by other senders for this long (a killed sender's rows come back). */
+  leaseSeconds: Number(process.env.METER_SENDER_LEASE_SECONDS ?? 30),
+  /** Retry delay after a temporary failure: base * 2^(attempts-1), capped. */
+  backoffBaseMs: 1000,
+  backoffMaxMs: 60_000,
+};
+
+/** Delay before the next attempt after `attempts` temporary failures (pure, tested). */
+export function backoffMs(attempts: number, base = METER_SENDER.backoffBaseMs, max = METER_SENDER.backoffMaxMs): number {
+  return Math.min(max, base * 2 ** Math.max(0, attempts - 1));
+}
