@@ -2,3 +2,4 @@
 export * from "./accounts";
 export * from "./compute";
 export * from "./invitations";
+export * from "./data";
