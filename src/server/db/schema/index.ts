@@ -3,3 +3,4 @@ export * from "./accounts";
 export * from "./compute";
 export * from "./invitations";
 export * from "./data";
+export * from "./billing";
