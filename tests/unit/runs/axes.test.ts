@@ -1,0 +1,106 @@
+import { describe, expect, it } from "vitest";
+import { axesSchema, gridIndices, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, unitOf } from "@/server/sweeps/axes";
+import { deriveSweepStatus } from "@/server/sweeps/progress";
+import { assertEnsembleWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/runs/limits";
+import { ApiError } from "@/server/http/errors";
+import { PLANS } from "@/config/plans";
+import { decodeCursor, encodeCursor, pageLimit } from "@/server/runs/cursor";
+
+describe("sweep axes", () => {
+  it("spaces `from, to, points` evenly and ends exactly at `to`", () => {
+    const a = resolveAxis({ parameter: "fieldTesla", from: 0, to: 0.3, points: 4 });
+    expect(a.values).toHaveLength(4);
+    expect(a.values[0]).toBe(0);
+    expect(a.values[3]).toBe(0.3);
+    expect(a.values[1]).toBeCloseTo(0.1, 15);
+    expect(resolveAxis({ parameter: "energyMeV", from: 2, to: 5, points: 1 }).values).toEqual([2]);
+    expect(resolveAxis({ parameter: "energyMeV", values: [3, 1] }).values).toEqual([3, 1]);
+  });
+
+  it("numbers a two-axis grid row-major, the first axis slowest", () => {
+    const axes = [resolveAxis({ parameter: "fieldTesla", values: [0, 1, 2] }), resolveAxis({ parameter: "energyMeV", values: [10, 20] })];
+    expect(gridSize(axes)).toBe(6);
+    expect(gridShape(axes)).toEqual([3, 2]);
+    expect(gridIndices(axes, 3)).toEqual([1, 1]);
+    expect(pointCoordinates(axes, 5)).toEqual({ fieldTesla: 2, energyMeV: 20 });
+    expect(pointCoordinates(axes, 0)).toEqual({ fieldTesla: 0, energyMeV: 10 });
+  });
+
+  it("refuses malformed axes with the field named", () => {
+    const three = axesSchema.safeParse([{ parameter: "a", values: [1] }, { parameter: "b", values: [1] }, { parameter: "c", values: [1] }]);
+    expect(three.success).toBe(false);
+    expect(axesSchema.safeParse([]).success).toBe(false);
+    expect(axesSchema.safeParse([{ parameter: "node.forward", from: 0.2, to: 0.9, points: 0 }]).success).toBe(false);
+    expect(axesSchema.safeParse([{ parameter: "bad name!", values: [1] }]).success).toBe(false);
+    expect(axesSchema.safeParse([{ parameter: "node.forward", from: 0.2, to: 0.9, points: 5 }]).success).toBe(true);
+  });
+
+  it("flattens a result's numeric leaves, leaving arrays out", () => {
+    const q = scalarQuantities({ kind: "conductance", total: { e2h: 3.5, siemens: 1e-4 }, transmissionEigenvalues: [0.1, 0.9], fano: 0.2 });
+    expect(q).toEqual({ "total.e2h": 3.5, "total.siemens": 1e-4, fano: 0.2 });
+  });
+
+  it("reads units from Triskel's names", () => {
+    expect(unitOf("fieldTesla")).toBe("T");
+    expect(unitOf("energyMeV")).toBe("meV");
+    expect(unitOf("conductance.totalSiemens")).toBe("S");
+    expect(unitOf("resistanceOhms")).toBe("ohm");
+    expect(unitOf("node.forward")).toBe("1");
+  });
+});
+
+describe("sweep status from its points", () => {
+  const c = (q: number, r: number, s: number, f: number, x: number) => ({ queued: q, running: r, succeeded: s, failed: f, cancelled: x });
+  it("is queued until a point starts, running while any is unfinished", () => {
+    expect(deriveSweepStatus(c(5, 0, 0, 0, 0), false)).toBe("queued");
+    expect(deriveSweepStatus(c(4, 1, 0, 0, 0), false)).toBe("running");
+    expect(deriveSweepStatus(c(4, 0, 1, 0, 0), false)).toBe("running");
+  });
+  it("ends succeeded, failed or cancelled", () => {
+    expect(deriveSweepStatus(c(0, 0, 5, 0, 0), false)).toBe("succeeded");
+    expect(deriveSweepStatus(c(0, 0, 4, 1, 0), false)).toBe("failed");
+    expect(deriveSweepStatus(c(0, 0, 2, 0, 3), true)).toBe("cancelled");
+    expect(deriveSweepStatus(c(0, 1, 2, 0, 3), true)).toBe("running");
+  });
+});
+
+describe("plan limits", () => {
+  const thrown = (fn: () => void) => {
+    try {
+      fn();
+    } catch (e) {
+      return e as ApiError;
+    }
+    throw new Error("expected a refusal");
+  };
+  it("answers 402 on Free naming the limit and its value", () => {
+    const e = thrown(() => assertNetworkWithinPlan("free", { columns: PLANS.free.maxCellsPerSide + 1, rows: 4 }));
+    expect(e.status).toBe(402);
+    expect(e.message).toContain(`maxCellsPerSide = ${PLANS.free.maxCellsPerSide}`);
+    expect(e.details).toMatchObject({ limit: "maxCellsPerSide", value: PLANS.free.maxCellsPerSide, plan: "free" });
+  });
+  it("answers 422 on Lab, where no plan allows more", () => {
+    const e = thrown(() => assertSweepWithinPlan("lab", PLANS.lab.maxSweepPoints + 1, 1));
+    expect(e.status).toBe(422);
+    expect(e.message).toContain("maxSweepPoints");
+  });
+  it("checks the engine's ensemble size", () => {
+    const e = thrown(() => assertEnsembleWithinPlan("free", { computation: { kind: "conductance", ensemble: { samples: PLANS.free.maxEnsembleSamples + 1 } } }));
+    expect(e.details).toMatchObject({ limit: "maxEnsembleSamples" });
+    expect(() => assertEnsembleWithinPlan("free", { computation: { kind: "conductance" } })).not.toThrow();
+    expect(() => assertNetworkWithinPlan("free", { columns: 40, rows: 40 })).not.toThrow();
+  });
+  it("gives Lab jobs a higher queue priority than Free (lower number)", () => {
+    expect(queuePriority("lab")).toBeLessThan(queuePriority("free"));
+  });
+});
+
+describe("list cursors", () => {
+  it("round-trip and refuse anything else", () => {
+    const c = encodeCursor("2026-12-01T21:00:00.123456Z", "0b7f4a9e-2c41-4a7e-9a55-3f1d2c3b4a5e");
+    expect(decodeCursor(c)).toEqual({ at: "2026-12-01T21:00:00.123456Z", id: "0b7f4a9e-2c41-4a7e-9a55-3f1d2c3b4a5e" });
+    expect(() => decodeCursor("garbage")).toThrow(/cursor/);
+    expect(pageLimit(null)).toBe(50);
+    expect(() => pageLimit("0")).toThrow(/limit/);
+  });
+});
