@@ -1,0 +1,46 @@
+"use client";
+
+import * as d3 from "d3";
+import { useEffect, useRef, useState } from "react";
+import { num } from "@/lib/units";
+import { ChartFrame } from "./ChartFrame";
+import { drawAxes, MARGIN } from "./axes";
+import { useChartBox } from "./useWidth";
+
+/** Histogram of values in [0, 1] by default (transmission eigenvalues), count on the y axis. */
+export function Histogram({ title, name, values, xLabel, bins = 20, domain = [0, 1], height = 260 }: { title: string; name: string; values: number[]; xLabel: string; bins?: number; domain?: [number, number]; height?: number }) {
+  const { ref, width, palette } = useChartBox();
+  const svgRef = useRef<SVGSVGElement>(null);
+  const [readout, setReadout] = useState<string | null>(null);
+  const binned = d3.bin().domain(domain).thresholds(d3.range(bins + 1).map((i) => domain[0] + ((domain[1] - domain[0]) * i) / bins).slice(1, -1))(values);
+  useEffect(() => {
+    if (!palette || !svgRef.current) return;
+    const svg = d3.select(svgRef.current);
+    svg.selectAll("*").remove();
+    const innerW = width - MARGIN.left - MARGIN.right;
+    const innerH = height - MARGIN.top - MARGIN.bottom;
+    const x = d3.scaleLinear().domain(domain).range([0, innerW]);
+    const y = d3.scaleLinear().domain([0, d3.max(binned, (b) => b.length) || 1]).nice().range([innerH, 0]);
+    const g = svg.append("g").attr("transform", `translate(${MARGIN.left},${MARGIN.top})`);
+    drawAxes(g, x, y, innerW, innerH, xLabel, "Count", palette);
+    g.append("g")
+      .attr("data-layer", "bars")
+      .selectAll("rect")
+      .data(binned)
+      .join("rect")
+      .attr("x", (b) => x(b.x0!) + 1)
+      .attr("width", (b) => Math.max(0, x(b.x1!) - x(b.x0!) - 2))
+      .attr("y", (b) => y(b.length))
+      .attr("height", (b) => innerH - y(b.length))
+      .attr("fill", palette.link)
+      .on("mouseenter", (_, b) => setReadout(`${num(b.x0!)} – ${num(b.x1!)}: ${b.length} eigenvalue${b.length === 1 ? "" : "s"}`));
+  }, [palette, width, height, values, bins, xLabel]); // eslint-disable-line react-hooks/exhaustive-deps
+  const csv = { header: ["binFrom", "binTo", "count"], rows: binned.map((b) => [b.x0!, b.x1!, b.length]), comments: [`${title}`, `${values.length} values`] };
+  return (
+    <ChartFrame title={title} name={name} svgRef={svgRef} csv={csv} readout={readout}>
+      <div ref={ref}>
+        <svg ref={svgRef} width={width} height={height} role="img" aria-label={`${title}: histogram of ${values.length} values`} />
+      </div>
+    </ChartFrame>
+  );
+}

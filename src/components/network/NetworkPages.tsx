@@ -1,0 +1,67 @@
+"use client";
+
+import { useQuery } from "@tanstack/react-query";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { apiFetch, ApiClientError, type NetworkRecord } from "@/lib/api";
+import { qk } from "@/lib/queryKeys";
+import { when } from "@/lib/units";
+import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
+import { canCreate, useMe } from "@/components/shell/useMe";
+import { RunForm } from "@/components/runs/RunForm";
+import { SweepBuilder } from "@/components/sweeps/SweepBuilder";
+import { NetworkEditor } from "./NetworkEditor";
+
+export function NewNetwork() {
+  const me = useMe();
+  return (
+    <>
+      <PageHeader kicker="new network" title="Describe a network">
+        Choose the lattice, its size and boundary, the scale and the node. The drawing follows as you type; values the model cannot take are explained under the field.
+      </PageHeader>
+      <NetworkEditor canEdit={me.isLoading ? true : canCreate(me.data?.role)} />
+    </>
+  );
+}
+
+export function NetworkDetail({ id }: { id: string }) {
+  const me = useMe();
+  const q = useQuery({ queryKey: qk.network(id), queryFn: () => apiFetch<NetworkRecord>(`/api/v1/networks/${id}`) });
+  if (q.error instanceof ApiClientError && q.error.status === 404) notFound();
+  if (q.error) return <ErrorNote error={q.error} title="Could not load this network" />;
+  if (!q.data) return <Skeleton lines={6} />;
+  const n = q.data;
+  const editable = canCreate(me.data?.role);
+  return (
+    <>
+      <PageHeader
+        kicker={`network · version ${n.version ?? 1}`}
+        title={n.name}
+        actions={
+          <>
+            <Link className="tk-btn-quiet" href={`/runs?networkId=${n.id}`}>
+              Runs of this network
+            </Link>
+            <a className="tk-btn-quiet" href="#run">
+              Run
+            </a>
+            <a className="tk-btn-quiet" href="#sweep">
+              Sweep
+            </a>
+          </>
+        }
+      >
+        Last changed {when(n.updatedAt ?? n.createdAt)}. Saving makes a new version; runs keep the version they used.
+      </PageHeader>
+      <NetworkEditor key={`${n.id}-${n.version}`} initial={n} canEdit={editable} />
+      <section id="run" className="mt-10 scroll-mt-6">
+        <h2 className="mb-3 text-title font-semibold">Run a computation</h2>
+        <RunForm network={n} canSubmit={editable} />
+      </section>
+      <section id="sweep" className="mt-10 scroll-mt-6">
+        <h2 className="mb-3 text-title font-semibold">Build a sweep</h2>
+        <SweepBuilder network={n} canSubmit={editable} />
+      </section>
+    </>
+  );
+}

@@ -1,0 +1,68 @@
+"use client";
+
+import type { ColumnDef } from "@tanstack/react-table";
+import Link from "next/link";
+import type { NetworkRecord } from "@/lib/api";
+import { personName } from "@/lib/api";
+import { num, when } from "@/lib/units";
+import { PageHeader } from "@/components/ui/Page";
+import { canCreate, useMe } from "@/components/shell/useMe";
+import { DataTable } from "@/components/tables/DataTable";
+import { linkLengthNm } from "./draft";
+
+const columns: ColumnDef<NetworkRecord, any>[] = [
+  {
+    id: "name",
+    header: "Name",
+    cell: ({ row }) => (
+      <Link className="font-medium text-accent hover:underline" href={`/networks/${row.original.id}`}>
+        {row.original.name}
+      </Link>
+    ),
+  },
+  {
+    id: "lattice",
+    header: "Lattice",
+    cell: ({ row }) => {
+      const n = row.original.network as Record<string, any>;
+      return (
+        <span className="font-mono text-caption">
+          {n.lattice} {n.size?.columns} × {n.size?.rows} · {n.transverse}
+        </span>
+      );
+    },
+  },
+  {
+    id: "scale",
+    header: "Link length",
+    cell: ({ row }) => {
+      const l = linkLengthNm(row.original.network as Record<string, any>);
+      return <span className="tk-num">{l ? `${num(l, 4)} nm` : "–"}</span>;
+    },
+  },
+  { id: "version", header: "Version", cell: ({ row }) => <span className="tk-num">v{row.original.version ?? 1}</span> },
+  { id: "createdBy", header: "By", cell: ({ row }) => personName(row.original.createdBy) },
+  { id: "createdAt", header: "Created", cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
+];
+
+export function NetworksList() {
+  const me = useMe();
+  return (
+    <>
+      <PageHeader
+        kicker="workspace"
+        title="Networks"
+        actions={
+          canCreate(me.data?.role) ? (
+            <Link href="/networks/new" className="tk-btn">
+              New network
+            </Link>
+          ) : null
+        }
+      >
+        Saved network descriptions. Each edit is kept as a new version, and every run points at the version it used.
+      </PageHeader>
+      <DataTable<NetworkRecord> path="/api/v1/networks" listKey="networks" columns={columns} label="networks" empty="No networks yet. Create one to see it drawn." />
+    </>
+  );
+}

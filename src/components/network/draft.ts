@@ -1,0 +1,65 @@
+/** Editing state of a network description (engine schema v1) and helpers around it. */
+import type { NetworkShape } from "@/lib/lattice";
+import { periodFromTwistNm } from "@/lib/units";
+
+export type NetworkDraft = Record<string, any>;
+
+export function defaultNetwork(lattice: "triangular" | "square" = "triangular"): NetworkDraft {
+  if (lattice === "square") {
+    return {
+      lattice: "square",
+      size: { columns: 16, rows: 16 },
+      transverse: "periodic",
+      periodNm: 100,
+      modeVelocityMps: 1.0e6,
+      channelsPerLink: 1,
+      degeneracy: { spin: 1, valley: 1 },
+      node: { turning: 0.5 },
+    };
+  }
+  return {
+    lattice: "triangular",
+    size: { columns: 12, rows: 8 },
+    transverse: "periodic",
+    twistDegrees: 0.11,
+    modeVelocityMps: 1.0e6,
+    channelsPerLink: 1,
+    degeneracy: { spin: 2, valley: 2 },
+    node: { forward: 0.5, left: 0.25, right: 0.25, branch: 1, phaseRad: 0 },
+  };
+}
+
+/** Whole numbers in 1..400 for the drawing, whatever is typed (the form shows the error). */
+function side(v: unknown, fallback: number): number {
+  const n = Math.floor(Number(v));
+  return Number.isFinite(n) && n >= 1 ? Math.min(n, 400) : fallback;
+}
+
+export function shapeOf(d: NetworkDraft, valley: "K" | "K'"): NetworkShape {
+  return {
+    lattice: d.lattice === "square" ? "square" : "triangular",
+    columns: side(d.size?.columns, 1),
+    rows: side(d.size?.rows, 1),
+    transverse: d.transverse === "open" ? "open" : "periodic",
+    valley,
+  };
+}
+
+export function linkLengthNm(d: NetworkDraft): number | undefined {
+  if (typeof d.periodNm === "number" && d.periodNm > 0) return d.periodNm;
+  if (typeof d.twistDegrees === "number" && d.twistDegrees > 0 && d.twistDegrees < 180) return periodFromTwistNm(d.twistDegrees);
+  return undefined;
+}
+
+export function setPath(obj: NetworkDraft, path: string, value: unknown): NetworkDraft {
+  const keys = path.split(".");
+  const out: NetworkDraft = structuredClone(obj);
+  let cur = out;
+  for (let i = 0; i < keys.length - 1; i++) {
+    cur[keys[i]] = cur[keys[i]] && typeof cur[keys[i]] === "object" ? cur[keys[i]] : {};
+    cur = cur[keys[i]];
+  }
+  if (value === undefined) delete cur[keys[keys.length - 1]];
+  else cur[keys[keys.length - 1]] = value;
+  return out;
+}

@@ -1,0 +1,127 @@
+"use client";
+
+import Link from "next/link";
+import { usePathname } from "next/navigation";
+import { useQueryClient } from "@tanstack/react-query";
+import type { ReactNode } from "react";
+import { apiFetch } from "@/lib/api";
+import { Mark } from "./Mark";
+import { ThemeSwitch } from "./ThemeSwitch";
+import { canBill, useMe, type Role } from "./useMe";
+
+interface NavItem {
+  href: string;
+  label: string;
+  hint: string;
+  show?: (role?: Role) => boolean;
+}
+
+const NAV: NavItem[] = [
+  { href: "/networks", label: "Networks", hint: "descriptions, drawn" },
+  { href: "/runs", label: "Runs", hint: "single computations" },
+  { href: "/sweeps", label: "Sweeps", hint: "grids over parameters" },
+  { href: "/datasets", label: "Datasets", hint: "measured curves" },
+  { href: "/fits", label: "Fits", hint: "model to data" },
+  { href: "/workspace", label: "Workspace", hint: "members, API tokens" },
+  { href: "/billing", label: "Billing", hint: "plan, seats, spend cap", show: canBill },
+];
+
+const ROLE_LABEL: Record<Role, string> = { owner: "Owner", billing_admin: "Billing admin", researcher: "Researcher", viewer: "Viewer" };
+
+export function AppShell({ children }: { children: ReactNode }) {
+  const pathname = usePathname() ?? "";
+  const me = useMe();
+  const role = me.data?.role;
+  const items = NAV.filter((n) => !n.show || (role ? n.show(role) : false));
+  return (
+    <div className="min-h-screen lg:grid lg:grid-cols-[15rem_1fr]">
+      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-surface focus:px-3 focus:py-1">
+        Skip to content
+      </a>
+      <aside className="border-b border-line bg-surface-sunk lg:sticky lg:top-0 lg:h-screen lg:border-b-0 lg:border-r">
+        <div className="flex items-center gap-2 px-4 py-4">
+          <Mark />
+          <Link href="/networks" className="text-lead font-semibold tracking-tight">
+            Triskel
+          </Link>
+        </div>
+        <WorkspaceSwitcher />
+        <nav aria-label="Main" className="px-2 pb-4">
+          <ul className="flex gap-1 overflow-x-auto lg:block lg:space-y-0.5">
+            {items.map((n) => {
+              const active = pathname === n.href || pathname.startsWith(n.href + "/");
+              return (
+                <li key={n.href}>
+                  <Link
+                    href={n.href}
+                    aria-current={active ? "page" : undefined}
+                    className={`group flex flex-col rounded-field px-3 py-1.5 ${active ? "bg-surface text-fg shadow-card" : "text-fg-soft hover:bg-surface/60 hover:text-fg"}`}
+                  >
+                    <span className="flex items-center gap-2 text-body font-medium">
+                      <span aria-hidden className={`h-1.5 w-1.5 rotate-45 ${active ? "bg-warm" : "bg-line-strong group-hover:bg-accent"}`} />
+                      {n.label}
+                    </span>
+                    <span className="hidden pl-3.5 text-micro text-fg-faint lg:block">{n.hint}</span>
+                  </Link>
+                </li>
+              );
+            })}
+          </ul>
+        </nav>
+        <div className="hidden space-y-3 border-t border-line px-4 py-4 lg:block">
+          <Link href="/manual" className="block text-caption text-accent hover:underline">
+            Model manual
+          </Link>
+          <ThemeSwitch />
+          {me.data?.user ? (
+            <p className="text-caption text-fg-faint">
+              {me.data.user.name || me.data.user.email}
+              {role ? <span className="ml-1 rounded bg-surface px-1 text-micro uppercase tracking-wide text-fg-soft">{ROLE_LABEL[role]}</span> : null}
+            </p>
+          ) : null}
+        </div>
+      </aside>
+      <main id="main" className="min-w-0 px-gutter py-6 lg:px-10">
+        {children}
+      </main>
+    </div>
+  );
+}
+
+function WorkspaceSwitcher() {
+  const me = useMe();
+  const client = useQueryClient();
+  const list = me.data?.workspaces ?? [];
+  const current = me.data?.workspace;
+  if (!current) return <div className="mx-4 mb-3 h-9 rounded-field bg-surface/60" aria-hidden />;
+  const switchTo = async (id: string) => {
+    if (id === current.id) return;
+    // The accounts API keeps the active workspace in the session.
+    await apiFetch("/api/v1/me/workspace", { method: "POST", json: { workspaceId: id } }).catch(async () => {
+      await apiFetch("/api/v1/workspaces/switch", { method: "POST", json: { workspaceId: id } });
+    });
+    await client.invalidateQueries();
+    window.location.assign("/networks");
+  };
+  return (
+    <div className="mx-4 mb-3">
+      <label htmlFor="workspace-switcher" className="text-micro uppercase tracking-[0.16em] text-fg-faint">
+        Workspace
+      </label>
+      {list.length > 1 ? (
+        <select id="workspace-switcher" className="tk-field mt-1 py-1 text-caption" value={current.id} onChange={(e) => void switchTo(e.target.value)}>
+          {list.map((w) => (
+            <option key={w.id} value={w.id}>
+              {w.name}
+            </option>
+          ))}
+        </select>
+      ) : (
+        <p id="workspace-switcher" className="mt-1 truncate text-body font-medium">
+          {current.name}
+        </p>
+      )}
+      {current.plan ? <p className="mt-0.5 text-micro text-fg-faint">{current.plan === "lab" ? "Lab plan" : "Free plan"}</p> : null}
+    </div>
+  );
+}

@@ -1,0 +1,139 @@
+"use client";
+
+import { useQuery } from "@tanstack/react-query";
+import { flexRender, getCoreRowModel, useReactTable, type ColumnDef, type SortingState } from "@tanstack/react-table";
+import { useState, type ReactNode } from "react";
+import { apiFetch, asList, qs } from "@/lib/api";
+import { ErrorNote, Skeleton } from "@/components/ui/Page";
+
+export interface FilterDef {
+  id: string;
+  label: string;
+  options: { value: string; label: string }[];
+}
+
+interface Props<T> {
+  /** API path of the list, e.g. /api/v1/runs. */
+  path: string;
+  listKey: string;
+  columns: ColumnDef<T, any>[];
+  filters?: FilterDef[];
+  /** Fixed query parameters (e.g. networkId). */
+  fixed?: Record<string, string | undefined>;
+  /** Column ids the API can sort by (sent as sort=<id>&order=asc|desc). */
+  sortable?: string[];
+  pageSize?: number;
+  empty: ReactNode;
+  label: string;
+}
+
+/**
+ * A list read page by page from the API (cursor pagination), with sort and filters passed to the
+ * server as query parameters, drawn with TanStack Table.
+ */
+export function DataTable<T>({ path, listKey, columns, filters = [], fixed = {}, sortable = [], pageSize = 20, empty, label }: Props<T>) {
+  const [sorting, setSorting] = useState<SortingState>([]);
+  const [filterValues, setFilterValues] = useState<Record<string, string>>({});
+  const [cursors, setCursors] = useState<(string | null)[]>([null]);
+  const cursor = cursors[cursors.length - 1];
+  const sort = sorting[0];
+  const params = { ...fixed, ...filterValues, limit: pageSize, cursor: cursor ?? undefined, sort: sort?.id, order: sort ? (sort.desc ? "desc" : "asc") : undefined };
+  const q = useQuery({
+    queryKey: [listKey, params],
+    queryFn: async () => asList<T>(await apiFetch<unknown>(`${path}${qs(params)}`), listKey),
+    placeholderData: (prev) => prev,
+    refetchInterval: 5_000,
+  });
+  const table = useReactTable({
+    data: q.data?.items ?? [],
+    columns,
+    state: { sorting },
+    manualSorting: true,
+    enableSortingRemoval: true,
+    onSortingChange: (u) => {
+      setSorting(u);
+      setCursors([null]);
+    },
+    getCoreRowModel: getCoreRowModel(),
+  });
+  return (
+    <div className="space-y-3">
+      {filters.length > 0 ? (
+        <div className="flex flex-wrap items-end gap-3" role="search" aria-label={`Filter ${label}`}>
+          {filters.map((f) => (
+            <label key={f.id} className="text-caption text-fg-soft">
+              {f.label}
+              <select
+                className="tk-field mt-1 py-1 text-caption"
+                value={filterValues[f.id] ?? ""}
+                onChange={(e) => {
+                  setFilterValues((v) => ({ ...v, [f.id]: e.target.value }));
+                  setCursors([null]);
+                }}
+              >
+                <option value="">All</option>
+                {f.options.map((o) => (
+                  <option key={o.value} value={o.value}>
+                    {o.label}
+                  </option>
+                ))}
+              </select>
+            </label>
+          ))}
+        </div>
+      ) : null}
+      {q.error ? <ErrorNote error={q.error} title={`Could not load ${label}`} /> : null}
+      {!q.data && q.isLoading ? <Skeleton lines={4} /> : null}
+      {q.data && q.data.items.length === 0 ? <div className="rounded-card border border-dashed border-line-strong p-8 text-center text-body text-fg-soft">{empty}</div> : null}
+      {q.data && q.data.items.length > 0 ? (
+        <div className="overflow-x-auto rounded-card border border-line bg-surface">
+          <table className="w-full text-left text-body" aria-label={label}>
+            <thead className="border-b border-line bg-surface-sunk text-caption uppercase tracking-wide text-fg-faint">
+              {table.getHeaderGroups().map((hg) => (
+                <tr key={hg.id}>
+                  {hg.headers.map((h) => {
+                    const can = sortable.includes(h.column.id);
+                    const dir = h.column.getIsSorted();
+                    return (
+                      <th key={h.id} scope="col" className="px-3 py-2 font-medium" aria-sort={dir ? (dir === "asc" ? "ascending" : "descending") : undefined}>
+                        {can ? (
+                          <button type="button" className="inline-flex items-center gap-1 uppercase hover:text-fg" onClick={h.column.getToggleSortingHandler()}>
+                            {flexRender(h.column.columnDef.header, h.getContext())}
+                            <span aria-hidden>{dir === "asc" ? "▲" : dir === "desc" ? "▼" : "↕"}</span>
+                          </button>
+                        ) : (
+                          flexRender(h.column.columnDef.header, h.getContext())
+                        )}
+                      </th>
+                    );
+                  })}
+                </tr>
+              ))}
+            </thead>
+            <tbody>
+              {table.getRowModel().rows.map((r) => (
+                <tr key={r.id} className="border-b border-line last:border-0 hover:bg-surface-sunk/50">
+                  {r.getVisibleCells().map((c) => (
+                    <td key={c.id} className="px-3 py-2 align-top">
+                      {flexRender(c.column.columnDef.cell, c.getContext())}
+                    </td>
+                  ))}
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      ) : null}
+      <div className="flex items-center gap-2 text-caption text-fg-soft">
+        <button type="button" className="tk-btn-quiet" disabled={cursors.length <= 1} onClick={() => setCursors((c) => c.slice(0, -1))}>
+          ← Newer
+        </button>
+        <span>Page {cursors.length}</span>
+        <button type="button" className="tk-btn-quiet" disabled={!q.data?.nextCursor} onClick={() => q.data?.nextCursor && setCursors((c) => [...c, q.data!.nextCursor!])}>
+          Older →
+        </button>
+        {q.isFetching ? <span className="text-fg-faint">updating…</span> : null}
+      </div>
+    </div>
+  );
+}
