@@ -31,3 +31,6 @@ async function stop(signal: string) {
 }
 process.on("SIGTERM", () => void stop("SIGTERM"));
 process.on("SIGINT", () => void stop("SIGINT"));
+
+// Billing: meter-event sender, spend-cap e-mails and grace periods (worker/billing.ts).
+void import("./billing").then((billing) => billing.startBillingLoop());

@@ -1,0 +1,12 @@
+import { NextResponse } from "next/server";
+import { getCaller } from "@/server/auth";
+import { openPortal } from "@/server/billing/subscriptions";
+import { route } from "@/server/http/errors";
+
+export const dynamic = "force-dynamic";
+
+/** POST /api/v1/billing/portal: a customer-portal link (payment details, invoices) `{ url }`. */
+export const POST = route(async (req: Request) => {
+  const caller = await getCaller(req);
+  return NextResponse.json(await openPortal(caller), { status: 201 });
+});

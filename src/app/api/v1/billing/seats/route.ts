@@ -1,0 +1,14 @@
+import { NextResponse } from "next/server";
+import { getCaller, requirePermission } from "@/server/auth";
+import { billingOverview } from "@/server/billing/subscriptions";
+import { route } from "@/server/http/errors";
+
+export const dynamic = "force-dynamic";
+
+/** GET /api/v1/billing/seats: `{ seats, members, seatPriceUsdPerMonth }`; seats follow membership. */
+export const GET = route(async (req: Request) => {
+  const caller = await getCaller(req);
+  requirePermission(caller, "seats.manage");
+  const o = await billingOverview(caller);
+  return NextResponse.json({ seats: o.seats, members: o.members, seatPriceUsdPerMonth: o.seatPriceUsdPerMonth });
+});

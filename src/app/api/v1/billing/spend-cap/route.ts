@@ -1,0 +1,23 @@
+import { NextResponse } from "next/server";
+import { z } from "zod";
+import { getCaller } from "@/server/auth";
+import { setSpendCap } from "@/server/billing/subscriptions";
+import { readJson, route, zodToApiError } from "@/server/http/errors";
+
+export const dynamic = "force-dynamic";
+
+const Body = z.object({
+  spendCapUsd: z
+    .number({ message: "must be a number of USD, or null for no cap" })
+    .min(1, "must be at least 1 USD (or null for no cap)")
+    .max(1_000_000, "must be at most 1,000,000 USD")
+    .nullable(),
+});
+
+/** PUT /api/v1/billing/spend-cap `{ spendCapUsd: number | null }`: the monthly compute spend cap. */
+export const PUT = route(async (req: Request) => {
+  const caller = await getCaller(req);
+  const parsed = Body.safeParse(await readJson(req, 10_000));
+  if (!parsed.success) throw zodToApiError(parsed.error);
+  return NextResponse.json(await setSpendCap(caller, parsed.data.spendCapUsd));
+});

@@ -1,0 +1,56 @@
+// Billing work of the worker process: the meter-event sender (outbox -> Stripe), spend-cap
+// e-mails, and the end of grace periods. `startBillingLoop()` is called from worker/main.ts.
+// Run alone (`tsx worker/billing.ts`) it is one more sender, as many as you like can run at once.
+import { pathToFileURL } from "node:url";
+import { loadEnvOrExit } from "../src/env";
+import { METER_SENDER } from "../src/server/billing/config";
+import { sendDueMeterEvents } from "../src/server/billing/meter-sender";
+import { sendSpendCapNotices } from "../src/server/billing/notify";
+import { billingConfigured } from "../src/server/billing/stripe";
+import { reconcileSeats } from "../src/server/billing/subscriptions";
+import { expireGracePeriods } from "../src/server/billing/webhooks";
+
+export function startBillingLoop(options: { intervalMs?: number; workspaceId?: string } = {}): () => void {
+  const intervalMs = options.intervalMs ?? METER_SENDER.intervalMs;
+  let stopped = false;
+  let timer: NodeJS.Timeout | undefined;
+  let lastErrorLine = "";
+  const tick = async () => {
+    try {
+      if (billingConfigured()) {
+        const r = await sendDueMeterEvents({ workspaceId: options.workspaceId });
+        if (r.sent || r.failed || r.retrying) console.log(`[billing] meter events: ${r.sent} sent, ${r.alreadyRecorded} already recorded, ${r.retrying} retrying, ${r.failed} failed`);
+      }
+      if (!options.workspaceId) {
+        await expireGracePeriods();
+        await sendSpendCapNotices();
+        // Seat count follows membership (members invited or removed since the last pass).
+        if (billingConfigured()) await reconcileSeats();
+      }
+      lastErrorLine = "";
+    } catch (err) {
+      const line = (err as Error).message;
+      if (line !== lastErrorLine) console.error(`[billing] pass failed (will retry): ${line}`);
+      lastErrorLine = line;
+    } finally {
+      if (!stopped) {
+        timer = setTimeout(() => void tick(), intervalMs);
+        timer.unref();
+      }
+    }
+  };
+  timer = setTimeout(() => void tick(), 200);
+  timer.unref();
+  return () => {
+    stopped = true;
+    if (timer) clearTimeout(timer);
+  };
+}
+
+if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
+  loadEnvOrExit();
+  const workspaceId = process.env.METER_SENDER_WORKSPACE_ID || undefined;
+  console.log(`[billing] standalone sender pid ${process.pid}${workspaceId ? ` for workspace ${workspaceId}` : ""}`);
+  startBillingLoop({ workspaceId });
+  setInterval(() => {}, 1 << 30);
+}
