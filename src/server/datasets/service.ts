@@ -1,0 +1,214 @@
+/**
+ * Datasets: upload (multipart CSV + column mapping), list, read, period analysis. Every query is
+ * scoped to the caller's workspace.
+ */
+import { createHash } from "node:crypto";
+import { and, desc, eq, lt } from "drizzle-orm";
+import { z } from "zod";
+import type { Caller } from "@/server/auth";
+import { requirePermission } from "@/server/auth";
+import { getDb } from "@/server/db";
+import { datasets } from "@/server/db/schema";
+import { ApiError, zodToApiError } from "@/server/http/errors";
+import { DATASET_MAX_BYTES, DatasetCsvError, parseDatasetCsv, type ColumnMapping, type ParsedDataset } from "./csv";
+import { analysePeriod, PeriodAnalysisError } from "./period";
+import { X_UNITS, Y_UNITS } from "./units";
+
+export const uploadFields = z.object({
+  name: z.string().trim().min(1, "give the dataset a name").max(200, "at most 200 characters"),
+  xColumn: z.string().trim().min(1, "name the CSV column that holds x"),
+  xUnit: z.enum(X_UNITS, { message: `must be one of ${X_UNITS.join(", ")}` }),
+  yColumn: z.string().trim().min(1, "name the CSV column that holds y"),
+  yUnit: z.enum(Y_UNITS, { message: `must be one of ${Y_UNITS.join(", ")}` }),
+  sigmaColumn: z.string().trim().min(1).optional(),
+  temperatureColumn: z.string().trim().min(1).optional(),
+  description: z.string().max(2000, "at most 2000 characters").optional(),
+});
+
+export interface DatasetPoints {
+  x: number[];
+  y: number[];
+  sigma: number[] | null;
+  temperatureK: number[] | null;
+}
+
+type Row = typeof datasets.$inferSelect;
+
+export function sha256Hex(text: string): string {
+  return createHash("sha256").update(text, "utf8").digest("hex");
+}
+
+export function datasetSummary(d: Row) {
+  const p = d.points as DatasetPoints;
+  return {
+    id: d.id,
+    name: d.name,
+    synthetic: d.synthetic,
+    description: d.description,
+    rows: d.rows,
+    xQuantity: d.xQuantity,
+    xUnit: d.xUnit,
+    yUnit: "e2/h",
+    hasSigma: !!p.sigma,
+    hasTemperature: !!p.temperatureK,
+    xRange: [p.x[0], p.x[p.x.length - 1]],
+    mapping: d.mapping,
+    originalFilename: d.originalFilename,
+    originalBytes: d.originalBytes,
+    dataHash: d.dataHash,
+    createdAt: d.createdAt.toISOString(),
+  };
+}
+
+export function datasetView(d: Row) {
+  return { ...datasetSummary(d), points: d.points as DatasetPoints };
+}
+
+/** CSV problems become 422 with every issue (row, column, code, message) in details. */
+export function csvErrorToApi(err: DatasetCsvError): ApiError {
+  return new ApiError("invalid_input", err.message, { issues: err.issues });
+}
+
+export interface NewDataset {
+  name: string;
+  csv: string;
+  filename?: string | null;
+  mapping: ColumnMapping;
+  description?: string | null;
+  synthetic?: boolean;
+}
+
+/** Parses and stores; throws ApiError 422 naming row and column on a bad file. */
+export async function insertDataset(workspaceId: string, userId: string | null, input: NewDataset) {
+  let parsed: ParsedDataset;
+  try {
+    parsed = parseDatasetCsv(input.csv, input.mapping);
+  } catch (err) {
+    if (err instanceof DatasetCsvError) throw csvErrorToApi(err);
+    throw err;
+  }
+  const points: DatasetPoints = { x: parsed.x, y: parsed.y, sigma: parsed.sigma, temperatureK: parsed.temperatureK };
+  const [row] = await getDb()
+    .insert(datasets)
+    .values({
+      workspaceId,
+      createdBy: userId,
+      name: input.name,
+      synthetic: input.synthetic ?? false,
+      description: input.description ?? null,
+      originalFilename: input.filename ?? null,
+      originalCsv: input.csv,
+      originalBytes: Buffer.byteLength(input.csv, "utf8"),
+      dataHash: sha256Hex(input.csv),
+      mapping: input.mapping,
+      xQuantity: parsed.xQuantity,
+      xUnit: parsed.xCanonicalUnit,
+      points,
+      rows: parsed.rows,
+    })
+    .returning();
+  return row;
+}
+
+/** `POST /api/v1/datasets` (multipart): fields file, name, xColumn, xUnit, yColumn, yUnit, sigmaColumn?, temperatureColumn?. */
+export async function createDatasetFromRequest(caller: Caller, req: Request) {
+  requirePermission(caller, "work.create");
+  const declared = Number(req.headers.get("content-length") ?? "0");
+  // A little room over the file limit for the other form fields and the multipart framing.
+  if (declared > DATASET_MAX_BYTES + 64 * 1024) {
+    throw new ApiError("payload_too_large", `The upload is ${declared} bytes; CSV files may be at most ${DATASET_MAX_BYTES} bytes (5 MB).`, { limitBytes: DATASET_MAX_BYTES });
+  }
+  const type = req.headers.get("content-type") ?? "";
+  if (!/^multipart\/form-data/i.test(type)) {
+    throw new ApiError("bad_request", "Send the dataset as multipart/form-data with fields file, name, xColumn, xUnit, yColumn, yUnit and optionally sigmaColumn.", { contentType: type || null });
+  }
+  let form: FormData;
+  try {
+    form = await req.formData();
+  } catch (e) {
+    throw new ApiError("bad_request", `The multipart body could not be read: ${(e as Error).message}`);
+  }
+  const file = form.get("file");
+  if (!file || typeof file === "string") throw new ApiError("invalid_input", "file: attach the CSV file in the multipart field `file`.", { field: "file" });
+  if (file.size > DATASET_MAX_BYTES) throw new ApiError("payload_too_large", `file: ${file.size} bytes; CSV files may be at most ${DATASET_MAX_BYTES} bytes (5 MB).`, { field: "file", limitBytes: DATASET_MAX_BYTES });
+  const fields: Record<string, string> = {};
+  for (const key of ["name", "xColumn", "xUnit", "yColumn", "yUnit", "sigmaColumn", "temperatureColumn", "description"]) {
+    const v = form.get(key);
+    if (typeof v === "string" && v.trim() !== "") fields[key] = v;
+  }
+  const parsedFields = uploadFields.safeParse(fields);
+  if (!parsedFields.success) throw zodToApiError(parsedFields.error);
+  const bytes = new Uint8Array(await file.arrayBuffer());
+  let csv: string;
+  try {
+    csv = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
+  } catch {
+    throw new ApiError("invalid_input", "file: the file is not UTF-8 text; save the CSV as UTF-8.", { field: "file" });
+  }
+  const f = parsedFields.data;
+  const mapping: ColumnMapping = { xColumn: f.xColumn, xUnit: f.xUnit, yColumn: f.yColumn, yUnit: f.yUnit, ...(f.sigmaColumn ? { sigmaColumn: f.sigmaColumn } : {}), ...(f.temperatureColumn ? { temperatureColumn: f.temperatureColumn } : {}) };
+  const row = await insertDataset(caller.workspaceId, caller.userId, { name: f.name, csv, filename: file.name || null, mapping, description: f.description });
+  return datasetSummary(row);
+}
+
+export async function listDatasets(caller: Caller, query: URLSearchParams) {
+  requirePermission(caller, "results.view");
+  const limit = Math.max(1, Math.min(200, Number(query.get("limit") ?? 50) || 50));
+  const before = query.get("before");
+  const beforeDate = before ? new Date(before) : null;
+  if (before && Number.isNaN(beforeDate!.getTime())) throw new ApiError("invalid_input", "before: must be an ISO time (the createdAt of the last item of the previous page).", { field: "before" });
+  const rows = await getDb()
+    .select()
+    .from(datasets)
+    .where(and(eq(datasets.workspaceId, caller.workspaceId), beforeDate ? lt(datasets.createdAt, beforeDate) : undefined))
+    .orderBy(desc(datasets.createdAt), desc(datasets.id))
+    .limit(limit + 1);
+  const items = rows.slice(0, limit).map(datasetSummary);
+  return { items, nextBefore: rows.length > limit ? items[items.length - 1].createdAt : null };
+}
+
+const uuidRe = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+export async function loadDataset(caller: Caller, id: string): Promise<Row> {
+  requirePermission(caller, "results.view");
+  if (!uuidRe.test(id)) throw new ApiError("not_found", `No dataset ${id} in this workspace.`);
+  const [row] = await getDb().select().from(datasets).where(and(eq(datasets.id, id), eq(datasets.workspaceId, caller.workspaceId)));
+  if (!row) throw new ApiError("not_found", `No dataset ${id} in this workspace.`);
+  return row;
+}
+
+export async function getDataset(caller: Caller, id: string) {
+  return datasetView(await loadDataset(caller, id));
+}
+
+export async function getOriginalCsv(caller: Caller, id: string) {
+  const d = await loadDataset(caller, id);
+  return { filename: d.originalFilename ?? `${d.name.replace(/[^A-Za-z0-9._-]+/g, "_")}.csv`, csv: d.originalCsv };
+}
+
+export const periodOptions = z
+  .object({
+    backgroundDegree: z.number().int().min(0).max(8).optional(),
+    zeroPadFactor: z.number().int().min(1).max(64).optional(),
+    minCyclesInWindow: z.number().gt(0).lt(100).optional(),
+  })
+  .strict();
+
+/** `POST /api/v1/datasets/{id}/period` */
+export async function periodOfDataset(caller: Caller, id: string, body: unknown) {
+  const d = await loadDataset(caller, id);
+  const parsed = periodOptions.safeParse(body ?? {});
+  if (!parsed.success) throw zodToApiError(parsed.error);
+  if (d.xQuantity !== "field") {
+    throw new ApiError("invalid_input", `The period analysis needs magnetoconductance versus field; this dataset's x is ${d.xQuantity === "gateVoltage" ? "gate voltage" : "carrier density"}.`, { field: "xUnit" });
+  }
+  const p = d.points as DatasetPoints;
+  try {
+    const a = analysePeriod(p.x, p.y, parsed.data);
+    return { datasetId: d.id, dataHash: d.dataHash, synthetic: d.synthetic, ...a, field: p.x };
+  } catch (err) {
+    if (err instanceof PeriodAnalysisError) throw new ApiError("invalid_input", err.message, { field: err.field });
+    throw err;
+  }
+}
+
