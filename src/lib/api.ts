@@ -130,7 +130,7 @@ export function asList<T>(data: unknown, key?: string): ListPage<T> {
   if (Array.isArray(data)) return { items: data as T[] };
   const d = (data ?? {}) as Record<string, unknown>;
   const items = (d.items ?? d.data ?? (key ? d[key] : undefined) ?? []) as T[];
-  return { items: Array.isArray(items) ? items : [], nextCursor: (d.nextCursor as string | null | undefined) ?? null, total: d.total as number | undefined };
+  return { items: Array.isArray(items) ? items : [], nextCursor: ((d.nextCursor ?? d.nextBefore) as string | null | undefined) ?? null, total: d.total as number | undefined };
 }
 
 export function personName(p: RunRecord["createdBy"]): string {

@@ -2,11 +2,10 @@
 
 import Link from "next/link";
 import { usePathname } from "next/navigation";
-import { useQueryClient } from "@tanstack/react-query";
 import type { ReactNode } from "react";
-import { apiFetch } from "@/lib/api";
 import { Mark } from "./Mark";
 import { ThemeSwitch } from "./ThemeSwitch";
+import { WorkspaceSwitcher } from "./WorkspaceSwitcher";
 import { canBill, useMe, type Role } from "./useMe";
 
 interface NavItem {
@@ -84,44 +83,6 @@ export function AppShell({ children }: { children: ReactNode }) {
       <main id="main" className="min-w-0 px-gutter py-6 lg:px-10">
         {children}
       </main>
-    </div>
-  );
-}
-
-function WorkspaceSwitcher() {
-  const me = useMe();
-  const client = useQueryClient();
-  const list = me.data?.workspaces ?? [];
-  const current = me.data?.workspace;
-  if (!current) return <div className="mx-4 mb-3 h-9 rounded-field bg-surface/60" aria-hidden />;
-  const switchTo = async (id: string) => {
-    if (id === current.id) return;
-    // The accounts API keeps the active workspace in the session.
-    await apiFetch("/api/v1/me/workspace", { method: "POST", json: { workspaceId: id } }).catch(async () => {
-      await apiFetch("/api/v1/workspaces/switch", { method: "POST", json: { workspaceId: id } });
-    });
-    await client.invalidateQueries();
-    window.location.assign("/networks");
-  };
-  return (
-    <div className="mx-4 mb-3">
-      <label htmlFor="workspace-switcher" className="text-micro uppercase tracking-[0.16em] text-fg-faint">
-        Workspace
-      </label>
-      {list.length > 1 ? (
-        <select id="workspace-switcher" className="tk-field mt-1 py-1 text-caption" value={current.id} onChange={(e) => void switchTo(e.target.value)}>
-          {list.map((w) => (
-            <option key={w.id} value={w.id}>
-              {w.name}
-            </option>
-          ))}
-        </select>
-      ) : (
-        <p id="workspace-switcher" className="mt-1 truncate text-body font-medium">
-          {current.name}
-        </p>
-      )}
-      {current.plan ? <p className="mt-0.5 text-micro text-fg-faint">{current.plan === "lab" ? "Lab plan" : "Free plan"}</p> : null}
     </div>
   );
 }

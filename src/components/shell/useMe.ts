@@ -21,7 +21,7 @@ export function useMe() {
   return useQuery({
     queryKey: qk.me,
     queryFn: async (): Promise<Me> => {
-      const raw = await apiFetch<Record<string, unknown>>("/api/v1/me");
+      const raw = await apiFetch<Record<string, unknown>>("/api/v1/workspace");
       return normaliseMe(raw);
     },
     staleTime: 60_000,
@@ -30,6 +30,15 @@ export function useMe() {
 
 export function normaliseMe(raw: Record<string, unknown>): Me {
   const r = raw as Record<string, any>;
+  // GET /api/v1/workspace: { workspace: { id, name, plan, kind }, member: { id, email, name, role }, can }
+  if (r.member && r.workspace) {
+    return {
+      user: { id: r.member.id, name: r.member.name || null, email: r.member.email },
+      workspace: { id: r.workspace.id, name: r.workspace.name, plan: r.workspace.plan },
+      role: r.member.role,
+      workspaces: [],
+    };
+  }
   const workspace = r.workspace ?? (r.workspaceId ? { id: r.workspaceId, name: r.workspaceName ?? "Workspace", plan: r.plan } : undefined);
   const role = (r.role ?? r.membership?.role ?? workspace?.role) as Role | undefined;
   const list = (r.workspaces ?? r.memberships ?? []) as any[];

@@ -23,6 +23,8 @@ interface Props<T> {
   /** Column ids the API can sort by (sent as sort=<id>&order=asc|desc). */
   sortable?: string[];
   pageSize?: number;
+  /** Query parameter that carries the next page's position (the API's name for it). */
+  cursorParam?: "cursor" | "before";
   empty: ReactNode;
   label: string;
 }
@@ -31,13 +33,13 @@ interface Props<T> {
  * A list read page by page from the API (cursor pagination), with sort and filters passed to the
  * server as query parameters, drawn with TanStack Table.
  */
-export function DataTable<T>({ path, listKey, columns, filters = [], fixed = {}, sortable = [], pageSize = 20, empty, label }: Props<T>) {
+export function DataTable<T>({ path, listKey, columns, filters = [], fixed = {}, sortable = [], pageSize = 20, cursorParam = "cursor", empty, label }: Props<T>) {
   const [sorting, setSorting] = useState<SortingState>([]);
   const [filterValues, setFilterValues] = useState<Record<string, string>>({});
   const [cursors, setCursors] = useState<(string | null)[]>([null]);
   const cursor = cursors[cursors.length - 1];
   const sort = sorting[0];
-  const params = { ...fixed, ...filterValues, limit: pageSize, cursor: cursor ?? undefined, sort: sort?.id, order: sort ? (sort.desc ? "desc" : "asc") : undefined };
+  const params = { ...fixed, ...filterValues, limit: pageSize, [cursorParam]: cursor ?? undefined, sort: sort?.id, order: sort ? (sort.desc ? "desc" : "asc") : undefined };
   const q = useQuery({
     queryKey: [listKey, params],
     queryFn: async () => asList<T>(await apiFetch<unknown>(`${path}${qs(params)}`), listKey),

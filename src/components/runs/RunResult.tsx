@@ -1,0 +1,141 @@
+"use client";
+
+import { useMemo } from "react";
+import { E2_OVER_H_SIEMENS, num, withUnit } from "@/lib/units";
+import { BandChart } from "@/components/charts/BandChart";
+import { Histogram } from "@/components/charts/Histogram";
+import { XYChart } from "@/components/charts/XYChart";
+import { LdosMap } from "./LdosMap";
+
+type R = Record<string, any>;
+const isNum = (x: unknown): x is number => typeof x === "number" && Number.isFinite(x);
+const arr = (x: unknown): number[] => (Array.isArray(x) ? x.filter(isNum) : []);
+
+/** The result of a run, drawn by kind; every figure has axes in physical units and exports. */
+export function RunResult({ kind, result, input, runId }: { kind: string; result: R; input?: R; runId: string }) {
+  if (kind === "conductance") return <ConductanceResult r={result} />;
+  if (kind === "spectrum") return <SpectrumResult r={result} />;
+  if (kind === "dos") return <DosResult r={result} />;
+  if (kind === "ldos") return <LdosMap result={result} network={input?.network} runId={runId} />;
+  if (kind === "localization") return <LocalizationResult r={result} />;
+  return <pre className="tk-card overflow-auto font-mono text-caption">{JSON.stringify(result, null, 2)}</pre>;
+}
+
+function Figure({ label, value, sub }: { label: string; value: string; sub?: string }) {
+  return (
+    <div className="rounded-card border border-line bg-surface px-4 py-3">
+      <dt className="text-caption text-fg-faint">{label}</dt>
+      <dd className="mt-0.5 font-mono text-lead tk-num">{value}</dd>
+      {sub ? <dd className="text-caption text-fg-faint">{sub}</dd> : null}
+    </div>
+  );
+}
+
+function ConductanceResult({ r }: { r: R }) {
+  const g = r.conductance ?? {};
+  const ens = r.ensemble;
+  const eig = useMemo(() => {
+    const t = r.transmissionEigenvalues;
+    if (Array.isArray(t)) return t.flat(3).filter(isNum);
+    if (t && typeof t === "object") return Object.values(t).flat(3).filter(isNum) as number[];
+    return [] as number[];
+  }, [r.transmissionEigenvalues]);
+  const siemens = isNum(r.siemens) ? r.siemens : isNum(r.siemens?.total) ? r.siemens.total : isNum(g.total) ? g.total * E2_OVER_H_SIEMENS : null;
+  const ohms = isNum(r.ohms) ? r.ohms : isNum(r.ohms?.total) ? r.ohms.total : null;
+  const histo = ens?.histogram;
+  return (
+    <div className="space-y-6">
+      <dl className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4" data-testid="conductance-figures">
+        <Figure label="Total conductance G" value={withUnit(g.total, "e²/h")} sub={siemens !== null ? `${num(siemens)} S` : undefined} />
+        <Figure label="Resistance" value={withUnit(ohms, "Ω")} sub="1 / G, with contacts" />
+        <Figure label="Valley K, per spin" value={withUnit(g.valleyK, "e²/h")} sub={g.valleyKPrime !== null && g.valleyKPrime !== undefined ? `valley K′: ${num(g.valleyKPrime)} e²/h` : "one valley"} />
+        <Figure label="Fano factor F" value={num(isNum(r.fano) ? r.fano : r.fano?.total)} sub={`${num(r.channels?.total ?? r.channels?.left ?? r.channels)} lead channels`} />
+      </dl>
+      {ens ? (
+        <dl className="grid gap-3 sm:grid-cols-3">
+          <Figure label={`Ensemble mean (${ens.samples} seeds)`} value={withUnit(ens.mean?.total, "e²/h")} sub={`standard error ${num(ens.stderr?.total)} e²/h`} />
+          <Figure label="Ensemble standard deviation" value={withUnit(ens.std?.total, "e²/h")} />
+          <Figure label="Current conservation error" value={num(r.checks?.currentConservationError)} sub="|R + T − N|, should be ≤ 1e−10" />
+        </dl>
+      ) : (
+        <p className="text-caption text-fg-faint">Current conservation error |R + T − N| = {num(r.checks?.currentConservationError)} (should be ≤ 1e−10).</p>
+      )}
+      <div className="grid gap-6 xl:grid-cols-2">
+        {eig.length > 0 ? <Histogram title="Transmission eigenvalues" name="transmission-eigenvalues" values={eig} xLabel="Transmission eigenvalue T (dimensionless)" bins={20} /> : null}
+        {histo && Array.isArray(histo.counts) ? (
+          <XYChart
+            title="Ensemble distribution of G"
+            name="ensemble-histogram"
+            xLabel="Conductance G (e²/h)"
+            yLabel="Seeds"
+            xUnit="e²/h"
+            series={[{ name: "count", x: arr(histo.centers ?? histo.binCenters ?? histo.edges?.slice(0, -1)), y: arr(histo.counts), points: true }]}
+          />
+        ) : null}
+      </div>
+    </div>
+  );
+}
+
+/** Distance along the path from the k points (1/nm), when the result gives them. */
+function pathDistance(k: number[][]): number[] {
+  const d = [0];
+  for (let i = 1; i < k.length; i++) d.push(d[i - 1] + Math.hypot(k[i][0] - k[i - 1][0], k[i][1] - k[i - 1][1]));
+  return d;
+}
+
+function SpectrumResult({ r }: { r: R }) {
+  const energies: number[][] = Array.isArray(r.energiesMeV) ? r.energiesMeV : [];
+  const k: number[][] = r.kPointsPerNm ?? r.kPoints ?? r.path?.kPointsPerNm ?? [];
+  const distance: number[] = r.path?.distancePerNm ?? (k.length === energies.length && k.length > 0 ? pathDistance(k) : energies.map((_, i) => i));
+  const labels: { index: number; label: string }[] = r.path?.labels ?? r.pathLabels ?? [];
+  const ticks = labels.length ? labels.map((l) => ({ at: distance[l.index] ?? 0, label: l.label })) : [{ at: distance[0] ?? 0, label: "start" }, { at: distance[distance.length - 1] ?? 1, label: "end" }];
+  return (
+    <div className="space-y-4">
+      <p className="text-body text-fg-soft">
+        Energy period 2πħv/l = <span className="font-mono">{withUnit(r.energyPeriodMeV, "meV")}</span>; energies are reduced into one period. {energies.length} k points.
+      </p>
+      <BandChart energies={energies} distance={distance} ticks={ticks} periodMeV={r.energyPeriodMeV} />
+    </div>
+  );
+}
+
+function DosResult({ r }: { r: R }) {
+  const e = arr(r.energiesMeV ?? r.energyMeV ?? r.energies);
+  const perCell = arr(r.dosPerCellPerMeV ?? r.dos?.perCellPerMeV ?? r.dosPerMeVPerCell);
+  const perArea = arr(r.dosPerNm2PerMeV ?? r.dos?.perNm2PerMeV ?? r.dosPerMeVPerNm2);
+  const n = arr(r.carrierDensityPerCm2 ?? r.carrierDensity?.perCm2 ?? r.carrierDensityCm2);
+  const nNm = arr(r.carrierDensityPerNm2 ?? r.carrierDensity?.perNm2);
+  const density = n.length ? { y: n, label: "Carrier density n (cm⁻²)", unit: "cm⁻²" } : { y: nNm, label: "Carrier density n (nm⁻²)", unit: "nm⁻²" };
+  const dos = perCell.length ? { y: perCell, label: "DOS (states / meV / moiré cell)", unit: "1/meV/cell" } : { y: perArea, label: "DOS (states / meV / nm²)", unit: "1/meV/nm²" };
+  return (
+    <div className="grid gap-6 xl:grid-cols-2">
+      <XYChart
+        title="Density of states"
+        name="density-of-states"
+        xLabel="Energy E (meV)"
+        xUnit="meV"
+        yLabel={dos.label}
+        yUnit={dos.unit}
+        series={[{ name: "DOS", x: e, y: dos.y }]}
+        csv={{ header: ["energyMeV", dos.unit === "1/meV/cell" ? "dosPerCellPerMeV" : "dosPerNm2PerMeV", density.unit === "cm⁻²" ? "carrierDensityPerCm2" : "carrierDensityPerNm2"], rows: e.map((x, i) => [x, dos.y[i], density.y[i]]), comments: ["Density of states and carrier density (model prediction)"] }}
+      />
+      {density.y.length ? <XYChart title="Carrier density" name="carrier-density" xLabel="Energy E (meV)" xUnit="meV" yLabel={density.label} yUnit={density.unit} series={[{ name: "n", x: e, y: density.y, color: "warm" }]} /> : null}
+    </div>
+  );
+}
+
+function LocalizationResult({ r }: { r: R }) {
+  const L = arr(r.lengthsColumns ?? r.stripLengths ?? r.lengths);
+  const lnT = arr(r.meanLnT ?? r.lnT);
+  return (
+    <div className="space-y-6">
+      <dl className="grid gap-3 sm:grid-cols-3">
+        <Figure label="Localization length ξ" value={withUnit(r.localizationLengthNm ?? r.xiNm, "nm")} sub={isNum(r.localizationLengthColumns) ? `${num(r.localizationLengthColumns)} columns` : undefined} />
+        <Figure label="Λ = ξ / W" value={num(r.lambda ?? r.Lambda)} sub="above ~1: extended-like; below: localized" />
+        <Figure label="Strip width W" value={withUnit(r.widthNm ?? r.stripWidthNm, "nm")} />
+      </dl>
+      {L.length && lnT.length ? <XYChart title="ln T along the strip" name="localization" xLabel="Strip length L (columns)" yLabel="⟨ln T⟩" series={[{ name: "ln T", x: L, y: lnT }]} /> : null}
+    </div>
+  );
+}

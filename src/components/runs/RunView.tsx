@@ -1,0 +1,82 @@
+"use client";
+
+import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { apiFetch, ApiClientError, errorText, personName, type RunRecord } from "@/lib/api";
+import { qk } from "@/lib/queryKeys";
+import { computeSeconds, when } from "@/lib/units";
+import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
+import { canCreate, useMe } from "@/components/shell/useMe";
+import { KINDS } from "./computations";
+import { Progress } from "./Progress";
+import { RunResult } from "./RunResult";
+
+const LIVE = new Set(["queued", "running"]);
+
+/** One run: live progress (polled every second), cancel, then the result plots. */
+export function RunView({ id }: { id: string }) {
+  const me = useMe();
+  const client = useQueryClient();
+  const q = useQuery({
+    queryKey: qk.run(id),
+    queryFn: () => apiFetch<RunRecord>(`/api/v1/runs/${id}`),
+    refetchInterval: (query) => (query.state.data && !LIVE.has(query.state.data.status) ? false : 1000),
+  });
+  const cancel = useMutation({
+    mutationFn: () => apiFetch<RunRecord>(`/api/v1/runs/${id}/cancel`, { method: "POST" }),
+    onSuccess: () => client.invalidateQueries({ queryKey: qk.run(id) }),
+  });
+  if (q.error instanceof ApiClientError && q.error.status === 404) notFound();
+  if (q.error) return <ErrorNote error={q.error} title="Could not load this run" />;
+  if (!q.data) return <Skeleton lines={5} />;
+  const run = q.data;
+  const kind = run.kind ?? run.computation?.kind ?? ((run as { input?: { computation?: { kind?: string } } }).input?.computation?.kind as string) ?? "conductance";
+  const label = KINDS.find((k) => k.kind === kind)?.label ?? kind;
+  const live = LIVE.has(run.status);
+  const err = errorText(run.error);
+  return (
+    <>
+      <PageHeader
+        kicker="run"
+        title={`${label}`}
+        actions={
+          <>
+            {run.networkId ? (
+              <Link className="tk-btn-quiet" href={`/networks/${run.networkId}`}>
+                Network
+              </Link>
+            ) : null}
+            {run.status === "succeeded" ? (
+              <a className="tk-btn-quiet" href={`/api/v1/runs/${run.id}/result.json`} download>
+                Result JSON
+              </a>
+            ) : null}
+            {live && canCreate(me.data?.role) ? (
+              <button type="button" className="tk-btn-quiet border-danger/50 text-danger" onClick={() => cancel.mutate()} disabled={cancel.isPending}>
+                {cancel.isPending ? "Cancelling…" : "Cancel run"}
+              </button>
+            ) : null}
+          </>
+        }
+      >
+        Submitted {when(run.createdAt)} by {personName(run.createdBy)} · estimated {computeSeconds(run.estimate?.computeSeconds)}
+        {run.computeSeconds !== null && run.computeSeconds !== undefined ? ` · used ${computeSeconds(run.computeSeconds)}` : ""}
+      </PageHeader>
+      <div className="max-w-3xl">
+        <Progress status={run.status} progress={run.progress} startedAt={run.startedAt} createdAt={run.createdAt} finishedAt={run.finishedAt} label="Run progress" />
+      </div>
+      {cancel.error ? <p role="alert" className="mt-2 text-caption text-danger">{(cancel.error as Error).message}</p> : null}
+      {err ? (
+        <div role="alert" className="mt-4 max-w-3xl rounded-card border border-danger/40 bg-danger-soft p-3 text-body text-danger">
+          {err}
+        </div>
+      ) : null}
+      {run.status === "succeeded" && run.result ? (
+        <div className="mt-6">
+          <RunResult kind={kind} result={run.result} input={(run as { input?: Record<string, unknown> }).input} runId={run.id} />
+        </div>
+      ) : null}
+    </>
+  );
+}

@@ -1,0 +1,73 @@
+"use client";
+
+import type { ColumnDef } from "@tanstack/react-table";
+import Link from "next/link";
+import { useSearchParams } from "next/navigation";
+import { personName, type RunRecord } from "@/lib/api";
+import { computeSeconds, when } from "@/lib/units";
+import { StatusBadge } from "@/components/ui/Status";
+import { PageHeader } from "@/components/ui/Page";
+import { DataTable } from "@/components/tables/DataTable";
+import { useNetworkNames } from "@/components/network/useNetworkNames";
+import { KINDS } from "./computations";
+
+const STATUS_OPTIONS = ["queued", "running", "succeeded", "failed", "cancelled"].map((s) => ({ value: s, label: s[0].toUpperCase() + s.slice(1) }));
+
+export function RunsList() {
+  const params = useSearchParams();
+  const networkId = params.get("networkId") ?? undefined;
+  const names = useNetworkNames();
+  const columns: ColumnDef<RunRecord, any>[] = [
+    {
+      id: "status",
+      header: "Status",
+      cell: ({ row }) => (
+        <Link href={`/runs/${row.original.id}`} className="inline-flex items-center gap-2" aria-label={`Run ${row.original.id.slice(0, 8)}, ${row.original.status}`}>
+          <StatusBadge status={row.original.status} />
+          {row.original.status === "running" ? <span className="tk-num text-caption text-fg-faint">{Math.round(row.original.progress * 100)}%</span> : null}
+        </Link>
+      ),
+    },
+    {
+      id: "kind",
+      header: "Computation",
+      cell: ({ row }) => (
+        <Link href={`/runs/${row.original.id}`} className="font-medium text-accent hover:underline">
+          {KINDS.find((k) => k.kind === row.original.kind)?.label ?? row.original.kind}
+        </Link>
+      ),
+    },
+    {
+      id: "network",
+      header: "Network",
+      cell: ({ row }) => (row.original.networkId ? <Link href={`/networks/${row.original.networkId}`} className="hover:underline">{names.get(row.original.networkId) ?? "network"}{(row.original as { networkVersion?: number }).networkVersion ? ` v${(row.original as { networkVersion?: number }).networkVersion}` : ""}</Link> : <span className="text-fg-faint">inline</span>),
+    },
+    { id: "createdBy", header: "Who", cell: ({ row }) => personName(row.original.createdBy) },
+    { id: "cost", header: "Compute", cell: ({ row }) => <span className="tk-num">{row.original.computeSeconds !== null && row.original.computeSeconds !== undefined ? computeSeconds(row.original.computeSeconds) : `est. ${computeSeconds(row.original.estimate?.computeSeconds)}`}</span> },
+    { id: "createdAt", header: "Created", cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
+  ];
+  return (
+    <>
+      <PageHeader kicker="workspace" title="Runs">
+        Single computations, newest first. Start one from a network&apos;s page.
+      </PageHeader>
+      <DataTable<RunRecord>
+        path="/api/v1/runs"
+        listKey="runs"
+        columns={columns}
+        fixed={{ networkId }}
+        sortable={["createdAt"]}
+        filters={[
+          { id: "status", label: "Status", options: STATUS_OPTIONS },
+          { id: "kind", label: "Computation", options: KINDS.map((k) => ({ value: k.kind, label: k.label })) },
+        ]}
+        label="runs"
+        empty={
+          <>
+            No runs yet. Open a <Link href="/networks" className="text-accent underline">network</Link> and run a computation.
+          </>
+        }
+      />
+    </>
+  );
+}

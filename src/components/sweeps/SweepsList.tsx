@@ -1,0 +1,62 @@
+"use client";
+
+import type { ColumnDef } from "@tanstack/react-table";
+import Link from "next/link";
+import { personName, type SweepRecord } from "@/lib/api";
+import { axisLabel, computeSeconds, when } from "@/lib/units";
+import { StatusBadge } from "@/components/ui/Status";
+import { PageHeader } from "@/components/ui/Page";
+import { DataTable } from "@/components/tables/DataTable";
+import { useNetworkNames } from "@/components/network/useNetworkNames";
+
+const STATUS_OPTIONS = ["queued", "running", "succeeded", "failed", "cancelled"].map((s) => ({ value: s, label: s[0].toUpperCase() + s.slice(1) }));
+
+export function SweepsList() {
+  const names = useNetworkNames();
+  const columns: ColumnDef<SweepRecord, any>[] = [
+    {
+      id: "status",
+      header: "Status",
+      cell: ({ row }) => (
+        <span className="inline-flex items-center gap-2">
+          <StatusBadge status={row.original.status} />
+          <span className="tk-num text-caption text-fg-faint">{Math.round((row.original.progress ?? 0) * 100)}%</span>
+        </span>
+      ),
+    },
+    {
+      id: "axes",
+      header: "Sweep",
+      cell: ({ row }) => (
+        <Link href={`/sweeps/${row.original.id}`} className="font-medium text-accent hover:underline">
+          {(row.original as { name?: string }).name || row.original.axes.map((a) => axisLabel(a.parameter)).join(" × ")}
+        </Link>
+      ),
+    },
+    { id: "points", header: "Points", cell: ({ row }) => <span className="tk-num">{row.original.pointCount}{row.original.ensemble ? ` × ${row.original.ensemble.samples}` : ""}</span> },
+    { id: "network", header: "Network", cell: ({ row }) => (row.original.networkId ? <Link className="hover:underline" href={`/networks/${row.original.networkId}`}>{names.get(row.original.networkId) ?? "network"}</Link> : <span className="text-fg-faint">inline</span>) },
+    { id: "createdBy", header: "Who", cell: ({ row }) => personName(row.original.createdBy) },
+    { id: "cost", header: "Compute", cell: ({ row }) => <span className="tk-num">{computeSeconds(row.original.computeSeconds ?? row.original.estimate?.computeSeconds)}</span> },
+    { id: "createdAt", header: "Created", cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
+  ];
+  return (
+    <>
+      <PageHeader kicker="workspace" title="Sweeps">
+        Grids of runs over one or two parameters, each point optionally an ensemble of disorder seeds. Build one from a network&apos;s page.
+      </PageHeader>
+      <DataTable<SweepRecord>
+        path="/api/v1/sweeps"
+        listKey="sweeps"
+        columns={columns}
+        sortable={["createdAt"]}
+        filters={[{ id: "status", label: "Status", options: STATUS_OPTIONS }]}
+        label="sweeps"
+        empty={
+          <>
+            No sweeps yet. Open a <Link href="/networks" className="text-accent underline">network</Link> and build one.
+          </>
+        }
+      />
+    </>
+  );
+}
