@@ -1,8 +1,8 @@
 import type { Metadata } from "next";
-import { DatasetsPage } from "@/components/data/DataPages";
+import { DatasetsList } from "@/components/data/DatasetsList";
 
 export const metadata: Metadata = { title: "Datasets" };
 
-export default function Page() {
-  return <DatasetsPage />;
+export default function DatasetsPage() {
+  return <DatasetsList />;
 }

@@ -1,8 +1,8 @@
 import type { Metadata } from "next";
-import { FitsPage } from "@/components/data/DataPages";
+import { FitsList } from "@/components/data/FitsList";
 
 export const metadata: Metadata = { title: "Fits" };
 
-export default function Page() {
-  return <FitsPage />;
+export default function FitsPage() {
+  return <FitsList />;
 }

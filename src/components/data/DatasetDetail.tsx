@@ -1,0 +1,64 @@
+"use client";
+
+import { useQuery } from "@tanstack/react-query";
+import Link from "next/link";
+import { apiFetch } from "@/lib/api";
+import { XYChart } from "@/components/charts/XYChart";
+import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
+import { FitForm } from "./FitForm";
+import { PeriodPanel } from "./PeriodPanel";
+import { SyntheticMark } from "./SyntheticMark";
+import type { DatasetRecord, FitRecord } from "./types";
+
+export function DatasetDetail({ id }: { id: string }) {
+  const q = useQuery({ queryKey: ["dataset", id], queryFn: () => apiFetch<DatasetRecord>(`/api/v1/datasets/${id}`) });
+  const fitsQ = useQuery({ queryKey: ["fits", { datasetId: id }], queryFn: () => apiFetch<{ items: FitRecord[] }>(`/api/v1/fits?datasetId=${id}`) });
+  if (q.isPending) return <Skeleton lines={6} />;
+  if (q.error) return <ErrorNote error={q.error} title="Dataset not available" />;
+  const d = q.data;
+  return (
+    <>
+      <PageHeader
+        kicker="dataset"
+        title={d.name}
+        actions={
+          <a className="tk-btn-quiet" href={`/api/v1/datasets/${d.id}/original`}>
+            Original file
+          </a>
+        }
+      >
+        {d.synthetic ? <SyntheticMark /> : null} {d.rows} points · x: {d.xQuantity} in {d.xUnit} · y: conductance in e²/h{d.hasSigma ? " with uncertainties" : ""} · sha256 <span className="font-mono text-caption">{d.dataHash.slice(0, 12)}…</span>
+        {d.description ? <p className="mt-1 text-caption">{d.description}</p> : null}
+      </PageHeader>
+      <div className="space-y-10">
+        <XYChart
+          title="Measured curve (engine units)"
+          name={`dataset-${d.id.slice(0, 8)}`}
+          xLabel={`${d.xQuantity} (${d.xUnit})`}
+          yLabel="conductance (e²/h)"
+          xUnit={d.xUnit}
+          yUnit="e²/h"
+          series={[{ name: d.synthetic ? "data (synthetic)" : "data", x: d.points.x, y: d.points.y, err: d.points.sigma ?? undefined, points: true }]}
+          csv={{ header: [`x_${d.xUnit}`, "conductanceE2h", "sigmaE2h"], rows: d.points.x.map((x, i) => [x, d.points.y[i], d.points.sigma?.[i] ?? ""]) }}
+        />
+        {d.xQuantity === "field" ? <PeriodPanel datasetId={d.id} /> : <p className="text-body text-fg-soft">The period analysis and fits need a field axis; this dataset&apos;s x is {d.xQuantity}.</p>}
+        {d.xQuantity === "field" ? <FitForm datasetId={d.id} datasetName={d.name} /> : null}
+        {fitsQ.data?.items.length ? (
+          <section>
+            <h2 className="text-lead font-semibold">Fits of this dataset</h2>
+            <ul className="mt-2 space-y-1">
+              {fitsQ.data.items.map((f) => (
+                <li key={f.id}>
+                  <Link href={`/fits/${f.id}`} className="text-accent hover:underline">
+                    {new Date(f.createdAt).toLocaleString()} · {f.status}
+                    {f.result ? ` · χ²/dof ${f.result.chi2PerDof.toPrecision(3)}` : ""}
+                  </Link>
+                </li>
+              ))}
+            </ul>
+          </section>
+        ) : null}
+      </div>
+    </>
+  );
+}

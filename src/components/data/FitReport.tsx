@@ -1,0 +1,183 @@
+"use client";
+
+import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import Link from "next/link";
+import { apiFetch } from "@/lib/api";
+import { XYChart } from "@/components/charts/XYChart";
+import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
+import { sig, withStderr } from "./format";
+import { SyntheticMark } from "./SyntheticMark";
+import type { DatasetRecord, FitRecord } from "./types";
+
+const finished = (s?: string) => s === "succeeded" || s === "failed" || s === "cancelled";
+
+/** Fit report: progress while it runs; then overlay, residuals, the table of values with uncertainties, correlations and exports. */
+export function FitReport({ id }: { id: string }) {
+  const queryClient = useQueryClient();
+  const q = useQuery({
+    queryKey: ["fit", id],
+    queryFn: () => apiFetch<FitRecord>(`/api/v1/fits/${id}`),
+    refetchInterval: (query) => (finished(query.state.data?.status) ? false : 1000),
+  });
+  const datasetId = q.data?.datasetId;
+  const dq = useQuery({ queryKey: ["dataset", datasetId], queryFn: () => apiFetch<DatasetRecord>(`/api/v1/datasets/${datasetId}`), enabled: !!datasetId });
+  const cancel = useMutation({
+    mutationFn: () => apiFetch<FitRecord>(`/api/v1/fits/${id}/cancel`, { method: "POST" }),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: ["fit", id] }),
+  });
+  if (q.isPending) return <Skeleton lines={6} />;
+  if (q.error) return <ErrorNote error={q.error} title="Fit not available" />;
+  const f = q.data;
+  const r = f.result;
+  const d = dq.data;
+  return (
+    <>
+      <PageHeader
+        kicker="fit report"
+        title={`Fit of ${f.datasetName ?? "dataset"}`}
+        actions={
+          r ? (
+            <>
+              <a className="tk-btn-quiet" href={`/api/v1/fits/${f.id}/export`} data-testid="export-json">
+                Report JSON
+              </a>
+              <a className="tk-btn-quiet" href={`/api/v1/fits/${f.id}/curve.csv`}>
+                Model curve CSV
+              </a>
+            </>
+          ) : null
+        }
+      >
+        {f.datasetSynthetic ? <SyntheticMark /> : null}{" "}
+        <Link className="text-accent hover:underline" href={`/datasets/${f.datasetId}`}>
+          dataset
+        </Link>{" "}
+        · engine {f.engineVersion ?? "–"} · data sha256 <span className="font-mono text-caption">{f.dataHash.slice(0, 12)}…</span> · estimate {sig(f.estimatedComputeSeconds, 3)} compute-s
+        {f.computeSeconds !== null ? ` · used ${sig(f.computeSeconds, 3)} compute-s` : ""}
+      </PageHeader>
+
+      <div className="space-y-8">
+        <div className="tk-card space-y-2" data-testid="fit-status">
+          <p className="text-body">
+            Status: <strong data-status={f.status}>{f.status}</strong>
+            {f.lastIteration && !finished(f.status) ? ` · iteration ${f.lastIteration.iteration} · χ² ${sig(f.lastIteration.chi2, 4)}` : ""}
+          </p>
+          <div className="h-2 w-full overflow-hidden rounded-full bg-surface-sunk" role="progressbar" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(f.progress * 100)} aria-label="fit progress">
+            <div className="h-full bg-accent transition-all" style={{ width: `${Math.round(f.progress * 100)}%` }} />
+          </div>
+          {!finished(f.status) ? (
+            <button type="button" className="tk-btn-quiet" onClick={() => cancel.mutate()} disabled={cancel.isPending}>
+              Cancel the fit
+            </button>
+          ) : null}
+          {f.error ? <ErrorNote error={f.error.message} title={f.status === "cancelled" ? "Cancelled" : "The fit failed"} /> : null}
+        </div>
+
+        {r && r.curve && d ? (
+          <>
+            <XYChart
+              title="Data and model"
+              name={`fit-${f.id.slice(0, 8)}-overlay`}
+              xLabel="field (T)"
+              yLabel="conductance (e²/h)"
+              xUnit="T"
+              yUnit="e²/h"
+              series={[
+                { name: d.synthetic ? "data (synthetic)" : "data", x: d.points.x, y: d.points.y, err: d.points.sigma ?? undefined, points: true, color: "linkAlt" },
+                { name: "model", x: r.curve.x, y: r.curve.y, color: "accent", points: false },
+              ]}
+              csv={{ header: ["fieldTesla", "dataE2h", "modelE2h"], rows: r.curve.x.map((x, i) => [x, d.points.y[i], r.curve!.y[i]]) }}
+            />
+            <XYChart
+              title="Residuals (data − model)"
+              name={`fit-${f.id.slice(0, 8)}-residuals`}
+              xLabel="field (T)"
+              yLabel="residual (e²/h)"
+              xUnit="T"
+              yUnit="e²/h"
+              height={200}
+              series={[{ name: "residual", x: r.curve.x, y: r.residuals ?? [], points: true, color: "warm" }]}
+            />
+          </>
+        ) : null}
+
+        {r ? (
+          <section className="tk-card space-y-4">
+            <h2 className="text-lead font-semibold">Best values</h2>
+            <table className="w-full text-body" data-testid="fit-values">
+              <thead className="text-left text-caption text-fg-faint">
+                <tr>
+                  <th className="py-1">parameter</th>
+                  <th>value</th>
+                  <th>standard error</th>
+                  <th>start</th>
+                  <th>bounds</th>
+                </tr>
+              </thead>
+              <tbody>
+                {r.parameters.map((p) => {
+                  const v = withStderr(p.value, p.stderr);
+                  return (
+                    <tr key={p.parameter} className="border-t border-line" data-parameter={p.parameter}>
+                      <td className="py-1 font-mono text-caption">{p.parameter}</td>
+                      <td className="tk-num font-mono">{v.value}</td>
+                      <td className="tk-num font-mono">± {v.stderr}</td>
+                      <td className="tk-num font-mono text-caption">{sig(p.initial)}</td>
+                      <td className="tk-num font-mono text-caption">
+                        [{sig(p.min)}, {sig(p.max)}]{p.atBound ? " · on a bound" : ""}
+                      </td>
+                    </tr>
+                  );
+                })}
+              </tbody>
+            </table>
+            <p className="text-body">
+              χ²/dof = <span className="tk-num font-mono" data-testid="chi2-per-dof">{sig(r.chi2PerDof, 4)}</span>
+              {r.dof !== undefined ? ` (dof ${r.dof})` : ""}
+              {r.weighted === false ? " · no uncertainty column: unit weights, so χ²/dof is the residual variance in (e²/h)²" : ""}
+              {r.iterations !== undefined ? ` · ${r.iterations} iterations` : ""}
+              {r.converged === false ? " · did not meet the convergence rule" : ""}
+            </p>
+            <p className="text-caption text-fg-soft">Standard errors from the Jacobian at the optimum, scaled by the residual variance (χ²/dof). Results are predictions of a phenomenological model; node probabilities and mode velocity are model parameters, not material constants.</p>
+            {r.warnings?.length ? (
+              <ul className="list-disc pl-5 text-caption text-warm">
+                {r.warnings.map((w, i) => (
+                  <li key={i}>{w}</li>
+                ))}
+              </ul>
+            ) : null}
+            {r.correlation && r.parameters.length > 1 ? (
+              <div>
+                <h3 className="text-body font-semibold">Correlation matrix</h3>
+                <table className="mt-1 font-mono text-caption" data-testid="fit-correlation">
+                  <thead>
+                    <tr>
+                      <th />
+                      {r.parameters.map((p) => (
+                        <th key={p.parameter} className="px-2 text-left text-fg-faint">
+                          {p.parameter}
+                        </th>
+                      ))}
+                    </tr>
+                  </thead>
+                  <tbody>
+                    {r.correlation.map((row, i) => (
+                      <tr key={i}>
+                        <th className="pr-2 text-left text-fg-faint">{r.parameters[i].parameter}</th>
+                        {row.map((c, j) => (
+                          <td key={j} className="px-2 tk-num">
+                            {c.toFixed(3)}
+                          </td>
+                        ))}
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              </div>
+            ) : null}
+          </section>
+        ) : null}
+      </div>
+    </>
+  );
+}

@@ -1,0 +1,66 @@
+/**
+ * The model a fit adjusts: the engine's two-terminal conductance (e^2/h, with thermal smearing
+ * when the computation has temperatureK > 0) at every x of the dataset. The engine is passed in
+ * (the contract of src/engine: applyParameter + compute), so this module stays pure and testable.
+ */
+import { fitCurve, FitInputError, type FitOptions, type FitParameterSpec, type FitResult } from "./fitter";
+
+/** The part of the engine's API a fit uses. */
+export interface EngineLike {
+  compute(input: never, options?: { onProgress?: (f: number) => void; shouldCancel?: () => boolean }): unknown;
+  applyParameter(input: never, parameter: string, value: number): unknown;
+}
+
+export { FIT_PARAMETERS, FITTABLE, SWEEP_FOR_QUANTITY } from "./parameters";
+import { FITTABLE } from "./parameters";
+
+/** The total two-terminal conductance in e^2/h from an engine conductance result. */
+export function conductanceOf(result: unknown): number {
+  const r = result as { conductance?: { total?: unknown }; ensemble?: { mean?: { total?: unknown } } };
+  const total = r?.ensemble?.mean?.total ?? r?.conductance?.total;
+  if (typeof total !== "number" || !Number.isFinite(total)) throw new Error("the engine result has no conductance.total");
+  return total;
+}
+
+export function checkFitSpecs(specs: FitParameterSpec[]): void {
+  specs.forEach((s, i) => {
+    if (!FITTABLE.includes(s.parameter)) {
+      throw new FitInputError(`fit.${i}.parameter: "${s.parameter}" cannot be fitted; choose from ${FITTABLE.join(", ")}.`, `fit.${i}.parameter`);
+    }
+  });
+  const names = specs.map((s) => s.parameter);
+  if (names.includes("periodNm") && names.includes("twistDegrees")) {
+    throw new FitInputError("fit: periodNm and twistDegrees describe the same length (l = a / (2 sin(theta/2))); fit one of them.", "fit");
+  }
+}
+
+export interface FitJobInput {
+  /** `{ network, computation }` as the engine takes it, already parsed. */
+  input: unknown;
+  sweepParameter: string;
+  x: number[];
+  y: number[];
+  sigma: number[] | null;
+  fit: FitParameterSpec[];
+  options?: Pick<FitOptions, "maxIterations" | "multiStart" | "seed">;
+}
+
+/** The model curve for given parameter values: one engine computation per data point. */
+export function engineCurve(engine: EngineLike, base: unknown, sweepParameter: string, x: number[], values: Record<string, number>, shouldCancel?: () => boolean): number[] {
+  let input = base;
+  for (const [p, v] of Object.entries(values)) input = engine.applyParameter(input as never, p, v);
+  return x.map((xi) => conductanceOf(engine.compute(engine.applyParameter(input as never, sweepParameter, xi) as never, { shouldCancel })));
+}
+
+export function runFit(engine: EngineLike, job: FitJobInput, hooks: Pick<FitOptions, "onIteration" | "shouldCancel"> = {}): FitResult {
+  checkFitSpecs(job.fit);
+  const model = (values: Record<string, number>) => engineCurve(engine, job.input, job.sweepParameter, job.x, values, hooks.shouldCancel);
+  return fitCurve(model, { x: job.x, y: job.y, sigma: job.sigma }, job.fit, { ...job.options, ...hooks });
+}
+
+/** Engine evaluations a fit is expected to need (for the estimate shown before it starts). */
+export function expectedEvaluations(parameters: number, options: { maxIterations?: number; multiStart?: number } = {}): number {
+  const iterations = Math.min(options.maxIterations ?? 40, 15);
+  const starts = options.multiStart ?? 1;
+  return starts * (1 + iterations * (parameters + 1)) + 2 * parameters + 1;
+}

@@ -1,0 +1,16 @@
+/** What a fit may adjust (client-safe: the fit form reads it too). */
+/** Parameters a fit may adjust, with the bounds and starting values the form proposes. */
+export const FIT_PARAMETERS: { parameter: string; label: string; unit: string; initial: number; min: number; max: number }[] = [
+  { parameter: "node.forward", label: "node forward probability (left and right keep their ratio)", unit: "", initial: 0.6, min: 0.12, max: 0.98 },
+  { parameter: "modeVelocityMps", label: "mode velocity", unit: "m/s", initial: 1.0e6, min: 1e5, max: 3e6 },
+  { parameter: "periodNm", label: "moire period", unit: "nm", initial: 128, min: 20, max: 400 },
+  { parameter: "twistDegrees", label: "twist angle", unit: "°", initial: 0.11, min: 0.03, max: 0.7 },
+  { parameter: "contactOhms", label: "series contact resistance", unit: "Ω", initial: 500, min: 0, max: 20000 },
+  { parameter: "temperatureK", label: "temperature (thermal smearing)", unit: "K", initial: 1, min: 0, max: 30 },
+  { parameter: "disorder.linkPhaseWidthRad", label: "link phase disorder width", unit: "rad", initial: 0.5, min: 0, max: 6.283185307179586 },
+];
+export const FITTABLE = FIT_PARAMETERS.map((p) => p.parameter);
+
+/** Sweep parameters a dataset's x may map to, by what the x axis measures. */
+export const SWEEP_FOR_QUANTITY: Record<string, string[]> = { field: ["fieldTesla"], gateVoltage: [], density: [] };
+
