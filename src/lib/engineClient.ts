@@ -5,7 +5,9 @@
  */
 // The schema module is pure (zod only); importing it, not the engine's index, keeps worker and
 // thread-pool code out of the browser bundle.
-import { computationSchema, networkSchema } from "@/engine/schema";
+import { computationSchema, networkSchema, type ComputeInput } from "@/engine/schema";
+import { estimateCost } from "@/engine/cost";
+import { SWEEPABLE_PARAMETERS } from "@/engine/parameters";
 
 export type Issues = Record<string, string>;
 
@@ -32,18 +34,24 @@ export function validateComputation(computation: unknown): { ok: true; data: Rec
 
 /**
  * Estimated compute-seconds of one input, from the engine's cost model (the figure the API
- * answers with). Null while the input is invalid.
+ * answers with). Null while the input is invalid or the model refuses it.
  */
 export function estimateInput(input: { network: unknown; computation: unknown }): number | null {
   const n = networkSchema.safeParse(input.network);
   const c = computationSchema.safeParse(input.computation);
   if (!n.success || !c.success) return null;
-  return engineEstimate({ network: n.data, computation: c.data });
+  try {
+    return estimateCost({ network: n.data, computation: c.data } as ComputeInput).computeSeconds;
+  } catch {
+    return null;
+  }
 }
 
-type EstimateFn = (input: { network: unknown; computation: unknown }) => number | null;
-let engineEstimate: EstimateFn = () => null;
-/** Lets the estimate module register the engine's cost model (see estimate.ts). */
-export function registerEstimate(fn: EstimateFn) {
-  engineEstimate = fn;
+/** Sweepable parameters for a computation kind (the engine's list, the one the API checks). */
+export function sweepableFor(kind: string, lattice: "triangular" | "square"): { name: string; unit: string; description: string }[] {
+  return SWEEPABLE_PARAMETERS.filter((p) => {
+    if (p.appliesTo === "computation") return !p.kinds || p.kinds.includes(kind);
+    if (lattice === "square") return !["node.forward", "node.left", "node.right", "node.phaseRad"].includes(p.name);
+    return p.name !== "node.turning";
+  });
 }

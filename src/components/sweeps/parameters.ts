@@ -1,17 +1,7 @@
 import type { ComputationKind } from "@/components/runs/computations";
+import { sweepableFor } from "@/lib/engineClient";
 
-/**
- * Parameters a sweep axis may take for a computation: computation fields and network field
- * paths (the API checks them against the engine's list).
- */
+/** Parameters a sweep axis may take for a computation: the engine's list (the API checks the same). */
 export function sweepParametersFor(kind: ComputationKind, lattice: "triangular" | "square"): string[] {
-  const network = lattice === "square" ? ["node.turning", "disorder.linkPhaseWidthRad", "disorder.forwardSpread"] : ["node.forward", "node.phaseRad", "disorder.linkPhaseWidthRad", "disorder.forwardSpread", "twistDegrees", "modeVelocityMps"];
-  const byKind: Record<ComputationKind, string[]> = {
-    conductance: ["fieldTesla", "energyMeV", "temperatureK", "contactOhms"],
-    ldos: ["energyMeV", "fieldTesla"],
-    localization: ["energyMeV", "fieldTesla"],
-    dos: ["broadeningMeV"],
-    spectrum: [],
-  };
-  return [...byKind[kind], ...network];
+  return sweepableFor(kind, lattice).map((p) => p.name);
 }
