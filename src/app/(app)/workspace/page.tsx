@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { WorkspacePage } from "@/components/data/DataPages";
+import { WorkspacePage } from "@/components/workspace/WorkspacePage";
 
 export const metadata: Metadata = { title: "Workspace" };
 

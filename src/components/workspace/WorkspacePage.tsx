@@ -1,0 +1,62 @@
+"use client";
+
+import { useQuery } from "@tanstack/react-query";
+import { apiFetch, personName } from "@/lib/api";
+import { qk } from "@/lib/queryKeys";
+import { when } from "@/lib/units";
+import { PageHeader, ErrorNote, Skeleton } from "@/components/ui/Page";
+import { useMe } from "@/components/shell/useMe";
+
+interface Member {
+  userId: string;
+  name: string;
+  email: string;
+  role: string;
+  roleLabel: string;
+  joinedAt: string;
+}
+
+export function WorkspacePage() {
+  const me = useMe();
+  const members = useQuery({
+    queryKey: qk.members,
+    queryFn: async () => {
+      const d = await apiFetch<unknown>("/api/v1/workspace/members");
+      return (Array.isArray(d) ? d : ((d as { members?: Member[]; items?: Member[] }).members ?? (d as { items?: Member[] }).items ?? [])) as Member[];
+    },
+  });
+  return (
+    <>
+      <PageHeader kicker="workspace" title={me.data?.workspace?.name ?? "Workspace"}>
+        {me.data?.workspace?.plan === "lab" ? "Lab plan" : "Free plan"} · you are {me.data?.role ? me.data.role.replace("_", " ") : "…"}. API tokens for scripts are scoped to this workspace and to one role.
+      </PageHeader>
+      <h2 className="mb-2 text-lead font-semibold">Members</h2>
+      {members.error ? <ErrorNote error={members.error} /> : null}
+      {!members.data && !members.error ? <Skeleton /> : null}
+      {members.data ? (
+        <div className="overflow-x-auto rounded-card border border-line bg-surface">
+          <table className="w-full text-left text-body" aria-label="Members">
+            <thead className="border-b border-line bg-surface-sunk text-caption uppercase tracking-wide text-fg-faint">
+              <tr>
+                <th scope="col" className="px-3 py-2 font-medium">Member</th>
+                <th scope="col" className="px-3 py-2 font-medium">Role</th>
+                <th scope="col" className="px-3 py-2 font-medium">Joined</th>
+              </tr>
+            </thead>
+            <tbody>
+              {members.data.map((m) => (
+                <tr key={m.userId} className="border-b border-line last:border-0">
+                  <td className="px-3 py-2">
+                    {m.name || personName(m.email)} <span className="text-caption text-fg-faint">{m.email}</span>
+                  </td>
+                  <td className="px-3 py-2">{m.roleLabel}</td>
+                  <td className="px-3 py-2 tk-num text-caption">{when(m.joinedAt)}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      ) : null}
+    </>
+  );
+}
