@@ -1,0 +1,75 @@
+import { describe, expect, it } from "vitest";
+import { checkFitSpecs, conductanceOf, engineCurve, expectedEvaluations, runFit, type EngineLike } from "@/server/fits/model";
+
+// A stand-in with the engine's contract (applyParameter on dotted paths, compute -> conductance.total
+// in e2/h): an Aharonov-Bohm-like oscillation whose amplitude grows with the turning probability,
+// in series with the contact resistance (G = 1 / (1/G0 + R_c e^2/h), h/e^2 = 25812.80745 ohm).
+type In = { network: { node: { forward: number; left: number; right: number } }; computation: { fieldTesla: number; contactOhms: number } };
+const standIn: EngineLike = {
+  applyParameter: ((input: In, parameter: string, value: number) => {
+    const c = structuredClone(input);
+    if (parameter === "node.forward") {
+      const ratio = c.network.node.left / (c.network.node.left + c.network.node.right);
+      c.network.node = { forward: value, left: (1 - value) * ratio, right: (1 - value) * (1 - ratio) };
+    } else if (parameter === "contactOhms" || parameter === "fieldTesla") c.computation[parameter] = value;
+    else throw new Error(`unknown parameter ${parameter}`);
+    return c;
+  }) as never,
+  compute: ((input: In) => {
+    const f = input.network.node.forward;
+    const g0 = 4 * (f + (1 - f) * 0.3 * Math.cos((2 * Math.PI * input.computation.fieldTesla) / 0.583));
+    const g = 1 / (1 / g0 + input.computation.contactOhms / 25812.80745);
+    return { conductance: { total: g, unit: "e2/h" } };
+  }) as never,
+};
+const base: In = { network: { node: { forward: 0.5, left: 0.25, right: 0.25 } }, computation: { fieldTesla: 0, contactOhms: 0 } };
+
+function noise(seed: number) {
+  let a = seed >>> 0;
+  const u = () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+  return () => Math.sqrt(-2 * Math.log(u() + 1e-12)) * Math.cos(2 * Math.PI * u());
+}
+
+describe("engine-backed fit model", () => {
+  it("evaluates one engine computation per data x with the fitted values applied", () => {
+    const y = engineCurve(standIn, base, "fieldTesla", [0, 0.2915], { "node.forward": 0.5, contactOhms: 0 });
+    expect(y[0]).toBeCloseTo(4 * (0.5 + 0.5 * 0.3), 12);
+    expect(y[1]).toBeCloseTo(4 * (0.5 - 0.5 * 0.3), 12);
+    expect(conductanceOf({ ensemble: { mean: { total: 2.5 } }, conductance: { total: 1 } })).toBe(2.5);
+    expect(() => conductanceOf({})).toThrow(/conductance.total/);
+  });
+
+  it("fits node.forward and contactOhms back within the reported uncertainties (several seeds)", () => {
+    const x = Array.from({ length: 120 }, (_, i) => -1.5 + (3 * i) / 119);
+    const truth = { "node.forward": 0.55, contactOhms: 600 };
+    for (const seed of [1, 2, 3]) {
+      const g = noise(seed);
+      const y = engineCurve(standIn, base, "fieldTesla", x, truth).map((v) => v + 0.004 * g());
+      const r = runFit(standIn, {
+        input: base,
+        sweepParameter: "fieldTesla",
+        x,
+        y,
+        sigma: x.map(() => 0.004),
+        fit: [
+          { parameter: "node.forward", initial: 0.5, min: 0.2, max: 0.9 },
+          { parameter: "contactOhms", initial: 300, min: 0, max: 3000 },
+        ],
+      });
+      for (const p of r.parameters) expect(Math.abs(p.value - truth[p.parameter as keyof typeof truth])).toBeLessThan(3 * p.stderr!);
+      expect(r.chi2PerDof).toBeLessThan(1.6);
+    }
+  });
+
+  it("refuses parameters it cannot fit and period with twist together", () => {
+    expect(() => checkFitSpecs([{ parameter: "energyMeV", initial: 1, min: 0, max: 2 }])).toThrow(/cannot be fitted/);
+    expect(() => checkFitSpecs([{ parameter: "periodNm", initial: 100, min: 50, max: 200 }, { parameter: "twistDegrees", initial: 0.1, min: 0.05, max: 0.2 }])).toThrow(/fit one of them/);
+    expect(expectedEvaluations(2)).toBeGreaterThan(2);
+  });
+});
