@@ -1,0 +1,211 @@
+/**
+ * Two-terminal conductance (Landauer): G = (e^2/h) sum over valleys and spins of Tr(t^H t),
+ * with t the transmission block of the sample's scattering matrix from the slice composition.
+ */
+import { CONDUCTANCE_QUANTUM_S, BOLTZMANN_J_PER_K, JOULE_PER_MEV } from "../constants";
+import { CH_LEFT_IN, CH_LEFT_OUT, CH_RIGHT_IN, CH_RIGHT_OUT, channelPhases, reverseGraph, type NetworkGraph } from "../network/graph";
+import { buildSample } from "../network/lattice";
+import type { ConductanceComputation, Network } from "../schema";
+import { Absorber } from "../scattering/absorber";
+import { getKernels } from "../linalg/kernels";
+import { energyPhase, fluxPerPlaquette, mean, networkScale, std } from "./common";
+import { Progress, type ComputeOptions } from "./progress";
+import { thermalNodes } from "./quadrature";
+
+export interface ValleyPair<T> { valleyK: T; valleyKPrime: T | null }
+export interface ConductanceFigures { valleyK: number; valleyKPrime: number | null; total: number; unit: "e2/h" }
+
+export interface ConductanceResult {
+  kind: "conductance";
+  energyMeV: number;
+  fieldTesla: number;
+  temperatureK: number;
+  contactOhms: number;
+  fluxPerPlaquette: number;
+  energyPeriodMeV: number;
+  fieldPeriodTesla: number;
+  conductance: ConductanceFigures;
+  siemens: number;
+  ohms: number | null;
+  channels: { valleyK: number; valleyKPrime: number | null; total: number };
+  transmissionEigenvalues: ValleyPair<number[]>;
+  fano: number | null;
+  checks: { currentConservationError: number };
+  ensemble?: {
+    samples: number;
+    mean: ConductanceFigures;
+    std: ConductanceFigures;
+    stderr: ConductanceFigures;
+    histogram: { quantity: "conductance.total"; unit: "e2/h"; binEdges: number[]; counts: number[] };
+  };
+}
+
+export interface SampleTransport {
+  transmission: number;
+  injected: number;
+  conservationError: number;
+  eigenvalues: number[] | null;
+  /** sum T (1 - T) */
+  noise: number;
+}
+
+/** Channel lists of a graph, sorted by the y of their segment (bottom to top). */
+export function leadChannels(g: NetworkGraph): { leftIn: number[]; leftOut: number[]; rightIn: number[]; rightOut: number[] } {
+  const lists: Record<number, number[]> = { [CH_LEFT_IN]: [], [CH_LEFT_OUT]: [], [CH_RIGHT_IN]: [], [CH_RIGHT_OUT]: [] };
+  for (let c = 0; c < g.channelCount; c++) if (g.chKind[c] !== 0) lists[g.chKind[c]].push(c);
+  const y = (c: number) => (g.chSegment[4 * c + 1] + g.chSegment[4 * c + 3]) / 2;
+  for (const k of Object.keys(lists)) lists[Number(k)].sort((a, b) => y(a) - y(b) || a - b);
+  return { leftIn: lists[CH_LEFT_IN], leftOut: lists[CH_LEFT_OUT], rightIn: lists[CH_RIGHT_IN], rightOut: lists[CH_RIGHT_OUT] };
+}
+
+/** Full composed scattering matrix of a sample with leads at link phase thetaE. */
+export function composeSample(g: NetworkGraph, thetaE: number, progress?: Progress): Absorber {
+  const abs = new Absorber(g, channelPhases(g, thetaE));
+  abs.run(progress ? { afterGroup: () => progress.tick(1) } : undefined);
+  return abs;
+}
+
+/** Transmission of one valley graph at one energy. */
+export function sampleTransport(g: NetworkGraph, thetaE: number, wantEigen: boolean, progress?: Progress): SampleTransport {
+  const abs = composeSample(g, thetaE, progress);
+  const { leftIn, leftOut, rightIn, rightOut } = leadChannels(g);
+  const nIn = leftIn.length, nOut = rightOut.length;
+  const t = new Float64Array(2 * nOut * nIn);
+  let T = 0, err = 0;
+  for (let j = 0; j < nIn; j++) {
+    let col = 0;
+    for (let i = 0; i < nOut; i++) {
+      const [re, im] = abs.entry(rightOut[i], leftIn[j]);
+      t[2 * (i * nIn + j)] = re; t[2 * (i * nIn + j) + 1] = im;
+      col += re * re + im * im;
+    }
+    T += col;
+    for (const o of leftOut) { const [re, im] = abs.entry(o, leftIn[j]); col += re * re + im * im; }
+    err = Math.max(err, Math.abs(col - 1));
+  }
+  for (const j of rightIn) {
+    let col = 0;
+    for (const o of [...leftOut, ...rightOut]) { const [re, im] = abs.entry(o, j); col += re * re + im * im; }
+    err = Math.max(err, Math.abs(col - 1));
+  }
+  // t^H t (nIn x nIn)
+  const tht = new Float64Array(2 * nIn * nIn);
+  for (let a = 0; a < nIn; a++) for (let b = a; b < nIn; b++) {
+    let re = 0, im = 0;
+    for (let i = 0; i < nOut; i++) {
+      const xr = t[2 * (i * nIn + a)], xi = -t[2 * (i * nIn + a) + 1], yr = t[2 * (i * nIn + b)], yi = t[2 * (i * nIn + b) + 1];
+      re += xr * yr - xi * yi; im += xr * yi + xi * yr;
+    }
+    tht[2 * (a * nIn + b)] = re; tht[2 * (a * nIn + b) + 1] = im;
+    tht[2 * (b * nIn + a)] = re; tht[2 * (b * nIn + a) + 1] = -im;
+  }
+  // sum T(1-T) = Tr(t^H t) - Tr((t^H t)^2) = T - ||t^H t||_F^2
+  let fro = 0;
+  for (let i = 0; i < tht.length; i++) fro += tht[i] * tht[i];
+  let eigenvalues: number[] | null = null;
+  if (wantEigen && nIn > 0) {
+    const { values } = getKernels().eigHermitian(tht, nIn, false);
+    eigenvalues = Array.from(values).map((v) => Math.min(1, Math.max(0, v))).sort((a, b) => b - a);
+  }
+  return { transmission: T, injected: nIn, conservationError: err, eigenvalues, noise: T - fro };
+}
+
+/** Work units of one conductance evaluation (groups of both valleys), for progress. */
+export function conductanceWork(g: NetworkGraph, valleys: number): number { return g.schedule.length * valleys; }
+
+export function computeConductance(net: Network, c: ConductanceComputation, opts: ComputeOptions = {}): ConductanceResult {
+  const scale = networkScale(net);
+  const phi = fluxPerPlaquette(scale, c.fieldTesla);
+  const valleys = net.degeneracy.valley;
+  const spin = net.degeneracy.spin;
+  const samples = c.ensemble?.samples ?? 1;
+  const kTMeV = (BOLTZMANN_J_PER_K * c.temperatureK) / JOULE_PER_MEV;
+  const nodes = thermalNodes(c.energyMeV, kTMeV, c.temperaturePoints ?? 24);
+  const extraEigenPoint = kTMeV > 0;
+  const g0 = buildSample(net, { mode: "leads", fluxPerPlaquette: phi, sample: 0 });
+  const evals = nodes.energiesMeV.length + (extraEigenPoint ? 1 : 0);
+  const progress = new Progress(samples * evals * conductanceWork(g0, valleys), opts);
+  const perSample: { gK: number; gKp: number | null; total: number }[] = [];
+  let eigK: number[] = [], eigKp: number[] | null = null;
+  let noiseSum = 0, tSum = 0, err = 0;
+  let chK = 0, chKp: number | null = null;
+  for (let s = 0; s < samples; s++) {
+    const gK = s === 0 ? g0 : buildSample(net, { mode: "leads", fluxPerPlaquette: phi, sample: s });
+    const gKp = valleys === 2 ? reverseGraph(gK) : null;
+    let TK = 0, TKp = 0;
+    for (let e = 0; e < nodes.energiesMeV.length; e++) {
+      const th = energyPhase(scale, nodes.energiesMeV[e]);
+      const wantEig = !extraEigenPoint;
+      const rK = sampleTransport(gK, th, wantEig, progress);
+      TK += nodes.weights[e] * rK.transmission;
+      err = Math.max(err, rK.conservationError);
+      if (s === 0) chK = rK.injected;
+      let rKp: SampleTransport | null = null;
+      if (gKp) {
+        rKp = sampleTransport(gKp, th, wantEig, progress);
+        TKp += nodes.weights[e] * rKp.transmission;
+        err = Math.max(err, rKp.conservationError);
+        if (s === 0) chKp = rKp.injected;
+      }
+      if (wantEig) {
+        noiseSum += rK.noise + (rKp?.noise ?? 0); tSum += rK.transmission + (rKp?.transmission ?? 0);
+        if (s === 0) { eigK = rK.eigenvalues ?? []; eigKp = rKp ? rKp.eigenvalues ?? [] : null; }
+      }
+    }
+    if (extraEigenPoint) {
+      const th = energyPhase(scale, c.energyMeV);
+      const rK = sampleTransport(gK, th, s === 0, progress);
+      const rKp = gKp ? sampleTransport(gKp, th, s === 0, progress) : null;
+      err = Math.max(err, rK.conservationError, rKp?.conservationError ?? 0);
+      noiseSum += rK.noise + (rKp?.noise ?? 0); tSum += rK.transmission + (rKp?.transmission ?? 0);
+      if (s === 0) { eigK = rK.eigenvalues ?? []; eigKp = rKp ? rKp.eigenvalues ?? [] : null; }
+    }
+    const copies = gK.copies;
+    const gk = TK * copies, gkp = gKp ? TKp * copies : null;
+    perSample.push({ gK: gk, gKp: gkp, total: spin * (gk + (gkp ?? 0)) });
+  }
+  const copies = g0.copies;
+  const dup = (xs: number[]) => copies === 1 ? xs : xs.flatMap((x) => Array(copies).fill(x) as number[]);
+  const fig = (f: (xs: number[]) => number): ConductanceFigures => ({
+    valleyK: f(perSample.map((p) => p.gK)),
+    valleyKPrime: valleys === 2 ? f(perSample.map((p) => p.gKp as number)) : null,
+    total: f(perSample.map((p) => p.total)),
+    unit: "e2/h",
+  });
+  const meanFig = fig(mean);
+  const gS = meanFig.total * CONDUCTANCE_QUANTUM_S;
+  const ohms = gS > 0 ? 1 / gS + c.contactOhms : null;
+  const result: ConductanceResult = {
+    kind: "conductance",
+    energyMeV: c.energyMeV,
+    fieldTesla: c.fieldTesla,
+    temperatureK: c.temperatureK,
+    contactOhms: c.contactOhms,
+    fluxPerPlaquette: phi,
+    energyPeriodMeV: scale.energyPeriodMeV,
+    fieldPeriodTesla: scale.fieldPeriodTesla,
+    conductance: meanFig,
+    siemens: ohms === null ? 0 : 1 / ohms,
+    ohms,
+    channels: { valleyK: chK * copies, valleyKPrime: chKp === null ? null : chKp * copies, total: spin * (chK + (chKp ?? 0)) * copies },
+    transmissionEigenvalues: { valleyK: dup(eigK), valleyKPrime: eigKp ? dup(eigKp) : null },
+    fano: tSum > 0 ? noiseSum / tSum : null,
+    checks: { currentConservationError: err },
+  };
+  if (c.ensemble) {
+    const sd = fig(std);
+    const se: ConductanceFigures = { valleyK: sd.valleyK / Math.sqrt(samples), valleyKPrime: sd.valleyKPrime === null ? null : sd.valleyKPrime / Math.sqrt(samples), total: sd.total / Math.sqrt(samples), unit: "e2/h" };
+    result.ensemble = { samples, mean: meanFig, std: sd, stderr: se, histogram: histogram(perSample.map((p) => p.total), c.histogramBins) };
+  }
+  progress.finish();
+  return result;
+}
+
+export function histogram(xs: number[], bins: number): { quantity: "conductance.total"; unit: "e2/h"; binEdges: number[]; counts: number[] } {
+  let lo = Math.min(...xs), hi = Math.max(...xs);
+  if (!(hi > lo)) { lo -= 0.5; hi += 0.5; }
+  const edges = Array.from({ length: bins + 1 }, (_, i) => lo + ((hi - lo) * i) / bins);
+  const counts = new Array(bins).fill(0) as number[];
+  for (const x of xs) counts[Math.min(bins - 1, Math.floor(((x - lo) / (hi - lo)) * bins))]++;
+  return { quantity: "conductance.total", unit: "e2/h", binEdges: edges, counts };
+}
