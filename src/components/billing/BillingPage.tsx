@@ -1,0 +1,265 @@
+"use client";
+
+import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { useSearchParams } from "next/navigation";
+import { useState } from "react";
+import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
+import { apiFetch } from "@/lib/api";
+import { formatComputeSeconds, formatUsd } from "./CostEstimate";
+import { UsageByDayChart, type DayUsage } from "./UsageByDayChart";
+
+interface Overview {
+  workspace: { id: string; name: string; kind: string };
+  plan: "free" | "lab";
+  planLabel: string;
+  planState: "active" | "grace" | "suspended";
+  effectivePlan: "free" | "lab";
+  graceEndsAt: string | null;
+  seats: number;
+  members: number;
+  seatPriceUsdPerMonth: number;
+  computePriceUsdPerHour: number;
+  spendCapUsd: number | null;
+  period: string;
+  usedComputeSeconds: number;
+  includedComputeSeconds: number;
+  spendUsd: number;
+  hasPaymentAccount: boolean;
+  hasSubscription: boolean;
+  meterEvents: { pending: number; sent: number; failed: number; lastError: string | null };
+  canManageBilling: boolean;
+}
+interface Usage {
+  period: string;
+  computeSeconds: number;
+  costUsd: number;
+  members: { userId: string | null; name: string; email: string | null; role: string | null; runs: number; computeSeconds: number; costUsd: number }[];
+  days: DayUsage[];
+}
+interface InvoiceView {
+  id: string;
+  number: string | null;
+  status: string | null;
+  totalUsd: number;
+  periodStart: string;
+  periodEnd: string;
+  createdAt: string;
+  url: string | null;
+}
+
+const keys = { overview: ["billing"] as const, usage: ["usage"] as const, invoices: ["billing", "invoices"] as const };
+const day = (iso: string) => iso.slice(0, 10);
+
+export function BillingPage() {
+  const client = useQueryClient();
+  const params = useSearchParams();
+  const overview = useQuery({ queryKey: keys.overview, queryFn: () => apiFetch<Overview>("/api/v1/billing") });
+  const usage = useQuery({ queryKey: keys.usage, queryFn: () => apiFetch<Usage>("/api/v1/usage") });
+  const canManage = overview.data?.canManageBilling ?? false;
+  const invoices = useQuery({ queryKey: keys.invoices, queryFn: () => apiFetch<{ invoices: InvoiceView[]; upcoming: InvoiceView | null }>("/api/v1/billing/invoices"), enabled: canManage && Boolean(overview.data?.hasPaymentAccount) });
+  const refresh = () => void client.invalidateQueries({ queryKey: ["billing"] });
+
+  const upgrade = useMutation({
+    mutationFn: () => apiFetch<{ url: string }>("/api/v1/billing/checkout", { method: "POST" }),
+    onSuccess: (r) => window.location.assign(r.url),
+  });
+  const portal = useMutation({
+    mutationFn: () => apiFetch<{ url: string }>("/api/v1/billing/portal", { method: "POST" }),
+    onSuccess: (r) => window.location.assign(r.url),
+  });
+  const syncSeats = useMutation({ mutationFn: () => apiFetch("/api/v1/billing/seats/sync", { method: "POST" }), onSuccess: refresh });
+
+  if (overview.isPending) return <Skeleton lines={6} />;
+  if (overview.error) return <ErrorNote error={overview.error} title="Billing could not be loaded" />;
+  const o = overview.data;
+  const names = new Map((usage.data?.members ?? []).filter((m) => m.userId).map((m) => [m.userId!, m.name || m.email || "member"]));
+
+  return (
+    <div className="space-y-6" data-testid="billing-page">
+      <PageHeader kicker="Billing" title={`${o.workspace.name}`}>
+        Plan, seats, spend cap and compute use of this workspace for {o.period}. Costs are shown before anything is charged.
+      </PageHeader>
+
+      {params.get("checkout") === "success" ? (
+        <p role="status" className="rounded-card border border-accent/40 bg-accent-soft p-3 text-body text-accent-strong" data-testid="checkout-done">
+          Payment received. {o.plan === "lab" ? "This workspace is on the Lab plan." : "The plan changes as soon as the payment service confirms it; this page updates by itself."}
+        </p>
+      ) : null}
+      {o.planState === "grace" ? (
+        <p role="alert" className="rounded-card border border-warm/50 bg-warm-soft p-3 text-body text-warm" data-testid="grace-banner">
+          The last payment failed. Lab limits stay until {o.graceEndsAt ? day(o.graceEndsAt) : "the end of the grace period"}; then this workspace works under Free limits. Update the payment details to keep Lab.
+        </p>
+      ) : null}
+      {o.planState === "suspended" ? (
+        <p role="alert" className="rounded-card border border-danger/40 bg-danger-soft p-3 text-body text-danger" data-testid="suspended-banner">
+          Payment is overdue: this workspace works under Free limits until the open invoice is paid.
+        </p>
+      ) : null}
+
+      <div className="grid gap-4 md:grid-cols-3">
+        <section className="tk-card space-y-2 p-4" aria-labelledby="plan-h">
+          <h2 id="plan-h" className="text-body font-semibold">Plan</h2>
+          <p className="text-title font-semibold" data-testid="plan-label">{o.planLabel}</p>
+          <p className="text-caption text-fg-soft">
+            {o.plan === "lab"
+              ? `${o.seatPriceUsdPerMonth} USD per seat per month + ${o.computePriceUsdPerHour.toFixed(2)} USD per compute-hour, metered.`
+              : `${o.includedComputeSeconds / 60} compute-minutes included each month, no card needed.`}
+          </p>
+          {canManage ? (
+            <div className="flex flex-wrap gap-2 pt-1">
+              {o.plan === "free" || !o.hasSubscription ? (
+                <button type="button" className="tk-btn" onClick={() => upgrade.mutate()} disabled={upgrade.isPending} data-testid="upgrade">
+                  {upgrade.isPending ? "Opening checkout…" : `Upgrade to Lab (${Math.max(1, o.members)} × ${o.seatPriceUsdPerMonth} USD / month)`}
+                </button>
+              ) : null}
+              {o.hasPaymentAccount ? (
+                <button type="button" className="tk-btn-quiet" onClick={() => portal.mutate()} disabled={portal.isPending} data-testid="open-portal">
+                  Payment details and invoices
+                </button>
+              ) : null}
+            </div>
+          ) : (
+            <p className="text-caption text-fg-faint">The Owner and Billing admins change the plan.</p>
+          )}
+          {upgrade.error ? <ErrorNote error={upgrade.error} title="Checkout did not open" /> : null}
+          {portal.error ? <ErrorNote error={portal.error} title="The portal did not open" /> : null}
+        </section>
+
+        <section className="tk-card space-y-2 p-4" aria-labelledby="seats-h">
+          <h2 id="seats-h" className="text-body font-semibold">Seats</h2>
+          <p className="text-title font-semibold tk-num" data-testid="seats">
+            {o.plan === "lab" ? o.seats : "–"}
+          </p>
+          <p className="text-caption text-fg-soft">
+            {o.members} member{o.members === 1 ? "" : "s"}. Seats follow membership: inviting or removing a member changes the seat count (prorated by the payment service).
+          </p>
+          {canManage && o.hasSubscription && o.seats !== Math.max(1, o.members) ? (
+            <button type="button" className="tk-btn-quiet" onClick={() => syncSeats.mutate()} disabled={syncSeats.isPending}>
+              Match seats to members now
+            </button>
+          ) : null}
+        </section>
+
+        <SpendCap o={o} canManage={canManage} onSaved={refresh} />
+      </div>
+
+      <section className="tk-card space-y-3 p-4" aria-labelledby="usage-h">
+        <div className="flex flex-wrap items-baseline justify-between gap-2">
+          <h2 id="usage-h" className="text-body font-semibold">Usage in {o.period}</h2>
+          <p className="text-caption text-fg-soft" data-testid="usage-total">
+            {formatComputeSeconds(o.usedComputeSeconds)}
+            {o.plan === "lab" ? ` · ${formatUsd(o.spendUsd)}` : ` of ${o.includedComputeSeconds / 60} included compute-minutes`}
+          </p>
+        </div>
+        {usage.isPending ? <Skeleton /> : usage.error ? <ErrorNote error={usage.error} /> : (
+          <>
+            <table className="w-full text-body" data-testid="usage-members">
+              <thead>
+                <tr className="border-b border-line text-left text-caption text-fg-faint">
+                  <th className="py-1.5 font-medium">Member</th>
+                  <th className="py-1.5 font-medium">Role</th>
+                  <th className="py-1.5 text-right font-medium">Runs</th>
+                  <th className="py-1.5 text-right font-medium">Compute-seconds</th>
+                  <th className="py-1.5 text-right font-medium">Cost</th>
+                </tr>
+              </thead>
+              <tbody>
+                {usage.data.members.map((m) => (
+                  <tr key={m.userId ?? "former"} className="border-b border-line/60">
+                    <td className="py-1.5">{m.name || m.email}</td>
+                    <td className="py-1.5 text-fg-soft">{m.role?.replace("_", " ") ?? "–"}</td>
+                    <td className="py-1.5 text-right tk-num">{m.runs}</td>
+                    <td className="py-1.5 text-right tk-num">{m.computeSeconds.toFixed(1)}</td>
+                    <td className="py-1.5 text-right tk-num">{formatUsd(m.costUsd)}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+            <UsageByDayChart period={usage.data.period} days={usage.data.days} names={names} />
+          </>
+        )}
+        {o.plan === "lab" ? (
+          <p className="text-caption text-fg-faint" data-testid="meter-status">
+            Reported to the payment service: {o.meterEvents.sent} runs; waiting: {o.meterEvents.pending}; refused: {o.meterEvents.failed}
+            {o.meterEvents.lastError ? ` (last problem: ${o.meterEvents.lastError})` : ""}.
+          </p>
+        ) : null}
+      </section>
+
+      {canManage && o.hasPaymentAccount ? (
+        <section className="tk-card space-y-3 p-4" aria-labelledby="inv-h">
+          <h2 id="inv-h" className="text-body font-semibold">Invoices</h2>
+          {invoices.isPending ? <Skeleton /> : invoices.error ? <ErrorNote error={invoices.error} /> : (
+            <table className="w-full text-body" data-testid="invoices">
+              <thead>
+                <tr className="border-b border-line text-left text-caption text-fg-faint">
+                  <th className="py-1.5 font-medium">Invoice</th>
+                  <th className="py-1.5 font-medium">Period</th>
+                  <th className="py-1.5 font-medium">Status</th>
+                  <th className="py-1.5 text-right font-medium">Total</th>
+                </tr>
+              </thead>
+              <tbody>
+                {invoices.data.upcoming ? (
+                  <tr className="border-b border-line/60 text-fg-soft">
+                    <td className="py-1.5">Next (estimate so far)</td>
+                    <td className="py-1.5">{day(invoices.data.upcoming.periodStart)} – {day(invoices.data.upcoming.periodEnd)}</td>
+                    <td className="py-1.5">upcoming</td>
+                    <td className="py-1.5 text-right tk-num">{formatUsd(invoices.data.upcoming.totalUsd)}</td>
+                  </tr>
+                ) : null}
+                {invoices.data.invoices.map((i) => (
+                  <tr key={i.id} className="border-b border-line/60">
+                    <td className="py-1.5">{i.url ? <a className="underline" href={i.url}>{i.number ?? i.id}</a> : (i.number ?? i.id)}</td>
+                    <td className="py-1.5">{day(i.periodStart)} – {day(i.periodEnd)}</td>
+                    <td className="py-1.5">{i.status}</td>
+                    <td className="py-1.5 text-right tk-num">{formatUsd(i.totalUsd)}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          )}
+        </section>
+      ) : null}
+    </div>
+  );
+}
+
+function SpendCap({ o, canManage, onSaved }: { o: Overview; canManage: boolean; onSaved: () => void }) {
+  const [value, setValue] = useState(o.spendCapUsd === null ? "" : String(o.spendCapUsd));
+  const save = useMutation({
+    mutationFn: () => apiFetch("/api/v1/billing/spend-cap", { method: "PUT", json: { spendCapUsd: value.trim() === "" ? null : Number(value) } }),
+    onSuccess: onSaved,
+  });
+  const share = o.spendCapUsd ? Math.min(1, o.spendUsd / o.spendCapUsd) : 0;
+  return (
+    <section className="tk-card space-y-2 p-4" aria-labelledby="cap-h">
+      <h2 id="cap-h" className="text-body font-semibold">Spend cap</h2>
+      <p className="text-title font-semibold tk-num" data-testid="spend-cap">{o.spendCapUsd === null ? "No cap" : formatUsd(o.spendCapUsd)}</p>
+      {o.spendCapUsd !== null && o.plan === "lab" ? (
+        <div aria-label={`Spent ${Math.round(share * 100)} % of the cap`}>
+          <div className="h-2 rounded-full bg-surface-sunk">
+            <div className={`h-2 rounded-full ${share >= 1 ? "bg-danger" : share >= 0.8 ? "bg-warm" : "bg-accent"}`} style={{ width: `${share * 100}%` }} />
+          </div>
+          <p className="mt-1 text-caption text-fg-soft">{formatUsd(o.spendUsd)} spent on compute this month. E-mails go to the Owner and Billing admins at 80 % and 100 %.</p>
+        </div>
+      ) : null}
+      {canManage ? (
+        <form
+          className="flex items-end gap-2"
+          onSubmit={(e) => {
+            e.preventDefault();
+            save.mutate();
+          }}
+        >
+          <div>
+            <label htmlFor="spend-cap" className="tk-label">Monthly cap <span className="font-mono text-micro text-fg-faint">[USD]</span></label>
+            <input id="spend-cap" className="tk-field mt-1 w-32" inputMode="decimal" value={value} onChange={(e) => setValue(e.target.value)} placeholder="no cap" />
+          </div>
+          <button type="submit" className="tk-btn-quiet" disabled={save.isPending}>Save</button>
+        </form>
+      ) : null}
+      {save.error ? <ErrorNote error={save.error} title="Cap not saved" /> : null}
+    </section>
+  );
+}

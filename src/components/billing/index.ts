@@ -1,0 +1,1 @@
+export { CostEstimate, estimateCost, formatComputeSeconds, formatUsd } from "./CostEstimate";
