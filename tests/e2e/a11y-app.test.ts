@@ -1,0 +1,74 @@
+// Accessibility of the main pages: axe-core (node_modules/axe-core/axe.min.js) injected into the
+// page; no serious or critical violations.
+import { createRequire } from "node:module";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Browser, Page } from "playwright-core";
+import { launchBrowser } from "../support/browser";
+import { api } from "../support/services";
+import { signedInPage, url } from "./app-helpers";
+
+const axePath = createRequire(import.meta.url).resolve("axe-core/axe.min.js");
+
+let browser: Browser;
+let close: () => Promise<void>;
+let page: Page;
+beforeAll(async () => {
+  ({ browser, close } = await launchBrowser());
+  ({ page } = await signedInPage(browser, "researcher"));
+});
+afterAll(async () => {
+  await close?.();
+});
+
+async function seriousViolations(p: Page) {
+  await p.addScriptTag({ path: axePath });
+  const result = (await p.evaluate(async () => {
+    const axe = (window as unknown as { axe: { run: (ctx: Document, opts: object) => Promise<{ violations: { id: string; impact: string; help: string; nodes: { target: string[] }[] }[] }> } }).axe;
+    return axe.run(document, { resultTypes: ["violations"] });
+  })) as { violations: { id: string; impact: string; help: string; nodes: { target: string[] }[] }[] };
+  return result.violations.filter((v) => v.impact === "serious" || v.impact === "critical").map((v) => `${v.id} (${v.impact}): ${v.help} at ${v.nodes.slice(0, 3).map((n) => n.target.join(" ")).join("; ")}`);
+}
+
+describe("accessibility of the web app", () => {
+  const pages: [string, string | (() => Promise<string>), string][] = [
+    ["networks list", "/networks", "h1"],
+    ["network editor", "/networks/new", "svg[data-renderer]"],
+    ["runs list", "/runs", "h1"],
+    ["sweeps list", "/sweeps", "h1"],
+    ["workspace", "/workspace", "h1"],
+    ["model manual", "/manual", ".katex"],
+    [
+      "saved network with run and sweep forms",
+      async () => {
+        const list = (await (await api("/api/v1/networks?limit=1", { as: "researcher" })).json()) as { networks: { id: string }[] };
+        return `/networks/${list.networks[0].id}`;
+      },
+      "form[aria-label='Build a sweep']",
+    ],
+    [
+      "sweep page",
+      async () => {
+        const list = (await (await api("/api/v1/sweeps?limit=1", { as: "researcher" })).json()) as { sweeps: { id: string }[] };
+        return `/sweeps/${list.sweeps[0].id}`;
+      },
+      "[data-testid=progress]",
+    ],
+  ];
+  for (const [label, path, ready] of pages) {
+    it(`has no serious violations: ${label}`, async () => {
+      const target = typeof path === "string" ? path : await path();
+      await page.goto(url(target));
+      await page.locator(ready).first().waitFor();
+      await page.waitForTimeout(300);
+      const found = await seriousViolations(page);
+      expect(found).toEqual([]);
+    });
+  }
+  it("has no serious violations in the dark theme either", async () => {
+    await page.goto(url("/networks/new"));
+    await page.locator("svg[data-renderer]").waitFor();
+    await page.evaluate(() => document.documentElement.classList.add("dark"));
+    await page.waitForTimeout(200);
+    expect(await seriousViolations(page)).toEqual([]);
+  });
+});
