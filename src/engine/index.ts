@@ -2,6 +2,7 @@
  * Public API of the Triskel network-model engine (no I/O, no Next/React/database/queue imports).
  * Format and conventions: src/engine/README.md and ../shared/physics.md.
  */
+import "./linalg/select"; // picks the kernel backend (TRISKEL_KERNELS) before ENGINE_VERSION is read
 export { ENGINE_VERSION, ENGINE_BASE_VERSION, engineVersion } from "./version";
 export {
   networkSchema, computationSchema, computeInputSchema,
