@@ -33,9 +33,11 @@ export interface PeriodicCell {
 }
 
 const OBLIQUE: LinearGauge = (() => {
-  // A/B = (sqrt3/2) (x + y/sqrt3) (-1/2, sqrt3/2)
+  // A/B = (sqrt3/2) (x + y/sqrt3) (-1/2, sqrt3/2) + (sqrt3/8, 1/8); the constant (a pure gauge, a
+  // relabelling of k) makes every link phase a whole multiple of 2 pi phi, so the spectrum at a
+  // fixed k is periodic in the flux per triangle with period 1.
   const s = Math.sqrt(3) / 2;
-  return { mxx: -s / 2, mxy: -s / (2 * Math.sqrt(3)), myx: (s * Math.sqrt(3)) / 2, myy: s / 2 };
+  return { mxx: -s / 2, mxy: -s / (2 * Math.sqrt(3)), myx: (s * Math.sqrt(3)) / 2, myy: s / 2, cx: Math.sqrt(3) / 8, cy: 1 / 8 };
 })();
 
 export function gcd(a: number, b: number): number { a = Math.abs(a); b = Math.abs(b); while (b) { [a, b] = [b, a % b]; } return a; }
@@ -125,4 +127,35 @@ export function blochMatrix(cell: PeriodicCell, kx: number, ky: number): Float64
     }
   }
   return U;
+}
+
+/**
+ * The link-to-link operator U0 of the finite periodic (torus) network of N1 x N2 supercells, at
+ * zero energy phase; its eigenphases are the Bloch eigenphases at the k points allowed by the
+ * torus (physics.md check 8). Channel index: ((i * N2 + j) * nodes + node) * slots + slot.
+ */
+export function torusOperator(cell: PeriodicCell, N1: number, N2: number): { U: Float64Array; L: number } {
+  const k = cell.slots, per = cell.nodeCount * k, L = N1 * N2 * per;
+  const U = new Float64Array(2 * L * L);
+  for (let i = 0; i < N1; i++) for (let j = 0; j < N2; j++) {
+    for (const l of cell.links) {
+      const ti = (((i + l.shift[0]) % N1) + N1) % N1, tj = (((j + l.shift[1]) % N2) + N2) % N2;
+      const col = (i * N2 + j) * per + l.fromNode * k + l.fromSlot;
+      const m = cell.matrices[l.toNode];
+      const zr = Math.cos(l.thetaB), zi = Math.sin(l.thetaB);
+      for (let o = 0; o < k; o++) {
+        const sr = m[2 * (o * k + l.toSlot)], si = m[2 * (o * k + l.toSlot) + 1];
+        const row = (ti * N2 + tj) * per + l.toNode * k + o;
+        U[2 * (row * L + col)] += sr * zr - si * zi; U[2 * (row * L + col) + 1] += sr * zi + si * zr;
+      }
+    }
+  }
+  return { U, L };
+}
+
+/** Reciprocal vectors of the supercell (units 1/l). */
+export function reciprocal(cell: PeriodicCell): { B1: [number, number]; B2: [number, number] } {
+  const [a, b] = cell.A1, [c, d] = cell.A2;
+  const det = a * d - b * c;
+  return { B1: [(2 * Math.PI * d) / det, (-2 * Math.PI * c) / det], B2: [(-2 * Math.PI * b) / det, (2 * Math.PI * a) / det] };
 }

@@ -9,7 +9,7 @@
  *   kernels, else the TypeScript kernels with one log line saying why.
  */
 import { SingularMatrixError } from "../errors";
-import { loadNativeKernels, type NativeInfo } from "../native/index";
+import { loadNativeKernels, type NativeInfo, type NativeLoad } from "../native/index";
 import { setKernels, tsKernels, type ComplexKernels } from "./kernels";
 
 export type KernelMode = "ts" | "openblas" | "auto";
@@ -203,14 +203,18 @@ export function kernelMode(value: string | undefined): { mode: KernelMode; note:
 }
 
 /** Pick, install (setKernels) and describe the backend. */
-export function selectKernels(env: Record<string, string | undefined> = process.env, log: (line: string) => void = (l) => console.warn(l)): KernelSelection {
+export function selectKernels(
+  env: Record<string, string | undefined> = process.env,
+  log: (line: string) => void = (l) => console.warn(l),
+  load: () => NativeLoad = loadNativeKernels,
+): KernelSelection {
   const { mode, note } = kernelMode(env.TRISKEL_KERNELS);
   if (note) log(`triskel engine: ${note}`);
   if (mode === "ts") {
     setKernels(tsKernels);
     return { mode, backend: tsKernels.name, reason: "TRISKEL_KERNELS=ts", native: null };
   }
-  const loaded = loadNativeKernels();
+  const loaded = load();
   let problem: string | null = loaded.ok ? selfTest(loaded.kernels) : loaded.reason;
   if (loaded.ok && problem) problem = `self-test failed: ${problem}`;
   if (loaded.ok && !problem) {

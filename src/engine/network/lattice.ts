@@ -30,14 +30,14 @@ import { buildSchedule } from "./schedule";
 export type SampleMode = "leads" | "ring";
 
 /** Linear gauge: A / B = (mxx x + mxy y, myx x + myy y) (lengths in units of l). */
-export interface LinearGauge { mxx: number; mxy: number; myx: number; myy: number }
+export interface LinearGauge { mxx: number; mxy: number; myx: number; myy: number; cx?: number; cy?: number }
 export const GAUGE_LANDAU_Y: LinearGauge = { mxx: 0, mxy: 0, myx: 1, myy: 0 }; // A = B (0, x)
 export const GAUGE_LANDAU_X: LinearGauge = { mxx: 0, mxy: -1, myx: 0, myy: 0 }; // A = B (-y, 0)
 
 /** Integral of (A/B).dl along the straight segment (exact for a linear gauge: midpoint rule). */
 export function gaugeIntegral(gauge: LinearGauge, x1: number, y1: number, x2: number, y2: number): number {
   const xm = (x1 + x2) / 2, ym = (y1 + y2) / 2;
-  return (gauge.mxx * xm + gauge.mxy * ym) * (x2 - x1) + (gauge.myx * xm + gauge.myy * ym) * (y2 - y1);
+  return (gauge.mxx * xm + gauge.mxy * ym + (gauge.cx ?? 0)) * (x2 - x1) + (gauge.myx * xm + gauge.myy * ym + (gauge.cy ?? 0)) * (y2 - y1);
 }
 
 /** Area of the elementary plaquette in units of l^2: sqrt3/4 (triangle) or 1 (square). */

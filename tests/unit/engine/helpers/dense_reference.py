@@ -66,6 +66,9 @@ def main():
         U, _ = link_operator(req["graph"])
         G = np.linalg.inv(np.eye(U.shape[0]) - U)
         print(json.dumps(out(np.diag(G))))
+    elif op == "link_eigvals":
+        U, _ = link_operator(req["graph"])
+        print(json.dumps(out(np.linalg.eigvals(U))))
     elif op == "eigvals":
         print(json.dumps(out(np.linalg.eigvals(cmat(req["n"], req["n"], req["re"], req["im"])))))
     elif op == "eigvalsh":
