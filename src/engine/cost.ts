@@ -12,7 +12,7 @@ export interface CostEstimate {
   breakdown: { item: string; count: number; workUnits: number; seconds: number }[];
 }
 
-interface SweepCost { work: number; peakMatrixBytes: number; graphBytes: number }
+interface SweepCost { work: number; peakMatrixBytes: number; compactMatrixBytes: number; graphBytes: number }
 
 /** Replays an absorption schedule with integer bookkeeping only. */
 export function simulateSweep(g: NetworkGraph): { work: number; maxRows: number; maxCols: number } {
@@ -52,6 +52,7 @@ function sweepCost(net: Network, mode: "leads" | "ring"): SweepCost {
   return {
     work,
     peakMatrixBytes: 16 * (a.maxRows * 1.5 + 16) * (a.maxCols * 1.5 + 16),
+    compactMatrixBytes: 16 * a.maxRows * a.maxCols,
     graphBytes: C * (perColumnChannels * K.graphBytesPerChannel + perColumnNodes * K.graphBytesPerNode),
   };
 }
@@ -112,7 +113,8 @@ export function estimateCost(input: ComputeInput): CostEstimate {
       add("closed-network sweeps (one valley)", 3 * valleys, s.work, K.sliceMulAddsPerSecond);
       add("per-cut resolvent inverses", cuts * valleys, (8 / 3) * frontier ** 3, K.sliceMulAddsPerSecond);
       const stored = Math.ceil(Math.sqrt(cuts)) * 2 + 2;
-      peak += stored * s.peakMatrixBytes + 2 * s.graphBytes + 4 * 8 * 3 * net.size.columns * net.size.rows * 6;
+      // checkpoints are compact copies; two working matrices; the per-cut products and inverse
+      peak += stored * s.compactMatrixBytes + 2 * s.peakMatrixBytes + 4 * s.compactMatrixBytes + 2 * s.graphBytes + 8 * 8 * 3 * net.size.columns * net.size.rows;
       break;
     }
   }

@@ -51,7 +51,11 @@ export class Absorber {
   clone(): Absorber {
     const a = Object.create(Absorber.prototype) as Absorber;
     Object.assign(a, this);
-    a.S = this.S.slice(); a.rowCh = this.rowCh.slice(); a.colCh = this.colCh.slice();
+    // compact copy: only the live nr x nc block (the copy grows again when it absorbs more)
+    a.capR = Math.max(1, this.nr); a.capC = Math.max(1, this.nc);
+    a.S = new Float64Array(2 * a.capR * a.capC);
+    for (let r = 0; r < this.nr; r++) a.S.set(this.S.subarray(2 * r * this.capC, 2 * r * this.capC + 2 * this.nc), 2 * r * a.capC);
+    a.rowCh = this.rowCh.slice(0, a.capR); a.colCh = this.colCh.slice(0, a.capC);
     a.chRow = this.chRow.slice(); a.chCol = this.chCol.slice(); a.absorbed = this.absorbed.slice();
     a.stepDet = this.stepDet ? this.stepDet.slice() : null;
     return a;
