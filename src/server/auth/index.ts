@@ -28,10 +28,24 @@ export async function getCaller(req: Request): Promise<Caller> {
     if (!match) throw new ApiError("unauthenticated", "Authorization header must be `Bearer <API token>`.");
     return callerFromToken(match[1]);
   }
-  const fromSession = await sessionResolver?.(req);
+  const fromSession = await (sessionResolver ?? defaultSessionResolver)(req);
   if (fromSession) return fromSession;
   throw new ApiError("unauthenticated", "Sign in, or send `Authorization: Bearer <API token>` (create one under Workspace → API tokens).");
 }
+
+/**
+ * The signed-in caller for server components and server actions (no Request at hand), or null
+ * when signed out. Pages use it to hide what the role cannot do (`can(caller.role, action)`).
+ */
+export async function currentCaller(): Promise<Caller | null> {
+  return (sessionResolver ?? defaultSessionResolver)(new Request("http://internal/"));
+}
+
+/** Clerk's session through @clerk/nextjs (loaded lazily so scripts and tests need no Next runtime). */
+const defaultSessionResolver: SessionResolver = async () => {
+  const { resolveSession } = await import("./session");
+  return resolveSession();
+};
 
 /** The sign-in integration registers how a browser session becomes a Caller (src/server/auth/session.ts). */
 type SessionResolver = (req: Request) => Promise<Caller | null>;

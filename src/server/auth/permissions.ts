@@ -17,6 +17,7 @@ export type Action =
   | "work.create" // create networks, runs, sweeps, datasets, fits
   | "work.manageOthers" // cancel or delete another member's runs, sweeps, networks
   | "members.manage" // invite or remove members, change roles
+  | "members.seats" // invite or remove Researchers and Viewers (a Billing admin fills and frees seats)
   | "seats.manage" // change the number of seats
   | "billing.manage" // plan, payment, spend cap, invoices
   | "usage.view" // compute use per member
@@ -27,6 +28,7 @@ const TABLE: Record<Action, readonly Role[]> = {
   "work.create": ["owner", "researcher"],
   "work.manageOthers": ["owner"],
   "members.manage": ["owner"],
+  "members.seats": ["owner", "billing_admin"],
   "seats.manage": ["owner", "billing_admin"],
   "billing.manage": ["owner", "billing_admin"],
   "usage.view": ["owner", "billing_admin", "researcher", "viewer"],
@@ -58,6 +60,7 @@ export function describeAction(action: Action): string {
     "work.create": "create networks, runs, sweeps, datasets or fits",
     "work.manageOthers": "cancel or delete another member's work",
     "members.manage": "invite or remove members or change roles",
+    "members.seats": "invite or remove Researchers and Viewers",
     "seats.manage": "change seats",
     "billing.manage": "change the plan, payment, spend cap or read invoices",
     "usage.view": "see compute use",

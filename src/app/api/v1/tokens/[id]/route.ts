@@ -1,0 +1,13 @@
+import { NextResponse } from "next/server";
+import { getCaller } from "@/server/auth";
+import { revokeToken } from "@/server/auth/apiTokens";
+import { route } from "@/server/http/errors";
+
+export const dynamic = "force-dynamic";
+
+/** DELETE /api/v1/tokens/{id}: revoke one of your tokens; it stops working at once. */
+export const DELETE = route(async (req: Request, ctx: { params: Promise<{ id: string }> }) => {
+  const caller = await getCaller(req);
+  const { id } = await ctx.params;
+  return NextResponse.json({ token: await revokeToken(caller, id) });
+});

@@ -1,0 +1,15 @@
+import { NextResponse } from "next/server";
+import { z } from "zod";
+import { getCaller } from "@/server/auth";
+import { ApiError, route } from "@/server/http/errors";
+import { revokeInvitation } from "@/server/workspaces/invitations";
+
+export const dynamic = "force-dynamic";
+
+/** DELETE /api/v1/workspace/invitations/{id}: revoke a pending invitation (its link stops working). */
+export const DELETE = route(async (req: Request, ctx: { params: Promise<{ id: string }> }) => {
+  const caller = await getCaller(req);
+  const { id } = await ctx.params;
+  if (!z.string().uuid().safeParse(id).success) throw new ApiError("not_found", `No invitation with id ${id} in this workspace.`);
+  return NextResponse.json({ invitation: await revokeInvitation(caller, id) });
+});

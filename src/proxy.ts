@@ -1,0 +1,60 @@
+// Next 16 "proxy" (formerly middleware): Clerk's clerkMiddleware reads the session on every page
+// and API request, so `auth()` works in server code. Signed-out visitors of the signed-in area are
+// sent to our sign-in page. Public pages, the health check and Bearer-token API calls pass untouched.
+import { clerkMiddleware, createRouteMatcher } from "@clerk/nextjs/server";
+import { NextResponse, type NextFetchEvent, type NextRequest } from "next/server";
+
+const isPublicPage = createRouteMatcher([
+  "/",
+  "/pricing(.*)",
+  "/manual(.*)",
+  "/sign-in(.*)",
+  "/sign-up(.*)",
+  "/accept-invitation(.*)",
+]);
+const isApi = createRouteMatcher(["/api/(.*)"]);
+
+const withClerk = clerkMiddleware(async (auth, req) => {
+  // API routes answer 401 JSON themselves (getCaller); only pages redirect.
+  if (isApi(req) || isPublicPage(req)) return;
+  const { userId } = await auth();
+  if (!userId) {
+    const signIn = new URL("/sign-in", req.url);
+    signIn.searchParams.set("redirect_url", req.nextUrl.pathname + req.nextUrl.search);
+    return NextResponse.redirect(signIn);
+  }
+});
+
+export async function proxy(req: NextRequest, event: NextFetchEvent) {
+  const path = req.nextUrl.pathname;
+  // Scripts with an API token never need a session; webhooks carry their own signature.
+  if (path === "/api/v1/health" || path.startsWith("/api/webhooks/")) return NextResponse.next();
+  if (/^Bearer\s+trk_/i.test(req.headers.get("authorization") ?? "")) return NextResponse.next();
+  return sameUrlRewriteAsNext(req, await withClerk(req, event));
+}
+
+/**
+ * clerkMiddleware passes its auth headers with a rewrite to the request's own URL. Behind
+ * `next start -H 127.0.0.1`, Next sees that URL's host (localhost) as another origin and proxies
+ * it over the network, which fails. The same request headers travel with `x-middleware-next`, so
+ * a rewrite to the very same path is turned back into "continue".
+ */
+function sameUrlRewriteAsNext(req: NextRequest, res: Response | null | undefined | void): Response | undefined {
+  if (!res) return undefined;
+  const target = res.headers.get("x-middleware-rewrite");
+  if (target) {
+    const url = new URL(target, req.url);
+    if (url.pathname === req.nextUrl.pathname && url.search === req.nextUrl.search) {
+      res.headers.delete("x-middleware-rewrite");
+      res.headers.set("x-middleware-next", "1");
+    }
+  }
+  return res;
+}
+
+export const config = {
+  matcher: [
+    // Everything but Next internals, static files, the served clerk-js and the stand-in rewrite.
+    "/((?!_next|__clerk|clerk/|.*\\.(?:css|js|map|png|jpg|jpeg|svg|ico|woff2?|txt|webmanifest)$).*)",
+  ],
+};

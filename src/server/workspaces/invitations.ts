@@ -1,0 +1,142 @@
+/**
+ * Invitations by e-mail: an Owner (or a Billing admin, for Researcher and Viewer seats) invites;
+ * the invitee opens the link, signs in or signs up with that address, accepts, and becomes a
+ * member of the workspace's Clerk organization with the role given (and of our mirror).
+ */
+import { createHash, randomBytes } from "node:crypto";
+import { and, desc, eq, gt, isNull } from "drizzle-orm";
+import { clerkClient } from "@clerk/nextjs/server";
+import { env } from "@/env";
+import type { Caller } from "@/server/auth";
+import { ROLE_LABELS, type Role } from "@/server/auth/permissions";
+import { CLERK_ROLE_FOR } from "@/server/auth/roles";
+import { getDb } from "@/server/db";
+import { invitations, users, workspaces } from "@/server/db/schema";
+import { ApiError } from "@/server/http/errors";
+import { sendMail } from "@/server/mail";
+import { invitationMail } from "@/server/mail/invitation";
+import { requireMemberChange, seatUse, workspaceOf } from "./members";
+import { membershipRole, setMembership } from "./sync";
+
+const SECRET_PREFIX = "inv_";
+const hashSecret = (s: string) => createHash("sha256").update(s, "utf8").digest("hex");
+
+export interface InvitationView {
+  id: string;
+  email: string;
+  role: Role;
+  roleLabel: string;
+  status: "pending" | "accepted" | "revoked" | "expired";
+  createdAt: string;
+  expiresAt: string;
+}
+
+function statusOf(row: typeof invitations.$inferSelect): InvitationView["status"] {
+  if (row.acceptedAt) return "accepted";
+  if (row.revokedAt) return "revoked";
+  if (row.expiresAt.getTime() <= Date.now()) return "expired";
+  return "pending";
+}
+
+function view(row: typeof invitations.$inferSelect): InvitationView {
+  return {
+    id: row.id,
+    email: row.email,
+    role: row.role,
+    roleLabel: ROLE_LABELS[row.role],
+    status: statusOf(row),
+    createdAt: row.createdAt.toISOString(),
+    expiresAt: row.expiresAt.toISOString(),
+  };
+}
+
+export async function listInvitations(caller: Caller): Promise<InvitationView[]> {
+  requireMemberChange(caller, "viewer");
+  const rows = await getDb().select().from(invitations).where(eq(invitations.workspaceId, caller.workspaceId)).orderBy(desc(invitations.createdAt)).limit(200);
+  return rows.map(view);
+}
+
+export async function invite(caller: Caller, input: { email: string; role: Role }): Promise<{ invitation: InvitationView; delivered: boolean }> {
+  requireMemberChange(caller, input.role);
+  const ws = await workspaceOf(caller);
+  const email = input.email.trim().toLowerCase();
+  if (ws.kind === "personal" || !ws.clerkOrgId)
+    throw new ApiError("conflict", "A personal workspace has a single member; invite people to a lab workspace instead.", { field: "workspace" });
+  const seats = await seatUse(ws.id);
+  if (ws.plan === "free" && seats.members + seats.pending >= seats.limit)
+    throw new ApiError("payment_required", `The Free plan allows ${seats.limit} member; move this workspace to the Lab plan to invite people.`, seats);
+  const db = getDb();
+  const [already] = await db.select({ id: users.id }).from(users).where(eq(users.email, email));
+  if (already && (await membershipRole(ws.id, already.id))) throw new ApiError("conflict", `${email} is already a member of ${ws.name}.`, { field: "email" });
+  // One open invitation per address: a new one replaces the old link.
+  await db
+    .update(invitations)
+    .set({ revokedAt: new Date() })
+    .where(and(eq(invitations.workspaceId, ws.id), eq(invitations.email, email), isNull(invitations.acceptedAt), isNull(invitations.revokedAt)));
+  const secret = SECRET_PREFIX + randomBytes(24).toString("base64url");
+  const expiresAt = new Date(Date.now() + env().INVITATION_TTL_DAYS * 24 * 3600 * 1000);
+  const [row] = await db
+    .insert(invitations)
+    .values({ workspaceId: ws.id, email, role: input.role, invitedBy: caller.userId, secretHash: hashSecret(secret), expiresAt })
+    .returning();
+  const [inviter] = await db.select({ name: users.name, email: users.email }).from(users).where(eq(users.id, caller.userId));
+  const link = `${env().APP_URL.replace(/\/$/, "")}/accept-invitation?token=${encodeURIComponent(secret)}`;
+  await sendMail(invitationMail({ to: email, inviterName: inviter?.name || inviter?.email || "A colleague", workspaceName: ws.name, roleLabel: ROLE_LABELS[input.role], link, expiresAt }));
+  return { invitation: view(row), delivered: true };
+}
+
+export async function revokeInvitation(caller: Caller, id: string): Promise<InvitationView> {
+  const db = getDb();
+  const [row] = await db.select().from(invitations).where(and(eq(invitations.id, id), eq(invitations.workspaceId, caller.workspaceId)));
+  if (!row) throw new ApiError("not_found", `No invitation with id ${id} in this workspace.`);
+  requireMemberChange(caller, row.role);
+  if (row.acceptedAt) throw new ApiError("conflict", "This invitation was already accepted; remove the member instead.");
+  const [updated] = await db.update(invitations).set({ revokedAt: row.revokedAt ?? new Date() }).where(eq(invitations.id, id)).returning();
+  return view(updated);
+}
+
+/** What the accept page shows before anyone signs in (no secrets, no member list). */
+export async function previewInvitation(secret: string) {
+  const row = await findBySecret(secret);
+  if (!row) return null;
+  const [ws] = await getDb().select({ name: workspaces.name }).from(workspaces).where(eq(workspaces.id, row.workspaceId));
+  return { email: row.email, role: row.role, roleLabel: ROLE_LABELS[row.role], workspaceName: ws?.name ?? "", status: statusOf(row) };
+}
+
+async function findBySecret(secret: string) {
+  if (!secret.startsWith(SECRET_PREFIX) || secret.length > 200) return undefined;
+  const [row] = await getDb().select().from(invitations).where(eq(invitations.secretHash, hashSecret(secret)));
+  return row;
+}
+
+/**
+ * The signed-in user accepts: the invitation must be pending and addressed to their e-mail.
+ * Returns the Clerk organization id, so the browser can make it the session's active one.
+ */
+export async function acceptInvitation(user: { userId: string }, secret: string) {
+  const db = getDb();
+  const row = await findBySecret(secret);
+  if (!row) throw new ApiError("not_found", "This invitation link is not valid; ask for a new invitation.", { field: "token" });
+  const status = statusOf(row);
+  if (status !== "pending") throw new ApiError("conflict", `This invitation is ${status}; ask the workspace's Owner for a new one.`, { status });
+  const [me] = await db.select().from(users).where(eq(users.id, user.userId));
+  if (!me || me.email.toLowerCase() !== row.email.toLowerCase())
+    throw new ApiError("forbidden", `This invitation is for ${row.email}; sign in with that address to accept it.`, { field: "email" });
+  const [ws] = await db.select().from(workspaces).where(eq(workspaces.id, row.workspaceId));
+  if (!ws?.clerkOrgId || !me.clerkUserId) throw new ApiError("conflict", "This workspace cannot take members right now.");
+  const clerk = await clerkClient();
+  try {
+    await clerk.organizations.createOrganizationMembership({ organizationId: ws.clerkOrgId, userId: me.clerkUserId, role: CLERK_ROLE_FOR[row.role] });
+  } catch (err) {
+    const code = (err as { errors?: { code?: string }[] }).errors?.[0]?.code;
+    if (code !== "already_a_member_in_organization") throw err;
+    await clerk.organizations.updateOrganizationMembership({ organizationId: ws.clerkOrgId, userId: me.clerkUserId, role: CLERK_ROLE_FOR[row.role] });
+  }
+  await setMembership(ws.id, me.id, row.role);
+  // Mark used only if still pending (two tabs accepting at once: the second one sees "accepted").
+  await db
+    .update(invitations)
+    .set({ acceptedAt: new Date(), acceptedBy: me.id })
+    .where(and(eq(invitations.id, row.id), isNull(invitations.acceptedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, new Date())));
+  return { workspace: { id: ws.id, name: ws.name, clerkOrgId: ws.clerkOrgId }, role: row.role };
+}
