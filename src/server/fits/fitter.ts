@@ -209,7 +209,8 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
         quiet = rel < tolerance ? quiet + 1 : 0;
       } else {
         damping = Math.min(damping * 11, 1e7);
-        quiet = damping >= 1e6 ? quiet + 1 : quiet;
+        // A rejected step that changes chi2 by less than the tolerance: nothing left to gain.
+        quiet = damping >= 1e6 || (nextChi2 - chi2) / Math.max(chi2, 1e-300) < tolerance ? quiet + 1 : quiet;
       }
       options.onIteration?.({
         start: startIndex + 1,

@@ -3,6 +3,7 @@
  * when the computation has temperatureK > 0) at every x of the dataset. The engine is passed in
  * (the contract of src/engine: applyParameter + compute), so this module stays pure and testable.
  */
+import { E2_OVER_H_SIEMENS } from "@/server/datasets/units";
 import { fitCurve, FitInputError, type FitOptions, type FitParameterSpec, type FitResult } from "./fitter";
 
 /** The part of the engine's API a fit uses. */
@@ -14,9 +15,14 @@ export interface EngineLike {
 export { FIT_PARAMETERS, FITTABLE, SWEEP_FOR_QUANTITY } from "./parameters";
 import { FITTABLE } from "./parameters";
 
-/** The total two-terminal conductance in e^2/h from an engine conductance result. */
+/**
+ * The two-terminal conductance in e^2/h from an engine conductance result, including the series
+ * contact resistance: the engine's `siemens` (and `ohms`) include contactOhms while
+ * `conductance.total` is the network alone, so `siemens` is used when present.
+ */
 export function conductanceOf(result: unknown): number {
-  const r = result as { conductance?: { total?: unknown }; ensemble?: { mean?: { total?: unknown } } };
+  const r = result as { siemens?: unknown; conductance?: { total?: unknown }; ensemble?: { mean?: { total?: unknown } } };
+  if (typeof r?.siemens === "number" && Number.isFinite(r.siemens) && !r.ensemble) return r.siemens / E2_OVER_H_SIEMENS;
   const total = r?.ensemble?.mean?.total ?? r?.conductance?.total;
   if (typeof total !== "number" || !Number.isFinite(total)) throw new Error("the engine result has no conductance.total");
   return total;

@@ -42,6 +42,7 @@ describe("engine-backed fit model", () => {
     expect(y[0]).toBeCloseTo(4 * (0.5 + 0.5 * 0.3), 12);
     expect(y[1]).toBeCloseTo(4 * (0.5 - 0.5 * 0.3), 12);
     expect(conductanceOf({ ensemble: { mean: { total: 2.5 } }, conductance: { total: 1 } })).toBe(2.5);
+    expect(conductanceOf({ conductance: { total: 3 }, siemens: 3.874045865e-5 })).toBeCloseTo(1, 9);
     expect(() => conductanceOf({})).toThrow(/conductance.total/);
   });
 
