@@ -1,6 +1,17 @@
+import { hostname } from "node:os";
+// Native linear-algebra kernels must not start threads of their own: compute-seconds are
+// measured per engine thread.
+process.env.OPENBLAS_NUM_THREADS ??= "1";
+process.env.OMP_NUM_THREADS ??= "1";
+
 import { Worker, type ConnectionOptions } from "bullmq";
 import { loadEnvOrExit } from "../src/env";
-import { QUEUES, newRedis } from "../src/server/queue";
+import { closeDb } from "../src/server/db";
+import { QUEUES, closeQueues, getQueue, newRedis } from "../src/server/queue";
+import { markRunFailed } from "../src/server/runs/execution";
+import { createEnginePool } from "./pool";
+import { recoverLostRuns } from "./recovery";
+import { makeRunProcessor } from "./runs";
 import { processSystemJob } from "./system";
 
 // The Triskel worker process: consumes the BullMQ queues. Several of these, on several
@@ -9,24 +20,69 @@ const env = loadEnvOrExit();
 const connection = newRedis(env.REDIS_URL);
 connection.on("error", (err) => console.error(`[worker] redis: ${err.message}`));
 
+const workerId = `${hostname()}:${process.pid}`;
+const poolSize = env.WORKER_POOL_SIZE ?? env.WORKER_CONCURRENCY;
+const pool = createEnginePool(poolSize);
+
+const runsWorker = new Worker(QUEUES.runs, makeRunProcessor(pool, workerId), {
+  connection: connection as ConnectionOptions,
+  prefix: env.QUEUE_PREFIX,
+  concurrency: env.WORKER_CONCURRENCY,
+  lockDuration: env.WORKER_LOCK_MS,
+  stalledInterval: env.WORKER_STALLED_INTERVAL_MS,
+  // A run whose worker died is retried (its ledger row is written once, by the attempt that finishes).
+  maxStalledCount: 5,
+});
+runsWorker.on("failed", (job, err) => {
+  if (!job) return;
+  const attempts = job.opts.attempts ?? 1;
+  if (job.attemptsMade >= attempts || /stalled more than/i.test(err.message)) {
+    markRunFailed(job.data?.runId ?? job.id!, err.message).catch((e) => console.error(`[worker] could not mark run ${job.id} failed: ${(e as Error).message}`));
+  }
+});
+
 const workers: Worker[] = [
   new Worker(QUEUES.system, processSystemJob, { connection: connection as ConnectionOptions, prefix: env.QUEUE_PREFIX, concurrency: 4 }),
+  runsWorker,
 ];
 for (const w of workers) {
   w.on("failed", (job, err) => console.error(`[worker] ${w.name} job ${job?.id} failed: ${err.message}`));
   w.on("error", (err) => console.error(`[worker] ${w.name}: ${err.message}`));
 }
-console.log(`[worker] pid ${process.pid} consuming ${workers.map((w) => w.name).join(", ")} (prefix ${env.QUEUE_PREFIX})`);
+console.log(
+  `[worker] pid ${process.pid} consuming ${workers.map((w) => w.name).join(", ")} (prefix ${env.QUEUE_PREFIX}, concurrency ${env.WORKER_CONCURRENCY}, engine threads ${poolSize})`,
+);
 
+// Recovery: on start and periodically, enqueue runs the database holds as queued but Redis lost.
+const recoveryOptions = { prefix: env.QUEUE_PREFIX, staleAfterMs: 3 * env.WORKER_LOCK_MS, lockMs: Math.max(1000, env.WORKER_RECOVERY_INTERVAL_MS - 500) };
+let recovering = false;
 let stopping = false;
+async function recover() {
+  if (recovering || stopping) return;
+  recovering = true;
+  try {
+    await recoverLostRuns(getQueue(QUEUES.runs), connection, recoveryOptions);
+  } catch (err) {
+    console.error(`[worker] recovery pass failed: ${(err as Error).message}`);
+  } finally {
+    recovering = false;
+  }
+}
+const recoveryTimer = setInterval(() => void recover(), env.WORKER_RECOVERY_INTERVAL_MS);
+void recover();
+
 async function stop(signal: string) {
   if (stopping) return;
   stopping = true;
+  clearInterval(recoveryTimer);
   console.log(`[worker] ${signal}: finishing current jobs and closing`);
   const force = setTimeout(() => process.exit(1), 15_000);
   force.unref();
   await Promise.allSettled(workers.map((w) => w.close()));
+  await pool.destroy().catch(() => {});
+  await closeQueues().catch(() => {});
   await connection.quit().catch(() => connection.disconnect());
+  await closeDb().catch(() => {});
   process.exit(0);
 }
 process.on("SIGTERM", () => void stop("SIGTERM"));

@@ -8,6 +8,10 @@ import { billingPeriod } from "@/server/billing/budget";
 import { getDb } from "@/server/db";
 import { refreshSweep } from "@/server/sweeps/progress";
 
+/** Run kinds the engine computes on the `runs` queue (other modules may keep companion rows of their own kinds). */
+export const ENGINE_RUN_KINDS = ["conductance", "spectrum", "dos", "ldos", "localization"] as const;
+const engineKinds = sql.raw(ENGINE_RUN_KINDS.map((k) => `'${k}'`).join(", "));
+
 export interface ClaimedRun {
   id: string;
   workspaceId: string;
@@ -30,14 +34,16 @@ export async function claimRun(runId: string, workerId: string): Promise<Claimed
     const [row] = await tx.execute<{ id: string; workspace_id: string; created_by: string | null; sweep_id: string | null; input: unknown; attempts: number }>(sql`
       update runs set status = 'running', started_at = coalesce(started_at, now()), attempts = attempts + 1,
         heartbeat_at = now(), worker_id = ${workerId}, progress = 0
-      where id = ${runId} and status in ('queued', 'running') and cancel_requested_at is null
+      where id = ${runId} and status in ('queued', 'running') and cancel_requested_at is null and kind in (${engineKinds})
         and not exists (select 1 from sweeps s where s.id = runs.sweep_id and s.cancel_requested_at is not null)
       returning id, workspace_id, created_by, sweep_id, input, attempts`);
     if (!row) {
       // Cancellation requested before it started (or its sweep was cancelled): cancelled, nothing spent.
       const cancelled = await tx.execute(sql`
         update runs set status = 'cancelled', finished_at = now(), cancel_requested_at = coalesce(cancel_requested_at, now())
-        where id = ${runId} and status in ('queued', 'running') returning id`);
+        where id = ${runId} and status in ('queued', 'running') and kind in (${engineKinds})
+          and (cancel_requested_at is not null or exists (select 1 from sweeps s where s.id = runs.sweep_id and s.cancel_requested_at is not null))
+        returning id`);
       if (cancelled.length > 0 && pre.sweep_id) await refreshSweep(tx, pre.sweep_id);
       return null;
     }
@@ -116,7 +122,7 @@ export async function markRunFailed(runId: string, message: string): Promise<voi
 export async function unfinishedRuns(staleAfterMs: number, limit = 10_000) {
   return getDb().execute<{ id: string; priority: number; status: "queued" | "running"; stale: boolean }>(sql`
     select id, priority, status, (heartbeat_at is null or heartbeat_at < now() - make_interval(secs => ${staleAfterMs / 1000})) as stale
-    from runs where status in ('queued', 'running') and created_at < now() - interval '3 seconds'
+    from runs where status in ('queued', 'running') and kind in (${engineKinds}) and created_at < now() - interval '3 seconds'
     order by created_at limit ${limit}`);
 }
 

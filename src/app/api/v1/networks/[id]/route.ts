@@ -1,0 +1,44 @@
+import { NextResponse } from "next/server";
+import { getCaller } from "@/server/auth";
+import { ApiError, readJson, route } from "@/server/http/errors";
+import { deleteNetwork, getNetwork, updateNetwork } from "@/server/networks/service";
+
+export const dynamic = "force-dynamic";
+type Ctx = { params: Promise<{ id: string }> };
+
+function versionParam(req: Request): number | undefined {
+  const raw = new URL(req.url).searchParams.get("version");
+  if (raw === null) return undefined;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < 1) throw new ApiError("bad_request", `version: must be a whole number from 1 (got "${raw}").`, { field: "version" });
+  return n;
+}
+
+/** GET /api/v1/networks/{id}[?version=N]: the current (or a given) version and the list of versions. */
+export const GET = route(async (req: Request, ctx: Ctx) => {
+  const caller = await getCaller(req);
+  const { id } = await ctx.params;
+  return NextResponse.json(await getNetwork(caller, id, versionParam(req)));
+});
+
+/** PUT /api/v1/networks/{id} `{ name?, network }`: replaces the description as a new version. */
+export const PUT = route(async (req: Request, ctx: Ctx) => {
+  const caller = await getCaller(req);
+  const { id } = await ctx.params;
+  return NextResponse.json(await updateNetwork(caller, id, await readJson(req, 2_000_000), "replace"));
+});
+
+/** PATCH /api/v1/networks/{id} `{ name?, network? }`: merges fields into the description (a new version). */
+export const PATCH = route(async (req: Request, ctx: Ctx) => {
+  const caller = await getCaller(req);
+  const { id } = await ctx.params;
+  return NextResponse.json(await updateNetwork(caller, id, await readJson(req, 2_000_000), "merge"));
+});
+
+/** DELETE /api/v1/networks/{id}: 204, or 409 while runs or sweeps use any of its versions. */
+export const DELETE = route(async (req: Request, ctx: Ctx) => {
+  const caller = await getCaller(req);
+  const { id } = await ctx.params;
+  await deleteNetwork(caller, id);
+  return new Response(null, { status: 204 });
+});

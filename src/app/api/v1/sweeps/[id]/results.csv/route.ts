@@ -1,0 +1,14 @@
+import { getCaller } from "@/server/auth";
+import { route } from "@/server/http/errors";
+import { sweepResultsCsv } from "@/server/sweeps/service";
+
+export const dynamic = "force-dynamic";
+type Ctx = { params: Promise<{ id: string }> };
+
+/** GET /api/v1/sweeps/{id}/results.csv: one row per point; `#` header lines state units and engine version. */
+export const GET = route(async (req: Request, ctx: Ctx) => {
+  const caller = await getCaller(req);
+  const { id } = await ctx.params;
+  const { filename, body } = await sweepResultsCsv(caller, id);
+  return new Response(body, { headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="${filename}"` } });
+});

@@ -1,0 +1,325 @@
+/**
+ * Sweeps: a grid of runs over one or two parameters, optionally each an ensemble of disorder
+ * samples. Submission checks every point (schema, engine limits, plan limits) and the budget for
+ * the sum of the points' estimates before anything is written; then the sweep row and one child
+ * run per point are written in one transaction and each point becomes its own job, so many
+ * workers share one sweep.
+ */
+import { and, asc, desc, eq, sql, type SQL } from "drizzle-orm";
+import { z } from "zod";
+import { computeCostUsd } from "@/config/plans";
+import type { Caller } from "@/server/auth";
+import { requirePermission } from "@/server/auth";
+import { assertWithinBudget } from "@/server/billing/budget";
+import { getDb } from "@/server/db";
+import { networkVersions, runs, sweeps } from "@/server/db/schema";
+import { ApiError, zodToApiError } from "@/server/http/errors";
+import { isUuid } from "@/server/networks/service";
+import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/runs/cursor";
+import { enqueueAfterCommit } from "@/server/runs/enqueue";
+import { ENGINE_VERSION, applyParameter, estimateSeconds, inputHash, kindOf, networkSize, parseInput, sweepableParameters, type ComputeInput } from "@/server/runs/engine";
+import { assertEnsembleWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/runs/limits";
+import { RUN_STATUSES, resolveSubmission } from "@/server/runs/service";
+import { axesSchema, ensembleSchema, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, unitOf, type Ensemble, type ResolvedAxis } from "./axes";
+import { deriveSweepStatus, refreshSweep, type SweepCounts } from "./progress";
+
+export const sweepBody = z
+  .object({
+    name: z.string().trim().min(1).max(200).optional(),
+    network: z.unknown().optional(),
+    networkId: z.string().optional(),
+    networkVersion: z.number().int().min(1).optional(),
+    computation: z.unknown(),
+    axes: axesSchema,
+    ensemble: ensembleSchema.optional(),
+  })
+  .strict();
+
+/** The input of one sweep point: the base input with the axes' values applied. */
+export function pointInput(base: ComputeInput, axes: ResolvedAxis[], pointIndex: number): ComputeInput {
+  const coordinates = pointCoordinates(axes, pointIndex);
+  let input = structuredClone(base) as ComputeInput;
+  for (const a of axes) input = applyParameter(input, a.parameter, coordinates[a.parameter]) as ComputeInput;
+  return input;
+}
+
+function checkParameters(axes: ResolvedAxis[]) {
+  const allowed = sweepableParameters();
+  axes.forEach((a, k) => {
+    const known = allowed.length === 0 || allowed.includes(a.parameter) || allowed.some((p) => p.endsWith(".*") && a.parameter.startsWith(p.slice(0, -1)));
+    if (!known) throw new ApiError("invalid_input", `axes.${k}.parameter: "${a.parameter}" cannot be swept; allowed: ${allowed.join(", ")}.`, { field: `axes.${k}.parameter`, allowed });
+  });
+  if (axes.length === 2 && axes[0].parameter === axes[1].parameter) throw new ApiError("invalid_input", "axes.1.parameter: the two axes must sweep different parameters.", { field: "axes.1.parameter" });
+}
+
+export async function createSweep(caller: Caller, body: unknown) {
+  requirePermission(caller, "work.create");
+  const parsed = sweepBody.safeParse(body);
+  if (!parsed.success) throw zodToApiError(parsed.error);
+  const b = parsed.data;
+  // The sweep's ensemble is the engine's: each point averages over `samples` disorder seeds.
+  const computation = b.ensemble && b.computation && typeof b.computation === "object" ? { ...(b.computation as object), ensemble: b.ensemble } : b.computation;
+  const { input: base, networkVersionId } = await resolveSubmission(caller, { ...b, computation });
+  const axes = b.axes.map(resolveAxis);
+  checkParameters(axes);
+  const pointCount = gridSize(axes);
+  assertSweepWithinPlan(caller.plan, pointCount, b.ensemble?.samples ?? 1);
+
+  // Every point is validated (schema, engine limits, plan) before anything is written.
+  const points: { input: ComputeInput; estimate: number; hash: string }[] = [];
+  let total = 0;
+  for (let i = 0; i < pointCount; i++) {
+    let input: ComputeInput;
+    const coordinates = pointCoordinates(axes, i);
+    const where = `sweep point ${i} (${Object.entries(coordinates).map(([k, v]) => `${k} = ${v}`).join(", ")})`;
+    try {
+      input = parseInput(pointInput(base, axes, i));
+    } catch (err) {
+      if (err instanceof ApiError) throw new ApiError(err.code, `${where}: ${err.message}`, err.details);
+      const mapped = err as Error;
+      if (mapped?.name === "EngineInputError" || mapped?.name === "EngineLimitError") {
+        throw new ApiError("invalid_input", `${where}: ${mapped.message}`, { pointIndex: i, coordinates });
+      }
+      throw err;
+    }
+    assertNetworkWithinPlan(caller.plan, networkSize(input.network), `${where}: network.size`);
+    assertEnsembleWithinPlan(caller.plan, input);
+    const estimate = estimateSeconds(input);
+    total += estimate;
+    points.push({ input, estimate, hash: inputHash(input) });
+  }
+  await assertWithinBudget(caller.workspaceId, total);
+
+  const priority = queuePriority(caller.plan);
+  const kind = kindOf(base);
+  const db = getDb();
+  const { sweep, ids } = await db.transaction(async (tx) => {
+    const [sweep] = await tx
+      .insert(sweeps)
+      .values({
+        workspaceId: caller.workspaceId,
+        createdBy: caller.userId,
+        networkVersionId,
+        name: b.name ?? defaultName(kind, axes),
+        input: base,
+        axes,
+        ensemble: b.ensemble ?? null,
+        pointCount,
+        status: "queued",
+        estimatedComputeSeconds: total,
+      })
+      .returning();
+    const ids: string[] = [];
+    for (let i = 0; i < points.length; i += 1000) {
+      const rows = await tx
+        .insert(runs)
+        .values(
+          points.slice(i, i + 1000).map((p, j) => ({
+            workspaceId: caller.workspaceId,
+            createdBy: caller.userId,
+            networkVersionId,
+            sweepId: sweep.id,
+            sweepPointIndex: i + j,
+            kind,
+            input: p.input,
+            status: "queued" as const,
+            estimatedComputeSeconds: p.estimate,
+            inputHash: p.hash,
+            priority,
+          })),
+        )
+        .returning({ id: runs.id });
+      ids.push(...rows.map((r) => r.id));
+    }
+    return { sweep, ids };
+  });
+  await enqueueAfterCommit(ids.map((id) => ({ id, priority })));
+  return {
+    id: sweep.id,
+    name: sweep.name,
+    status: sweep.status,
+    pointCount,
+    axes,
+    ensemble: sweep.ensemble,
+    estimate: { computeSeconds: round(total, 3), costUsd: round(computeCostUsd(caller.plan, total), 4) },
+    createdAt: sweep.createdAt.toISOString(),
+  };
+}
+
+function defaultName(kind: string, axes: ResolvedAxis[]): string {
+  return `${kind} versus ${axes.map((a) => a.parameter).join(" and ")}`;
+}
+const round = (x: number, digits: number) => Math.round(x * 10 ** digits) / 10 ** digits;
+
+async function loadSweep(caller: Caller, id: string) {
+  if (!isUuid(id)) throw new ApiError("not_found", `No sweep with id ${id} in this workspace.`, { sweepId: id });
+  const [row] = await getDb()
+    .select({ sweep: sweeps, networkId: networkVersions.networkId, networkVersion: networkVersions.version })
+    .from(sweeps)
+    .leftJoin(networkVersions, eq(networkVersions.id, sweeps.networkVersionId))
+    .where(and(eq(sweeps.id, id), eq(sweeps.workspaceId, caller.workspaceId)));
+  if (!row) throw new ApiError("not_found", `No sweep with id ${id} in this workspace.`, { sweepId: id });
+  return row;
+}
+
+async function loadPoints(sweepId: string) {
+  return getDb()
+    .select({
+      id: runs.id,
+      index: runs.sweepPointIndex,
+      status: runs.status,
+      progress: runs.progress,
+      computeSeconds: runs.computeSeconds,
+      result: runs.result,
+      error: runs.error,
+      engineVersion: runs.engineVersion,
+    })
+    .from(runs)
+    .where(eq(runs.sweepId, sweepId))
+    .orderBy(asc(runs.sweepPointIndex));
+}
+
+type SweepRow = typeof sweeps.$inferSelect;
+
+function sweepSummary(s: SweepRow, plan: Caller["plan"], networkId: string | null, networkVersion: number | null) {
+  return {
+    id: s.id,
+    name: s.name,
+    status: s.status,
+    progress: s.progress,
+    pointCount: s.pointCount,
+    axes: s.axes as ResolvedAxis[],
+    ensemble: (s.ensemble as Ensemble | null) ?? null,
+    networkId,
+    networkVersion,
+    estimate: { computeSeconds: round(s.estimatedComputeSeconds, 3), costUsd: round(computeCostUsd(plan, s.estimatedComputeSeconds), 4) },
+    computeSeconds: s.computeSeconds,
+    engineVersion: s.engineVersion,
+    createdBy: s.createdBy,
+    createdAt: s.createdAt.toISOString(),
+    startedAt: s.startedAt?.toISOString() ?? null,
+    finishedAt: s.finishedAt?.toISOString() ?? null,
+    cancelRequestedAt: s.cancelRequestedAt?.toISOString() ?? null,
+  };
+}
+
+/** The sweep with live progress and the result grid (readable while it runs). */
+export async function getSweep(caller: Caller, id: string) {
+  requirePermission(caller, "results.view");
+  const { sweep, networkId, networkVersion } = await loadSweep(caller, id);
+  const pts = await loadPoints(sweep.id);
+  const axes = sweep.axes as ResolvedAxis[];
+  const counts: SweepCounts = { queued: 0, running: 0, succeeded: 0, failed: 0, cancelled: 0 };
+  let partial = 0;
+  let seconds = 0;
+  const points = pts.map((p) => {
+    counts[p.status] += 1;
+    if (p.status === "running") partial += p.progress;
+    seconds += p.computeSeconds ?? 0;
+    return {
+      index: p.index,
+      coordinates: pointCoordinates(axes, p.index ?? 0),
+      runId: p.id,
+      status: p.status,
+      progress: p.progress,
+      computeSeconds: p.computeSeconds,
+      quantities: p.status === "succeeded" ? scalarQuantities(p.result) : null,
+      error: p.error ?? null,
+    };
+  });
+  const done = counts.succeeded + counts.failed + counts.cancelled;
+  const status = deriveSweepStatus(counts, sweep.cancelRequestedAt !== null);
+  const summary = sweepSummary(sweep, caller.plan, networkId, networkVersion);
+  return {
+    ...summary,
+    status,
+    progress: pts.length === 0 ? 1 : status === "succeeded" ? 1 : Math.min(1, (done + partial) / pts.length),
+    computeSeconds: seconds,
+    counts,
+    input: sweep.input,
+    grid: resultGrid(axes, points),
+    points,
+  };
+}
+
+/**
+ * The result grid: for each scalar quantity, its values in point order (row-major over the axes,
+ * the first axis slowest), null where a point has not succeeded (yet).
+ */
+function resultGrid(axes: ResolvedAxis[], points: { quantities: Record<string, number> | null }[]) {
+  const names = [...new Set(points.flatMap((p) => Object.keys(p.quantities ?? {})))];
+  const quantities: Record<string, (number | null)[]> = {};
+  for (const n of names) quantities[n] = points.map((p) => p.quantities?.[n] ?? null);
+  return { shape: gridShape(axes), parameters: axes.map((a) => a.parameter), quantities };
+}
+
+const listQuery = z.object({ status: z.enum(RUN_STATUSES).optional() });
+
+export async function listSweeps(caller: Caller, query: URLSearchParams) {
+  requirePermission(caller, "results.view");
+  const q = listQuery.safeParse({ status: query.get("status") ?? undefined });
+  if (!q.success) throw zodToApiError(q.error);
+  const limit = pageLimit(query.get("limit"));
+  const cursor = decodeCursor(query.get("cursor"));
+  const where: (SQL | undefined)[] = [eq(sweeps.workspaceId, caller.workspaceId), beforeCursor(sweeps.createdAt, sweeps.id, cursor)];
+  if (q.data.status) where.push(eq(sweeps.status, q.data.status));
+  const rows = await getDb()
+    .select({ sweep: sweeps, networkId: networkVersions.networkId, networkVersion: networkVersions.version, at: createdAtText(sweeps.createdAt) })
+    .from(sweeps)
+    .leftJoin(networkVersions, eq(networkVersions.id, sweeps.networkVersionId))
+    .where(and(...where))
+    .orderBy(desc(sweeps.createdAt), desc(sweeps.id))
+    .limit(limit + 1);
+  const page = rows.slice(0, limit);
+  const last = page[page.length - 1];
+  return {
+    sweeps: page.map((r) => sweepSummary(r.sweep, caller.plan, r.networkId, r.networkVersion)),
+    nextCursor: rows.length > limit && last ? encodeCursor(last.at, last.sweep.id) : null,
+  };
+}
+
+/** Cancels a sweep: queued points at once, running points within a second (their worker stops them). */
+export async function cancelSweep(caller: Caller, id: string) {
+  requirePermission(caller, "results.view");
+  const { sweep } = await loadSweep(caller, id);
+  if (sweep.createdBy !== caller.userId) requirePermission(caller, "work.manageOthers");
+  else requirePermission(caller, "work.create");
+  const live = await getSweep(caller, id);
+  if (live.status === "succeeded" || live.status === "failed" || live.status === "cancelled") {
+    throw new ApiError("conflict", `Sweep ${id} has already ${live.status === "cancelled" ? "been cancelled" : live.status}; nothing to cancel.`, { status: live.status });
+  }
+  await getDb().transaction(async (tx) => {
+    await tx.execute(sql`update sweeps set cancel_requested_at = coalesce(cancel_requested_at, now()) where id = ${sweep.id}`);
+    await tx.execute(sql`update runs set status = 'cancelled', cancel_requested_at = now(), finished_at = now() where sweep_id = ${sweep.id} and status = 'queued'`);
+    await tx.execute(sql`update runs set cancel_requested_at = coalesce(cancel_requested_at, now()) where sweep_id = ${sweep.id} and status = 'running'`);
+    await refreshSweep(tx, sweep.id);
+  });
+  return getSweep(caller, id);
+}
+
+function csvCell(v: unknown): string {
+  if (v === null || v === undefined) return "";
+  const s = typeof v === "number" ? String(v) : String(v);
+  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+/** The sweep's results as CSV: `#` header lines (sweep, engine version, units), then one row per point. */
+export async function sweepResultsCsv(caller: Caller, id: string): Promise<{ filename: string; body: string }> {
+  const s = await getSweep(caller, id);
+  const axisNames = s.axes.map((a) => a.parameter);
+  const quantityNames = [...new Set(s.points.flatMap((p) => Object.keys(p.quantities ?? {})))];
+  const columns = ["pointIndex", ...axisNames, "status", "runId", "computeSeconds", ...quantityNames];
+  const units = columns.map((c) => `${c} [${c === "pointIndex" || c === "status" || c === "runId" ? "-" : unitOf(c)}]`);
+  const lines = [
+    `# Triskel sweep ${s.id}${s.name ? ` "${s.name.replace(/[\r\n]/g, " ")}"` : ""}`,
+    `# engine version: ${s.engineVersion ?? ENGINE_VERSION}; status: ${s.status}; points: ${s.counts.succeeded} of ${s.pointCount} succeeded; generated ${new Date().toISOString()}`,
+    `# units: ${units.join(", ")}`,
+    `# model predictions of a phenomenological network model, not measurements`,
+    columns.join(","),
+  ];
+  for (const p of s.points) {
+    const row: unknown[] = [p.index, ...axisNames.map((a) => p.coordinates[a]), p.status, p.runId, p.computeSeconds, ...quantityNames.map((q) => p.quantities?.[q])];
+    lines.push(row.map(csvCell).join(","));
+  }
+  return { filename: `triskel-sweep-${s.id}.csv`, body: lines.join("\n") + "\n" };
+}

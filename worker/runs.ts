@@ -1,0 +1,58 @@
+import type { Job } from "bullmq";
+import type { Piscina } from "piscina";
+import type { RunJobData } from "../src/server/runs/enqueue";
+import { claimRun, finishRun, shouldStop, writeProgress } from "../src/server/runs/execution";
+import type { EngineOutcome, EngineTask } from "./engine-thread";
+
+const CANCEL_POLL_MS = 400;
+const PROGRESS_WRITE_MS = 1000;
+
+/**
+ * Processor of the `runs` queue: claim the run in the database, compute it in a pool thread,
+ * poll for cancellation (within a second) and write progress (about once a second), then write
+ * everything in one transaction.
+ */
+export function makeRunProcessor(pool: Piscina<EngineTask, EngineOutcome>, workerId: string) {
+  return async function processRun(job: Job<RunJobData>) {
+    const runId = job.data?.runId ?? job.id!;
+    const run = await claimRun(runId, workerId);
+    if (!run) return { runId, skipped: true };
+
+    const control = new SharedArrayBuffer(16);
+    const cancelFlag = new Int32Array(control, 0, 1);
+    const progress = new Float64Array(control, 8, 1);
+    let lastWritten = 0;
+    let lastWriteAt = Date.now();
+    let busy = false;
+    const timer = setInterval(() => {
+      if (busy) return;
+      busy = true;
+      void (async () => {
+        try {
+          if (await shouldStop(runId)) Atomics.store(cancelFlag, 0, 1);
+          const now = Date.now();
+          const p = progress[0];
+          if (now - lastWriteAt >= PROGRESS_WRITE_MS && p !== lastWritten) {
+            lastWriteAt = now;
+            lastWritten = p;
+            await writeProgress(runId, p);
+            await job.updateProgress(Math.round(p * 1000) / 1000).catch(() => {});
+          }
+        } catch (err) {
+          console.error(`[worker] run ${runId}: progress/cancel check failed: ${(err as Error).message}`);
+        } finally {
+          busy = false;
+        }
+      })();
+    }, CANCEL_POLL_MS);
+
+    let out: EngineOutcome;
+    try {
+      out = await pool.run({ input: run.input, control });
+    } finally {
+      clearInterval(timer);
+    }
+    const written = await finishRun(run, out);
+    return { runId, outcome: out.outcome, computeSeconds: out.cpuSeconds, cpuSource: out.cpuSource, written };
+  };
+}
