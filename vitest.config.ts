@@ -14,6 +14,19 @@ export default defineConfig({
           include: ["tests/unit/**/*.test.ts", "src/**/*.test.ts"],
           environment: "node",
           testTimeout: 60_000,
+          setupFiles: ["tests/unit/engine-native/select-backend.setup.ts"],
+        },
+      },
+      {
+        // The engine suite again on the TypeScript kernels (unit uses auto: native when it loads).
+        extends: true,
+        test: {
+          name: "engine-ts",
+          include: ["tests/unit/engine/**/*.test.ts"],
+          environment: "node",
+          testTimeout: 60_000,
+          env: { TRISKEL_KERNELS: "ts" },
+          setupFiles: ["tests/unit/engine-native/select-backend.setup.ts"],
         },
       },
       {

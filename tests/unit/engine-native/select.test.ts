@@ -84,6 +84,10 @@ describe("auto: native when it loads and passes the self-test, else TypeScript w
     expect(engineVersion()).toMatch(/\+openblas$/);
   });
 
+  it("the unit projects' setup selected the backend before this file ran (auto here: native)", () => {
+    expect(before.name).toBe(process.env.TRISKEL_KERNELS === "ts" ? "ts" : "openblas");
+  });
+
   it("the engine picked its backend at load: the default (auto) selection is the native one here", () => {
     const expected = process.env.TRISKEL_KERNELS === "ts" ? "ts" : "openblas";
     expect(kernelSelection.backend).toBe(expected);
