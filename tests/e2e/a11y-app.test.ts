@@ -14,7 +14,7 @@ let close: () => Promise<void>;
 let page: Page;
 beforeAll(async () => {
   ({ browser, close } = await launchBrowser());
-  ({ page } = await signedInPage(browser, "researcher"));
+  page = await signedInPage(browser, "researcher");
 });
 afterAll(async () => {
   await close?.();

@@ -18,7 +18,7 @@ afterAll(async () => {
 
 describe("drawing a large network", () => {
   it("first-draws 200 x 200 cells in under 1 s and stays zoomable", async () => {
-    const { page } = await signedInPage(browser, "researcher");
+    const page = await signedInPage(browser, "researcher");
     await page.goto(url("/networks/new"));
     await page.locator("svg[data-renderer=svg]").waitFor();
     await fill(page, "size.columns", 200);

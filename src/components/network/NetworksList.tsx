@@ -3,14 +3,14 @@
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
 import type { NetworkRecord } from "@/lib/api";
-import { personName } from "@/lib/api";
+import { useMemberNames } from "@/components/shell/useMemberNames";
 import { num, when } from "@/lib/units";
 import { PageHeader } from "@/components/ui/Page";
 import { canCreate, useMe } from "@/components/shell/useMe";
 import { DataTable } from "@/components/tables/DataTable";
 import { linkLengthNm } from "./draft";
 
-const columns: ColumnDef<NetworkRecord, any>[] = [
+const columnsFor = (who: (id: unknown) => string): ColumnDef<NetworkRecord, any>[] => [
   {
     id: "name",
     header: "Name",
@@ -41,12 +41,14 @@ const columns: ColumnDef<NetworkRecord, any>[] = [
     },
   },
   { id: "version", header: "Version", cell: ({ row }) => <span className="tk-num">v{row.original.version ?? 1}</span> },
-  { id: "createdBy", header: "By", cell: ({ row }) => personName(row.original.createdBy) },
+  { id: "createdBy", header: "By", cell: ({ row }) => who(row.original.createdBy) },
   { id: "createdAt", header: "Created", cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
 ];
 
 export function NetworksList() {
   const me = useMe();
+  const who = useMemberNames();
+  const columns = columnsFor(who);
   return (
     <>
       <PageHeader

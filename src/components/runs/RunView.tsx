@@ -3,13 +3,14 @@
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { apiFetch, ApiClientError, errorText, personName, type RunRecord } from "@/lib/api";
+import { apiFetch, ApiClientError, errorText, type RunRecord } from "@/lib/api";
 import { qk } from "@/lib/queryKeys";
 import { computeSeconds, when } from "@/lib/units";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import { canCreate, useMe } from "@/components/shell/useMe";
 import { KINDS } from "./computations";
 import { Progress } from "./Progress";
+import { useMemberNames } from "@/components/shell/useMemberNames";
 import { RunResult } from "./RunResult";
 
 const LIVE = new Set(["queued", "running"]);
@@ -17,6 +18,7 @@ const LIVE = new Set(["queued", "running"]);
 /** One run: live progress (polled every second), cancel, then the result plots. */
 export function RunView({ id }: { id: string }) {
   const me = useMe();
+  const who = useMemberNames();
   const client = useQueryClient();
   const q = useQuery({
     queryKey: qk.run(id),
@@ -60,7 +62,7 @@ export function RunView({ id }: { id: string }) {
           </>
         }
       >
-        Submitted {when(run.createdAt)} by {personName(run.createdBy)} · estimated {computeSeconds(run.estimate?.computeSeconds)}
+        Submitted {when(run.createdAt)} by {who(run.createdBy)} · estimated {computeSeconds(run.estimate?.computeSeconds)}
         {run.computeSeconds !== null && run.computeSeconds !== undefined ? ` · used ${computeSeconds(run.computeSeconds)}` : ""}
       </PageHeader>
       <div className="max-w-3xl">

@@ -3,11 +3,12 @@
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
 import { useSearchParams } from "next/navigation";
-import { personName, type RunRecord } from "@/lib/api";
+import { type RunRecord } from "@/lib/api";
 import { computeSeconds, when } from "@/lib/units";
 import { StatusBadge } from "@/components/ui/Status";
 import { PageHeader } from "@/components/ui/Page";
 import { DataTable } from "@/components/tables/DataTable";
+import { useMemberNames } from "@/components/shell/useMemberNames";
 import { useNetworkNames } from "@/components/network/useNetworkNames";
 import { KINDS } from "./computations";
 
@@ -17,6 +18,7 @@ export function RunsList() {
   const params = useSearchParams();
   const networkId = params.get("networkId") ?? undefined;
   const names = useNetworkNames();
+  const who = useMemberNames();
   const columns: ColumnDef<RunRecord, any>[] = [
     {
       id: "status",
@@ -42,7 +44,7 @@ export function RunsList() {
       header: "Network",
       cell: ({ row }) => (row.original.networkId ? <Link href={`/networks/${row.original.networkId}`} className="hover:underline">{names.get(row.original.networkId) ?? "network"}{(row.original as { networkVersion?: number }).networkVersion ? ` v${(row.original as { networkVersion?: number }).networkVersion}` : ""}</Link> : <span className="text-fg-faint">inline</span>),
     },
-    { id: "createdBy", header: "Who", cell: ({ row }) => personName(row.original.createdBy) },
+    { id: "createdBy", header: "Who", cell: ({ row }) => who(row.original.createdBy) },
     { id: "cost", header: "Compute", cell: ({ row }) => <span className="tk-num">{row.original.computeSeconds !== null && row.original.computeSeconds !== undefined ? computeSeconds(row.original.computeSeconds) : `est. ${computeSeconds(row.original.estimate?.computeSeconds)}`}</span> },
     { id: "createdAt", header: "Created", cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
   ];

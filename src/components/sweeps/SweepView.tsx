@@ -4,12 +4,13 @@ import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { useMemo, useState } from "react";
-import { apiFetch, ApiClientError, personName, type JobStatus } from "@/lib/api";
+import { apiFetch, ApiClientError, type JobStatus } from "@/lib/api";
 import { qk } from "@/lib/queryKeys";
 import { axisLabel, computeSeconds, PARAMETER_UNITS, when } from "@/lib/units";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import { canCreate, useMe } from "@/components/shell/useMe";
 import { Progress } from "@/components/runs/Progress";
+import { useMemberNames } from "@/components/shell/useMemberNames";
 import { HeatMap } from "@/components/charts/HeatMap";
 import { XYChart } from "@/components/charts/XYChart";
 import { quantityLabel, preferredQuantity, errorQuantityFor } from "./quantities";
@@ -40,6 +41,7 @@ const LIVE = new Set(["queued", "running"]);
 /** A sweep: progress, partial results drawn as they arrive (1 axis: curve; 2 axes: heat map). */
 export function SweepView({ id }: { id: string }) {
   const me = useMe();
+  const who = useMemberNames();
   const client = useQueryClient();
   const q = useQuery({
     queryKey: qk.sweep(id),
@@ -88,7 +90,7 @@ export function SweepView({ id }: { id: string }) {
           </>
         }
       >
-        Submitted {when(s.createdAt)} by {personName(s.createdBy ?? null)} · estimated {computeSeconds(s.estimate?.computeSeconds)} · used {computeSeconds(s.computeSeconds ?? 0)}
+        Submitted {when(s.createdAt)} by {who(s.createdBy)} · estimated {computeSeconds(s.estimate?.computeSeconds)} · used {computeSeconds(s.computeSeconds ?? 0)}
       </PageHeader>
       <div className="max-w-3xl space-y-2">
         <Progress status={s.status} progress={s.progress} startedAt={s.startedAt} createdAt={s.createdAt} finishedAt={s.finishedAt} label="Sweep progress" />

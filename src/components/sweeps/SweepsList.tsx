@@ -2,17 +2,19 @@
 
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
-import { personName, type SweepRecord } from "@/lib/api";
+import { type SweepRecord } from "@/lib/api";
 import { axisLabel, computeSeconds, when } from "@/lib/units";
 import { StatusBadge } from "@/components/ui/Status";
 import { PageHeader } from "@/components/ui/Page";
 import { DataTable } from "@/components/tables/DataTable";
+import { useMemberNames } from "@/components/shell/useMemberNames";
 import { useNetworkNames } from "@/components/network/useNetworkNames";
 
 const STATUS_OPTIONS = ["queued", "running", "succeeded", "failed", "cancelled"].map((s) => ({ value: s, label: s[0].toUpperCase() + s.slice(1) }));
 
 export function SweepsList() {
   const names = useNetworkNames();
+  const who = useMemberNames();
   const columns: ColumnDef<SweepRecord, any>[] = [
     {
       id: "status",
@@ -35,7 +37,7 @@ export function SweepsList() {
     },
     { id: "points", header: "Points", cell: ({ row }) => <span className="tk-num">{row.original.pointCount}{row.original.ensemble ? ` × ${row.original.ensemble.samples}` : ""}</span> },
     { id: "network", header: "Network", cell: ({ row }) => (row.original.networkId ? <Link className="hover:underline" href={`/networks/${row.original.networkId}`}>{names.get(row.original.networkId) ?? "network"}</Link> : <span className="text-fg-faint">inline</span>) },
-    { id: "createdBy", header: "Who", cell: ({ row }) => personName(row.original.createdBy) },
+    { id: "createdBy", header: "Who", cell: ({ row }) => who(row.original.createdBy) },
     { id: "cost", header: "Compute", cell: ({ row }) => <span className="tk-num">{computeSeconds(row.original.computeSeconds ?? row.original.estimate?.computeSeconds)}</span> },
     { id: "createdAt", header: "Created", cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
   ];
