@@ -18,11 +18,24 @@ export type EngineOutcome =
 
 type CpuSource = "thread" | "process" | "wall";
 
-/** CPU nanoseconds of the calling thread (Linux: /proc/thread-self/schedstat), else a fallback. */
+const sleeper = new Int32Array(new SharedArrayBuffer(4));
+
+/**
+ * CPU seconds of the calling thread (Linux: /proc/thread-self/schedstat, nanoseconds), else a
+ * fallback. The kernel brings a running thread's total up to date only when it is scheduled, so
+ * each reading first sleeps for a millisecond (sleeping costs no CPU): short runs then read their
+ * true figure instead of 0.
+ */
 function cpuClock(): { source: CpuSource; read: () => number } {
   try {
     readFileSync("/proc/thread-self/schedstat", "utf8");
-    return { source: "thread", read: () => Number(readFileSync("/proc/thread-self/schedstat", "utf8").split(" ")[0]) / 1e9 };
+    return {
+      source: "thread",
+      read: () => {
+        Atomics.wait(sleeper, 0, 0, 1);
+        return Number(readFileSync("/proc/thread-self/schedstat", "utf8").split(" ")[0]) / 1e9;
+      },
+    };
   } catch {
     // Not Linux: the process's CPU counts other threads too; wall time of a busy thread is closer.
     return { source: "wall", read: () => Number(process.hrtime.bigint()) / 1e9 };

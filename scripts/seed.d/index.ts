@@ -1,6 +1,7 @@
 // Seed extensions: each feature exports `seed(ctx)` from a file here and adds it to this list.
 import type { Db } from "../../src/server/db";
 import type { users, workspaces } from "../../src/server/db/schema";
+import { seed as seedSweep } from "./sweep";
 
 export interface SeedContext {
   db: Db;
@@ -9,7 +10,9 @@ export interface SeedContext {
   personal: Map<string, typeof workspaces.$inferSelect>;
 }
 
-const extensions: { name: string; seed: (ctx: SeedContext) => Promise<void> }[] = [];
+const extensions: { name: string; seed: (ctx: SeedContext) => Promise<void> }[] = [
+  { name: "sweep \"Conductance versus field\" (computed by the engine)", seed: seedSweep },
+];
 
 export async function runSeedExtensions(ctx: SeedContext): Promise<void> {
   for (const ext of extensions) {

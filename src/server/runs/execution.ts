@@ -93,7 +93,8 @@ export async function finishRun(run: ClaimedRun, out: RunOutcome): Promise<boole
       where id = ${run.id} and status = 'running'
       returning id`);
     if (updated.length === 0) return false;
-    if (out.outcome !== "failed" && out.cpuSeconds > 0) {
+    // Every succeeded run has its row (a sweep's points each have one); a cancelled run has one when it spent compute.
+    if (out.outcome === "succeeded" || (out.outcome === "cancelled" && out.cpuSeconds > 0)) {
       await tx.execute(sql`
         insert into usage_ledger (workspace_id, user_id, run_id, compute_seconds, plan, period)
         select w.id, ${run.createdBy}, ${run.id}, ${out.cpuSeconds}, case when w.plan_state = 'suspended' then 'free'::plan_name else w.plan end, ${billingPeriod()}

@@ -1,0 +1,97 @@
+// Crash recovery with real processes: SIGKILL the worker in the middle of a sweep and start a new
+// one (the sweep completes, every point once, one ledger row per point); flush Redis while runs
+// are queued (they still complete, from the database). Leaves a worker running for other files.
+import { afterAll, describe, expect, it } from "vitest";
+import { Queue } from "bullmq";
+import { Redis } from "ioredis";
+import { redisUrl } from "../support/services";
+import { get, killWorker, post, smallNetwork, sql, startWorker, waitFor, workerPid } from "./runs-support";
+
+const redis = new Redis(redisUrl(), { maxRetriesPerRequest: null });
+afterAll(async () => {
+  await sql.end();
+  await redis.quit();
+});
+
+const finished = (s: string) => ["succeeded", "failed", "cancelled"].includes(s);
+const POINTS = 50;
+
+async function workerAlive(pid: number) {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+describe("crash recovery", () => {
+  it("a sweep survives SIGKILL of its worker: every point computed once, one ledger row per point", async () => {
+    const created = await post("/api/v1/sweeps", {
+      network: { ...smallNetwork(10, 10), disorder: { linkPhaseWidthRad: 3.0, seed: 9 } },
+      computation: { kind: "conductance", energyMeV: 0.3, ensemble: { samples: 8 } },
+      axes: [{ parameter: "fieldTesla", from: 0, to: 0.2, points: POINTS }],
+    });
+    expect(created.status).toBe(202);
+    const id = created.body.id;
+    await waitFor("the sweep to get going", async () => {
+      const s = (await get(`/api/v1/sweeps/${id}`)).body;
+      if (finished(s.status)) throw new Error("the sweep finished before the worker could be killed; make its points heavier");
+      return s.counts.succeeded >= 4 && s.counts.running > 0;
+    }, 120_000, 100);
+
+    const killed = await killWorker();
+    const [{ done }] = await sql`select count(*)::int as done from runs where sweep_id = ${id} and status = 'succeeded'`;
+    expect(done).toBeLessThan(POINTS);
+    const replacement = startWorker();
+    expect(replacement).not.toBe(killed);
+
+    const s = await waitFor("the sweep to complete after the crash", async () => {
+      const b = (await get(`/api/v1/sweeps/${id}`)).body;
+      return finished(b.status) ? b : undefined;
+    }, 170_000, 250);
+    expect(s.status).toBe("succeeded");
+    expect(s.counts.succeeded).toBe(POINTS);
+
+    const points = await sql`select sweep_point_index as i, status, attempts, compute_seconds from runs where sweep_id = ${id} order by sweep_point_index`;
+    expect(points.map((p) => p.i)).toEqual([...Array(POINTS).keys()]);
+    expect(points.every((p) => p.status === "succeeded")).toBe(true);
+    // The points in flight at the kill were retried by the new worker.
+    expect(points.some((p) => p.attempts >= 2)).toBe(true);
+    const ledger = await sql`select l.run_id, count(*)::int as n from usage_ledger l join runs r on r.id = l.run_id where r.sweep_id = ${id} group by l.run_id`;
+    expect(ledger).toHaveLength(POINTS);
+    expect(ledger.every((r) => r.n === 1)).toBe(true);
+    expect(await workerAlive(workerPid())).toBe(true);
+  });
+
+  it("runs queued when Redis is flushed still complete (re-enqueued from the database)", async () => {
+    const prefix = process.env.QUEUE_PREFIX ?? "triskel";
+    const queue = new Queue("runs", { connection: redis, prefix });
+    await queue.pause();
+    const ids: string[] = [];
+    try {
+      for (const energyMeV of [0.2, 0.4, 0.6]) {
+        const r = await post("/api/v1/runs", { network: smallNetwork(6, 6), computation: { kind: "conductance", energyMeV } });
+        expect(r.status).toBe(202);
+        ids.push(r.body.id);
+      }
+      // Paused: the jobs wait in Redis and the runs stay queued in the database.
+      const waiting = await sql`select status from runs where id = any(${ids}::uuid[])`;
+      expect(waiting.every((r) => r.status === "queued")).toBe(true);
+      expect(await redis.exists(`${prefix}:runs:${ids[0]}`)).toBe(1);
+    } finally {
+      // Lose every job (and the pause with it).
+      await redis.flushdb();
+      await queue.close();
+    }
+    expect(await redis.exists(`${prefix}:runs:${ids[0]}`)).toBe(0);
+
+    const runs = await waitFor("the runs to complete after the flush", async () => {
+      const all = await Promise.all(ids.map(async (id) => (await get(`/api/v1/runs/${id}`)).body));
+      return all.every((r) => finished(r.status)) ? all : undefined;
+    }, 120_000, 300);
+    expect(runs.map((r) => r.status)).toEqual(["succeeded", "succeeded", "succeeded"]);
+    const ledger = await sql`select run_id from usage_ledger where run_id = any(${ids}::uuid[])`;
+    expect(ledger).toHaveLength(3);
+  });
+});
