@@ -222,7 +222,9 @@ export type LocalizationComputation = z.output<typeof localizationComputationSch
 export interface ComputeInput { network: Network; computation: Computation }
 
 function describeIssue(issue: z.core.$ZodIssue, root: string): EngineIssue {
-  const field = [root, ...issue.path.map(String)].filter((s) => s !== "").join(".");
+  const i0 = issue as { keys?: string[] };
+  const extra = issue.code === "unrecognized_keys" && i0.keys && i0.keys.length > 0 ? [i0.keys[0]] : [];
+  const field = [root, ...issue.path.map(String), ...extra].filter((s) => s !== "").join(".");
   const i = issue as z.core.$ZodIssue & { minimum?: number | bigint; maximum?: number | bigint; inclusive?: boolean; keys?: string[]; values?: unknown[]; expected?: string };
   let message = issue.message;
   switch (issue.code) {

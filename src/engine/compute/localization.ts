@@ -32,7 +32,7 @@ export interface LocalizationResult {
 }
 
 /** ln T after every clean cut of one sweep. */
-export function lnTransmissionProfile(g: NetworkGraph, theta: number, progress?: Progress): { xs: number[]; lnT: number[] } {
+export function lnTransmissionProfile(g: NetworkGraph, theta: number, progress?: Progress, atXs?: number[]): { xs: number[]; lnT: number[] } {
   const abs = new Absorber(g, channelPhases(g, theta));
   const leftIn: number[] = [];
   for (let c = 0; c < g.channelCount; c++) if (g.chKind[c] === CH_LEFT_IN) leftIn.push(c);
@@ -41,7 +41,10 @@ export function lnTransmissionProfile(g: NetworkGraph, theta: number, progress?:
   while (!abs.done) {
     abs.step(); progress?.tick();
     const t = abs.nextGroup - 1;
-    if ((cut < g.cutAfter.length && g.cutAfter[cut] === t) || abs.done) {
+    const atCut = cut < g.cutAfter.length && g.cutAfter[cut] === t;
+    const wanted = abs.done || (atCut && (!atXs || atXs.some((x) => Math.abs(x - g.cutX[cut]) < 1e-9)));
+    if (atCut && !wanted) { cut++; continue; }
+    if (wanted) {
       let T = 0;
       for (let r = 0; r < abs.nr; r++) {
         const ch = abs.rowCh[r];
@@ -79,7 +82,12 @@ export function computeLocalization(net: Network, c: LocalizationComputation, op
     const g = s === 0 ? g0 : buildSample(net, { mode: "leads", fluxPerPlaquette: phi, sample: s });
     const a = lnTransmissionProfile(g, theta, progress);
     xs = a.xs; profK.push(a.lnT);
-    if (valleys === 2) profKp.push(lnTransmissionProfile(reverseGraph(g), theta, progress).lnT);
+    if (valleys === 2) {
+      // the same strip lengths for K' (its absorption order has cuts at every half column)
+      const b = lnTransmissionProfile(reverseGraph(g), theta, progress, a.xs.slice(0, -1));
+      if (b.lnT.length !== a.lnT.length) throw new Error("internal: valley profiles do not align");
+      profKp.push(b.lnT);
+    }
   }
   const lengthsNm = xs.map((x) => x * l);
   const fitFromColumns = c.fitFromColumns ?? Math.max(net.size.rows, Math.floor(net.size.columns / 4));

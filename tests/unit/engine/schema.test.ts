@@ -24,7 +24,7 @@ describe("network schema", () => {
     expect(fieldOf(withNet({ node: { forward: 1.5 } }))).toBe("network.node.forward");
     expect(fieldOf(withNet({ size: { columns: 0, rows: 4 } }))).toBe("network.size.columns");
     expect(fieldOf(withNet({ size: { columns: 4, rows: 3 } }))).toBe("network.size.rows");
-    expect(fieldOf(withNet({ colour: "red" }))).toBe("network");
+    expect(fieldOf(withNet({ colour: "red" }))).toBe("network.colour");
     expect(fieldOf(withNet({ periodNm: undefined }))).toBe("network.periodNm");
     expect(fieldOf(withNet({ node: { matrix: [[[1, 0], [0, 0], [0, 0]], [[0, 0], [1, 0], [0, 0]], [[0, 0], [0, 0], [0.5, 0]]] } }))).toBe("network.node.matrix");
     expect(fieldOf(withNet({}, { kind: "conductance", temperatureK: -1 }))).toBe("computation.temperatureK");
