@@ -26,17 +26,22 @@ afterAll(async () => {
 const shot = (file: string) => page.screenshot({ path: join(SCREENSHOT_DIR, file), fullPage: true });
 
 describe("web app main flow", () => {
-  it("shows the signed-in shell with the navigation for the role", async () => {
+  it("shows the signed-in shell, switches to the lab workspace, and shows the navigation for the role", async () => {
     await page.goto(url("/networks"));
     await expect(page.locator("h1").innerText()).resolves.toBe("Networks");
+    // Signing in lands in the personal workspace; switch to the lab through the switcher.
+    const switcher = page.getByRole("combobox", { name: "Workspace" });
+    await switcher.waitFor();
+    await switcher.selectOption({ label: "Larkspur Devices Lab" });
+    await expect.poll(() => page.locator("aside").innerText(), { timeout: 30_000 }).toContain("Lab plan");
     const nav = page.getByRole("navigation", { name: "Main" });
     for (const label of ["Networks", "Runs", "Sweeps", "Datasets", "Fits", "Workspace"]) {
       await expect(nav.getByRole("link", { name: new RegExp(`^${label}`) }).count()).resolves.toBe(1);
     }
-    // A researcher does not manage billing: the link is hidden (the server refuses regardless).
     await expect.poll(() => page.locator("aside").innerText()).toMatch(/Mei Lindqvist\s*Researcher/i);
+    // A researcher does not manage billing: the link is hidden (the server refuses regardless).
     await expect(nav.getByRole("link", { name: /^Billing/ }).count()).resolves.toBe(0);
-    await expect(page.getByText("Larkspur Devices Lab").first().isVisible()).resolves.toBe(true);
+    await expect.poll(() => page.getByRole("link", { name: "Clean 0.11° triangular network" }).count()).toBe(1);
     await shot("app-networks.png");
   });
 
