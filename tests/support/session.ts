@@ -16,6 +16,10 @@
  *   // Without a browser: API calls with a session instead of an API token.
  *   const res = await sessionFetch("owner", "/api/v1/workspace/members");
  *
+ *   // A person who is not in the demo data: create them at the stand-in first.
+ *   const person = await createStandInUser({ email: "new@example.org", name: "New Person" });
+ *   await sessionFetch(person, "/api/v1/workspace", { organizationId: "org_demo_larkspur" });
+ *
  * Keys are the DemoPerson keys of src/server/demo/scenario.ts: owner, billingAdmin, researcher,
  * researcher2, viewer, student. Lab members get the demo lab (org_demo_larkspur) as active
  * workspace unless `workspace: "personal"`. Needs the services of `npm test` (scripts/test.sh).
@@ -42,13 +46,15 @@ export function demoPerson(key: DemoPersonKey): DemoPerson {
 export interface SessionOptions {
   /** "lab" (default for lab members): the demo lab is the active organization; "personal": none. */
   workspace?: "lab" | "personal";
+  /** Any Clerk organization id to make active (for people who are not demo people). */
+  organizationId?: string;
 }
 
 /** A fresh session at the stand-in: the three cookies a signed-in browser carries. */
 export async function sessionCookies(who: DemoPersonKey | { email: string; password: string }, opts: SessionOptions = {}) {
   const person = typeof who === "string" ? demoPerson(who) : who;
   const inLab = typeof who === "string" && DEMO_LAB.members.some((m) => m.key === who);
-  const organizationId = opts.workspace === "personal" || !inLab ? undefined : DEMO_LAB.clerkOrgId;
+  const organizationId = opts.organizationId ?? (opts.workspace === "personal" || !inLab ? undefined : DEMO_LAB.clerkOrgId);
   const res = await fetch(`${clerkFakeUrl()}/__fake/session`, {
     method: "POST",
     headers: { "content-type": "application/json" },
@@ -84,8 +90,8 @@ export async function signInThroughForm(page: Page, who: DemoPersonKey | { email
 }
 
 /** fetch against the app with a demo person's session cookies instead of an API token. */
-export async function sessionFetch(who: DemoPersonKey, path: string, init: RequestInit & { json?: unknown } & SessionOptions = {}): Promise<Response> {
-  const { cookies } = await sessionCookies(who, { workspace: init.workspace });
+export async function sessionFetch(who: DemoPersonKey | { email: string; password: string }, path: string, init: RequestInit & { json?: unknown } & SessionOptions = {}): Promise<Response> {
+  const { cookies } = await sessionCookies(who, { workspace: init.workspace, organizationId: init.organizationId });
   const headers = new Headers(init.headers);
   headers.set("cookie", Object.entries(cookies).map(([k, v]) => `${k}=${v}`).join("; "));
   let body = init.body;
@@ -94,4 +100,37 @@ export async function sessionFetch(who: DemoPersonKey, path: string, init: Reque
     body = JSON.stringify(init.json);
   }
   return fetch(new URL(path, appUrl()), { ...init, headers, body, redirect: "manual" });
+}
+
+/** Creates a person at the sign-in stand-in (as if they had signed up); returns their credentials. */
+export async function createStandInUser(input: { email: string; name?: string; password?: string }): Promise<{ email: string; password: string; clerkUserId: string }> {
+  const password = input.password ?? "stand-in-pass-2026";
+  const [first, ...rest] = (input.name ?? "Test Person").split(" ");
+  const res = await fetch(`${clerkFakeUrl()}/v1/users`, {
+    method: "POST",
+    headers: { "content-type": "application/json", authorization: `Bearer ${need("CLERK_SECRET_KEY")}` },
+    body: JSON.stringify({ email_address: [input.email], password, first_name: first, last_name: rest.join(" ") }),
+  });
+  if (!res.ok) throw new Error(`the sign-in stand-in refused to create ${input.email}: ${res.status} ${await res.text()}`);
+  const user = (await res.json()) as { id: string };
+  return { email: input.email, password, clerkUserId: user.id };
+}
+
+/** Messages the mail stand-in (maildev) received for one address, newest last. */
+export async function mailTo(address: string): Promise<{ subject: string; text: string; html: string }[]> {
+  const res = await fetch(`${need("MAIL_WEB_URL")}/email`);
+  if (!res.ok) throw new Error(`the mail stand-in answered ${res.status}`);
+  const all = (await res.json()) as { to: { address: string }[]; subject: string; text: string; html: string; date: string }[];
+  return all.filter((m) => m.to.some((t) => t.address.toLowerCase() === address.toLowerCase())).sort((a, b) => a.date.localeCompare(b.date));
+}
+
+/** Waits (up to timeoutMs) for a message to an address and returns the newest. */
+export async function waitForMail(address: string, timeoutMs = 15_000) {
+  const until = Date.now() + timeoutMs;
+  for (;;) {
+    const found = await mailTo(address);
+    if (found.length) return found[found.length - 1];
+    if (Date.now() > until) throw new Error(`no e-mail to ${address} arrived at the mail stand-in within ${timeoutMs} ms`);
+    await new Promise((r) => setTimeout(r, 250));
+  }
 }

@@ -90,8 +90,8 @@ async function ownerCount(workspaceId: string): Promise<number> {
 export async function changeRole(caller: Caller, userId: string, role: Role): Promise<MemberView> {
   requirePermission(caller, "members.manage");
   const ws = await workspaceOf(caller);
-  if (ws.kind === "personal") throw new ApiError("conflict", "A personal workspace has one member, its Owner; roles cannot change.");
   const m = await memberRow(ws.id, userId);
+  if (ws.kind === "personal") throw new ApiError("conflict", "A personal workspace has one member, its Owner; roles cannot change.");
   if (m.role === "owner" && role !== "owner" && (await ownerCount(ws.id)) <= 1)
     throw new ApiError("conflict", "This is the workspace's only Owner; make another member Owner first.");
   if (m.role !== role) {
