@@ -30,7 +30,7 @@ export function Empty({ children }: { children: ReactNode }) {
 
 export function Skeleton({ lines = 3 }: { lines?: number }) {
   return (
-    <div aria-busy="true" aria-label="Loading" className="space-y-2">
+    <div role="status" aria-busy="true" aria-label="Loading" className="space-y-2">
       {Array.from({ length: lines }, (_, i) => (
         <div key={i} className="h-4 animate-pulse rounded bg-surface-sunk" style={{ width: `${90 - i * 12}%` }} />
       ))}
