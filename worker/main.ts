@@ -43,6 +43,8 @@ runsWorker.on("failed", (job, err) => {
 
 const workers: Worker[] = [
   new Worker(QUEUES.system, processSystemJob, { connection: connection as ConnectionOptions, prefix: env.QUEUE_PREFIX, concurrency: 4 }),
+  // Fits: their own queue, processor and thread (worker/fits.ts).
+  (await import("./fits")).startFitsWorker(connection, env.QUEUE_PREFIX),
   runsWorker,
 ];
 for (const w of workers) {

@@ -1,6 +1,7 @@
 // Seed extensions: each feature exports `seed(ctx)` from a file here and adds it to this list.
 import type { Db } from "../../src/server/db";
 import type { users, workspaces } from "../../src/server/db/schema";
+import { seed as seedDataset } from "./dataset";
 import { seed as seedSweep } from "./sweep";
 
 export interface SeedContext {
@@ -11,6 +12,7 @@ export interface SeedContext {
 }
 
 const extensions: { name: string; seed: (ctx: SeedContext) => Promise<void> }[] = [
+  { name: "dataset LK-07 (synthetic)", seed: seedDataset },
   { name: "sweep \"Conductance versus field\" (computed by the engine)", seed: seedSweep },
 ];
 

@@ -1,0 +1,13 @@
+import { getCaller } from "@/server/auth";
+import { route } from "@/server/http/errors";
+import { fitCurveCsv } from "@/server/fits/service";
+
+export const dynamic = "force-dynamic";
+type Ctx = { params: Promise<{ id: string }> };
+
+/** GET /api/v1/fits/{id}/curve.csv: the model curve and residuals. */
+export const GET = route(async (req: Request, ctx: Ctx) => {
+  const caller = await getCaller(req);
+  const { filename, csv } = await fitCurveCsv(caller, (await ctx.params).id);
+  return new Response(csv, { headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="${filename}"` } });
+});

@@ -1,0 +1,284 @@
+/**
+ * Fits: submission (validation, estimate, budget, queue), reads, lists, cancellation, export.
+ * Every query is scoped to the caller's workspace.
+ */
+import { and, desc, eq, lt, sql } from "drizzle-orm";
+import { z } from "zod";
+import { computeCostUsd } from "@/config/plans";
+import type { Caller } from "@/server/auth";
+import { requirePermission } from "@/server/auth";
+import { assertWithinBudget } from "@/server/billing/budget";
+import { getDb } from "@/server/db";
+import { datasets, fits, networks, networkVersions } from "@/server/db/schema";
+import { ApiError, zodToApiError } from "@/server/http/errors";
+import { getQueue, type QueueName } from "@/server/queue";
+import { assertEnsembleWithinPlan, assertNetworkWithinPlan, queuePriority } from "@/server/runs/limits";
+import type { DatasetPoints } from "@/server/datasets/service";
+import { ENGINE_VERSION, engine, inputHash, parseComputeInput, secondsPerEvaluation } from "./engine";
+import { FitInputError, validateSpecs } from "./fitter";
+import { checkFitSpecs, expectedEvaluations, SWEEP_FOR_QUANTITY } from "./model";
+
+export const FITS_QUEUE = "fits";
+export const FIT_JOB_NAME = "fit";
+
+const spec = z.object({ parameter: z.string().min(1), initial: z.number(), min: z.number(), max: z.number() }).strict();
+export const fitBody = z
+  .object({
+    datasetId: z.string().min(1, "name the dataset to fit"),
+    network: z.union([z.string(), z.record(z.string(), z.unknown())]).optional(),
+    networkId: z.string().optional(),
+    networkVersion: z.number().int().min(1).optional(),
+    computation: z.record(z.string(), z.unknown()),
+    sweepParameter: z.string().min(1),
+    fit: z.array(spec).min(1, "list at least one parameter to fit").max(7, "at most 7 parameters"),
+    options: z
+      .object({
+        multiStart: z.number().int().min(1).max(16).optional(),
+        maxIterations: z.number().int().min(1).max(200).optional(),
+        seed: z.number().int().min(0).max(2 ** 31 - 1).optional(),
+      })
+      .strict()
+      .optional(),
+  })
+  .strict();
+export type FitBody = z.infer<typeof fitBody>;
+
+type FitRow = typeof fits.$inferSelect;
+
+const uuidRe = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+export async function createFit(caller: Caller, raw: unknown) {
+  requirePermission(caller, "work.create");
+  const parsed = fitBody.safeParse(raw);
+  if (!parsed.success) throw zodToApiError(parsed.error);
+  const body = parsed.data;
+  if (!uuidRe.test(body.datasetId)) throw new ApiError("not_found", `datasetId: no dataset ${body.datasetId} in this workspace.`, { field: "datasetId" });
+  const db = getDb();
+  const [dataset] = await db.select().from(datasets).where(and(eq(datasets.id, body.datasetId), eq(datasets.workspaceId, caller.workspaceId)));
+  if (!dataset) throw new ApiError("not_found", `datasetId: no dataset ${body.datasetId} in this workspace.`, { field: "datasetId" });
+  const allowed = SWEEP_FOR_QUANTITY[dataset.xQuantity] ?? [];
+  if (!allowed.includes(body.sweepParameter)) {
+    throw new ApiError(
+      "invalid_input",
+      allowed.length
+        ? `sweepParameter: this dataset's x is ${dataset.xQuantity} in ${dataset.xUnit}; map it to ${allowed.join(" or ")}.`
+        : `sweepParameter: this dataset's x is ${dataset.xQuantity === "gateVoltage" ? "gate voltage" : "carrier density"}; the engine has no parameter for it yet, so only field (fieldTesla) datasets can be fitted.`,
+      { field: "sweepParameter", allowed },
+    );
+  }
+  const computation = { ...body.computation };
+  if (computation.kind !== undefined && computation.kind !== "conductance") throw new ApiError("invalid_input", "computation.kind: fits compare conductance; use \"conductance\".", { field: "computation.kind" });
+  computation.kind = "conductance";
+  const network = await resolveNetwork(caller, typeof body.network === "string" ? undefined : body.network, typeof body.network === "string" ? body.network : body.networkId, body.networkVersion);
+  const input = parseEngineInput({ network, computation });
+  assertNetworkWithinPlan(caller.plan, (input as { network: { size: { columns: number; rows: number } } }).network.size);
+  assertEnsembleWithinPlan(caller.plan, input as { computation: unknown });
+  const points = dataset.points as DatasetPoints;
+  try {
+    validateSpecs(body.fit, points.x.length);
+    checkFitSpecs(body.fit);
+  } catch (err) {
+    if (err instanceof FitInputError) throw new ApiError("invalid_input", err.message, { field: err.field });
+    throw err;
+  }
+  // Every bound and start must be a valid engine input (e.g. node.forward >= 1/9 for equal turns).
+  let worst: unknown = input;
+  for (const [i, s] of body.fit.entries()) {
+    for (const which of ["initial", "min", "max"] as const) {
+      try {
+        const probe = engine.applyParameter(input as never, s.parameter, s[which]);
+        if (which === "max") worst = engine.applyParameter(worst as never, s.parameter, s.max);
+        void probe;
+      } catch (err) {
+        throw new ApiError("invalid_input", `fit.${i}.${which}: ${(err as Error).message}`, { field: `fit.${i}.${which}` });
+      }
+    }
+  }
+  try {
+    engine.applyParameter(input as never, body.sweepParameter, points.x[0]);
+  } catch (err) {
+    throw new ApiError("invalid_input", `sweepParameter: ${(err as Error).message}`, { field: "sweepParameter" });
+  }
+  const evaluations = expectedEvaluations(body.fit.length, body.options);
+  const estimatedComputeSeconds = evaluations * points.x.length * secondsPerEvaluation(worst);
+  await assertWithinBudget(caller.workspaceId, estimatedComputeSeconds);
+
+  const stored = { ...(input as object), sweepParameter: body.sweepParameter, fit: body.fit, options: body.options ?? {} };
+  const [row] = await db
+    .insert(fits)
+    .values({
+      workspaceId: caller.workspaceId,
+      createdBy: caller.userId,
+      datasetId: dataset.id,
+      input: stored,
+      estimatedComputeSeconds,
+      inputHash: inputHash(input as never),
+      dataHash: dataset.dataHash,
+      engineVersion: ENGINE_VERSION,
+    })
+    .returning();
+  await enqueueFit(row.id, caller.plan);
+  return {
+    id: row.id,
+    status: row.status,
+    estimate: { computeSeconds: round(estimatedComputeSeconds, 3), costUsd: round(computeCostUsd(caller.plan, estimatedComputeSeconds), 4), engineEvaluations: evaluations * points.x.length },
+  };
+}
+
+const round = (x: number, d: number) => Math.round(x * 10 ** d) / 10 ** d;
+
+/** The network: inline (engine schema) or a saved network of this workspace (latest or given version). */
+async function resolveNetwork(caller: Caller, inline: unknown, networkId: string | undefined, version: number | undefined): Promise<unknown> {
+  if ((inline === undefined) === (networkId === undefined)) {
+    throw new ApiError("invalid_input", "network: send the network description inline, or a saved network's id (as `network` or `networkId`), not both.", { field: "network" });
+  }
+  if (inline !== undefined) return inline;
+  if (!uuidRe.test(networkId!)) throw new ApiError("not_found", `network: no saved network ${networkId} in this workspace.`, { field: "network" });
+  const db = getDb();
+  const [net] = await db.select().from(networks).where(and(eq(networks.id, networkId!), eq(networks.workspaceId, caller.workspaceId)));
+  if (!net) throw new ApiError("not_found", `network: no saved network ${networkId} in this workspace.`, { field: "network" });
+  const v = version ?? net.currentVersion;
+  const [row] = await db.select().from(networkVersions).where(and(eq(networkVersions.networkId, net.id), eq(networkVersions.version, v)));
+  if (!row) throw new ApiError("not_found", `networkVersion: network ${net.name} has no version ${v}.`, { field: "networkVersion" });
+  return row.definition;
+}
+
+/** Engine validation; its errors name the field (mapped to 422 with the field under network./computation.). */
+function parseEngineInput(json: { network: unknown; computation: unknown }): unknown {
+  try {
+    return parseComputeInput(json as never);
+  } catch (err) {
+    const e = err as Error & { field?: string; issues?: unknown };
+    if (e.name === "EngineInputError" || e.name === "EngineLimitError") throw new ApiError("invalid_input", e.message, { field: e.field, issues: e.issues });
+    throw err;
+  }
+}
+
+export async function enqueueFit(fitId: string, plan: Caller["plan"]): Promise<void> {
+  try {
+    await getQueue(FITS_QUEUE as QueueName).add(FIT_JOB_NAME, { fitId }, {
+      jobId: fitId,
+      priority: queuePriority(plan),
+      attempts: 3,
+      backoff: { type: "exponential", delay: 2000 },
+      removeOnComplete: { age: 3600, count: 2000 },
+      removeOnFail: { age: 24 * 3600 },
+    });
+  } catch (err) {
+    // The fit stays `queued` in the database; the worker's start-up scan enqueues it again.
+    console.error(`[fits] could not enqueue fit ${fitId}: ${(err as Error).message}`);
+  }
+}
+
+export function fitView(f: FitRow, datasetName?: string) {
+  const input = f.input as Record<string, unknown>;
+  return {
+    id: f.id,
+    datasetId: f.datasetId,
+    datasetName: datasetName ?? null,
+    status: f.status,
+    progress: f.progress,
+    lastIteration: f.lastIteration,
+    result: f.result,
+    error: f.error,
+    settings: { network: input.network, computation: input.computation, sweepParameter: input.sweepParameter, fit: input.fit, options: input.options },
+    estimatedComputeSeconds: f.estimatedComputeSeconds,
+    computeSeconds: f.computeSeconds,
+    engineVersion: f.engineVersion,
+    inputHash: f.inputHash,
+    dataHash: f.dataHash,
+    createdAt: f.createdAt.toISOString(),
+    startedAt: f.startedAt?.toISOString() ?? null,
+    finishedAt: f.finishedAt?.toISOString() ?? null,
+  };
+}
+
+async function loadFit(caller: Caller, id: string) {
+  requirePermission(caller, "results.view");
+  if (!uuidRe.test(id)) throw new ApiError("not_found", `No fit ${id} in this workspace.`);
+  const [row] = await getDb()
+    .select({ fit: fits, datasetName: datasets.name, synthetic: datasets.synthetic })
+    .from(fits)
+    .innerJoin(datasets, eq(datasets.id, fits.datasetId))
+    .where(and(eq(fits.id, id), eq(fits.workspaceId, caller.workspaceId)));
+  if (!row) throw new ApiError("not_found", `No fit ${id} in this workspace.`);
+  return row;
+}
+
+export async function getFit(caller: Caller, id: string) {
+  const r = await loadFit(caller, id);
+  return { ...fitView(r.fit, r.datasetName), datasetSynthetic: r.synthetic };
+}
+
+export async function listFits(caller: Caller, query: URLSearchParams) {
+  requirePermission(caller, "results.view");
+  const limit = Math.max(1, Math.min(200, Number(query.get("limit") ?? 50) || 50));
+  const before = query.get("before");
+  const beforeDate = before ? new Date(before) : null;
+  if (before && Number.isNaN(beforeDate!.getTime())) throw new ApiError("invalid_input", "before: must be an ISO time (createdAt of the last item of the previous page).", { field: "before" });
+  const datasetId = query.get("datasetId");
+  if (datasetId && !uuidRe.test(datasetId)) throw new ApiError("invalid_input", "datasetId: must be a dataset id.", { field: "datasetId" });
+  const rows = await getDb()
+    .select({ fit: fits, datasetName: datasets.name })
+    .from(fits)
+    .innerJoin(datasets, eq(datasets.id, fits.datasetId))
+    .where(and(eq(fits.workspaceId, caller.workspaceId), beforeDate ? lt(fits.createdAt, beforeDate) : undefined, datasetId ? eq(fits.datasetId, datasetId) : undefined))
+    .orderBy(desc(fits.createdAt), desc(fits.id))
+    .limit(limit + 1);
+  const items = rows.slice(0, limit).map((r) => {
+    const v = fitView(r.fit, r.datasetName);
+    const result = v.result as { parameters?: unknown; chi2PerDof?: number } | null;
+    return { ...v, result: result ? { parameters: result.parameters, chi2PerDof: result.chi2PerDof } : null };
+  });
+  return { items, nextBefore: rows.length > limit ? items[items.length - 1].createdAt : null };
+}
+
+export async function cancelFit(caller: Caller, id: string) {
+  const r = await loadFit(caller, id);
+  requirePermission(caller, "work.create");
+  if (r.fit.createdBy !== caller.userId && caller.role !== "owner") {
+    throw new ApiError("forbidden", "Only the member who started this fit or an Owner can cancel it.");
+  }
+  if (r.fit.status === "queued") {
+    await getDb().execute(sql`update fits set status = 'cancelled', cancel_requested_at = now(), finished_at = now() where id = ${id} and status = 'queued'`);
+  } else if (r.fit.status === "running") {
+    await getDb().execute(sql`update fits set cancel_requested_at = coalesce(cancel_requested_at, now()) where id = ${id}`);
+  }
+  return getFit(caller, id);
+}
+
+/** The export: every setting, the engine version, the data hash, the result. */
+export async function exportFit(caller: Caller, id: string) {
+  const r = await loadFit(caller, id);
+  const [d] = await getDb().select().from(datasets).where(and(eq(datasets.id, r.fit.datasetId), eq(datasets.workspaceId, caller.workspaceId)));
+  const v = fitView(r.fit, r.datasetName);
+  return {
+    format: "triskel-fit-report/1",
+    exportedAt: new Date().toISOString(),
+    fit: { id: v.id, status: v.status, createdAt: v.createdAt, finishedAt: v.finishedAt, computeSeconds: v.computeSeconds },
+    engineVersion: v.engineVersion,
+    inputHash: v.inputHash,
+    dataset: { id: d.id, name: d.name, synthetic: d.synthetic, dataHash: d.dataHash, dataHashAlgorithm: "sha256 of the original file", mapping: d.mapping, rows: d.rows, xUnit: d.xUnit, yUnit: "e2/h", originalFilename: d.originalFilename },
+    settings: v.settings,
+    algorithm: {
+      method: "Levenberg-Marquardt (ml-levenberg-marquardt 5.1 steps; bounded, in coordinates scaled to the bounds)",
+      uncertainties: "standard errors sqrt(diag((J^T W J)^-1 * chi2/dof)); J the model Jacobian by central differences at the optimum",
+      model: "engine two-terminal conductance, total over valleys and spins, in e2/h, at every data x",
+    },
+    result: v.result,
+    caution: "Results are predictions of a phenomenological model, not measurements; node probabilities and mode velocity are model parameters, not material constants.",
+  };
+}
+
+/** CSV of the model curve (x in the dataset's stored unit, conductance in e2/h). */
+export async function fitCurveCsv(caller: Caller, id: string): Promise<{ filename: string; csv: string }> {
+  const r = await loadFit(caller, id);
+  const result = r.fit.result as { curve?: { x: number[]; y: number[] }; residuals?: number[] } | null;
+  if (!result?.curve) throw new ApiError("conflict", `Fit ${id} has no model curve yet (status ${r.fit.status}).`);
+  const lines = [
+    `# Triskel fit ${id}; engine ${r.fit.engineVersion}; dataset sha256 ${r.fit.dataHash}`,
+    "fieldTesla,modelConductanceE2h,residualE2h",
+    ...result.curve.x.map((x, i) => `${x},${result.curve!.y[i]},${result.residuals?.[i] ?? ""}`),
+  ];
+  return { filename: `fit-${id.slice(0, 8)}-model.csv`, csv: lines.join("\n") + "\n" };
+}

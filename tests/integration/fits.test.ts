@@ -1,0 +1,92 @@
+// Fits as jobs against the running app and worker: the seeded synthetic LK-07 curve (made by the
+// engine with node.forward = 0.55 and contactOhms = 600, src/server/demo/lk07.ts) is fitted back
+// within the reported standard errors; one usage-ledger row per fit; export and curve CSV;
+// bad input answered 422 with the field; roles.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import postgres from "postgres";
+import { api, databaseUrl } from "../support/services";
+import { LK07_COMPUTATION, LK07_FIT_START, LK07_NETWORK, LK07_TRUTH } from "../../src/server/demo/lk07";
+
+const sql = postgres(databaseUrl(), { max: 2, onnotice: () => {} });
+let datasetId = "";
+beforeAll(async () => {
+  const list = await (await api("/api/v1/datasets")).json();
+  datasetId = list.items.find((d: { name: string }) => d.name === "LK-07 magnetoconductance (synthetic)").id;
+});
+afterAll(async () => {
+  await sql.end();
+});
+
+async function waitFinished(id: string, timeoutMs = 170_000) {
+  const end = Date.now() + timeoutMs;
+  const progress: number[] = [];
+  for (;;) {
+    const f = await (await api(`/api/v1/fits/${id}`)).json();
+    progress.push(f.progress);
+    if (["succeeded", "failed", "cancelled"].includes(f.status)) return { f, progress };
+    if (Date.now() > end) throw new Error(`fit ${id} still ${f.status} after ${timeoutMs} ms`);
+    await new Promise((r) => setTimeout(r, 1000));
+  }
+}
+
+describe("fits", () => {
+  it("fits node.forward and contactOhms back within the reported uncertainties, metered once", async () => {
+    const res = await api("/api/v1/fits", { method: "POST", json: { datasetId, network: LK07_NETWORK, computation: LK07_COMPUTATION, sweepParameter: "fieldTesla", fit: LK07_FIT_START } });
+    expect(res.status).toBe(202);
+    const { id, estimate } = await res.json();
+    expect(estimate.computeSeconds).toBeGreaterThan(0);
+    const { f } = await waitFinished(id);
+    expect(f.status).toBe("succeeded");
+    const r = f.result;
+    expect(r.parameters.map((p: { parameter: string }) => p.parameter)).toEqual(["node.forward", "contactOhms"]);
+    for (const p of r.parameters) {
+      const truth = LK07_TRUTH[p.parameter as keyof typeof LK07_TRUTH];
+      expect(p.stderr).toBeGreaterThan(0);
+      expect(Math.abs(p.value - truth)).toBeLessThan(3 * p.stderr);
+    }
+    // Gaussian noise of the stated sigma: chi2/dof near 1 (within 4 sqrt(2/dof), dof = 118).
+    expect(Math.abs(r.chi2PerDof - 1)).toBeLessThan(4 * Math.sqrt(2 / 118));
+    expect(r.correlation).toHaveLength(2);
+    expect(r.curve.x).toHaveLength(120);
+    expect(r.residuals).toHaveLength(120);
+    expect(f.engineVersion).toMatch(/\d+\.\d+\.\d+/);
+    expect(f.computeSeconds).toBeGreaterThan(0);
+    expect(f.progress).toBe(1);
+
+    const ledger = await sql`select l.compute_seconds, r.kind from fits f join runs r on r.id = f.run_id join usage_ledger l on l.run_id = r.id where f.id = ${id}`;
+    expect(ledger).toHaveLength(1);
+    expect(ledger[0].kind).toBe("fit");
+    expect(ledger[0].compute_seconds).toBeCloseTo(f.computeSeconds, 3);
+
+    const report = await (await api(`/api/v1/fits/${id}/export`)).json();
+    expect(report.engineVersion).toBe(f.engineVersion);
+    expect(report.dataset.dataHash).toMatch(/^[0-9a-f]{64}$/);
+    expect(report.settings.fit).toEqual(LK07_FIT_START);
+    expect(report.settings.sweepParameter).toBe("fieldTesla");
+    const csv = await (await api(`/api/v1/fits/${id}/curve.csv`)).text();
+    expect(csv.trim().split("\n")).toHaveLength(122);
+
+    const list = await (await api(`/api/v1/fits?datasetId=${datasetId}`, { as: "viewer" })).json();
+    expect(list.items.map((x: { id: string }) => x.id)).toContain(id);
+  });
+
+  it("answers 422 naming the field for parameters, bounds, sweep parameter and network; 403 for a viewer; 404 across workspaces", async () => {
+    const base = { datasetId, network: LK07_NETWORK, computation: LK07_COMPUTATION, sweepParameter: "fieldTesla" };
+    const cases: [unknown, RegExp][] = [
+      [{ ...base, fit: [{ parameter: "energyMeV", initial: 1, min: 0, max: 2 }] }, /fit\.0\.parameter/],
+      [{ ...base, fit: [{ parameter: "node.forward", initial: 0.95, min: 0.2, max: 0.9 }] }, /fit\.0\.initial/],
+      [{ ...base, fit: [{ parameter: "node.forward", initial: 0.5, min: 0.01, max: 0.9 }] }, /fit\.0\.min/],
+      [{ ...base, sweepParameter: "energyMeV", fit: LK07_FIT_START }, /sweepParameter/],
+      [{ ...base, network: { ...LK07_NETWORK, size: { columns: 4, rows: 3 } }, fit: LK07_FIT_START }, /network\.size\.rows/],
+      [{ ...base, fit: [] }, /fit/],
+    ];
+    for (const [body, field] of cases) {
+      const res = await api("/api/v1/fits", { method: "POST", json: body });
+      expect(res.status).toBe(422);
+      expect((await res.json()).error.message).toMatch(field);
+    }
+    expect((await api("/api/v1/fits", { method: "POST", json: { ...base, fit: LK07_FIT_START }, as: "viewer" })).status).toBe(403);
+    expect((await api("/api/v1/fits", { method: "POST", json: { ...base, fit: LK07_FIT_START }, as: "student" })).status).toBe(404);
+    expect((await api("/api/v1/fits/00000000-0000-0000-0000-000000000000")).status).toBe(404);
+  });
+});
