@@ -1,4 +1,6 @@
 import Link from "next/link";
+import { Mark } from "@/components/shell/Mark";
+import { NetworkMotif } from "@/components/shell/NetworkMotif";
 
 const features = [
   {
@@ -23,38 +25,47 @@ export default function LandingPage() {
   return (
     <main className="mx-auto max-w-5xl px-gutter py-16">
       <header className="flex items-center justify-between">
-        <span className="text-title font-semibold tracking-tight">Triskel</span>
-        <nav className="flex gap-6 text-body text-ink-soft">
-          <Link href="/pricing" className="hover:text-wall-700">Pricing</Link>
-          <Link href="/manual" className="hover:text-wall-700">Model manual</Link>
-          <Link href="/sign-in" className="rounded-full bg-ink px-4 py-1.5 text-paper hover:bg-wall-700">Sign in</Link>
+        <span className="flex items-center gap-2 text-title font-semibold tracking-tight">
+          <Mark size={30} />
+          Triskel
+        </span>
+        <nav className="flex gap-6 text-body text-fg-soft">
+          <Link href="/pricing" className="hover:text-accent">Pricing</Link>
+          <Link href="/manual" className="hover:text-accent">Model manual</Link>
+          <Link href="/sign-in" className="rounded-full bg-fg px-4 py-1.5 text-canvas hover:bg-accent">Sign in</Link>
         </nav>
       </header>
 
-      <section className="mt-20 max-w-3xl">
-        <p className="font-mono text-caption uppercase tracking-widest text-wall-700">chiral scattering networks</p>
+      <section className="mt-20 grid items-center gap-10 lg:grid-cols-[minmax(0,1.3fr)_minmax(0,1fr)]">
+        <div>
+        <p className="font-mono text-caption uppercase tracking-widest text-accent">chiral scattering networks</p>
         <h1 className="mt-3 text-display font-semibold">Coherent transport through networks of one-way channels.</h1>
-        <p className="mt-6 text-lead text-ink-soft">
+        <p className="mt-6 text-lead text-fg-soft">
           Describe a triangular domain-wall network or a square network at the quantum Hall transition. Triskel&apos;s
           workers compute conductance, spectra and densities of states, and hand back plots, tables and files for your
           paper.
         </p>
         <div className="mt-8 flex gap-4">
-          <Link href="/sign-up" className="rounded-full bg-wall-700 px-5 py-2 text-paper hover:bg-wall-900">Start free</Link>
-          <a href="/api/v1/health" className="rounded-full border border-ink/20 px-5 py-2 hover:border-wall-500">Service status</a>
+          <Link href="/sign-up" className="rounded-full bg-accent px-5 py-2 text-accent-fg hover:bg-accent-strong">Start free</Link>
+          <a href="/api/v1/health" className="rounded-full border border-line-strong px-5 py-2 hover:border-accent">Service status</a>
         </div>
+        </div>
+        <figure className="rounded-card border border-line bg-surface p-4">
+          <NetworkMotif className="h-auto w-full" />
+          <figcaption className="mt-2 text-caption text-fg-faint">A 7 × 6 triangular network in one valley: every link carries its mode one way; leads on the left and right.</figcaption>
+        </figure>
       </section>
 
       <section className="mt-20 grid gap-6 sm:grid-cols-2">
         {features.map((f) => (
-          <article key={f.title} className="rounded-card bg-paper-raised p-6 shadow-sm ring-1 ring-ink/5">
+          <article key={f.title} className="rounded-card bg-surface p-6 shadow-sm ring-1 ring-line">
             <h2 className="text-lead font-semibold">{f.title}</h2>
-            <p className="mt-2 text-body text-ink-soft">{f.text}</p>
+            <p className="mt-2 text-body text-fg-soft">{f.text}</p>
           </article>
         ))}
       </section>
 
-      <p className="mt-16 border-t border-ink/10 pt-6 text-caption text-ink-faint">
+      <p className="mt-16 border-t border-line pt-6 text-caption text-fg-faint">
         Results are predictions of a phenomenological model, not measurements; node probabilities and mode velocity are
         model parameters to be fitted, not material constants. Costs are shown before any job is charged. Nothing here
         controls instruments.

@@ -94,24 +94,24 @@ export function NetworkEditor({ initial, canEdit }: Props) {
             <input id="name" className="tk-field" value={name} onChange={(e) => setName(e.target.value)} placeholder="e.g. 0.11° clean, 12 × 8" aria-invalid={nameError && name !== "" ? true : undefined} />
           </Field>
           <div className="grid grid-cols-2 gap-3">
-            <Field id="lattice" label="Lattice" error={err("lattice")}>
+            <Field id="lattice" label="Lattice" error={err("lattice")} hint={triangular ? "domain walls of a twisted bilayer" : "quantum Hall transition"}>
               <Select
                 id="lattice"
                 value={draft.lattice ?? "triangular"}
                 options={[
-                  { value: "triangular", label: "Triangular (domain walls)" },
-                  { value: "square", label: "Square (Hall transition)" },
+                  { value: "triangular", label: "Triangular" },
+                  { value: "square", label: "Square" },
                 ]}
                 onChange={(v) => setDraft((d) => ({ ...defaultNetwork(v as "triangular" | "square"), size: d.size }))}
               />
             </Field>
-            <Field id="transverse" label="Transverse boundary" error={err("transverse")}>
+            <Field id="transverse" label="Transverse boundary" error={err("transverse")} hint={draft.transverse === "open" ? "two edges" : "a cylinder, no edges"}>
               <Select
                 id="transverse"
                 value={draft.transverse ?? "periodic"}
                 options={[
-                  { value: "periodic", label: "Periodic (cylinder)" },
-                  { value: "open", label: "Open (edges)" },
+                  { value: "periodic", label: "Periodic" },
+                  { value: "open", label: "Open" },
                 ]}
                 onChange={(v) => set("transverse", v)}
               />

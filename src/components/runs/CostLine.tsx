@@ -1,24 +1,26 @@
 "use client";
 
-import { computeCostUsd, PLANS, type PlanId } from "@/config/plans";
-import { computeSeconds as fmtSeconds } from "@/lib/units";
+import type { PlanId } from "@/config/plans";
+import { CostEstimate } from "@/components/billing";
 
-/** Estimated compute-seconds and what they cost on the workspace's plan, shown before submit. */
+/**
+ * The estimate before submit: the billing work's <CostEstimate> (compute-seconds and cost on the
+ * workspace's plan) plus the number of points for a sweep.
+ */
 export function CostLine({ seconds, plan, points = 1 }: { seconds: number | null; plan?: PlanId; points?: number }) {
-  const p = plan ?? "free";
-  if (seconds === null) return <p className="text-caption text-fg-faint" data-testid="estimate">Estimate appears once the inputs are valid.</p>;
-  const usd = computeCostUsd(p, seconds);
+  if (seconds === null) {
+    return (
+      <p className="text-caption text-fg-faint" data-testid="estimate">
+        The estimate appears once every field is valid.
+      </p>
+    );
+  }
   return (
-    <p className="text-body" data-testid="estimate">
-      Estimated <strong className="tk-num">{fmtSeconds(seconds)}</strong>
-      {points > 1 ? <span className="text-fg-faint"> for {points.toLocaleString("en")} points</span> : null}
-      {" · "}
-      {p === "free" ? (
-        <span className="text-fg-soft">counts against the Free plan&apos;s {PLANS.free.includedComputeSeconds / 60} included compute-minutes this month</span>
-      ) : (
-        <span className="tk-num text-fg-soft">≈ {usd < 0.01 ? "< 0.01" : usd.toFixed(2)} USD at {PLANS.lab.computePriceUsdPerHour.toFixed(2)} USD per compute-hour</span>
-      )}
-      . You are charged the compute-seconds actually used.
-    </p>
+    <div data-testid="estimate" className="space-y-0.5">
+      <CostEstimate computeSeconds={seconds} plan={plan ?? "free"} />
+      <p className="text-micro text-fg-faint">
+        {points > 1 ? `For all ${points.toLocaleString("en")} points. ` : ""}You are charged for the compute-seconds actually used.
+      </p>
+    </div>
   );
 }

@@ -37,6 +37,7 @@ interface SweepDetail {
 }
 
 const LIVE = new Set(["queued", "running"]);
+const KIND_LABEL: Record<string, string> = { conductance: "Conductance", dos: "Density of states", ldos: "Local density of states", localization: "Localization length", spectrum: "Band structure" };
 
 /** A sweep: progress, partial results drawn as they arrive (1 axis: curve; 2 axes: heat map). */
 export function SweepView({ id }: { id: string }) {
@@ -54,7 +55,12 @@ export function SweepView({ id }: { id: string }) {
   });
   const [chosen, setChosen] = useState<string | null>(null);
   const s = q.data;
-  const names = useMemo(() => Object.keys(s?.grid.quantities ?? {}).filter((n) => !/stderr|\.std$|std\.|checks\./i.test(n)), [s]);
+  // Results worth plotting: not the echoed inputs, constants of the network or the checks.
+  const names = useMemo(() => {
+    const axes = new Set((s?.axes ?? []).map((a) => a.parameter));
+    const skip = /stderr|\.std$|std\.|^checks\.|^channels\.|Period(MeV|Tesla)$|^(energyMeV|fieldTesla|temperatureK|contactOhms|fluxPerPlaquette)$|samples$/;
+    return Object.keys(s?.grid.quantities ?? {}).filter((n) => !axes.has(n) && !skip.test(n));
+  }, [s]);
   const quantity = chosen && names.includes(chosen) ? chosen : preferredQuantity(names);
   if (q.error instanceof ApiClientError && q.error.status === 404) notFound();
   if (q.error) return <ErrorNote error={q.error} title="Could not load this sweep" />;
@@ -71,7 +77,7 @@ export function SweepView({ id }: { id: string }) {
     <>
       <PageHeader
         kicker={`sweep · ${s.axes.length} axis${s.axes.length > 1 ? "es" : ""} · ${s.pointCount} points${s.ensemble ? ` × ${s.ensemble.samples} seeds` : ""}`}
-        title={s.name || `${s.input?.computation?.kind ?? "conductance"} over ${s.axes.map((a) => PARAMETER_UNITS[a.parameter]?.label ?? a.parameter).join(" and ")}`}
+        title={`${KIND_LABEL[s.input?.computation?.kind ?? "conductance"] ?? "Sweep"} over ${s.axes.map((a) => (PARAMETER_UNITS[a.parameter]?.label ?? a.parameter).toLowerCase()).join(" and ")}`}
         actions={
           <>
             {s.networkId ? (

@@ -18,32 +18,32 @@ export default function PricingPage() {
   ];
   return (
     <main className="mx-auto max-w-4xl px-gutter py-16">
-      <Link href="/" className="text-body text-wall-700">← Triskel</Link>
+      <Link href="/" className="text-body text-accent">← Triskel</Link>
       <h1 className="mt-6 text-display font-semibold">Pricing</h1>
-      <p className="mt-4 max-w-2xl text-lead text-ink-soft">
+      <p className="mt-4 max-w-2xl text-lead text-fg-soft">
         Pay for the seats of your lab and for the compute-seconds your runs actually use. Every job shows its estimated
         compute-seconds and cost before it starts; a job over your plan&apos;s limits, free quota or spend cap is refused
         with a message, never charged.
       </p>
       <table className="mt-10 w-full border-collapse text-left text-body">
         <thead>
-          <tr className="border-b border-ink/15">
-            <th className="py-3 pr-4 font-medium text-ink-faint" scope="col"><span className="sr-only">Feature</span></th>
+          <tr className="border-b border-line">
+            <th className="py-3 pr-4 font-medium text-fg-faint" scope="col"><span className="sr-only">Feature</span></th>
             <th className="py-3 pr-4 text-lead font-semibold" scope="col">{free.label}</th>
             <th className="py-3 text-lead font-semibold" scope="col">{lab.label}</th>
           </tr>
         </thead>
         <tbody>
           {rows.map(([label, a, b]) => (
-            <tr key={label} className="border-b border-ink/10">
-              <th scope="row" className="py-3 pr-4 font-medium text-ink-soft">{label}</th>
+            <tr key={label} className="border-b border-line">
+              <th scope="row" className="py-3 pr-4 font-medium text-fg-soft">{label}</th>
               <td className="py-3 pr-4">{a}</td>
               <td className="py-3">{b}</td>
             </tr>
           ))}
         </tbody>
       </table>
-      <p className="mt-6 text-caption text-ink-faint">Demo figures. A compute-second is one CPU second a Triskel worker spends on your run.</p>
+      <p className="mt-6 text-caption text-fg-faint">Demo figures. A compute-second is one CPU second a Triskel worker spends on your run.</p>
     </main>
   );
 }
