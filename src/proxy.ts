@@ -10,6 +10,7 @@ const isPublicPage = createRouteMatcher([
   "/manual(.*)",
   "/sign-in(.*)",
   "/sign-up(.*)",
+  "/sign-out(.*)",
   "/accept-invitation(.*)",
 ]);
 const isApi = createRouteMatcher(["/api/(.*)"]);

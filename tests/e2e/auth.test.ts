@@ -1,0 +1,162 @@
+// Accounts in the browser (Debian Chromium): sign-up with a personal Free workspace, sign-out and
+// sign-in through our own pages on the real Clerk SDK and the stand-in; an invitation by e-mail
+// accepted by a new person who then sees the lab's networks; a Viewer cannot start a run.
+import { join } from "node:path";
+import type { Browser, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { launchBrowser, SCREENSHOT_DIR } from "../support/browser";
+import { api, appUrl } from "../support/services";
+import { signInPage, signInThroughForm, waitForMail } from "../support/session";
+
+let browser: Browser;
+let close: () => Promise<void>;
+beforeAll(async () => {
+  ({ browser, close } = await launchBrowser());
+});
+afterAll(async () => {
+  await close?.();
+});
+
+const url = (path: string) => new URL(path, appUrl()).toString();
+const unique = (tag: string) => `${tag}-${Date.now()}-${Math.floor(Math.random() * 1e6)}@e2e.example`;
+
+async function freshPage(): Promise<Page> {
+  const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+  const page = await context.newPage();
+  page.setDefaultTimeout(30_000);
+  return page;
+}
+
+/** GET /api/v1/workspace from inside the page (its cookies, its session). */
+async function whoAmI(page: Page): Promise<{ status: number; body: any }> {
+  return page.evaluate(async () => {
+    const res = await fetch("/api/v1/workspace");
+    return { status: res.status, body: await res.json() };
+  });
+}
+
+async function signUp(page: Page, name: string, email: string, password: string) {
+  await page.locator('[data-testid="sign-up-form"][data-ready="yes"]').waitFor({ timeout: 60_000 });
+  await page.fill("#name", name);
+  await page.fill("#email", email);
+  await page.fill("#password", password);
+  await page.click('button[type="submit"]');
+}
+
+describe("sign-up, sign-out, sign-in", () => {
+  it("a new person signs up, gets a personal Free workspace, signs out and signs in again", async () => {
+    const page = await freshPage();
+    const email = unique("signup");
+    const password = "correct-horse-2026";
+    await page.goto(url("/sign-up"));
+    await expect(page.locator("h1").innerText()).resolves.toBe("Create your account");
+    // Our own form tells what is wrong before anything is sent.
+    await page.locator('[data-testid="sign-up-form"][data-ready="yes"]').waitFor({ timeout: 60_000 });
+    await page.fill("#email", "not-an-address");
+    await page.click('button[type="submit"]');
+    await expect(page.locator("#email-error").innerText()).resolves.toMatch(/valid e-mail/);
+    await page.screenshot({ path: join(SCREENSHOT_DIR, "auth-sign-up.png"), fullPage: true });
+
+    await signUp(page, "Ada Quill", email, password);
+    await page.waitForURL((u) => u.pathname === "/networks", { timeout: 60_000 });
+    const first = await whoAmI(page);
+    expect(first.status).toBe(200);
+    expect(first.body.workspace).toMatchObject({ kind: "personal", plan: "free" });
+    expect(first.body.member).toMatchObject({ email, name: "Ada Quill", role: "owner" });
+
+    await page.goto(url("/sign-out"));
+    await page.waitForURL((u) => u.pathname === "/sign-in", { timeout: 60_000 });
+    await page.locator('[data-testid="sign-in-form"][data-ready="yes"]').waitFor({ timeout: 60_000 });
+    expect((await whoAmI(page)).status).toBe(401);
+    await page.goto(url("/networks"));
+    await page.waitForURL((u) => u.pathname === "/sign-in");
+
+    // A wrong password is refused on the field; the right one signs in to the same workspace.
+    await page.locator('[data-testid="sign-in-form"][data-ready="yes"]').waitFor({ timeout: 60_000 });
+    await page.fill("#email", email);
+    await page.fill("#password", "wrong-password");
+    await page.click('button[type="submit"]');
+    await expect(page.locator("#password-error").innerText()).resolves.toMatch(/incorrect/i);
+    await page.screenshot({ path: join(SCREENSHOT_DIR, "auth-sign-in-error.png"), fullPage: true });
+    await signInThroughForm(page, { email, password });
+    const again = await whoAmI(page);
+    expect(again.status).toBe(200);
+    expect(again.body.workspace.id).toBe(first.body.workspace.id);
+    await page.context().close();
+  });
+});
+
+describe("invitations", () => {
+  it("an Owner invites a Researcher; the e-mail arrives; the invitee signs up, accepts and sees the lab's networks", async () => {
+    // The Owner, signed in with the lab active, invites from the browser session.
+    const owner = await freshPage();
+    await signInPage(owner, "owner");
+    await owner.goto(url("/networks"));
+    const email = unique("invitee");
+    const invited = await owner.evaluate(async (address) => {
+      const res = await fetch("/api/v1/workspace/members", { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ email: address, role: "researcher" }) });
+      return { status: res.status, body: await res.json() };
+    }, email);
+    expect(invited.status).toBe(201);
+    await owner.context().close();
+
+    const mail = await waitForMail(email);
+    expect(mail.subject).toContain("Larkspur Devices Lab");
+    const link = /https?:\/\/\S+\/accept-invitation\?token=[A-Za-z0-9_%-]+/.exec(mail.text)?.[0];
+    expect(link).toBeTruthy();
+
+    const invitee = await freshPage();
+    await invitee.goto(link!);
+    await expect(invitee.getByText("Larkspur Devices Lab").first().isVisible()).resolves.toBe(true);
+    await expect(invitee.getByText("Researcher").first().isVisible()).resolves.toBe(true);
+    await invitee.screenshot({ path: join(SCREENSHOT_DIR, "auth-accept-invitation.png"), fullPage: true });
+    await invitee.click("text=Create an account to join");
+    await invitee.waitForURL((u) => u.pathname === "/sign-up");
+    await expect(invitee.inputValue("#email")).resolves.toBe(email);
+    await signUp(invitee, "Noor Haddad", email, "invited-2026-pass");
+    await invitee.waitForURL((u) => u.pathname === "/accept-invitation", { timeout: 60_000 });
+    await invitee.locator('[data-testid="accept-invitation"][data-ready="yes"]').waitFor({ timeout: 60_000 });
+    await invitee.click("text=Join Larkspur Devices Lab");
+    await invitee.waitForURL((u) => u.pathname === "/networks", { timeout: 60_000 });
+
+    const me = await whoAmI(invitee);
+    expect(me.body.workspace.clerkOrgId).toBe("org_demo_larkspur");
+    expect(me.body.member).toMatchObject({ email, role: "researcher" });
+    await invitee.getByText("Clean 0.11° triangular network").first().waitFor({ timeout: 30_000 });
+    await invitee.screenshot({ path: join(SCREENSHOT_DIR, "auth-invitee-networks.png"), fullPage: true });
+    await invitee.context().close();
+  });
+});
+
+describe("roles in the browser", () => {
+  it("a Viewer sees a network but no run button, and the API refuses the run (403); a Researcher has the button", async () => {
+    const nets = await (await api("/api/v1/networks", { as: "viewer" })).json();
+    const list = (nets.networks ?? nets.items ?? nets.data ?? nets) as { id: string; name: string }[];
+    const net = list.find((n) => n.name === "Clean 0.11° triangular network")!;
+    expect(net).toBeTruthy();
+
+    const viewer = await freshPage();
+    await signInPage(viewer, "viewer");
+    await viewer.goto(url(`/networks/${net.id}`));
+    await viewer.getByText("Your role can read results but not start runs").waitFor({ timeout: 30_000 });
+    await expect(viewer.locator('#run button[type="submit"]').count()).resolves.toBe(0);
+    const refused = await viewer.evaluate(async (networkId) => {
+      const res = await fetch("/api/v1/runs", {
+        method: "POST",
+        headers: { "content-type": "application/json" },
+        body: JSON.stringify({ networkId, computation: "conductance", parameters: { energyMeV: 0 } }),
+      });
+      return { status: res.status, body: await res.json() };
+    }, net.id);
+    expect(refused.status).toBe(403);
+    expect(refused.body.error.code).toBe("forbidden");
+    await viewer.screenshot({ path: join(SCREENSHOT_DIR, "auth-viewer-network.png"), fullPage: true });
+    await viewer.context().close();
+
+    const researcher = await freshPage();
+    await signInPage(researcher, "researcher");
+    await researcher.goto(url(`/networks/${net.id}`));
+    await researcher.locator('#run button[type="submit"]').waitFor({ timeout: 30_000 });
+    await researcher.context().close();
+  });
+});
