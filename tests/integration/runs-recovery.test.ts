@@ -38,7 +38,7 @@ describe("crash recovery", () => {
       const s = (await get(`/api/v1/sweeps/${id}`)).body;
       if (finished(s.status)) throw new Error("the sweep finished before the worker could be killed; make its points heavier");
       return s.counts.succeeded >= 4 && s.counts.running > 0;
-    }, 120_000, 100);
+    }, 120_000, 200);
 
     const killed = await killWorker();
     const [{ done }] = await sql`select count(*)::int as done from runs where sweep_id = ${id} and status = 'succeeded'`;

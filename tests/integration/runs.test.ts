@@ -149,6 +149,17 @@ describe("invalid run submissions get the documented status and write nothing", 
     const notJson = await api("/api/v1/runs", { method: "POST", body: "{oops", headers: { "content-type": "application/json" } });
     expect(notJson.status).toBe(400);
 
+    // A dry run makes every check and answers the estimate, writing nothing.
+    const dry = await post("/api/v1/runs?dryRun=true", { network: smallNetwork(), computation: { kind: "conductance" } });
+    expect(dry.status).toBe(200);
+    expect(dry.body.dryRun).toBe(true);
+    expect(dry.body.estimate.computeSeconds).toBeGreaterThan(0);
+    const dryRefused = await post("/api/v1/runs?dryRun=true", { network: smallNetwork(44, 44), computation: { kind: "conductance" } }, "student");
+    expect(dryRefused.status).toBe(402);
+    const drySweep = await post("/api/v1/sweeps?dryRun=true", { network: smallNetwork(), computation: { kind: "conductance" }, axes: [{ parameter: "energyMeV", from: 0, to: 1, points: 7 }] });
+    expect(drySweep.status).toBe(200);
+    expect(drySweep.body.pointCount).toBe(7);
+
     expect(await counts(lab)).toEqual(labBefore);
     expect(await counts(student.id)).toEqual(studentBefore);
   });

@@ -37,7 +37,7 @@ describe("a 50-point sweep", () => {
       const ready = s.grid.quantities ? Object.values(s.grid.quantities as Record<string, (number | null)[]>)[0] : undefined;
       if (s.status === "running" && ready && ready.some((v) => v !== null) && ready.some((v) => v === null)) sawPartialGrid = true;
       return finished(s.status) ? s : undefined;
-    }, 170_000, 150);
+    }, 170_000, 250);
     expect(done.status).toBe("succeeded");
     expect(done.counts).toEqual({ queued: 0, running: 0, succeeded: POINTS, failed: 0, cancelled: 0 });
     expect(progress[progress.length - 1]).toBe(1);

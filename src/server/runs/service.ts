@@ -66,13 +66,24 @@ function estimateView(plan: Caller["plan"], seconds: number) {
 }
 const round = (x: number, digits: number) => Math.round(x * 10 ** digits) / 10 ** digits;
 
-export async function createRun(caller: Caller, body: unknown) {
+async function prepareRun(caller: Caller, body: unknown) {
   requirePermission(caller, "work.create");
   const parsed = submissionBody.safeParse(body);
   if (!parsed.success) throw zodToApiError(parsed.error);
   const { input, networkVersionId } = await resolveSubmission(caller, parsed.data);
   const estimated = estimateSeconds(input);
   await assertWithinBudget(caller.workspaceId, estimated);
+  return { input, networkVersionId, estimated };
+}
+
+/** Every check of a submission (the budget's too) and the estimate, writing nothing: the cost shown before starting. */
+export async function estimateRun(caller: Caller, body: unknown) {
+  const { input, estimated } = await prepareRun(caller, body);
+  return { dryRun: true, kind: kindOf(input), inputHash: inputHash(input), estimate: estimateView(caller.plan, estimated), input };
+}
+
+export async function createRun(caller: Caller, body: unknown) {
+  const { input, networkVersionId, estimated } = await prepareRun(caller, body);
   const priority = queuePriority(caller.plan);
   const [row] = await getDb()
     .insert(runs)

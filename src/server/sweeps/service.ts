@@ -52,7 +52,7 @@ function checkParameters(axes: ResolvedAxis[]) {
   if (axes.length === 2 && axes[0].parameter === axes[1].parameter) throw new ApiError("invalid_input", "axes.1.parameter: the two axes must sweep different parameters.", { field: "axes.1.parameter" });
 }
 
-export async function createSweep(caller: Caller, body: unknown) {
+async function prepareSweep(caller: Caller, body: unknown) {
   requirePermission(caller, "work.create");
   const parsed = sweepBody.safeParse(body);
   if (!parsed.success) throw zodToApiError(parsed.error);
@@ -89,7 +89,17 @@ export async function createSweep(caller: Caller, body: unknown) {
     points.push({ input, estimate, hash: inputHash(input) });
   }
   await assertWithinBudget(caller.workspaceId, total);
+  return { b, base, networkVersionId, axes, pointCount, points, total };
+}
 
+/** Every check of a sweep (the budget's for the sum of its points) and the estimate, writing nothing. */
+export async function estimateSweep(caller: Caller, body: unknown) {
+  const { b, axes, pointCount, total } = await prepareSweep(caller, body);
+  return { dryRun: true, pointCount, axes, ensemble: b.ensemble ?? null, estimate: { computeSeconds: round(total, 3), costUsd: round(computeCostUsd(caller.plan, total), 4) } };
+}
+
+export async function createSweep(caller: Caller, body: unknown) {
+  const { b, base, networkVersionId, axes, pointCount, points, total } = await prepareSweep(caller, body);
   const priority = queuePriority(caller.plan);
   const kind = kindOf(base);
   const db = getDb();

@@ -1,7 +1,7 @@
 import { NextResponse } from "next/server";
 import { getCaller } from "@/server/auth";
-import { readJson, route } from "@/server/http/errors";
-import { createRun, listRuns } from "@/server/runs/service";
+import { ApiError, readJson, route } from "@/server/http/errors";
+import { createRun, estimateRun, listRuns } from "@/server/runs/service";
 
 export const dynamic = "force-dynamic";
 
@@ -11,10 +11,19 @@ export const GET = route(async (req: Request) => {
   return NextResponse.json(await listRuns(caller, new URL(req.url).searchParams));
 });
 
-/** POST /api/v1/runs `{ network | networkId, networkVersion?, computation }`: 202 with id, status and estimate. */
+/** POST /api/v1/runs `{ network | networkId, networkVersion?, computation }`: 202 with id, status and estimate; `?dryRun=true` only checks and estimates. */
 export const POST = route(async (req: Request) => {
   const caller = await getCaller(req);
   const body = await readJson(req, 2_000_000);
+  if (isDryRun(req)) return NextResponse.json(await estimateRun(caller, body));
   const created = await createRun(caller, body);
   return NextResponse.json(created, { status: 202, headers: { location: `/api/v1/runs/${created.id}` } });
 });
+
+/** `?dryRun=true`: every check and the estimate, nothing written (200). */
+function isDryRun(req: Request): boolean {
+  const v = new URL(req.url).searchParams.get("dryRun");
+  if (v === null || v === "false") return false;
+  if (v === "true" || v === "") return true;
+  throw new ApiError("bad_request", `dryRun: must be true or false (got "${v}").`, { field: "dryRun" });
+}

@@ -1,7 +1,7 @@
 import { NextResponse } from "next/server";
 import { getCaller } from "@/server/auth";
-import { readJson, route } from "@/server/http/errors";
-import { createSweep, listSweeps } from "@/server/sweeps/service";
+import { ApiError, readJson, route } from "@/server/http/errors";
+import { createSweep, estimateSweep, listSweeps } from "@/server/sweeps/service";
 
 export const dynamic = "force-dynamic";
 
@@ -11,10 +11,19 @@ export const GET = route(async (req: Request) => {
   return NextResponse.json(await listSweeps(caller, new URL(req.url).searchParams));
 });
 
-/** POST /api/v1/sweeps `{ name?, network | networkId, networkVersion?, computation, axes, ensemble? }`: 202. */
+/** POST /api/v1/sweeps `{ name?, network | networkId, networkVersion?, computation, axes, ensemble? }`: 202; `?dryRun=true` only checks and estimates. */
 export const POST = route(async (req: Request) => {
   const caller = await getCaller(req);
   const body = await readJson(req, 2_000_000);
+  if (isDryRun(req)) return NextResponse.json(await estimateSweep(caller, body));
   const created = await createSweep(caller, body);
   return NextResponse.json(created, { status: 202, headers: { location: `/api/v1/sweeps/${created.id}` } });
 });
+
+/** `?dryRun=true`: every check and the estimate, nothing written (200). */
+function isDryRun(req: Request): boolean {
+  const v = new URL(req.url).searchParams.get("dryRun");
+  if (v === null || v === "false") return false;
+  if (v === "true" || v === "") return true;
+  throw new ApiError("bad_request", `dryRun: must be true or false (got "${v}").`, { field: "dryRun" });
+}
