@@ -115,6 +115,29 @@ describe("browser sessions (Clerk through the stand-in)", () => {
     expect(res.status).toBe(401);
   });
 
+  it("an expired session on a page load goes through the handshake at the stand-in and comes back signed in", async () => {
+    const { cookies } = await sessionCookies("researcher");
+    // The browser still knows its client but its short-lived session token is gone.
+    const jar = new Map([["__client", cookies.__client], ["__client_uat", cookies.__client_uat]]);
+    const cookieHeader = () => [...jar].map(([k, v]) => `${k}=${v}`).join("; ");
+    const doc = { "sec-fetch-dest": "document", accept: "text/html" };
+    const first = await fetch(new URL("/networks", appUrl()), { headers: { ...doc, cookie: cookieHeader() }, redirect: "manual" });
+    expect(first.status).toBe(307);
+    const handshake = new URL(first.headers.get("location")!, appUrl());
+    expect(handshake.pathname).toBe("/__clerk/v1/client/handshake");
+    const back = await fetch(handshake, { headers: { ...doc, cookie: cookieHeader() }, redirect: "manual" });
+    expect(back.status).toBe(307);
+    expect(back.headers.get("location")).toBe(new URL("/networks", appUrl()).toString());
+    for (const c of back.headers.getSetCookie()) {
+      const [pair] = c.split(";");
+      const i = pair.indexOf("=");
+      jar.set(pair.slice(0, i), pair.slice(i + 1));
+    }
+    expect(jar.get("__session")).toMatch(/^ey/);
+    const page = await fetch(new URL("/networks", appUrl()), { headers: { ...doc, cookie: cookieHeader() }, redirect: "manual" });
+    expect(page.status).toBe(200);
+  });
+
   it("signed-in pages send a signed-out visitor to our sign-in page; public pages and health stay open", async () => {
     const page = await fetch(new URL("/networks", appUrl()), { redirect: "manual" });
     expect([302, 307]).toContain(page.status);
