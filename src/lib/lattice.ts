@@ -35,6 +35,8 @@ export interface NetworkGeometry {
   bounds: { xMin: number; xMax: number; yMin: number; yMax: number };
   /** Lead faces: x positions of the left and right lead, in l. */
   leads: { leftX: number; rightX: number };
+  /** False for a closed sample (no leads drawn). */
+  hasLeads?: boolean;
 }
 
 const S3 = Math.sqrt(3) / 2;
@@ -168,4 +170,26 @@ function square({ columns: C, rows: Rn, valley }: NetworkShape): NetworkGeometry
     bounds: { xMin: 0, xMax: C - 1, yMin: 0, yMax: Rn - 1 },
     leads: { leftX: -0.6, rightX: C - 1 + 0.6 },
   };
+}
+
+/**
+ * Geometry from explicit link segments (x0, y0, x1, y1 in any length unit), e.g. the links of a
+ * local-density-of-states result; `edge[i]` = 1 marks links to the sample's edge.
+ */
+export function geometryFromSegments(seg: { fromX: number[]; fromY: number[]; toX: number[]; toY: number[]; edge?: number[] }, unit = 1): NetworkGeometry {
+  const n = seg.fromX.length;
+  const links = new Float32Array(4 * n);
+  const linkKind = new Uint8Array(n);
+  let xMin = Infinity, xMax = -Infinity, yMin = Infinity, yMax = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const v = [seg.fromX[i] / unit, seg.fromY[i] / unit, seg.toX[i] / unit, seg.toY[i] / unit];
+    links.set(v, 4 * i);
+    linkKind[i] = seg.edge?.[i] ? 2 : 0;
+    xMin = Math.min(xMin, v[0], v[2]);
+    xMax = Math.max(xMax, v[0], v[2]);
+    yMin = Math.min(yMin, v[1], v[3]);
+    yMax = Math.max(yMax, v[1], v[3]);
+  }
+  if (n === 0) [xMin, xMax, yMin, yMax] = [0, 1, 0, 1];
+  return { nodeCount: 0, nodes: new Float32Array(0), linkCount: n, links, linkKind, bounds: { xMin, xMax, yMin, yMax }, leads: { leftX: xMin - 0.3, rightX: xMax + 0.3 }, hasLeads: false };
 }

@@ -21,6 +21,8 @@ interface Props {
   height?: number;
   linkValues?: LinkValues;
   label?: string;
+  /** Draw these links instead of the lattice of `shape` (e.g. the links of a result). */
+  custom?: NetworkGeometry;
 }
 
 /**
@@ -30,8 +32,8 @@ interface Props {
  * (arrowheads and nodes appear once a link is long enough on screen to show them).
  * The time of the first draw (geometry + paint, performance.now) is in data-first-draw-ms.
  */
-export function NetworkDrawing({ shape, linkNm, height = 420, linkValues, label }: Props) {
-  const links = linkCountOf(shape);
+export function NetworkDrawing({ shape, linkNm, height = 420, linkValues, label, custom }: Props) {
+  const links = custom ? custom.linkCount : linkCountOf(shape);
   const mode = links > SVG_LINK_LIMIT ? "canvas" : "svg";
   const wrapRef = useRef<HTMLDivElement>(null);
   const [width, setWidth] = useState(640);
@@ -60,9 +62,9 @@ export function NetworkDrawing({ shape, linkNm, height = 420, linkValues, label 
       <div ref={wrapRef} style={{ height }} className="relative w-full">
         {palette ? (
           mode === "svg" ? (
-            <SvgNetwork shape={shape} width={width} height={height} palette={palette} linkValues={linkValues} description={label ?? description} />
+            <SvgNetwork shape={shape} custom={custom} width={width} height={height} palette={palette} linkValues={linkValues} description={label ?? description} />
           ) : (
-            <CanvasNetwork shape={shape} width={width} height={height} palette={palette} linkValues={linkValues} description={label ?? description} />
+            <CanvasNetwork shape={shape} custom={custom} width={width} height={height} palette={palette} linkValues={linkValues} description={label ?? description} />
           )
         ) : null}
       </div>
@@ -92,10 +94,10 @@ function fitTransform(g: NetworkGeometry, width: number, height: number) {
   return { k, x: (u: number) => width / 2 + (u - cx) * k, y: (v: number) => height / 2 - (v - cy) * k };
 }
 
-function SvgNetwork({ shape, width, height, palette, linkValues, description }: { shape: NetworkShape; width: number; height: number; palette: Palette; linkValues?: LinkValues; description: string }) {
+function SvgNetwork({ shape, custom, width, height, palette, linkValues, description }: { shape: NetworkShape; custom?: NetworkGeometry; width: number; height: number; palette: Palette; linkValues?: LinkValues; description: string }) {
   const svgRef = useRef<SVGSVGElement>(null);
   const gRef = useRef<SVGGElement>(null);
-  const geometry = useMemo(() => networkGeometry(shape), [shape]);
+  const geometry = useMemo(() => custom ?? networkGeometry(shape), [custom, shape]);
   useEffect(() => {
     const t0 = performance.now();
     const svg = d3.select(svgRef.current!);
@@ -113,10 +115,14 @@ function SvgNetwork({ shape, width, height, palette, linkValues, description }: 
       .append("g")
       .attr("data-layer", "leads")
       .selectAll("rect")
-      .data([
-        ["left", g.leads.leftX],
-        ["right", g.leads.rightX],
-      ] as const)
+      .data(
+        g.hasLeads === false
+          ? []
+          : ([
+              ["left", g.leads.leftX],
+              ["right", g.leads.rightX],
+            ] as const),
+      )
       .join("rect")
       .attr("data-lead", (d) => d[0])
       .attr("x", (d) => f.x(d[1]) - Math.max(3, f.k * 0.12))
@@ -215,8 +221,10 @@ export function paintNetwork(ctx: CanvasRenderingContext2D, g: NetworkGeometry, 
   const ly1 = Y(g.bounds.yMin - 0.5);
   const lw = Math.max(4, k * 0.24);
   ctx.globalAlpha = 0.85;
-  ctx.fillRect(X(g.leads.leftX) - lw / 2, ly0, lw, ly1 - ly0);
-  ctx.fillRect(X(g.leads.rightX) - lw / 2, ly0, lw, ly1 - ly0);
+  if (g.hasLeads !== false) {
+    ctx.fillRect(X(g.leads.leftX) - lw / 2, ly0, lw, ly1 - ly0);
+    ctx.fillRect(X(g.leads.rightX) - lw / 2, ly0, lw, ly1 - ly0);
+  }
   ctx.globalAlpha = 1;
   // Boundary.
   ctx.strokeStyle = palette.faint;
@@ -303,16 +311,16 @@ export function paintNetwork(ctx: CanvasRenderingContext2D, g: NetworkGeometry, 
   return painted;
 }
 
-function CanvasNetwork({ shape, width, height, palette, linkValues, description }: { shape: NetworkShape; width: number; height: number; palette: Palette; linkValues?: LinkValues; description: string }) {
+function CanvasNetwork({ shape, custom, width, height, palette, linkValues, description }: { shape: NetworkShape; custom?: NetworkGeometry; width: number; height: number; palette: Palette; linkValues?: LinkValues; description: string }) {
   const canvasRef = useRef<HTMLCanvasElement>(null);
   const transformRef = useRef(d3.zoomIdentity);
   const geometryMsRef = useRef(0);
   const geometry = useMemo(() => {
     const t0 = performance.now();
-    const g = networkGeometry(shape);
+    const g = custom ?? networkGeometry(shape);
     geometryMsRef.current = performance.now() - t0;
     return g;
-  }, [shape]);
+  }, [custom, shape]);
   useEffect(() => {
     const canvas = canvasRef.current!;
     const dpr = window.devicePixelRatio || 1;

@@ -1,44 +1,75 @@
 "use client";
 
 import * as d3 from "d3";
-import { useMemo } from "react";
+import { useMemo, useRef } from "react";
 import { num } from "@/lib/units";
+import { geometryFromSegments } from "@/lib/lattice";
 import { SEQUENTIAL_STOPS } from "@/components/charts/palette";
 import { NetworkDrawing } from "@/components/network/NetworkDrawing";
 import { shapeOf, linkLengthNm } from "@/components/network/draft";
-import { linkCountOf } from "@/lib/lattice";
-import { exportCsv } from "@/lib/exportFigure";
+import { download, exportCsv, exportPng, exportSvg } from "@/lib/exportFigure";
 
 const scale = d3.interpolateRgbBasis(SEQUENTIAL_STOPS);
 
-/** The local density of states on every link, drawn on the network with a colour legend. */
+/**
+ * The local density of states on every link, drawn on the links of the closed sample the engine
+ * used (their positions come with the result), with a colour legend.
+ */
 export function LdosMap({ result, network, runId }: { result: Record<string, any>; network?: Record<string, any>; runId: string }) {
   const values: number[] = useMemo(() => {
-    const v = result.ldosPerLink ?? result.perLink ?? result.ldos ?? result.values ?? [];
+    const v = result.ldosPerMeV?.total ?? result.ldosPerMeV ?? [];
     return Array.isArray(v) ? v.map(Number) : [];
   }, [result]);
-  const shape = useMemo(() => (network ? shapeOf(network, "K") : null), [network]);
+  const l = network ? linkLengthNm(network) : undefined;
+  const links = result.links as { fromXNm: number[]; fromYNm: number[]; toXNm: number[]; toYNm: number[]; edge?: number[] } | undefined;
+  const custom = useMemo(() => (links ? geometryFromSegments({ fromX: links.fromXNm, fromY: links.fromYNm, toX: links.toXNm, toY: links.toYNm, edge: links.edge }, l ?? 1) : undefined), [links, l]);
+  const shape = useMemo(() => shapeOf(network ?? {}, "K"), [network]);
   const [lo, hi] = useMemo(() => {
     const e = d3.extent(values.filter(Number.isFinite));
     return [e[0] ?? 0, e[1] ?? 1];
   }, [values]);
   const linkValues = useMemo(() => ({ values, color: (v: number) => scale(hi > lo ? (v - lo) / (hi - lo) : 0.5) }), [values, lo, hi]);
-  if (!shape) return <p className="text-body text-fg-soft">The network of this run is not available for drawing.</p>;
-  const matches = values.length === linkCountOf(shape);
-  const unit = result.unit ?? "states / meV / link";
+  const box = useRef<HTMLDivElement>(null);
+  const exportImage = (kind: "svg" | "png") => {
+    const svg = box.current?.querySelector("svg[data-renderer]") as SVGSVGElement | null;
+    const canvas = box.current?.querySelector("canvas[data-renderer]") as HTMLCanvasElement | null;
+    if (svg) return kind === "svg" ? exportSvg(svg, `ldos-${runId}.svg`) : void exportPng(svg, `ldos-${runId}.png`);
+    canvas?.toBlob((b) => b && download(`ldos-${runId}.png`, b), "image/png");
+  };
+  if (!custom) return <p className="text-body text-fg-soft">This result carries no link positions to draw.</p>;
   return (
     <div className="space-y-3">
-      {matches ? (
-        <NetworkDrawing shape={shape} linkNm={linkLengthNm(network!)} linkValues={linkValues} height={480} label={`Local density of states on ${values.length} links`} />
-      ) : (
-        <p className="text-caption text-fg-faint">The map has {values.length} values; this drawing has {linkCountOf(shape)} links.</p>
-      )}
+      <p className="text-body text-fg-soft">
+        E = {num(result.energyMeV)} meV · B = {num(result.fieldTesla)} T · broadening {num(result.broadeningMeV)} meV · total {num(result.totalDosPerMeV)} states/meV, both valleys and spins.
+      </p>
+      <div ref={box}>
+      <NetworkDrawing shape={shape} custom={custom} linkNm={l} linkValues={linkValues} height={480} label={`Local density of states on ${values.length} links, colour scale from ${num(lo)} to ${num(hi)} states per meV`} />
+      </div>
       <div className="flex flex-wrap items-center gap-3" data-testid="ldos-legend">
-        <span className="text-caption text-fg-soft">LDOS ({unit})</span>
+        <span className="text-caption text-fg-soft">LDOS per link (states / meV)</span>
         <span className="font-mono text-caption tk-num">{num(lo)}</span>
         <span aria-hidden className="h-3 w-48 rounded-sm" style={{ background: `linear-gradient(to right, ${SEQUENTIAL_STOPS.join(",")})` }} />
         <span className="font-mono text-caption tk-num">{num(hi)}</span>
-        <button type="button" className="tk-btn-quiet" onClick={() => exportCsv(`ldos-${runId}.csv`, ["link", "ldos"], values.map((v, i) => [i, v]), [`Local density of states per link (${unit}), run ${runId}`])}>
+        {custom.linkCount <= 3000 ? (
+          <button type="button" className="tk-btn-quiet" onClick={() => exportImage("svg")}>
+            SVG
+          </button>
+        ) : null}
+        <button type="button" className="tk-btn-quiet" onClick={() => exportImage("png")}>
+          PNG
+        </button>
+        <button
+          type="button"
+          className="tk-btn-quiet"
+          onClick={() =>
+            exportCsv(
+              `ldos-${runId}.csv`,
+              ["link", "fromXNm", "fromYNm", "toXNm", "toYNm", "ldosPerMeV"],
+              values.map((v, i) => [i, links!.fromXNm[i], links!.fromYNm[i], links!.toXNm[i], links!.toYNm[i], v]),
+              [`Local density of states per link, run ${runId} (model prediction)`],
+            )
+          }
+        >
           CSV
         </button>
       </div>

@@ -89,21 +89,24 @@ function SpectrumResult({ r }: { r: R }) {
   const k: number[][] = r.kPointsPerNm ?? r.kPoints ?? r.path?.kPointsPerNm ?? [];
   const distance: number[] = r.path?.distancePerNm ?? (k.length === energies.length && k.length > 0 ? pathDistance(k) : energies.map((_, i) => i));
   const labels: { index: number; label: string }[] = r.path?.labels ?? r.pathLabels ?? [];
-  const ticks = labels.length ? labels.map((l) => ({ at: distance[l.index] ?? 0, label: l.label })) : [{ at: distance[0] ?? 0, label: "start" }, { at: distance[distance.length - 1] ?? 1, label: "end" }];
+  const greek = (x: string) => (x === "Gamma" ? "Γ" : x);
+  const ticks = labels.length ? labels.map((l) => ({ at: distance[l.index] ?? 0, label: greek(l.label) })) : [{ at: distance[0] ?? 0, label: "start" }, { at: distance[distance.length - 1] ?? 1, label: "end" }];
   return (
     <div className="space-y-4">
       <p className="text-body text-fg-soft">
         Energy period 2πħv/l = <span className="font-mono">{withUnit(r.energyPeriodMeV, "meV")}</span>; energies are reduced into one period. {energies.length} k points.
       </p>
       <BandChart energies={energies} distance={distance} ticks={ticks} periodMeV={r.energyPeriodMeV} />
+      {Array.isArray(r.valleyKPrimeEnergiesMeV) ? <p className="text-caption text-fg-faint">Valley K′ energies are in the result JSON (valleyKPrimeEnergiesMeV); the plot shows valley K.</p> : null}
     </div>
   );
 }
 
 function DosResult({ r }: { r: R }) {
   const e = arr(r.energiesMeV ?? r.energyMeV ?? r.energies);
-  const perCell = arr(r.dosPerCellPerMeV ?? r.dos?.perCellPerMeV ?? r.dosPerMeVPerCell);
-  const perArea = arr(r.dosPerNm2PerMeV ?? r.dos?.perNm2PerMeV ?? r.dosPerMeVPerNm2);
+  const pick = (v: unknown) => (Array.isArray(v) ? arr(v) : v && typeof v === "object" ? arr((v as R).total) : []);
+  const perCell = pick(r.dosPerMeVPerCell ?? r.dosPerCellPerMeV);
+  const perArea = pick(r.dosPerMeVPerNm2 ?? r.dosPerNm2PerMeV);
   const n = arr(r.carrierDensityPerCm2 ?? r.carrierDensity?.perCm2 ?? r.carrierDensityCm2);
   const nNm = arr(r.carrierDensityPerNm2 ?? r.carrierDensity?.perNm2);
   const density = n.length ? { y: n, label: "Carrier density n (cm⁻²)", unit: "cm⁻²" } : { y: nNm, label: "Carrier density n (nm⁻²)", unit: "nm⁻²" };
@@ -126,16 +129,32 @@ function DosResult({ r }: { r: R }) {
 }
 
 function LocalizationResult({ r }: { r: R }) {
-  const L = arr(r.lengthsColumns ?? r.stripLengths ?? r.lengths);
-  const lnT = arr(r.meanLnT ?? r.lnT);
+  const L = arr(r.lengthsNm);
+  const mK = arr(r.meanLnT?.valleyK);
+  const seK = arr(r.stderrLnT?.valleyK);
+  const mKp = arr(r.meanLnT?.valleyKPrime);
+  const xi = r.localizationLength?.valleyK as { nm: number; inLinkLengths: number; stderrNm: number | null } | null;
+  const lambda = r.lambda?.valleyK;
+  const series = [{ name: "valley K", x: L, y: mK, err: seK.length ? seK : undefined }];
+  if (mKp.length) series.push({ name: "valley K′", x: L, y: mKp, err: arr(r.stderrLnT?.valleyKPrime), color: "warm" } as never);
   return (
     <div className="space-y-6">
       <dl className="grid gap-3 sm:grid-cols-3">
-        <Figure label="Localization length ξ" value={withUnit(r.localizationLengthNm ?? r.xiNm, "nm")} sub={isNum(r.localizationLengthColumns) ? `${num(r.localizationLengthColumns)} columns` : undefined} />
-        <Figure label="Λ = ξ / W" value={num(r.lambda ?? r.Lambda)} sub="above ~1: extended-like; below: localized" />
-        <Figure label="Strip width W" value={withUnit(r.widthNm ?? r.stripWidthNm, "nm")} />
+        <Figure label="Localization length ξ (valley K)" value={xi ? withUnit(xi.nm, "nm") : "not localized on these lengths"} sub={xi ? `${num(xi.inLinkLengths)} link lengths${xi.stderrNm ? ` · ± ${num(xi.stderrNm, 2)} nm` : ""}` : "ln T does not decrease"} />
+        <Figure label="Λ = ξ / W" value={num(lambda)} sub="small: localized; order 1 or more: extended on this width" />
+        <Figure label="Strip width W" value={withUnit(r.widthNm, "nm")} sub={`${r.rows} rows · ${r.samples} seeds · fit from ${num(r.fitFromNm)} nm`} />
       </dl>
-      {L.length && lnT.length ? <XYChart title="ln T along the strip" name="localization" xLabel="Strip length L (columns)" yLabel="⟨ln T⟩" series={[{ name: "ln T", x: L, y: lnT }]} /> : null}
+      {L.length && mK.length ? (
+        <XYChart
+          title="⟨ln T⟩ along the strip"
+          name="localization"
+          xLabel="Strip length L (nm)"
+          xUnit="nm"
+          yLabel="⟨ln T⟩ (dimensionless)"
+          series={series}
+          csv={{ header: ["lengthNm", "meanLnTValleyK", "stderrLnTValleyK"], rows: L.map((x, i) => [x, mK[i], seK[i]]), comments: ["Mean ln T over the ensemble against strip length (model prediction)"] }}
+        />
+      ) : null}
     </div>
   );
 }
