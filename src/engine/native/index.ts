@@ -36,6 +36,8 @@ export interface NativeAddon {
   config(): string;
   getThreads(): number;
   setThreads(count: number): void;
+  /** Whether the addon raised glibc's trim and mmap thresholds (see src/kernels.cc). */
+  mallocTuned(): boolean;
 }
 
 interface EnvAddon {
@@ -55,6 +57,8 @@ export interface NativeInfo {
   coreTypeSource: "environment" | "cpuinfo" | "none";
   /** The addon file that was loaded. */
   file: string;
+  /** glibc malloc keeps freed result buffers for reuse (TRISKEL_MALLOC_TUNING=0 turns it off). */
+  mallocTuned: boolean;
 }
 
 export type NativeLoad =
@@ -151,7 +155,7 @@ function load(): NativeLoad {
     if (!isMainThread) addon.setThreads(1); // OpenBLAS was maybe loaded earlier by another thread
     const info: NativeInfo = {
       coreName: addon.coreName(), config: addon.config(), threads: addon.getThreads(),
-      coreType, coreTypeSource, file,
+      coreType, coreTypeSource, file, mallocTuned: addon.mallocTuned(),
     };
     return { ok: true, kernels: wrap(addon), addon, info };
   } catch (e) {

@@ -142,7 +142,7 @@ describe("OpenBLAS environment is set before the library loads (fresh processes)
     for (const [k, v] of Object.entries({ ...process.env, ...env })) if (v !== undefined) childEnv[k] = v;
     const r = spawnSync(path.join(root, "node_modules", ".bin", "tsx"), [fixture, ...args], { cwd: root, env: childEnv, encoding: "utf8", timeout: 60_000 });
     if (r.status !== 0) throw new Error(`fixture failed: ${r.stderr}`);
-    return JSON.parse(r.stdout.trim().split("\n").pop()!) as { ok: boolean; isMainThread: boolean; coreName: string; coreType: string | null; coreTypeSource: string; threads: number; product: number[] };
+    return JSON.parse(r.stdout.trim().split("\n").pop()!) as { ok: boolean; isMainThread: boolean; coreName: string; coreType: string | null; coreTypeSource: string; threads: number; mallocTuned: boolean; product: number[] };
   };
   const chosen = chooseCoreType(readFileSync("/proc/cpuinfo", "utf8"));
 
@@ -163,6 +163,11 @@ describe("OpenBLAS environment is set before the library loads (fresh processes)
     expect(r.coreType).toBe(chosen);
     if (chosen) expect(r.coreName.toLowerCase()).toBe(chosen.toLowerCase());
     expect(r.threads).toBeGreaterThanOrEqual(1);
+  });
+
+  it("glibc malloc keeps freed result buffers (page faults per product) unless TRISKEL_MALLOC_TUNING=0", () => {
+    expect(run([], { TRISKEL_MALLOC_TUNING: undefined, GLIBC_TUNABLES: undefined, MALLOC_TRIM_THRESHOLD_: undefined, MALLOC_MMAP_THRESHOLD_: undefined }).mallocTuned).toBe(true);
+    expect(run([], { TRISKEL_MALLOC_TUNING: "0" }).mallocTuned).toBe(false);
   });
 
   it("an OPENBLAS_CORETYPE already set is respected", () => {
