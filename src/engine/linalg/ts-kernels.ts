@@ -32,6 +32,23 @@ function gemmAccumulate(
     const ci = cOff + 2 * i * ldc;
     const ai = aOff + 2 * i * lda;
     let p = 0;
+    for (; p + 7 < k; p += 8) {
+      const o = ai + 2 * p;
+      const a0r = a[o], a0i = a[o + 1], a1r = a[o + 2], a1i = a[o + 3], a2r = a[o + 4], a2i = a[o + 5], a3r = a[o + 6], a3i = a[o + 7];
+      const a4r = a[o + 8], a4i = a[o + 9], a5r = a[o + 10], a5i = a[o + 11], a6r = a[o + 12], a6i = a[o + 13], a7r = a[o + 14], a7i = a[o + 15];
+      const l2 = 2 * ldb;
+      const b0 = bOff + 2 * p * ldb, b1 = b0 + l2, b2 = b1 + l2, b3 = b2 + l2, b4 = b3 + l2, b5 = b4 + l2, b6 = b5 + l2, b7 = b6 + l2;
+      for (let j = 0; j < n2; j += 2) {
+        const x0r = b[b0 + j], x0i = b[b0 + j + 1], x1r = b[b1 + j], x1i = b[b1 + j + 1];
+        const x2r = b[b2 + j], x2i = b[b2 + j + 1], x3r = b[b3 + j], x3i = b[b3 + j + 1];
+        const x4r = b[b4 + j], x4i = b[b4 + j + 1], x5r = b[b5 + j], x5i = b[b5 + j + 1];
+        const x6r = b[b6 + j], x6i = b[b6 + j + 1], x7r = b[b7 + j], x7i = b[b7 + j + 1];
+        c[ci + j] += a0r * x0r - a0i * x0i + a1r * x1r - a1i * x1i + a2r * x2r - a2i * x2i + a3r * x3r - a3i * x3i
+          + a4r * x4r - a4i * x4i + a5r * x5r - a5i * x5i + a6r * x6r - a6i * x6i + a7r * x7r - a7i * x7i;
+        c[ci + j + 1] += a0r * x0i + a0i * x0r + a1r * x1i + a1i * x1r + a2r * x2i + a2i * x2r + a3r * x3i + a3i * x3r
+          + a4r * x4i + a4i * x4r + a5r * x5i + a5i * x5r + a6r * x6i + a6i * x6r + a7r * x7i + a7i * x7r;
+      }
+    }
     for (; p + 3 < k; p += 4) {
       const a0r = a[ai + 2 * p], a0i = a[ai + 2 * p + 1];
       const a1r = a[ai + 2 * p + 2], a1i = a[ai + 2 * p + 3];
@@ -290,10 +307,10 @@ function tql2(d: Float64Array, eIn: Float64Array, n: number, z: Float64Array | n
       let m = l;
       for (; m < n - 1; m++) {
         const dd = Math.abs(d[m]) + Math.abs(d[m + 1]);
-        if (Math.abs(e[m]) <= 1e-16 * dd || Math.abs(e[m]) < 1e-300) break;
+        if (Math.abs(e[m]) <= 2.220446049250313e-16 * dd || Math.abs(e[m]) < 1e-300) break;
       }
       if (m === l) break;
-      if (++iter > 60) throw new Error("eigHermitian: no convergence");
+      if (++iter > 200) throw new Error("eigHermitian: no convergence");
       let g = (d[l + 1] - d[l]) / (2 * e[l]);
       let r = Math.hypot(g, 1);
       g = d[m] - d[l] + e[l] / (g + (g >= 0 ? Math.abs(r) : -Math.abs(r)));

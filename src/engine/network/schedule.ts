@@ -6,8 +6,8 @@
  */
 import type { NetworkGraph } from "./graph";
 
-const MAX_GROUP_NODES = 8;
-const MAX_GROUP_FEEDBACK = 8;
+const MAX_GROUP_NODES = 16;
+const MAX_GROUP_FEEDBACK = 16;
 
 export function buildSchedule(g: NetworkGraph, keys?: Float64Array): void {
   const n = g.nodeCount;

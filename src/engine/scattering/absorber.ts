@@ -13,7 +13,7 @@
  * the trace formula of the density of states.
  */
 import type { NetworkGraph } from "../network/graph";
-import { getKernels } from "../linalg/kernels";
+import { getKernels, tsKernels } from "../linalg/kernels";
 import { SingularMatrixError } from "../errors";
 
 export interface AbsorberHooks {
@@ -168,7 +168,9 @@ export class Absorber {
       }
     }
     let H: Float64Array = new Float64Array(0);
-    const kern = getKernels();
+    // tiny products (q, p <= a few dozen) stay in TypeScript; the backend does the big update
+    const kern = tsKernels;
+    const big = getKernels();
     if (q > 0) {
       // Kinv = 1 - M Spg ; G = K M ; H = K TQX
       const MS = p > 0 ? kern.matmul(M, Spg, q, p, q) : new Float64Array(2 * q * q);
@@ -199,8 +201,8 @@ export class Absorber {
       if (p > 0 && nc > 0) {
         const Srho = new Float64Array(2 * p * nc);
         for (let i = 0; i < p; i++) Srho.set(S.subarray(P[i].row * C2, P[i].row * C2 + 2 * nc), 2 * i * nc);
-        const Wm = kern.matmul(G, Srho, q, p, nc);
-        kern.gemmAccumulate(nr, nc, q, Xc, 0, q, Wm, 0, nc, S, 0, this.capC);
+        const Wm = nc > 64 ? big.matmul(G, Srho, q, p, nc) : kern.matmul(G, Srho, q, p, nc);
+        (nr * nc > 4096 ? big : kern).gemmAccumulate(nr, nc, q, Xc, 0, q, Wm, 0, nc, S, 0, this.capC);
       }
     } else if (this.stepDet) {
       this.stepDet[2 * this.nextGroup] = 1; this.stepDet[2 * this.nextGroup + 1] = 0;
