@@ -6,6 +6,7 @@ import type { EngineOutcome, EngineTask } from "./engine-thread";
 
 const CANCEL_POLL_MS = 400;
 const PROGRESS_WRITE_MS = 1000;
+const HEARTBEAT_MS = 5000;
 
 /**
  * Processor of the `runs` queue: claim the run in the database, compute it in a pool thread,
@@ -32,7 +33,8 @@ export function makeRunProcessor(pool: Piscina<EngineTask, EngineOutcome>, worke
           if (await shouldStop(runId)) Atomics.store(cancelFlag, 0, 1);
           const now = Date.now();
           const p = progress[0];
-          if (now - lastWriteAt >= PROGRESS_WRITE_MS && p !== lastWritten) {
+          // Progress about once a second while it moves; a heartbeat every few seconds regardless.
+          if ((now - lastWriteAt >= PROGRESS_WRITE_MS && p !== lastWritten) || now - lastWriteAt >= HEARTBEAT_MS) {
             lastWriteAt = now;
             lastWritten = p;
             await writeProgress(runId, p);
