@@ -26,7 +26,7 @@ export function BandChart({ energies, distance, ticks, periodMeV, height = 340 }
     const y = d3.scaleLinear().domain(periodMeV ? [0, periodMeV] : (d3.extent(flat) as [number, number])).nice().range([innerH, 0]);
     const g = svg.append("g").attr("transform", `translate(${MARGIN.left},${MARGIN.top})`);
     const xAxis = d3.axisBottom(x).tickValues(ticks.map((t) => t.at)).tickFormat((_, i) => ticks[i]?.label ?? "");
-    drawAxes(g, x, y, innerW, innerH, "Wave vector along the path", "Energy (meV)", palette, xAxis as d3.Axis<d3.NumberValue>);
+    drawAxes(g, x, y, innerW, innerH, "Wave vector along the path (nm⁻¹)", "Energy (meV)", palette, xAxis as d3.Axis<d3.NumberValue>);
     g.append("g")
       .selectAll("line")
       .data(ticks)

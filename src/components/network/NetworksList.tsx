@@ -14,6 +14,7 @@ const columnsFor = (who: (id: unknown) => string): ColumnDef<NetworkRecord, any>
   {
     id: "name",
     header: "Name",
+    accessorFn: (r) => r.name,
     cell: ({ row }) => (
       <Link className="font-medium text-accent hover:underline" href={`/networks/${row.original.id}`}>
         {row.original.name}
@@ -42,7 +43,7 @@ const columnsFor = (who: (id: unknown) => string): ColumnDef<NetworkRecord, any>
   },
   { id: "version", header: "Version", cell: ({ row }) => <span className="tk-num">v{row.original.version ?? 1}</span> },
   { id: "createdBy", header: "By", cell: ({ row }) => who(row.original.createdBy) },
-  { id: "createdAt", header: "Created", cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
+  { id: "createdAt", header: "Created", accessorFn: (r) => r.createdAt ?? "", cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
 ];
 
 export function NetworksList() {

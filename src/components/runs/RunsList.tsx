@@ -23,6 +23,7 @@ export function RunsList() {
     {
       id: "status",
       header: "Status",
+      accessorFn: (r) => r.status,
       cell: ({ row }) => (
         <Link href={`/runs/${row.original.id}`} className="inline-flex items-center gap-2" aria-label={`Run ${row.original.id.slice(0, 8)}, ${row.original.status}`}>
           <StatusBadge status={row.original.status} />
@@ -33,6 +34,7 @@ export function RunsList() {
     {
       id: "kind",
       header: "Computation",
+      accessorFn: (r) => r.kind ?? "",
       cell: ({ row }) => (
         <Link href={`/runs/${row.original.id}`} className="font-medium text-accent hover:underline">
           {KINDS.find((k) => k.kind === row.original.kind)?.label ?? row.original.kind}
@@ -45,8 +47,8 @@ export function RunsList() {
       cell: ({ row }) => (row.original.networkId ? <Link href={`/networks/${row.original.networkId}`} className="hover:underline">{names.get(row.original.networkId) ?? "network"}{(row.original as { networkVersion?: number }).networkVersion ? ` v${(row.original as { networkVersion?: number }).networkVersion}` : ""}</Link> : <span className="text-fg-faint">inline</span>),
     },
     { id: "createdBy", header: "Who", cell: ({ row }) => who(row.original.createdBy) },
-    { id: "cost", header: "Compute", cell: ({ row }) => <span className="tk-num">{row.original.computeSeconds !== null && row.original.computeSeconds !== undefined ? computeSeconds(row.original.computeSeconds) : `est. ${computeSeconds(row.original.estimate?.computeSeconds)}`}</span> },
-    { id: "createdAt", header: "Created", cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
+    { id: "cost", header: "Compute", accessorFn: (r) => r.computeSeconds ?? r.estimate?.computeSeconds ?? 0, cell: ({ row }) => <span className="tk-num">{row.original.computeSeconds !== null && row.original.computeSeconds !== undefined ? computeSeconds(row.original.computeSeconds) : `est. ${computeSeconds(row.original.estimate?.computeSeconds)}`}</span> },
+    { id: "createdAt", header: "Created", accessorFn: (r) => r.createdAt ?? "", cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
   ];
   return (
     <>
@@ -58,7 +60,6 @@ export function RunsList() {
         listKey="runs"
         columns={columns}
         fixed={{ networkId }}
-        sortable={["createdAt"]}
         filters={[
           { id: "status", label: "Status", options: STATUS_OPTIONS },
           { id: "kind", label: "Computation", options: KINDS.map((k) => ({ value: k.kind, label: k.label })) },

@@ -19,6 +19,7 @@ export function SweepsList() {
     {
       id: "status",
       header: "Status",
+      accessorFn: (r) => r.status,
       cell: ({ row }) => (
         <span className="inline-flex items-center gap-2">
           <StatusBadge status={row.original.status} />
@@ -35,11 +36,11 @@ export function SweepsList() {
         </Link>
       ),
     },
-    { id: "points", header: "Points", cell: ({ row }) => <span className="tk-num">{row.original.pointCount}{row.original.ensemble ? ` × ${row.original.ensemble.samples}` : ""}</span> },
+    { id: "points", header: "Points", accessorFn: (r) => r.pointCount ?? 0, cell: ({ row }) => <span className="tk-num">{row.original.pointCount}{row.original.ensemble ? ` × ${row.original.ensemble.samples}` : ""}</span> },
     { id: "network", header: "Network", cell: ({ row }) => (row.original.networkId ? <Link className="hover:underline" href={`/networks/${row.original.networkId}`}>{names.get(row.original.networkId) ?? "network"}</Link> : <span className="text-fg-faint">inline</span>) },
     { id: "createdBy", header: "Who", cell: ({ row }) => who(row.original.createdBy) },
-    { id: "cost", header: "Compute", cell: ({ row }) => <span className="tk-num">{computeSeconds(row.original.computeSeconds ?? row.original.estimate?.computeSeconds)}</span> },
-    { id: "createdAt", header: "Created", cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
+    { id: "cost", header: "Compute", accessorFn: (r) => r.computeSeconds ?? r.estimate?.computeSeconds ?? 0, cell: ({ row }) => <span className="tk-num">{computeSeconds(row.original.computeSeconds ?? row.original.estimate?.computeSeconds)}</span> },
+    { id: "createdAt", header: "Created", accessorFn: (r) => r.createdAt ?? "", cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
   ];
   return (
     <>
@@ -50,7 +51,6 @@ export function SweepsList() {
         path="/api/v1/sweeps"
         listKey="sweeps"
         columns={columns}
-        sortable={["createdAt"]}
         filters={[{ id: "status", label: "Status", options: STATUS_OPTIONS }]}
         label="sweeps"
         empty={

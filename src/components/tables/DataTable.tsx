@@ -1,7 +1,7 @@
 "use client";
 
 import { useQuery } from "@tanstack/react-query";
-import { flexRender, getCoreRowModel, useReactTable, type ColumnDef, type SortingState } from "@tanstack/react-table";
+import { flexRender, getCoreRowModel, getSortedRowModel, useReactTable, type ColumnDef, type SortingState } from "@tanstack/react-table";
 import { useState, type ReactNode } from "react";
 import { apiFetch, asList, qs } from "@/lib/api";
 import { ErrorNote, Skeleton } from "@/components/ui/Page";
@@ -20,8 +20,6 @@ interface Props<T> {
   filters?: FilterDef[];
   /** Fixed query parameters (e.g. networkId). */
   fixed?: Record<string, string | undefined>;
-  /** Column ids the API can sort by (sent as sort=<id>&order=asc|desc). */
-  sortable?: string[];
   pageSize?: number;
   /** Query parameter that carries the next page's position (the API's name for it). */
   cursorParam?: "cursor" | "before";
@@ -33,13 +31,13 @@ interface Props<T> {
  * A list read page by page from the API (cursor pagination), with sort and filters passed to the
  * server as query parameters, drawn with TanStack Table.
  */
-export function DataTable<T>({ path, listKey, columns, filters = [], fixed = {}, sortable = [], pageSize = 20, cursorParam = "cursor", empty, label }: Props<T>) {
+export function DataTable<T>({ path, listKey, columns, filters = [], fixed = {}, pageSize = 20, cursorParam = "cursor", empty, label }: Props<T>) {
   const [sorting, setSorting] = useState<SortingState>([]);
   const [filterValues, setFilterValues] = useState<Record<string, string>>({});
   const [cursors, setCursors] = useState<(string | null)[]>([null]);
   const cursor = cursors[cursors.length - 1];
-  const sort = sorting[0];
-  const params = { ...fixed, ...filterValues, limit: pageSize, [cursorParam]: cursor ?? undefined, sort: sort?.id, order: sort ? (sort.desc ? "desc" : "asc") : undefined };
+  // The API filters and pages (newest first); columns with a value sort the page shown.
+  const params = { ...fixed, ...filterValues, limit: pageSize, [cursorParam]: cursor ?? undefined };
   const q = useQuery({
     queryKey: [listKey, params],
     queryFn: async () => asList<T>(await apiFetch<unknown>(`${path}${qs(params)}`), listKey),
@@ -50,13 +48,10 @@ export function DataTable<T>({ path, listKey, columns, filters = [], fixed = {},
     data: q.data?.items ?? [],
     columns,
     state: { sorting },
-    manualSorting: true,
     enableSortingRemoval: true,
-    onSortingChange: (u) => {
-      setSorting(u);
-      setCursors([null]);
-    },
+    onSortingChange: setSorting,
     getCoreRowModel: getCoreRowModel(),
+    getSortedRowModel: getSortedRowModel(),
   });
   return (
     <div className="space-y-3">
@@ -94,12 +89,12 @@ export function DataTable<T>({ path, listKey, columns, filters = [], fixed = {},
               {table.getHeaderGroups().map((hg) => (
                 <tr key={hg.id}>
                   {hg.headers.map((h) => {
-                    const can = sortable.includes(h.column.id);
+                    const can = h.column.getCanSort();
                     const dir = h.column.getIsSorted();
                     return (
                       <th key={h.id} scope="col" className="px-3 py-2 font-medium" aria-sort={dir ? (dir === "asc" ? "ascending" : "descending") : undefined}>
                         {can ? (
-                          <button type="button" className="inline-flex items-center gap-1 uppercase hover:text-fg" onClick={h.column.getToggleSortingHandler()}>
+                          <button type="button" className="inline-flex items-center gap-1 uppercase hover:text-fg" onClick={h.column.getToggleSortingHandler()} title="Sort the rows on this page">
                             {flexRender(h.column.columnDef.header, h.getContext())}
                             <span aria-hidden>{dir === "asc" ? "▲" : dir === "desc" ? "▼" : "↕"}</span>
                           </button>
