@@ -14,24 +14,32 @@ export function startBillingLoop(options: { intervalMs?: number; workspaceId?: s
   const intervalMs = options.intervalMs ?? METER_SENDER.intervalMs;
   let stopped = false;
   let timer: NodeJS.Timeout | undefined;
-  let lastErrorLine = "";
+  const lastErrors = new Map<string, string>();
+  /** One step of the pass; a failing step is logged (once per distinct message) and does not stop the others. */
+  const step = async (name: string, fn: () => Promise<unknown>) => {
+    try {
+      await fn();
+      lastErrors.delete(name);
+    } catch (err) {
+      const line = (err as Error).message.split("\n")[0];
+      if (lastErrors.get(name) !== line) console.error(`[billing] ${name} failed (will retry): ${line}`);
+      lastErrors.set(name, line);
+    }
+  };
   const tick = async () => {
     try {
       if (billingConfigured()) {
-        const r = await sendDueMeterEvents({ workspaceId: options.workspaceId });
-        if (r.sent || r.failed || r.retrying) console.log(`[billing] meter events: ${r.sent} sent, ${r.alreadyRecorded} already recorded, ${r.retrying} retrying, ${r.failed} failed`);
+        await step("meter sender", async () => {
+          const r = await sendDueMeterEvents({ workspaceId: options.workspaceId });
+          if (r.sent || r.failed || r.retrying) console.log(`[billing] meter events: ${r.sent} sent, ${r.alreadyRecorded} already recorded, ${r.retrying} retrying, ${r.failed} failed`);
+        });
       }
       if (!options.workspaceId) {
-        await expireGracePeriods();
-        await sendSpendCapNotices();
+        await step("grace periods", () => expireGracePeriods());
+        await step("spend-cap e-mails", () => sendSpendCapNotices());
         // Seat count follows membership (members invited or removed since the last pass).
-        if (billingConfigured()) await reconcileSeats();
+        if (billingConfigured()) await step("seats", () => reconcileSeats());
       }
-      lastErrorLine = "";
-    } catch (err) {
-      const line = (err as Error).message;
-      if (line !== lastErrorLine) console.error(`[billing] pass failed (will retry): ${line}`);
-      lastErrorLine = line;
     } finally {
       if (!stopped) {
         timer = setTimeout(() => void tick(), intervalMs);

@@ -200,7 +200,8 @@ describe("metering: ledger rows become meter events", () => {
     const before = (await fakeMeterEvents(customer)).length;
     await fetch(`${fakeUrl}/_fake/meter_event_delay`, { method: "POST", body: JSON.stringify({ delayMs: 150 }) });
     const ids = await addLedgerRows(ws, Array.from({ length: 30 }, (_, i) => 5 + i * 0.5));
-    const child = spawn("node_modules/.bin/tsx", ["worker/billing.ts"], {
+    // node itself (tsx as a loader), so SIGKILL hits the sender and not a wrapper.
+    const child = spawn(process.execPath, ["--import", "tsx", "worker/billing.ts"], {
       env: { ...process.env, METER_SENDER_WORKSPACE_ID: ws.id, METER_SENDER_LEASE_SECONDS: "3", METER_SENDER_INTERVAL_MS: "200" },
       stdio: "ignore",
     });
@@ -209,6 +210,8 @@ describe("metering: ledger rows become meter events", () => {
     } finally {
       child.kill("SIGKILL");
     }
+    await until("the sender process gone", async () => child.exitCode !== null || child.signalCode !== null);
+    expect(child.signalCode).toBe("SIGKILL");
     const [mid] = await sql`select count(*)::int as n from meter_outbox where ledger_id = any(${ids}) and status = 'sent'`;
     expect(mid.n).toBeLessThan(ids.length);
     await fetch(`${fakeUrl}/_fake/meter_event_delay`, { method: "POST", body: JSON.stringify({ delayMs: 0 }) });

@@ -85,7 +85,7 @@ async function enterGrace(tx: Tx, workspaceId: string): Promise<string> {
     .values({ workspaceId, graceEndsAt: graceEnds, lastPaymentFailedAt: new Date() })
     .onConflictDoUpdate({
       target: workspaceBilling.workspaceId,
-      set: { graceEndsAt: sql`coalesce(${workspaceBilling.graceEndsAt}, ${graceEnds})`, lastPaymentFailedAt: new Date(), updatedAt: new Date() },
+      set: { graceEndsAt: sql`coalesce(${workspaceBilling.graceEndsAt}, ${graceEnds.toISOString()}::timestamptz)`, lastPaymentFailedAt: new Date(), updatedAt: new Date() },
     });
   const moved = await tx
     .update(workspaces)
@@ -183,7 +183,7 @@ export async function expireGracePeriods(now = new Date()): Promise<number> {
   const rows = await db.execute(sql`
     update workspaces w set plan_state = 'suspended', updated_at = now()
     from workspace_billing b
-    where b.workspace_id = w.id and w.plan_state = 'grace' and b.grace_ends_at is not null and b.grace_ends_at <= ${now}
+    where b.workspace_id = w.id and w.plan_state = 'grace' and b.grace_ends_at is not null and b.grace_ends_at <= ${now.toISOString()}::timestamptz
     returning w.id`);
   return rows.length;
 }
