@@ -2,7 +2,7 @@
 import { COST_CONSTANTS as K } from "./cost-constants";
 import { EngineLimitError } from "./errors";
 import { buildSample } from "./network/lattice";
-import type { NetworkGraph } from "./network/graph";
+import { CH_LEFT_OUT, type NetworkGraph } from "./network/graph";
 import type { ComputeInput, Network } from "./schema";
 import { magneticCellSize } from "./compute/spectrum-cell";
 
@@ -12,10 +12,10 @@ export interface CostEstimate {
   breakdown: { item: string; count: number; workUnits: number; seconds: number }[];
 }
 
-interface SweepCost { work: number; peakMatrixBytes: number; compactMatrixBytes: number; graphBytes: number }
+interface SweepCost { work: number; workWithoutReflection: number; peakMatrixBytes: number; compactMatrixBytes: number; graphBytes: number }
 
 /** Replays an absorption schedule with integer bookkeeping only. */
-export function simulateSweep(g: NetworkGraph): { work: number; maxRows: number; maxCols: number } {
+export function simulateSweep(g: NetworkGraph, skipKind = -1): { work: number; maxRows: number; maxCols: number } {
   const absorbed = new Uint8Array(g.nodeCount);
   let nr = 0, nc = 0, work = 0, maxR = 0, maxC = 0;
   for (const group of g.schedule) {
@@ -24,8 +24,8 @@ export function simulateSweep(g: NetworkGraph): { work: number; maxRows: number;
       for (let s = g.slotOffset[m]; s < g.slotOffset[m] + g.slotCount[m]; s++) {
         const from = g.chFromNode[g.inChannel[s]];
         if (from >= 0 && absorbed[from]) p++; else nx++;
-        const to = g.chToNode[g.outChannel[s]];
-        if (to >= 0 && absorbed[to]) q++; else ny++;
+        const out = g.outChannel[s], to = g.chToNode[out];
+        if (to >= 0 && absorbed[to]) q++; else if (g.chKind[out] !== skipKind) ny++;
       }
     }
     work += q * nr * nc + q * p * nc + ny * p * nc + nr * q * nx + 4 * q * q * (p + nx);
@@ -41,16 +41,18 @@ function sweepCost(net: Network, mode: "leads" | "ring"): SweepCost {
   const C = net.size.columns;
   const small = Math.min(C, 6), smaller = Math.min(C, 3);
   const gA = buildSample(net, { mode, fluxPerPlaquette: 0, sample: 0, columns: small });
-  const a = simulateSweep(gA);
-  let work = a.work;
+  const a = simulateSweep(gA), a2 = simulateSweep(gA, CH_LEFT_OUT);
+  let work = a.work, work2 = a2.work;
   if (C > small) {
     const gB = buildSample(net, { mode, fluxPerPlaquette: 0, sample: 0, columns: smaller });
-    const b = simulateSweep(gB);
+    const b = simulateSweep(gB), b2 = simulateSweep(gB, CH_LEFT_OUT);
     work = a.work + ((a.work - b.work) / (small - smaller)) * (C - small);
+    work2 = a2.work + ((a2.work - b2.work) / (small - smaller)) * (C - small);
   }
   const perColumnChannels = gA.channelCount / small, perColumnNodes = gA.nodeCount / small;
   return {
     work,
+    workWithoutReflection: work2,
     peakMatrixBytes: 16 * (a.maxRows * 1.5 + 16) * (a.maxCols * 1.5 + 16),
     compactMatrixBytes: 16 * a.maxRows * a.maxCols,
     graphBytes: C * (perColumnChannels * K.graphBytesPerChannel + perColumnNodes * K.graphBytesPerNode),
@@ -71,7 +73,8 @@ export function estimateCost(input: ComputeInput): CostEstimate {
       const s = sweepCost(net, "leads");
       const points = c.temperatureK > 0 ? (c.temperaturePoints ?? 24) + 1 : 1;
       const samples = c.ensemble?.samples ?? 1;
-      add("slice composition (one valley, one energy)", samples * points * valleys, s.work, K.sliceMulAddsPerSecond);
+      add("slice composition, valley K with reflection (one energy)", samples * points, s.work, K.sliceMulAddsPerSecond);
+      if (valleys === 2) add("slice composition, valley K' transmission only (one energy)", samples * points, s.workWithoutReflection, K.sliceMulAddsPerSecond);
       const nIn = net.size.rows * 2;
       add("transmission eigenvalues", samples * valleys, K.eigHermitianFactor * nIn ** 3, K.eigenMulAddsPerSecond);
       peak += 2 * s.peakMatrixBytes + 2 * s.graphBytes;
@@ -79,7 +82,7 @@ export function estimateCost(input: ComputeInput): CostEstimate {
     }
     case "localization": {
       const s = sweepCost(net, "leads");
-      add("slice composition (one valley, one sample)", c.ensemble.samples * valleys, s.work, K.sliceMulAddsPerSecond);
+      add("slice composition, transmission only (one valley, one sample)", c.ensemble.samples * valleys, s.workWithoutReflection, K.sliceMulAddsPerSecond);
       peak += 2 * s.peakMatrixBytes + 2 * s.graphBytes;
       break;
     }

@@ -33,7 +33,8 @@ export interface LocalizationResult {
 
 /** ln T after every clean cut of one sweep. */
 export function lnTransmissionProfile(g: NetworkGraph, theta: number, progress?: Progress, atXs?: number[]): { xs: number[]; lnT: number[] } {
-  const abs = new Absorber(g, channelPhases(g, theta));
+  // left-lead output rows are not needed for T(L): skipped (exact, half the work)
+  const abs = new Absorber(g, channelPhases(g, theta), false, undefined, 16, CH_LEFT_OUT);
   const leftIn: number[] = [];
   for (let c = 0; c < g.channelCount; c++) if (g.chKind[c] === CH_LEFT_IN) leftIn.push(c);
   const xs: number[] = [], lnT: number[] = [];

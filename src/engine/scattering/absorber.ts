@@ -36,8 +36,11 @@ export class Absorber {
   /** The groups in the order they are absorbed (default: the graph's schedule). */
   readonly order: Int32Array[];
 
-  constructor(g: NetworkGraph, z: Float64Array, trackDeterminant = false, order?: Int32Array[], initialCapacity = 16) {
-    this.g = g; this.z = z;
+  /** Channels of this kind (e.g. left-lead outputs) get no row: exact when nothing reads them. */
+  readonly skipKind: number;
+
+  constructor(g: NetworkGraph, z: Float64Array, trackDeterminant = false, order?: Int32Array[], initialCapacity = 16, skipKind = -1) {
+    this.g = g; this.z = z; this.skipKind = skipKind;
     this.order = order ?? g.schedule;
     this.capR = initialCapacity; this.capC = initialCapacity;
     this.S = new Float64Array(2 * this.capR * this.capC);
@@ -129,7 +132,7 @@ export class Absorber {
         const ch = g.outChannel[so + s];
         const to = g.chToNode[ch];
         if (to >= 0 && this.absorbed[to]) Q.push({ col: this.chCol[ch], gidx: nodeBase[t] + s });
-        else Yout.push({ ch, gidx: nodeBase[t] + s });
+        else if (g.chKind[ch] !== this.skipKind) Yout.push({ ch, gidx: nodeBase[t] + s });
       }
     }
     // block-diagonal T of the group: T(outGidx, inGidx)
