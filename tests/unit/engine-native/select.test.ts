@@ -140,7 +140,7 @@ describe("OpenBLAS environment is set before the library loads (fresh processes)
   const run = (args: string[], env: Record<string, string | undefined>) => {
     const childEnv: Record<string, string> = {};
     for (const [k, v] of Object.entries({ ...process.env, ...env })) if (v !== undefined) childEnv[k] = v;
-    const r = spawnSync(path.join(root, "node_modules", ".bin", "tsx"), [fixture, ...args], { cwd: root, env: childEnv, encoding: "utf8", timeout: 60_000 });
+    const r = spawnSync(path.join(root, "node_modules", ".bin", "tsx"), [fixture, ...args], { cwd: root, env: childEnv as NodeJS.ProcessEnv, encoding: "utf8", timeout: 60_000 });
     if (r.status !== 0) throw new Error(`fixture failed: ${r.stderr}`);
     return JSON.parse(r.stdout.trim().split("\n").pop()!) as { ok: boolean; isMainThread: boolean; coreName: string; coreType: string | null; coreTypeSource: string; threads: number; mallocTuned: boolean; product: number[] };
   };
