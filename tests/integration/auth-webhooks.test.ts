@@ -99,12 +99,12 @@ describe("Clerk webhooks", () => {
     });
     expect(res.status).toBe(200);
     const { id } = await res.json();
-    let rows: postgres.RowList<postgres.Row[]> | undefined;
-    for (let i = 0; i < 60; i++) {
-      rows = await sql`select email from users where clerk_user_id = ${id}`;
-      if (rows.length) break;
-      await new Promise((r) => setTimeout(r, 250));
+    let found: string | undefined;
+    for (let i = 0; i < 60 && !found; i++) {
+      const rows = await sql<{ email: string }[]>`select email from users where clerk_user_id = ${id}`;
+      found = rows[0]?.email;
+      if (!found) await new Promise((r) => setTimeout(r, 250));
     }
-    expect(rows?.[0]?.email).toBe(email);
+    expect(found).toBe(email);
   });
 });
