@@ -66,13 +66,16 @@ function blocks(n: number, seed: number) {
 }
 
 function identityMinus(x: Float64Array, n: number): Float64Array {
-  const out = x.map((v) => -v);
+  const out = new Float64Array(x.length);
+  for (let i = 0; i < x.length; i++) out[i] = -x[i];
   for (let i = 0; i < n; i++) out[2 * (i * n + i)] += 1;
   return out;
 }
 
 function add(x: Float64Array, y: Float64Array): Float64Array {
-  return x.map((v, i) => v + y[i]);
+  const out = new Float64Array(x.length);
+  for (let i = 0; i < x.length; i++) out[i] = x[i] + y[i];
+  return out;
 }
 
 /** S1 * S2 (Redheffer): t = t2 (1 - r1' r2)^-1 t1, r = r1 + t1' r2 (1 - r1' r2)^-1 t1, and the primed twins. */
