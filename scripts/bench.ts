@@ -122,7 +122,8 @@ async function main(): Promise<void> {
   console.log("\n2. 100-point energy sweep at W = 32 (piscina worker threads)");
   const energies = Array.from({ length: 100 }, (_, i) => (i * 30) / 100);
   const sweep = async (threads: number) => {
-    const pool = new Piscina({ filename: SELF, minThreads: threads, maxThreads: threads, idleTimeout: 60000 });
+    // the pool threads use the TypeScript kernels (the targets of issue 3 are for them)
+    const pool = new Piscina({ filename: SELF, minThreads: threads, maxThreads: threads, idleTimeout: 60000, env: { ...process.env, TRISKEL_KERNELS: "ts" } });
     await Promise.all(Array.from({ length: threads }, () => pool.run({ W: 8, energyMeV: 0 }))); // warm-up
     const t0 = performance.now();
     const out = await Promise.all(energies.map((e) => pool.run({ W: 32, energyMeV: e }) as Promise<{ g: number; cpu: number }>));
@@ -133,6 +134,9 @@ async function main(): Promise<void> {
   const one = await sweep(1);
   const many = await sweep(cores);
   const same = one.out.every((r, i) => Math.abs(r.g - many.out[i].g) < 1e-12);
+  const cpuSum = (o: { cpu: number }[]) => o.reduce((a, b) => a + b.cpu, 0);
+  void cpuSum;
+  console.log(`   load average before: ${os.loadavg().map((x) => x.toFixed(1)).join(" ")}`);
   console.log(`   1 thread: ${one.wall.toFixed(2)} s wall;  ${cores} threads: ${many.wall.toFixed(2)} s wall;  speed-up ${(one.wall / many.wall).toFixed(2)}x (ideal ${cores}x); results identical: ${same}`);
 
   console.log("\n3. The same star products: composing W slices of 2W x 2W scattering matrices");

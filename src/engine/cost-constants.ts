@@ -5,7 +5,7 @@
  */
 export const COST_CONSTANTS = {
   /** Complex multiply-adds per second of the TypeScript kernels in the slice composition. */
-  sliceMulAddsPerSecond: 6.0e8,
+  sliceMulAddsPerSecond: 3.0e8,
   /** Complex multiply-adds per second in the dense eigen solvers (Hessenberg QR, Householder). */
   eigenMulAddsPerSecond: 2.5e8,
   /** Work of a general complex eigenproblem of size n: this factor times n^3. */
@@ -13,7 +13,7 @@ export const COST_CONSTANTS = {
   /** Work of a Hermitian eigenproblem of size n (values only): this factor times n^3. */
   eigHermitianFactor: 3,
   /** Fixed overhead per computation (parsing, graph building), seconds. */
-  baseSeconds: 0.02,
+  baseSeconds: 0.05,
   /** Bytes per channel and per node of a network graph (typed arrays). */
   graphBytesPerChannel: 96,
   graphBytesPerNode: 64,
