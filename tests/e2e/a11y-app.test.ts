@@ -46,6 +46,22 @@ describe("accessibility of the web app", () => {
       "form[aria-label='Build a sweep']",
     ],
     [
+      "finished conductance run with its figures",
+      async () => {
+        const list = (await (await api("/api/v1/networks?limit=50", { as: "researcher" })).json()) as { networks: { id: string; name: string }[] };
+        const networkId = list.networks.find((n) => n.name.startsWith("Clean"))!.id;
+        const res = await api("/api/v1/runs", { as: "researcher", method: "POST", json: { networkId, computation: { kind: "conductance", energyMeV: 2 } } });
+        const { id } = (await res.json()) as { id: string };
+        for (let i = 0; i < 240; i++) {
+          const r = (await (await api(`/api/v1/runs/${id}`, { as: "researcher" })).json()) as { status: string };
+          if (r.status === "succeeded") break;
+          await new Promise((ok) => setTimeout(ok, 500));
+        }
+        return `/runs/${id}`;
+      },
+      '[data-chart="transmission-eigenvalues"] [data-layer=bars] rect',
+    ],
+    [
       "sweep page",
       async () => {
         const list = (await (await api("/api/v1/sweeps?limit=1", { as: "researcher" })).json()) as { sweeps: { id: string }[] };

@@ -9,6 +9,8 @@ import { qk } from "@/lib/queryKeys";
 import { checkTriple } from "@/lib/ternary";
 import { GRAPHENE_LATTICE_NM, num, periodFromTwistNm, twistFromPeriodDegrees } from "@/lib/units";
 import { Field, NumberInput, Select } from "@/components/ui/Field";
+import { useMe } from "@/components/shell/useMe";
+import { PLANS } from "@/config/plans";
 import { defaultNetwork, linkLengthNm, setPath, shapeOf, type NetworkDraft } from "./draft";
 import { NetworkDrawing } from "./NetworkDrawing";
 import { TernaryDiagram } from "./TernaryDiagram";
@@ -32,6 +34,9 @@ export function NetworkEditor({ initial, canEdit }: Props) {
   const [serverError, setServerError] = useState<string | null>(null);
   const [showJson, setShowJson] = useState(false);
 
+  const me = useMe();
+  const plan = PLANS[me.data?.workspace?.plan ?? "free"];
+  const overPlan = (v: unknown) => (typeof v === "number" && v > plan.maxCellsPerSide ? `the ${plan.label} plan allows up to ${plan.maxCellsPerSide} cells per side; the drawing still shows it, but runs will be refused` : undefined);
   const triangular = draft.lattice !== "square";
   const scaleMode: "twist" | "period" = draft.periodNm !== undefined ? "period" : "twist";
   const set = (path: string, value: unknown) => {
@@ -116,10 +121,10 @@ export function NetworkEditor({ initial, canEdit }: Props) {
                 onChange={(v) => set("transverse", v)}
               />
             </Field>
-            <Field id="size.columns" label="Columns" unit="cells" error={err("size.columns") ?? err("size")} hint="along a1, lead to lead">
+            <Field id="size.columns" label="Columns" unit="cells" error={err("size.columns") ?? err("size") ?? overPlan(draft.size?.columns)} hint={`along a1, lead to lead; up to ${plan.maxCellsPerSide} on ${plan.label}`}>
               <NumberInput id="size.columns" integer value={draft.size?.columns} onChange={(v) => set("size.columns", v)} error={err("size.columns")} />
             </Field>
-            <Field id="size.rows" label="Rows" unit="cells" error={err("size.rows")} hint="across the sample">
+            <Field id="size.rows" label="Rows" unit="cells" error={err("size.rows") ?? overPlan(draft.size?.rows)} hint={`across the sample; up to ${plan.maxCellsPerSide} on ${plan.label}`}>
               <NumberInput id="size.rows" integer value={draft.size?.rows} onChange={(v) => set("size.rows", v)} error={err("size.rows")} />
             </Field>
           </div>
