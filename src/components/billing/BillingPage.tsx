@@ -53,7 +53,13 @@ const day = (iso: string) => iso.slice(0, 10);
 export function BillingPage() {
   const client = useQueryClient();
   const params = useSearchParams();
-  const overview = useQuery({ queryKey: keys.overview, queryFn: () => apiFetch<Overview>("/api/v1/billing") });
+  const returnedFromCheckout = params.get("checkout") === "success";
+  const overview = useQuery({
+    queryKey: keys.overview,
+    queryFn: () => apiFetch<Overview>("/api/v1/billing"),
+    // Back from Checkout before the payment service's confirmation arrived: look again shortly.
+    refetchInterval: (q) => (returnedFromCheckout && q.state.data && !q.state.data.hasSubscription ? 1500 : false),
+  });
   const usage = useQuery({ queryKey: keys.usage, queryFn: () => apiFetch<Usage>("/api/v1/usage") });
   const canManage = overview.data?.canManageBilling ?? false;
   const invoices = useQuery({ queryKey: keys.invoices, queryFn: () => apiFetch<{ invoices: InvoiceView[]; upcoming: InvoiceView | null }>("/api/v1/billing/invoices"), enabled: canManage && Boolean(overview.data?.hasPaymentAccount) });
@@ -80,7 +86,7 @@ export function BillingPage() {
         Plan, seats, spend cap and compute use of this workspace for {o.period}. Costs are shown before anything is charged.
       </PageHeader>
 
-      {params.get("checkout") === "success" ? (
+      {returnedFromCheckout ? (
         <p role="status" className="rounded-card border border-accent/40 bg-accent-soft p-3 text-body text-accent-strong" data-testid="checkout-done">
           Payment received. {o.plan === "lab" ? "This workspace is on the Lab plan." : "The plan changes as soon as the payment service confirms it; this page updates by itself."}
         </p>
