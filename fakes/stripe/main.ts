@@ -17,6 +17,7 @@ const fake = createFakeStripe({
   webhookUrl: process.env.STRIPE_FAKE_WEBHOOK_URL || undefined,
   webhookSecret,
   secretKey: process.env.STRIPE_SECRET_KEY || undefined,
+  stateFile: process.env.STRIPE_FAKE_STATE_FILE || undefined,
   log: (line) => console.log(`[fake-stripe] ${line}`),
 });
 await fake.listen();

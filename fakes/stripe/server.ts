@@ -3,6 +3,7 @@
 // delivery, minimal hosted Checkout and portal pages, and test-only control endpoints under /_fake.
 // Development and tests only: this is not Stripe.
 import { createHash, createHmac } from "node:crypto";
+import { existsSync, readFileSync, renameSync, writeFileSync } from "node:fs";
 import http from "node:http";
 import qs from "qs";
 import { FakeApi, type Params } from "./api";
@@ -19,6 +20,8 @@ export interface FakeOptions {
   webhookSecret: string;
   /** Secret keys accepted (anything starting with sk_test_ when empty). */
   secretKey?: string;
+  /** Keep the state in this JSON file across restarts (a developer's instance; tests leave it unset). */
+  stateFile?: string;
   log?: (line: string) => void;
 }
 
@@ -34,6 +37,24 @@ export function createFakeStripe(opts: FakeOptions) {
   const publicUrl = `http://${host}:${opts.port}`;
   const log = opts.log ?? (() => {});
   let store = new Store();
+  if (opts.stateFile && existsSync(opts.stateFile)) {
+    try {
+      store = Store.deserialize(readFileSync(opts.stateFile, "utf8"));
+      log(`state loaded from ${opts.stateFile}`);
+    } catch (err) {
+      log(`state file ${opts.stateFile} unreadable (${(err as Error).message}); starting empty`);
+    }
+  }
+  let saveTimer: NodeJS.Timeout | undefined;
+  const scheduleSave = () => {
+    if (!opts.stateFile || saveTimer) return;
+    saveTimer = setTimeout(() => {
+      saveTimer = undefined;
+      const tmp = `${opts.stateFile}.tmp`;
+      writeFileSync(tmp, store.serialize());
+      renameSync(tmp, opts.stateFile!);
+    }, 200);
+  };
   let down = false;
   /** Extra delay before answering meter events (test control, to stop a sender midway). */
   let meterEventDelayMs = 0;
@@ -311,6 +332,7 @@ export function createFakeStripe(opts: FakeOptions) {
     req.on("end", () => {
       const body = Buffer.concat(chunks).toString("utf8");
       const url = new URL(req.url ?? "/", publicUrl);
+      if (req.method !== "GET") res.on("finish", scheduleSave);
       const run = async () => {
         if (url.pathname.startsWith("/_fake/")) return handleControl(req, res, url, body);
         if (url.pathname.startsWith("/v1/")) {

@@ -105,4 +105,25 @@ export class Store {
   /** Customers whose next payments fail (test control). */
   failingCustomers = new Set<string>();
   invoiceCounter = 0;
+
+  /** Plain JSON of everything (for the state file of a developer's instance). */
+  serialize(): string {
+    const out: Record<string, unknown> = {};
+    for (const [k, v] of Object.entries(this)) out[k] = v instanceof Map ? { $map: [...v.entries()] } : v instanceof Set ? { $set: [...v] } : v;
+    return JSON.stringify(out);
+  }
+
+  static deserialize(text: string): Store {
+    const store = new Store();
+    const data = JSON.parse(text) as Record<string, unknown>;
+    const target = store as unknown as Record<string, unknown>;
+    for (const [k, v] of Object.entries(data)) {
+      if (!(k in store)) continue;
+      const box = v as { $map?: [string, unknown][]; $set?: string[] } | null;
+      if (box && typeof box === "object" && box.$map) target[k] = new Map(box.$map);
+      else if (box && typeof box === "object" && box.$set) target[k] = new Set(box.$set);
+      else target[k] = v;
+    }
+    return store;
+  }
 }

@@ -196,6 +196,24 @@ describe("metering: ledger rows become meter events", () => {
     expect(bad.body.error.message).toContain("period");
   });
 
+  it("meters a real run end to end: POST /api/v1/runs -> worker -> ledger row -> meter event", async () => {
+    const network = { lattice: "triangular", size: { columns: 6, rows: 6 }, transverse: "periodic", twistDegrees: 0.11, modeVelocityMps: 1.0e6, channelsPerLink: 1, node: { forward: 0.6, left: 0.2, right: 0.2 } };
+    let created = await call(ws, "researcher", "/api/v1/runs", { method: "POST", json: { network, computation: { kind: "conductance", energyMeV: 0.4 } } });
+    for (let i = 0; created.status === 429 && i < 5; i++) {
+      await new Promise((r) => setTimeout(r, 1500));
+      created = await call(ws, "researcher", "/api/v1/runs", { method: "POST", json: { network, computation: { kind: "conductance", energyMeV: 0.4 } } });
+    }
+    expect(created.status).toBe(202);
+    const runId = created.body.id as string;
+    const ledger = await until("the run's ledger row", async () => (await sql`select id, compute_seconds from usage_ledger where run_id = ${runId}`)[0], 120_000);
+    await until("its meter event sent", async () => (await sql`select status from meter_outbox where ledger_id = ${ledger.id}`)[0]?.status === "sent");
+    const events = await fakeMeterEvents(customer);
+    const mine = events.filter((e) => e.identifier === ledger.id);
+    expect(mine).toHaveLength(1);
+    expect(Number(mine[0].payload.value)).toBeCloseTo(Number(ledger.compute_seconds), 2);
+    expect(await meterSum(customer)).toBeCloseTo(await ledgerSum(ws), 2);
+  });
+
   it("loses nothing and duplicates nothing when a sender is killed midway", async () => {
     const before = (await fakeMeterEvents(customer)).length;
     await fetch(`${fakeUrl}/_fake/meter_event_delay`, { method: "POST", body: JSON.stringify({ delayMs: 150 }) });
@@ -215,7 +233,7 @@ describe("metering: ledger rows become meter events", () => {
     const [mid] = await sql`select count(*)::int as n from meter_outbox where ledger_id = any(${ids}) and status = 'sent'`;
     expect(mid.n).toBeLessThan(ids.length);
     await fetch(`${fakeUrl}/_fake/meter_event_delay`, { method: "POST", body: JSON.stringify({ delayMs: 0 }) });
-    await allSent(ws, 8 + ids.length);
+    await allSent(ws, 9 + ids.length);
     const events = await fakeMeterEvents(customer);
     expect(events.length).toBe(before + ids.length);
     expect(new Set(events.map((e) => e.identifier)).size).toBe(events.length);
@@ -235,7 +253,7 @@ describe("metering: ledger rows become meter events", () => {
     } finally {
       await fetch(`${fakeUrl}/_fake/up`, { method: "POST" });
     }
-    await allSent(ws, 8 + 30 + 3);
+    await allSent(ws, 9 + 30 + 3);
     expect(await meterSum(customer)).toBeCloseTo(await ledgerSum(ws), 2);
   });
 });

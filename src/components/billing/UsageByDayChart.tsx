@@ -32,7 +32,8 @@ export function UsageByDayChart({ period, days, names }: { period: string; days:
     const max = d3.max(series, (s) => d3.max(s, (p) => p[1])) ?? 0;
     return { dates, members, series, max };
   }, [period, days]);
-  const inner = { w: Math.max(200, width - m.left - m.right), h: height - m.top - m.bottom };
+  // The frame pads its figure (p-4 on each side): draw inside that.
+  const inner = { w: Math.max(200, width - 34 - m.left - m.right), h: height - m.top - m.bottom };
   const x = d3.scaleBand<string>().domain(model.dates).range([0, inner.w]).padding(0.18);
   const y = d3.scaleLinear().domain([0, Math.max(1, model.max)]).nice().range([inner.h, 0]);
   const colours = d3.scaleOrdinal<string, string>().domain(model.members).range([palette?.link ?? "#1f8f7d", palette?.linkAlt ?? "#d9891a", palette?.accent ?? "#146657", palette?.warm ?? "#9a5b08", "#5b6b75", "#7fcabb"]);

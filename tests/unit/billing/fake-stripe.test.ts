@@ -24,3 +24,20 @@ describe("signPayload", () => {
     expect(() => stripe.webhooks.constructEvent(payload + " ", header, "whsec_unit")).toThrow(/signature/i);
   });
 });
+
+describe("Store state file", () => {
+  it("round-trips maps, sets and counters through JSON", async () => {
+    const { Store } = await import("../../../fakes/stripe/store");
+    const s = new Store();
+    s.customers.set("cus_a", { id: "cus_a", object: "customer", created: 1, email: null, name: "Lab", description: null, metadata: {}, livemode: false });
+    s.meterIdentifiers.add("ledger-1");
+    s.failingCustomers.add("cus_a");
+    s.invoiceCounter = 7;
+    const back = Store.deserialize(s.serialize());
+    expect(back.customers.get("cus_a")?.name).toBe("Lab");
+    expect(back.meterIdentifiers.has("ledger-1")).toBe(true);
+    expect(back.failingCustomers.has("cus_a")).toBe(true);
+    expect(back.invoiceCounter).toBe(7);
+    expect(back.prices).toBeInstanceOf(Map);
+  });
+});
