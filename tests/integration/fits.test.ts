@@ -15,6 +15,8 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   await sql.end();
+  const { closeDb } = await import("../../src/server/db");
+  await closeDb();
 });
 
 async function waitFinished(id: string, timeoutMs = 170_000) {
@@ -57,6 +59,23 @@ describe("fits", () => {
     expect(ledger).toHaveLength(1);
     expect(ledger[0].kind).toBe("fit");
     expect(ledger[0].compute_seconds).toBeCloseTo(f.computeSeconds, 3);
+
+    // A retried job finishing the same fit again (its first attempt's worker was thought lost)
+    // writes no second companion run and no second ledger row.
+    const { finishFit } = await import("../../src/server/fits/execution");
+    await sql`update fits set status = 'running' where id = ${id}`;
+    const [row] = await sql`select workspace_id, created_by, dataset_id, input, input_hash, estimated_compute_seconds, attempts from fits where id = ${id}`;
+    const again = await finishFit(
+      { id, workspaceId: row.workspace_id, createdBy: row.created_by, datasetId: row.dataset_id, input: row.input, points: { x: [], y: [], sigma: null }, inputHash: row.input_hash, estimatedComputeSeconds: row.estimated_compute_seconds, attempts: row.attempts },
+      { status: "succeeded", result: f.result, computeSeconds: f.computeSeconds, engineVersion: f.engineVersion },
+    );
+    expect(again).toBe(true);
+    const ledgerAfter = await sql`select count(*)::int as n from usage_ledger l join fits f on f.run_id = l.run_id where f.id = ${id}`;
+    expect(ledgerAfter[0].n).toBe(1);
+    const fitRuns = await sql`select count(*)::int as n from runs where kind = 'fit' and input->>'fitId' = ${id}`;
+    expect(fitRuns[0].n).toBe(1);
+    // and a finished fit is not finished twice
+    expect(await finishFit({ id, workspaceId: row.workspace_id, createdBy: null, datasetId: row.dataset_id, input: {}, points: { x: [], y: [], sigma: null }, inputHash: "", estimatedComputeSeconds: 0, attempts: 1 }, { status: "failed", computeSeconds: 0, engineVersion: "" })).toBe(false);
 
     const report = await (await api(`/api/v1/fits/${id}/export`)).json();
     expect(report.engineVersion).toBe(f.engineVersion);

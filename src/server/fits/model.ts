@@ -66,7 +66,7 @@ export function runFit(engine: EngineLike, job: FitJobInput, hooks: Pick<FitOpti
 
 /** Engine evaluations a fit is expected to need (for the estimate shown before it starts). */
 export function expectedEvaluations(parameters: number, options: { maxIterations?: number; multiStart?: number } = {}): number {
-  const iterations = Math.min(options.maxIterations ?? 40, 15);
+  const iterations = Math.min(options.maxIterations ?? 40, 8);
   const starts = options.multiStart ?? 1;
   return starts * (1 + iterations * (parameters + 1)) + 2 * parameters + 1;
 }
