@@ -33,10 +33,12 @@ describe("web app main flow", () => {
     const switcher = page.getByRole("combobox", { name: "Workspace" });
     await switcher.waitFor();
     await switcher.selectOption({ label: "Larkspur Devices Lab" });
+    await page.waitForURL(/\/networks$/);
+    await page.waitForLoadState("load");
     await expect.poll(() => page.locator("aside").innerText(), { timeout: 30_000 }).toContain("Lab plan");
     const nav = page.getByRole("navigation", { name: "Main" });
     for (const label of ["Networks", "Runs", "Sweeps", "Datasets", "Fits", "Workspace"]) {
-      await expect(nav.getByRole("link", { name: new RegExp(`^${label}`) }).count()).resolves.toBe(1);
+      await expect.poll(() => nav.getByRole("link", { name: new RegExp(`^${label}`) }).count()).toBe(1);
     }
     await expect.poll(() => page.locator("aside").innerText()).toMatch(/Mei Lindqvist\s*Researcher/i);
     // A researcher does not manage billing: the link is hidden (the server refuses regardless).
@@ -128,7 +130,9 @@ describe("web app main flow", () => {
     await fill(page, "axis1.from", 0);
     await fill(page, "axis1.to", 10);
     await fill(page, "axis1.points", 5);
-    await expect(form.getByTestId("point-count").innerText()).resolves.toMatch(/^20 points/);
+    // An ensemble of disorder seeds per point, so the sweep runs long enough to watch it fill in.
+    await fill(page, "sweep.ensemble", 40);
+    await expect(form.getByTestId("point-count").innerText()).resolves.toMatch(/^20 points × 40 seeds/);
     await expect(form.getByTestId("estimate").innerText()).resolves.toMatch(/Estimate: [\d.]+ compute-(seconds|minutes)[\s\S]*For all 20 points/);
     await form.getByRole("button", { name: "Start sweep of 20 points" }).click();
     await page.waitForURL(/\/sweeps\/[0-9a-f-]{36}$/);
@@ -138,21 +142,25 @@ describe("web app main flow", () => {
     // Partial results: cells fill in while the sweep runs; the map always has all 20 cells.
     const cells = plot.locator("[data-layer=cells] rect");
     await expect.poll(() => cells.count(), { timeout: 60_000 }).toBe(20);
-    const seen = new Set<number>();
+    const seen: number[] = [];
+    let partialShot = false;
     await expect
       .poll(
         async () => {
           const n = await plot.locator('[data-layer=cells] rect[data-filled="yes"]').count();
-          seen.add(n);
-          if (n > 0 && n < 20 && !seen.has(-1)) {
-            seen.add(-1);
+          seen.push(n);
+          if (n > 0 && n < 20 && !partialShot) {
+            partialShot = true;
             await shot("app-sweep-partial.png");
           }
           return n;
         },
-        { timeout: 120_000, interval: 250 },
+        { timeout: 180_000, interval: 200 },
       )
       .toBe(20);
+    // The map filled in point by point: some states in between were drawn, never fewer cells later.
+    expect(seen.some((n) => n > 0 && n < 20)).toBe(true);
+    expect(seen.every((n, i) => i === 0 || n >= seen[i - 1])).toBe(true);
     await page.locator('[data-status="succeeded"]').first().waitFor({ timeout: 30_000 });
     await expect(plot.locator("[data-layer=colorbar] rect").count()).resolves.toBeGreaterThan(0);
     await expect(plot.locator("[data-label=x]").textContent()).resolves.toBe("Energy (meV)");

@@ -2,7 +2,7 @@
 
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
-import { useDeferredValue, useMemo, useState } from "react";
+import { useDeferredValue, useEffect, useMemo, useState } from "react";
 import { apiFetch, ApiClientError, type NetworkRecord } from "@/lib/api";
 import { validateNetwork, type Issues } from "@/lib/engineClient";
 import { qk } from "@/lib/queryKeys";
@@ -35,8 +35,12 @@ export function NetworkEditor({ initial, canEdit }: Props) {
   const [showJson, setShowJson] = useState(false);
 
   const me = useMe();
-  const plan = PLANS[me.data?.workspace?.plan ?? "free"];
-  const overPlan = (v: unknown) => (typeof v === "number" && v > plan.maxCellsPerSide ? `the ${plan.label} plan allows up to ${plan.maxCellsPerSide} cells per side; the drawing still shows it, but runs will be refused` : undefined);
+  // Plan-dependent text only after mount, so the server's HTML and the first client render agree.
+  const [mounted, setMounted] = useState(false);
+  useEffect(() => setMounted(true), []);
+  const planId = mounted ? me.data?.workspace?.plan : undefined;
+  const plan = PLANS[planId ?? "free"];
+  const overPlan = (v: unknown) => (planId && typeof v === "number" && v > plan.maxCellsPerSide ? `the ${plan.label} plan allows up to ${plan.maxCellsPerSide} cells per side; the drawing still shows it, but runs will be refused` : undefined);
   const triangular = draft.lattice !== "square";
   const scaleMode: "twist" | "period" = draft.periodNm !== undefined ? "period" : "twist";
   const set = (path: string, value: unknown) => {
@@ -121,10 +125,10 @@ export function NetworkEditor({ initial, canEdit }: Props) {
                 onChange={(v) => set("transverse", v)}
               />
             </Field>
-            <Field id="size.columns" label="Columns" unit="cells" error={err("size.columns") ?? err("size") ?? overPlan(draft.size?.columns)} hint={`along a1, lead to lead; up to ${plan.maxCellsPerSide} on ${plan.label}`}>
+            <Field id="size.columns" label="Columns" unit="cells" error={err("size.columns") ?? err("size") ?? overPlan(draft.size?.columns)} hint={planId ? `along a1, lead to lead; up to ${plan.maxCellsPerSide} on ${plan.label}` : "along a1, lead to lead"}>
               <NumberInput id="size.columns" integer value={draft.size?.columns} onChange={(v) => set("size.columns", v)} error={err("size.columns")} />
             </Field>
-            <Field id="size.rows" label="Rows" unit="cells" error={err("size.rows") ?? overPlan(draft.size?.rows)} hint={`across the sample; up to ${plan.maxCellsPerSide} on ${plan.label}`}>
+            <Field id="size.rows" label="Rows" unit="cells" error={err("size.rows") ?? overPlan(draft.size?.rows)} hint={planId ? `across the sample; up to ${plan.maxCellsPerSide} on ${plan.label}` : "across the sample"}>
               <NumberInput id="size.rows" integer value={draft.size?.rows} onChange={(v) => set("size.rows", v)} error={err("size.rows")} />
             </Field>
           </div>
