@@ -306,6 +306,19 @@ describe("webhooks", () => {
   });
 });
 
+const smallRun = {
+  network: { lattice: "triangular", size: { columns: 6, rows: 6 }, transverse: "periodic", twistDegrees: 0.11, modeVelocityMps: 1.0e6, channelsPerLink: 1, node: { forward: 0.6, left: 0.2, right: 0.2 } },
+  computation: { kind: "conductance", energyMeV: 0.4 },
+};
+/** A dry run through the runs API (every check, budget included; nothing written), 429s waited out. */
+async function dryRun(ws: TestWorkspace) {
+  for (let i = 0; ; i++) {
+    const r = await call(ws, "owner", "/api/v1/runs?dryRun=true", { method: "POST", json: smallRun });
+    if (r.status !== 429 || i >= 5) return r;
+    await new Promise((res) => setTimeout(res, 1500));
+  }
+}
+
 describe("free quota and spend cap", () => {
   it("refuses a job over the free quota with the documented message (402)", async () => {
     const { assertWithinBudget } = await import("@/server/billing/budget");
@@ -316,6 +329,12 @@ describe("free quota and spend cap", () => {
     expect(err.message).toContain("only 10 compute-seconds of the Free plan's 30 compute-minutes are left this month");
     expect(err.details).toMatchObject({ limit: "free_quota", usedComputeSeconds: 1790 });
     await expect(assertWithinBudget(ws.id, 10)).resolves.toBeTruthy();
+    // Through the runs API once nothing is left.
+    await addLedgerRows(ws, [10], "free");
+    const refused = await dryRun(ws);
+    expect(refused.status).toBe(402);
+    expect(refused.body.error.code).toBe("payment_required");
+    expect(refused.body.error.message).toContain("only 0 compute-seconds of the Free plan's 30 compute-minutes are left this month");
   });
 
   it("refuses a job over the spend cap (402) and e-mails the Owner and Billing admin at 80 % and 100 %", async () => {
@@ -351,5 +370,10 @@ describe("free quota and spend cap", () => {
     expect(both.some((m) => m.subject.includes("reached the spend cap"))).toBe(true);
     await new Promise((r) => setTimeout(r, 3000));
     expect((await mails()).length).toBe(2);
+    // Past the cap, the runs API refuses even a small job, naming the cap and the spend.
+    const refused = await dryRun(ws);
+    expect(refused.status).toBe(402);
+    expect(refused.body.error.message).toContain("past the spend cap of 1.00 USD");
+    expect(refused.body.error.details).toMatchObject({ limit: "spend_cap", spendCapUsd: 1 });
   });
 });
