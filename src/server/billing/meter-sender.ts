@@ -54,7 +54,10 @@ export async function queueLedgerRows(): Promise<number> {
     insert into meter_outbox (ledger_id, workspace_id, compute_seconds, usage_at)
     select l.id, l.workspace_id, l.compute_seconds, l.created_at
     from usage_ledger l
-    where l.plan = 'lab' and not exists (select 1 from meter_outbox o where o.ledger_id = l.id)
+    where l.plan = 'lab'
+      -- Stripe takes meter events of the past 35 days only; older rows were queued long ago.
+      and l.created_at > now() - interval '35 days'
+      and not exists (select 1 from meter_outbox o where o.ledger_id = l.id)
     order by l.created_at
     limit 5000
     on conflict (ledger_id) do nothing
