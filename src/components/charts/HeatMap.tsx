@@ -13,8 +13,8 @@ const tkSequential = d3.interpolateRgbBasis(SEQUENTIAL_STOPS);
 const M = { top: 14, right: 86, bottom: 44, left: 62 };
 
 /**
- * Two-axis sweep as a heat map: rows are the first axis (y), columns the second (x); empty
- * (unfinished) points are hatched grey. A colour bar shows the scale of the quantity.
+ * Two-axis sweep as a heat map: rows are the first axis (y), columns the second (x); points not
+ * computed yet are plain grey. A colour bar shows the scale of the quantity.
  */
 export function HeatMap({ title, name, xValues, yValues, values, xLabel, yLabel, zLabel, zUnit = "", csv, height = 360 }: { title: string; name: string; xValues: number[]; yValues: number[]; values: (number | null)[]; xLabel: string; yLabel: string; zLabel: string; zUnit?: string; csv?: CsvData; height?: number }) {
   const { ref, width, palette } = useChartBox();
@@ -74,7 +74,14 @@ export function HeatMap({ title, name, xValues, yValues, values, xLabel, yLabel,
     bar.append("text").attr("transform", `translate(62,${barH / 2}) rotate(90)`).attr("text-anchor", "middle").attr("font-size", 11).attr("fill", palette.fg).text(zUnit ? `${zLabel} (${zUnit})` : zLabel);
   }, [palette, width, height, xValues, yValues, values, xLabel, yLabel, zLabel, zUnit, name]);
   return (
-    <ChartFrame title={title} name={name} svgRef={svgRef} csv={csv} readout={readout}>
+    <ChartFrame
+      title={title}
+      name={name}
+      svgRef={svgRef}
+      csv={csv}
+      readout={readout}
+      extra={values.some((v) => v === null) ? <span className="flex items-center gap-1.5 text-caption text-fg-faint"><span aria-hidden className="inline-block h-3 w-3 rounded-sm" style={{ background: palette?.grid }} />not computed yet</span> : null}
+    >
       <div ref={ref}>
         <svg ref={svgRef} width={width} height={height} role="img" aria-label={`${title}: ${zLabel} over ${yLabel} and ${xLabel}`} />
       </div>

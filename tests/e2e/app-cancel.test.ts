@@ -1,0 +1,40 @@
+// Cancelling from the sweep page: the button stops a running sweep; its page then says so and no
+// further points are computed.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Browser } from "playwright-core";
+import { launchBrowser } from "../support/browser";
+import { api } from "../support/services";
+import { signedInPage, url } from "./app-helpers";
+
+let browser: Browser;
+let close: () => Promise<void>;
+beforeAll(async () => {
+  ({ browser, close } = await launchBrowser());
+});
+afterAll(async () => {
+  await close?.();
+});
+
+describe("cancel from the page", () => {
+  it("cancels a running sweep and shows it cancelled", async () => {
+    const network = { lattice: "triangular", size: { columns: 24, rows: 16 }, transverse: "periodic", twistDegrees: 0.11, node: { forward: 0.5, left: 0.25, right: 0.25 }, disorder: { linkPhaseWidthRad: 6.28, forwardSpread: 0, seed: 3 } };
+    const res = await api("/api/v1/sweeps", {
+      as: "researcher",
+      method: "POST",
+      json: { network, computation: { kind: "conductance" }, axes: [{ parameter: "energyMeV", from: 0, to: 30, points: 60 }], ensemble: { samples: 40 } },
+    });
+    expect(res.status).toBe(202);
+    const { id } = (await res.json()) as { id: string };
+    const page = await signedInPage(browser, "researcher");
+    await page.goto(url(`/sweeps/${id}`));
+    const cancel = page.getByRole("button", { name: "Cancel sweep" });
+    await cancel.waitFor();
+    await cancel.click();
+    await page.locator('[data-status="cancelled"]').waitFor({ timeout: 60_000 });
+    await expect.poll(() => page.getByTestId("sweep-counts").innerText(), { timeout: 30_000 }).toMatch(/0 running · 0 queued/);
+    await expect(page.getByTestId("sweep-counts").innerText()).resolves.toMatch(/cancelled/);
+    await expect(page.getByRole("button", { name: "Cancel sweep" }).count()).resolves.toBe(0);
+    const done = (await (await api(`/api/v1/sweeps/${id}`, { as: "researcher" })).json()) as { counts: { succeeded: number } };
+    expect(done.counts.succeeded).toBeLessThan(60);
+  });
+});
