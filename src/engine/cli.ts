@@ -4,9 +4,9 @@
  * standard error naming the field. Other failures: exit code 1.
  */
 import { readFileSync } from "node:fs";
-import { compute } from "./compute";
-import { EngineInputError, EngineLimitError } from "./errors";
-import { parseComputeInput } from "./schema";
+// Through the engine's entry point, so the kernel backend is chosen exactly as for the worker
+// (and engineVersion names it): the command line and the API give the same result.
+import { compute, EngineInputError, EngineLimitError, parseComputeInput } from "./index";
 
 function usage(): never {
   process.stderr.write("usage: npm run -s cli -- compute FILE.json   (FILE.json may be - for standard input)\n");
