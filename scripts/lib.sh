@@ -36,7 +36,7 @@ ensure_system_packages() {
   command -v runuser >/dev/null || missing+=(util-linux)
   # OpenBLAS + LAPACKE for the engine's native kernels (the engine falls back to TypeScript without them).
   [ -e /usr/include/lapacke.h ] || missing+=(liblapacke-dev)
-  ls /usr/include/*/openblas*/cblas.h /usr/include/openblas/cblas.h >/dev/null 2>&1 || missing+=(libopenblas-dev)
+  compgen -G "/usr/include/*/openblas*/cblas.h" >/dev/null || compgen -G "/usr/include/openblas/cblas.h" >/dev/null || missing+=(libopenblas-dev)
   if [ "$mode" = test ]; then
     [ -x /usr/bin/chromium ] || missing+=(chromium)
     /usr/bin/python3 -c 'import numpy' >/dev/null 2>&1 || missing+=(python3-numpy)
