@@ -64,6 +64,11 @@ describe("sign-up, sign-out, sign-in", () => {
     expect(first.body.workspace).toMatchObject({ kind: "personal", plan: "free" });
     expect(first.body.member).toMatchObject({ email, name: "Ada Quill", role: "owner" });
 
+    // Signed in, the sign-in page offers the way in instead of a form.
+    await page.goto(url("/sign-in"));
+    await page.locator('[data-testid="already-signed-in"]').waitFor();
+    await expect(page.locator('[data-testid="sign-in-form"]').count()).resolves.toBe(0);
+
     await page.goto(url("/sign-out"));
     await page.waitForURL((u) => u.pathname === "/sign-in", { timeout: 60_000 });
     await page.locator('[data-testid="sign-in-form"][data-ready="yes"]').waitFor({ timeout: 60_000 });
@@ -125,6 +130,8 @@ describe("invitations", () => {
     await invitee.getByText("Clean 0.11° triangular network").first().waitFor({ timeout: 30_000 });
     await invitee.screenshot({ path: join(SCREENSHOT_DIR, "auth-invitee-networks.png"), fullPage: true });
     await invitee.context().close();
+    // Leave the demo lab as seeded for other test files.
+    expect((await api(`/api/v1/workspace/members/${me.body.member.id}`, { method: "DELETE", as: "owner" })).status).toBe(204);
   });
 });
 

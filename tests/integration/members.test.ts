@@ -1,7 +1,7 @@
 // Members of a workspace (/api/v1/workspace/members) and invitations by e-mail, per the Roles
 // table of product.md: Owners manage members; Billing admins fill and free Researcher and Viewer
 // seats; others only read. Changes reach Clerk (the stand-in) and the PostgreSQL mirror.
-import { describe, expect, it } from "vitest";
+import { afterAll, describe, expect, it } from "vitest";
 import { api, appUrl } from "../support/services";
 import { createStandInUser, sessionCookies, sessionFetch, waitForMail } from "../support/session";
 
@@ -20,6 +20,15 @@ async function clerkMembers(orgId: string): Promise<{ role: string; public_user_
   return (await res.json()).data;
 }
 
+// People these tests add to the demo lab leave it again, so the demo data stays as seeded.
+const joined: string[] = [];
+afterAll(async () => {
+  for (const userId of joined) await api(`/api/v1/workspace/members/${userId}`, { method: "DELETE", as: "owner" });
+  const open = (await (await api("/api/v1/workspace/invitations", { as: "owner" })).json()).invitations as { id: string; email: string; status: string }[];
+  for (const i of open.filter((x) => x.status === "pending" && x.email.endsWith("@invitee.example")))
+    await api(`/api/v1/workspace/invitations/${i.id}`, { method: "DELETE", as: "owner" });
+});
+
 /** An Owner invites; the invitee (a new person) accepts; returns their credentials and user id. */
 async function inviteAndAccept(role: "researcher" | "viewer") {
   const email = unique(role);
@@ -30,6 +39,7 @@ async function inviteAndAccept(role: "researcher" | "viewer") {
   const accepted = await sessionFetch(person, "/api/v1/workspace/invitations/accept", { method: "POST", json: { token: tokenFrom(mail.text) } });
   expect(accepted.status).toBe(200);
   const me = await (await sessionFetch(person, "/api/v1/workspace", { organizationId: LAB_ORG })).json();
+  joined.push(me.member.id);
   return { person, email, userId: me.member.id as string, me };
 }
 

@@ -1,5 +1,7 @@
 import type { Metadata } from "next";
+import { Show } from "@clerk/nextjs";
 import { Suspense } from "react";
+import { AlreadySignedIn } from "@/components/auth/AlreadySignedIn";
 import { AuthFrame } from "@/components/auth/AuthFrame";
 import { SignInForm } from "@/components/auth/SignInForm";
 
@@ -8,9 +10,14 @@ export const metadata: Metadata = { title: "Sign in" };
 export default function SignInPage() {
   return (
     <AuthFrame title="Sign in" lead="Welcome back. Your workspaces are where you left them.">
-      <Suspense>
-        <SignInForm />
-      </Suspense>
+      <Show when="signed-in">
+        <AlreadySignedIn />
+      </Show>
+      <Show when="signed-out">
+        <Suspense>
+          <SignInForm />
+        </Suspense>
+      </Show>
     </AuthFrame>
   );
 }

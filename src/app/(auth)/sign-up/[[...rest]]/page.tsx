@@ -1,5 +1,7 @@
 import type { Metadata } from "next";
+import { Show } from "@clerk/nextjs";
 import { Suspense } from "react";
+import { AlreadySignedIn } from "@/components/auth/AlreadySignedIn";
 import { AuthFrame } from "@/components/auth/AuthFrame";
 import { SignUpForm } from "@/components/auth/SignUpForm";
 
@@ -8,9 +10,14 @@ export const metadata: Metadata = { title: "Create an account" };
 export default function SignUpPage() {
   return (
     <AuthFrame title="Create your account" lead="You get a personal workspace on the Free plan; a lab can invite you to theirs.">
-      <Suspense>
-        <SignUpForm />
-      </Suspense>
+      <Show when="signed-in">
+        <AlreadySignedIn />
+      </Show>
+      <Show when="signed-out">
+        <Suspense>
+          <SignUpForm />
+        </Suspense>
+      </Show>
     </AuthFrame>
   );
 }
