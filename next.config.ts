@@ -9,6 +9,11 @@ const nextConfig: NextConfig = {
   turbopack: { root: import.meta.dirname },
   serverExternalPackages: ["piscina", "bullmq", "ioredis", "postgres"],
   typescript: { tsconfigPath: "tsconfig.json" },
+  // Accounts (docs/accounts.md): the browser reaches the local sign-in stand-in same-origin.
+  async rewrites() {
+    const clerkFake = process.env.CLERK_FAKE_URL;
+    return clerkFake ? [{ source: "/__clerk/:path*", destination: `${clerkFake}/:path*` }] : [];
+  },
 };
 
 export default nextConfig;

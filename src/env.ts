@@ -18,6 +18,17 @@ export const envSchema = z.object({
   /** Engine runs in parallel per worker process (threads in the pool). */
   WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(2),
   LOG_LEVEL: z.enum(["debug", "info", "warn", "error"]).default("info"),
+  // --- accounts (docs/accounts.md): Clerk through @clerk/nextjs, which reads its own CLERK_* and
+  // NEXT_PUBLIC_CLERK_* variables; scripts/env.d/clerk.sh points them at the local stand-in.
+  CLERK_SECRET_KEY: z.string().regex(/^sk_(test|live)_/, "must be a Clerk secret key (sk_test_... or sk_live_...)").optional(),
+  NEXT_PUBLIC_CLERK_PUBLISHABLE_KEY: z.string().regex(/^pk_(test|live)_/, "must be a Clerk publishable key (pk_test_... or pk_live_...)").optional(),
+  /** Signing secret of the Clerk webhook endpoint /api/webhooks/clerk (Standard Webhooks). */
+  CLERK_WEBHOOK_SECRET: z.string().regex(/^whsec_[A-Za-z0-9+/=_-]+$/, "must be a webhook signing secret (whsec_...)").optional(),
+  // --- mail (docs/accounts.md): nodemailer over SMTP; locally the maildev stand-in.
+  SMTP_URL: z.string().regex(/^smtps?:\/\//, "must start with smtp:// or smtps://").default("smtp://127.0.0.1:1025"),
+  MAIL_FROM: z.string().min(3, "must be a sender such as `Triskel <no-reply@example.org>`").default("Triskel <no-reply@triskel.local>"),
+  /** Days an invitation link stays valid. */
+  INVITATION_TTL_DAYS: z.coerce.number().int().min(1).max(90).default(7),
   // --- billing (docs/billing.md): Stripe through its SDK; the local stand-in sets all of these.
   STRIPE_SECRET_KEY: z.string().regex(/^(sk|rk)_(test|live)_/, "must be a Stripe secret key (sk_test_... or sk_live_...)").optional(),
   STRIPE_WEBHOOK_SECRET: z.string().regex(/^whsec_/, "must be a webhook signing secret (whsec_...)").optional(),

@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import type { ReactNode } from "react";
+import { TriskelAuthProvider } from "@/components/auth/TriskelAuthProvider";
 import { mono, sans } from "./fonts";
 import "./globals.css";
 
@@ -11,7 +12,9 @@ export const metadata: Metadata = {
 export default function RootLayout({ children }: { children: ReactNode }) {
   return (
     <html lang="en" className={`${sans.variable} ${mono.variable}`}>
-      <body>{children}</body>
+      <body>
+        <TriskelAuthProvider>{children}</TriskelAuthProvider>
+      </body>
     </html>
   );
 }
