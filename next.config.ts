@@ -2,13 +2,42 @@ import type { NextConfig } from "next";
 
 // NEXT_DIST_DIR lets the test command build into its own folder, so a developer's running
 // instance (.next) and a test run never overwrite each other.
+// Security headers on every page and API response (docs/reliability.md). No 'unsafe-eval' in
+// production (development's fast refresh needs it); scripts, clerk-js (/clerk/) and the sign-in
+// stand-in (/__clerk/) are same-origin; inline scripts/styles are Next's hydration data and styles.
+// CSP_CONNECT_EXTRA adds origins the browser may call (e.g. a hosted Clerk Frontend API).
+const csp = [
+  "default-src 'self'",
+  `script-src 'self' 'unsafe-inline'${process.env.NODE_ENV === "production" ? "" : " 'unsafe-eval'"}`,
+  "style-src 'self' 'unsafe-inline'",
+  "img-src 'self' data: blob:",
+  "font-src 'self' data:",
+  `connect-src 'self'${process.env.CSP_CONNECT_EXTRA ? ` ${process.env.CSP_CONNECT_EXTRA}` : ""}`,
+  "worker-src 'self' blob:",
+  "object-src 'none'",
+  "base-uri 'self'",
+  "frame-ancestors 'none'",
+].join("; ");
+const securityHeaders = [
+  { key: "Content-Security-Policy", value: csp },
+  { key: "X-Frame-Options", value: "DENY" },
+  { key: "Referrer-Policy", value: "strict-origin-when-cross-origin" },
+  { key: "X-Content-Type-Options", value: "nosniff" },
+  { key: "Permissions-Policy", value: "camera=(), microphone=(), geolocation=(), payment=(), usb=()" },
+];
+
 const nextConfig: NextConfig = {
+  async headers() {
+    return [{ source: "/:path*", headers: securityHeaders }];
+  },
   distDir: process.env.NEXT_DIST_DIR || ".next",
   reactStrictMode: true,
   poweredByHeader: false,
   turbopack: { root: import.meta.dirname },
   serverExternalPackages: ["piscina", "bullmq", "ioredis", "postgres"],
-  typescript: { tsconfigPath: "tsconfig.json" },
+  // scripts/lib.sh (build_web) writes tsconfig.next.json for each build folder, so builds never
+  // rewrite the committed tsconfig.json; a plain `next build` uses tsconfig.json.
+  typescript: { tsconfigPath: process.env.NEXT_TSCONFIG || "tsconfig.json" },
   // Accounts (docs/accounts.md): the browser reaches the local sign-in stand-in same-origin.
   async rewrites() {
     const clerkFake = process.env.CLERK_FAKE_URL;

@@ -2,6 +2,7 @@ import { and, eq, isNull } from "drizzle-orm";
 import { getDb } from "@/server/db";
 import { apiTokens, memberships, workspaces } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
+import { consumeRateLimit } from "@/server/http/rate-limit";
 import { can, describeAction, lesserRole, rolesAllowed, ROLE_LABELS, type Action, type Role } from "./permissions";
 import { hashToken, looksLikeToken } from "./tokens";
 
@@ -26,10 +27,15 @@ export async function getCaller(req: Request): Promise<Caller> {
   if (header) {
     const match = /^Bearer\s+(\S+)$/i.exec(header.trim());
     if (!match) throw new ApiError("unauthenticated", "Authorization header must be `Bearer <API token>`.");
-    return callerFromToken(match[1]);
+    const caller = await callerFromToken(match[1]);
+    await consumeRateLimit(`token:${caller.tokenId}`, req.method);
+    return caller;
   }
   const fromSession = await (sessionResolver ?? defaultSessionResolver)(req);
-  if (fromSession) return fromSession;
+  if (fromSession) {
+    await consumeRateLimit(`user:${fromSession.userId}`, req.method);
+    return fromSession;
+  }
   throw new ApiError("unauthenticated", "Sign in, or send `Authorization: Bearer <API token>` (create one under Workspace → API tokens).");
 }
 
