@@ -5,7 +5,8 @@ import { describe, expect, it } from "vitest";
 const tsx = new URL("../../node_modules/.bin/tsx", import.meta.url).pathname;
 
 function run(script: string, env: Record<string, string>) {
-  return spawnSync(tsx, [script], { env: { PATH: process.env.PATH ?? "", HOME: process.env.HOME ?? "/tmp", ...env }, encoding: "utf8", timeout: 30_000 });
+  const childEnv: NodeJS.ProcessEnv = { NODE_ENV: "test", PATH: process.env.PATH ?? "", HOME: process.env.HOME ?? "/tmp", ...env };
+  return spawnSync(tsx, [script], { env: childEnv, encoding: "utf8", timeout: 30_000 });
 }
 
 describe("start-up with a bad environment", () => {
