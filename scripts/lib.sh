@@ -49,6 +49,9 @@ ensure_node_modules() {
     log "installing npm packages (npm ci)"
     npm ci --no-audit --no-fund --loglevel=error
   fi
+  # The native OpenBLAS kernels are built by npm's install script; build them here too when
+  # node_modules predates the system libraries or scripts were skipped (never fatal).
+  [ -e src/engine/native/build/Release/triskel_kernels.node ] || node scripts/build-native.mjs || true
 }
 
 # setup_instance NAME PORT_BASE: folders and every environment variable of one instance.
