@@ -1,0 +1,45 @@
+// Inline messages of the run form (the engine's schema, field by field) and the not-found page
+// of the signed-in area.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Browser } from "playwright-core";
+import { launchBrowser } from "../support/browser";
+import { api } from "../support/services";
+import { fill, signedInPage, url } from "./app-helpers";
+
+let browser: Browser;
+let close: () => Promise<void>;
+beforeAll(async () => {
+  ({ browser, close } = await launchBrowser());
+});
+afterAll(async () => {
+  await close?.();
+});
+
+describe("states of the web app", () => {
+  it("names the field and the allowed range when a run parameter is out of bounds", async () => {
+    const list = (await (await api("/api/v1/networks?limit=50", { as: "researcher" })).json()) as { networks: { id: string; name: string }[] };
+    const id = list.networks.find((n) => n.name.startsWith("Clean"))!.id;
+    const page = await signedInPage(browser, "researcher");
+    await page.goto(url(`/networks/${id}`));
+    const form = page.getByRole("form", { name: "Run a computation" });
+    await form.waitFor();
+    await fill(page, "run.temperatureK", -1);
+    const message = page.locator('[data-field-error="run.temperatureK"]');
+    await message.waitFor();
+    await expect(message.innerText()).resolves.toMatch(/0/);
+    await expect(form.getByRole("button", { name: "Run conductance" }).isDisabled()).resolves.toBe(true);
+    await expect(form.getByTestId("estimate").innerText()).resolves.toMatch(/once every field is valid/);
+    await fill(page, "run.temperatureK", 1.5);
+    await expect.poll(() => message.count()).toBe(0);
+    await expect(form.getByRole("button", { name: "Run conductance" }).isEnabled()).resolves.toBe(true);
+    await page.close();
+  });
+
+  it("shows the workspace's not-found page for a run that is not there", async () => {
+    const page = await signedInPage(browser, "researcher");
+    await page.goto(url("/runs/00000000-0000-4000-8000-000000000000"));
+    await page.getByRole("heading", { name: "Nothing here in this workspace" }).waitFor();
+    await expect(page.getByRole("link", { name: "Go to networks" }).count()).resolves.toBe(1);
+    await page.close();
+  });
+});
