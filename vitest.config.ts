@@ -40,6 +40,23 @@ export default defineConfig({
           fileParallelism: false,
         },
       },
+      // npm run test:soak only (scripts/soak.sh sets TRISKEL_SOAK=1): fault drills with restarts
+      // and the load test; never part of `npm test`.
+      ...(process.env.TRISKEL_SOAK === "1"
+        ? [
+            {
+              extends: true as const,
+              test: {
+                name: "soak",
+                include: ["tests/soak/**/*.test.ts"],
+                environment: "node" as const,
+                testTimeout: 600_000,
+                hookTimeout: 180_000,
+                fileParallelism: false,
+              },
+            },
+          ]
+        : []),
       {
         extends: true,
         test: {

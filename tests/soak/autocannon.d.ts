@@ -1,0 +1,25 @@
+// autocannon 8 ships no type declarations; the load test uses this much of it.
+declare module "autocannon" {
+  interface Request {
+    method?: string;
+    path?: string;
+    headers?: Record<string, string>;
+    body?: string;
+  }
+  interface Result {
+    requests: { total: number; average: number };
+    errors: number;
+    timeouts: number;
+    non2xx: number;
+  }
+  interface Instance {
+    on(event: "response", fn: (client: unknown, statusCode: number, bytes: number, responseTime: number) => void): void;
+    on(event: "done", fn: (result: Result) => void): void;
+    on(event: "error", fn: (err: Error) => void): void;
+  }
+  function autocannon(opts: { url: string; connections: number; duration: number; timeout: number; requests: Request[] }): Instance;
+  namespace autocannon {
+    export type { Request, Result };
+  }
+  export default autocannon;
+}

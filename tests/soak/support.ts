@@ -1,0 +1,128 @@
+// Helpers of the soak drills (npm run test:soak, scripts/soak.sh): a Lab workspace of their own
+// (subscribed through the Stripe stand-in, no spend cap) so the demo lab's budget is untouched,
+// service control, and the figures file.
+import { execFile } from "node:child_process";
+import { mkdirSync, readFileSync, writeFileSync, existsSync } from "node:fs";
+import { join } from "node:path";
+import { promisify } from "node:util";
+import postgres from "postgres";
+import { displayPrefix, hashToken, newTokenSecret } from "@/server/auth/tokens";
+import { appUrl, databaseUrl } from "../support/services";
+
+export const sql = postgres(databaseUrl(), { max: 3, onnotice: () => {}, connect_timeout: 5 });
+export const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+export const stripeFake = () => `http://127.0.0.1:${process.env.STRIPE_FAKE_PORT}`;
+
+export interface SoakWorkspace {
+  id: string;
+  tokens: { owner: string; billingAdmin: string; researcher: string };
+  userIds: Record<string, string>;
+  customer: string;
+}
+
+export async function createLabWorkspace(name: string): Promise<SoakWorkspace> {
+  const slug = `soak-${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 8)}`;
+  const [ws] = await sql`insert into workspaces (name, slug, kind, plan) values (${name}, ${slug}, 'lab', 'free') returning id`;
+  const tokens: Record<string, string> = {};
+  const userIds: Record<string, string> = {};
+  for (const [key, role] of [["owner", "owner"], ["billingAdmin", "billing_admin"], ["researcher", "researcher"]] as const) {
+    const [u] = await sql`insert into users (email, name) values (${`${key}-${slug}@soak.example`}, ${`${key} of ${name}`}) returning id`;
+    await sql`insert into memberships (workspace_id, user_id, role) values (${ws.id}, ${u.id}, ${role})`;
+    const secret = newTokenSecret();
+    await sql`insert into api_tokens (workspace_id, user_id, name, role, token_hash, prefix) values (${ws.id}, ${u.id}, 'soak', ${role}, ${hashToken(secret)}, ${displayPrefix(secret)})`;
+    tokens[key] = secret;
+    userIds[key] = u.id;
+  }
+  const w: SoakWorkspace = { id: ws.id, tokens: tokens as SoakWorkspace["tokens"], userIds, customer: "" };
+  // Upgrade through the Checkout stand-in, then lift the spend cap.
+  const start = await call(w, "billingAdmin", "POST", "/api/v1/billing/checkout");
+  if (start.status !== 201) throw new Error(`checkout: ${start.status} ${JSON.stringify(start.body)}`);
+  const pay = await fetch(`${start.body.url}/pay`, { method: "POST", redirect: "manual" });
+  if (pay.status !== 303) throw new Error(`checkout pay: ${pay.status}`);
+  for (let i = 0; i < 100; i++) {
+    const [row] = await sql`select plan, stripe_customer_id from workspaces where id = ${ws.id}`;
+    if (row.plan === "lab" && row.stripe_customer_id) {
+      w.customer = row.stripe_customer_id;
+      break;
+    }
+    await sleep(200);
+  }
+  if (!w.customer) throw new Error("the soak workspace did not become Lab");
+  const cap = await call(w, "billingAdmin", "PUT", "/api/v1/billing/spend-cap", { spendCapUsd: null });
+  if (cap.status !== 200) throw new Error(`spend cap: ${cap.status} ${JSON.stringify(cap.body)}`);
+  return w;
+}
+
+export async function call(w: SoakWorkspace, as: keyof SoakWorkspace["tokens"], method: string, path: string, json?: unknown, timeoutMs = 20_000) {
+  const res = await fetch(new URL(path, appUrl()), {
+    method,
+    headers: { authorization: `Bearer ${w.tokens[as]}`, ...(json !== undefined ? { "content-type": "application/json" } : {}) },
+    body: json !== undefined ? JSON.stringify(json) : undefined,
+    signal: AbortSignal.timeout(timeoutMs),
+  });
+  const text = await res.text();
+  let body: any = text;
+  try {
+    body = JSON.parse(text);
+  } catch {}
+  return { status: res.status, body, headers: res.headers };
+}
+
+export async function until<T>(what: string, probe: () => Promise<T | null | undefined | false>, timeoutMs = 120_000, everyMs = 500): Promise<T> {
+  const started = Date.now();
+  let last: unknown;
+  for (;;) {
+    try {
+      const v = await probe();
+      if (v) return v;
+    } catch (e) {
+      last = e;
+    }
+    if (Date.now() - started > timeoutMs) throw new Error(`timed out after ${timeoutMs} ms waiting for ${what}${last ? ` (last error: ${(last as Error).message})` : ""}`);
+    await sleep(everyMs);
+  }
+}
+
+const run = promisify(execFile);
+/** Stops or starts a service of the soak instance (scripts/soak.sh ctl). */
+export async function ctl(action: "pg-stop" | "pg-start" | "redis-stop" | "redis-start" | "mail-stop" | "mail-start") {
+  await run("bash", ["scripts/soak.sh", "ctl", action], { env: process.env, timeout: 90_000 });
+}
+
+export async function health(): Promise<{ status: number; body: any }> {
+  try {
+    const res = await fetch(new URL("/api/v1/health", appUrl()), { signal: AbortSignal.timeout(10_000) });
+    return { status: res.status, body: await res.json() };
+  } catch (e) {
+    return { status: 0, body: { error: (e as Error).message } };
+  }
+}
+
+/** Merges one section into the figures file (.data/soak-<base>/<file>). */
+export function record(file: string, key: string, value: unknown) {
+  const dir = process.env.TRISKEL_SOAK_OUT ?? join(process.cwd(), ".data");
+  mkdirSync(dir, { recursive: true });
+  const path = join(dir, file);
+  const all = existsSync(path) ? JSON.parse(readFileSync(path, "utf8")) : {};
+  all[key] = value;
+  all.date = new Date().toISOString();
+  writeFileSync(path, JSON.stringify(all, null, 2) + "\n");
+}
+
+export const SMALL_RUN = {
+  network: { lattice: "triangular", size: { columns: 4, rows: 4 }, transverse: "periodic", twistDegrees: 0.11, modeVelocityMps: 1.0e6, channelsPerLink: 1, node: { forward: 0.6, left: 0.2, right: 0.2 } },
+  computation: { kind: "conductance", energyMeV: 0.4 },
+};
+
+/** Ledger and meter check for a set of runs: one ledger row each, one meter event per ledger row. */
+export async function billingOnce(w: SoakWorkspace, runIds: string[], timeoutMs = 240_000) {
+  const ledger = await sql`select id, run_id from usage_ledger where run_id in ${sql(runIds)}`;
+  const ledgerIds = ledger.map((l) => l.id as string);
+  await until("every meter event of these runs sent", async () => {
+    const [r] = await sql`select count(*)::int as sent from meter_outbox where ledger_id in ${sql(ledgerIds)} and status = 'sent'`;
+    return r.sent === ledgerIds.length;
+  }, timeoutMs, 1000);
+  const events = (await (await fetch(`${stripeFake()}/_fake/meter_events?customer=${w.customer}`)).json()).data as { identifier: string }[];
+  const ids = events.map((e) => e.identifier).filter((i) => ledgerIds.includes(i));
+  return { runs: runIds.length, ledgerRows: ledger.length, distinctLedgerRuns: new Set(ledger.map((l) => l.run_id)).size, meterEvents: ids.length, distinctMeterEvents: new Set(ids).size };
+}
