@@ -24,9 +24,9 @@ describe("drawing a large network", () => {
     await fill(page, "size.columns", 200);
     await fill(page, "size.rows", 200);
     const canvas = page.locator("canvas[data-renderer=canvas]");
-    await canvas.waitFor();
+    await canvas.waitFor({ timeout: 30_000 });
     await expect(canvas.getAttribute("data-links")).resolves.toBe("120000");
-    await expect.poll(() => canvas.getAttribute("data-first-draw-ms")).not.toBeNull();
+    await expect.poll(() => canvas.getAttribute("data-first-draw-ms"), { timeout: 20_000 }).not.toBeNull();
     const ms = Number(await canvas.getAttribute("data-first-draw-ms"));
     console.log(`first draw of 200 x 200 (120,000 links): ${ms.toFixed(1)} ms (geometry ${await canvas.getAttribute("data-geometry-ms")} ms, paint ${await canvas.getAttribute("data-paint-ms")} ms)`);
     expect(ms).toBeGreaterThan(0);
@@ -44,8 +44,8 @@ describe("drawing a large network", () => {
     const box = (await canvas.boundingBox())!;
     await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2);
     for (let i = 0; i < 12; i++) await page.mouse.wheel(0, -400);
-    await expect.poll(async () => Number(await canvas.getAttribute("data-zoom"))).toBeGreaterThan(8);
-    await expect.poll(async () => Number(await canvas.getAttribute("data-painted"))).toBeLessThan(120_000);
+    await expect.poll(async () => Number(await canvas.getAttribute("data-zoom")), { timeout: 20_000 }).toBeGreaterThan(8);
+    await expect.poll(async () => Number(await canvas.getAttribute("data-painted")), { timeout: 20_000 }).toBeLessThan(120_000);
     await page.screenshot({ path: join(SCREENSHOT_DIR, "app-draw-200x200-zoomed.png") });
   });
 });
