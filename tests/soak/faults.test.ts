@@ -74,17 +74,23 @@ describe("fault drills", () => {
     const before = await submitRuns(3, 0);
     const downAt = Date.now();
     await ctl("redis-stop");
-    const h = await until("health to report the queue down", async () => {
-      const x = await health();
-      return x.status === 503 ? x : undefined;
-    }, 30_000, 250);
+    let h: { status: number; body: any } = { status: 0, body: null };
+    let during: { status: number; body: any };
+    try {
+      h = await until("health to report the queue down", async () => {
+        const x = await health();
+        return x.status === 503 ? x : undefined;
+      }, 30_000, 250);
+      // A submission while the queue is down: accepted into the database (202, queued when Redis
+      // is back or by the worker's recovery pass) or 503 with a message; never a hang or a 500.
+      during = await call(w, "researcher", "POST", "/api/v1/runs", { ...SMALL_RUN, computation: { ...SMALL_RUN.computation, energyMeV: 0.77 } }, 20_000).catch((e) => ({ status: 0, body: { error: { message: String(e) } }, headers: new Headers() }));
+      await sleep(2000);
+    } finally {
+      await ctl("redis-start");
+    }
     expect(h.body.queue.status).toBe("down");
-    // A submission while the queue is down: 503 with a message, or accepted into the database (202) and queued later.
-    const during = await call(w, "researcher", "POST", "/api/v1/runs", { ...SMALL_RUN, computation: { ...SMALL_RUN.computation, energyMeV: 0.77 } }, 30_000).catch((e) => ({ status: 0, body: { error: { message: String(e) } }, headers: new Headers() }));
     expect([202, 503], JSON.stringify(during.body)).toContain(during.status);
     if (during.status === 503) expect(during.body.error.message).toBeTruthy();
-    await sleep(3000);
-    await ctl("redis-start");
     const upAt = Date.now();
     const secondsToHealthy = await recovered(upAt);
     const after = await submitRuns(2, 10);
@@ -101,19 +107,25 @@ describe("fault drills", () => {
     const before = await submitRuns(3, 20);
     const downAt = Date.now();
     await ctl("pg-stop");
-    const h = await until("health to report the database down", async () => {
-      const x = await health();
-      return x.status === 503 ? x : undefined;
-    }, 30_000, 250);
+    let h: { status: number; body: any } = { status: 0, body: null };
+    let read: Awaited<ReturnType<typeof call>> | undefined;
+    let write: Awaited<ReturnType<typeof call>> | undefined;
+    try {
+      h = await until("health to report the database down", async () => {
+        const x = await health();
+        return x.status === 503 ? x : undefined;
+      }, 30_000, 250);
+      read = await call(w, "researcher", "GET", "/api/v1/runs?limit=5", undefined, 30_000);
+      write = await call(w, "researcher", "POST", "/api/v1/runs", SMALL_RUN, 30_000);
+      await sleep(2000);
+    } finally {
+      await ctl("pg-start");
+    }
     expect(h.body.database.status).toBe("down");
-    const read = await call(w, "researcher", "GET", "/api/v1/runs?limit=5", undefined, 30_000);
-    expect(read.status, JSON.stringify(read.body)).toBe(503);
-    expect(read.body.error.code).toBe("unavailable");
-    expect(read.body.error.message).toMatch(/unreachable/);
-    const write = await call(w, "researcher", "POST", "/api/v1/runs", SMALL_RUN, 30_000);
-    expect(write.status, JSON.stringify(write.body)).toBe(503);
-    await sleep(3000);
-    await ctl("pg-start");
+    expect(read!.status, JSON.stringify(read!.body)).toBe(503);
+    expect(read!.body.error.code).toBe("unavailable");
+    expect(read!.body.error.message).toMatch(/unreachable/);
+    expect(write!.status, JSON.stringify(write!.body)).toBe(503);
     const upAt = Date.now();
     const secondsToHealthy = await recovered(upAt);
     await until("the API to read runs again", async () => (await call(w, "researcher", "GET", "/api/v1/runs?limit=5")).status === 200, 60_000, 500);
@@ -122,7 +134,7 @@ describe("fault drills", () => {
     await allSucceeded(all, 240_000);
     const billing = await billingOnce(w, all);
     expect(billing).toMatchObject({ ledgerRows: all.length, distinctLedgerRuns: all.length, meterEvents: all.length, distinctMeterEvents: all.length });
-    record("faults.json", "postgresRestart", { downSeconds: Math.round((upAt - downAt) / 100) / 10, healthWhileDown: h.status, readWhileDown: read.status, writeWhileDown: write.status, secondsToHealthy, ...billing, lost: 0 });
+    record("faults.json", "postgresRestart", { downSeconds: Math.round((upAt - downAt) / 100) / 10, healthWhileDown: h.status, readWhileDown: read!.status, writeWhileDown: write!.status, secondsToHealthy, ...billing, lost: 0 });
   });
 
   it("Stripe stand-in down for a minute: runs go on, meter events wait in the outbox and are delivered once after", async () => {
