@@ -93,7 +93,7 @@ function dependencyDown(err: unknown): ApiError | undefined {
       (typeof code === "string" && DOWN_CODES.has(code)) ||
       (typeof message === "string" && DOWN_MESSAGE.test(message)) ||
       (Array.isArray(errors) && errors.some((x) => DOWN_CODES.has((x as { code?: string })?.code ?? "")));
-    if (isDown) return new ApiError("unavailable", "A service Triskel depends on (database or queue) is unreachable right now; retry in a few seconds.", { retryable: true }, { "Retry-After": "5" });
+    if (isDown) return new ApiError("unavailable", "A service Triskel depends on (database, queue or mail) is unreachable right now; retry in a few seconds.", { retryable: true }, { "Retry-After": "5" });
   }
   return undefined;
 }

@@ -36,7 +36,17 @@ export async function enqueueRuns(items: { id: string; priority: number }[]): Pr
  */
 export async function enqueueAfterCommit(items: { id: string; priority: number }[]): Promise<boolean> {
   try {
-    await enqueueRuns(items);
+    // The queue connection waits for Redis while it is down (offline queue): give up after a few
+    // seconds so the submission answers; the job is added when Redis is back or by recovery.
+    let timer: NodeJS.Timeout | undefined;
+    const timeout = new Promise<never>((_, reject) => {
+      timer = setTimeout(() => reject(new Error("Redis did not answer within 3 s")), 3000);
+    });
+    try {
+      await Promise.race([enqueueRuns(items), timeout]);
+    } finally {
+      clearTimeout(timer);
+    }
     return true;
   } catch (err) {
     console.error(`[runs] could not enqueue ${items.length} run(s) now; the worker's recovery pass will: ${(err as Error).message}`);
