@@ -48,6 +48,7 @@ trap 'exit 130' INT TERM
 
 stop_redis; stop_postgres
 rm -rf "$PG_DATA" "$RUN_DIR"; mkdir -p "$RUN_DIR"
+rm -f "$DATA_DIR/faults.json" "$DATA_DIR/load.json"
 
 start_postgres "$PG_EXTRA"
 start_redis no
@@ -65,5 +66,5 @@ TRISKEL_SOAK=1 NODE_ENV=test vitest run --project soak "$@"
 rc=$?
 set -e
 [ $rc -ne 0 ] && log "soak tests failed (exit $rc); service logs are in $RUN_DIR"
-[ -f "$DATA_DIR/load.json" ] && log "load figures: $DATA_DIR/load.json"
+for f in faults load; do [ -f "$DATA_DIR/$f.json" ] && log "figures: $DATA_DIR/$f.json"; done
 exit $rc

@@ -4,6 +4,7 @@
 // without a hand. Outcomes and recovery times go to .data/soak-<base>/faults.json.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { killWorker, startWorker } from "../integration/runs-support";
+import { api } from "../support/services";
 import { billingOnce, call, createLabWorkspace, ctl, health, record, sleep, SMALL_RUN, sql, stripeFake, until, type SoakWorkspace } from "./support";
 
 let w: SoakWorkspace;
@@ -14,6 +15,7 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   await fetch(`${stripeFake()}/_fake/up`, { method: "POST" }).catch(() => {});
+  await sql`delete from invitations where email like '%@soak.example'`.catch(() => {});
   await sql.end();
 });
 
@@ -37,6 +39,17 @@ async function allSucceeded(ids: string[], timeoutMs = 180_000) {
 async function recovered(since: number, timeoutMs = 90_000) {
   await until("health 200", async () => (await health()).status === 200, timeoutMs, 250);
   return Math.round((Date.now() - since) / 100) / 10;
+}
+
+/** Invitations need a workspace with a sign-in organization: the demo lab (its Owner's token). */
+async function inviteToDemoLab(email: string) {
+  const res = await api("/api/v1/workspace/members", { method: "POST", as: "owner", json: { email, role: "viewer" }, signal: AbortSignal.timeout(60_000) });
+  const text = await res.text();
+  let body: any = text;
+  try {
+    body = JSON.parse(text);
+  } catch {}
+  return { status: res.status, body };
 }
 
 describe("fault drills", () => {
@@ -161,7 +174,7 @@ describe("fault drills", () => {
   it("mail stand-in down: an invitation answers without a 500 and is kept; mail flows again when it is back", async () => {
     await ctl("mail-stop");
     const email = `soak-invitee-${Date.now().toString(36)}@soak.example`;
-    const during = await call(w, "owner", "POST", "/api/v1/workspace/members", { email, role: "viewer" }, 60_000);
+    const during = await inviteToDemoLab(email);
     expect(during.status, JSON.stringify(during.body)).not.toBe(500);
     expect(during.status).toBeLessThan(600);
     if (during.status >= 400) expect(during.body.error.message).toBeTruthy();
@@ -171,7 +184,7 @@ describe("fault drills", () => {
     await ctl("mail-start");
     const upAt = Date.now();
     const email2 = `soak-invitee-after-${Date.now().toString(36)}@soak.example`;
-    const after = await call(w, "owner", "POST", "/api/v1/workspace/members", { email: email2, role: "viewer" }, 60_000);
+    const after = await inviteToDemoLab(email2);
     expect(after.status, JSON.stringify(after.body)).toBe(201);
     const mailUrl = process.env.MAIL_WEB_URL!;
     await until("the invitation e-mail after the stand-in is back", async () => {
