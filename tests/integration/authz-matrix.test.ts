@@ -64,6 +64,8 @@ async function ok<T = any>(res: Response, what: string): Promise<T> {
 }
 
 let fixtures: Fixtures;
+/** Fits the matrix started (each a few minutes of engine work): cancelled at the end. */
+const startedFits: string[] = [];
 let labWorkspaceId = "";
 
 beforeAll(async () => {
@@ -110,6 +112,7 @@ beforeAll(async () => {
 }, 120_000);
 
 afterAll(async () => {
+  for (const id of [...startedFits, fixtures?.fitId].filter(Boolean)) await call("owner", "POST", `/api/v1/fits/${id}/cancel`).then((r) => r.text()).catch(() => {});
   // Leave the demo lab as it was: no extra members or open invitations, the cap unchanged.
   await sql`delete from invitations where email like '%@authz.example'`.catch(() => {});
   await sql`delete from users where email like '%@authz.example'`.catch(() => {});
@@ -150,6 +153,7 @@ describe("authorization matrix", () => {
         const res = await call(who, e.method, path, e.body?.(fixtures, who));
         const text = await res.text();
         cells++;
+        if (e.route === "v1/fits" && e.method === "POST" && res.status === 202) startedFits.push(JSON.parse(text).id);
         if (!matches(expected, res.status)) {
           failures.push(`${e.method} /api/${e.route} as ${who}: expected ${expected}, got ${res.status} ${text.slice(0, 160)}`);
           continue;
