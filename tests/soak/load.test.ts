@@ -81,7 +81,9 @@ describe("load", () => {
     expect(result.timeouts).toBe(0);
     expect(result.non2xx).toBe(0);
     expect(result.requests.total).toBeGreaterThan(CONNECTIONS * 10);
-    // Every accepted submission is a run row (nothing lost).
-    expect(runs).toBe(accepted);
+    // Every accepted submission is a run row (nothing lost). Submissions still in flight when the
+    // 60 s ended may have been stored without autocannon reading their 202: at most one per connection.
+    expect(runs).toBeGreaterThanOrEqual(accepted);
+    expect(runs).toBeLessThanOrEqual(accepted + CONNECTIONS);
   });
 });
