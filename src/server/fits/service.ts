@@ -66,10 +66,14 @@ export async function createFit(caller: Caller, raw: unknown) {
       { field: "sweepParameter", allowed },
     );
   }
-  const computation = { ...body.computation };
+  // The engine checks the network and computation objects as the client sent them: zod's record
+  // copies drop keys such as "__proto__", which the engine's unknown-field check must still see.
+  const sent = raw as { network?: unknown; computation?: Record<string, unknown> };
+  const computation: Record<string, unknown> = Object.create(null);
+  for (const key of Object.keys(sent.computation ?? {})) computation[key] = (sent.computation as Record<string, unknown>)[key];
   if (computation.kind !== undefined && computation.kind !== "conductance") throw new ApiError("invalid_input", "computation.kind: fits compare conductance; use \"conductance\".", { field: "computation.kind" });
   computation.kind = "conductance";
-  const network = await resolveNetwork(caller, typeof body.network === "string" ? undefined : body.network, typeof body.network === "string" ? body.network : body.networkId, body.networkVersion);
+  const network = await resolveNetwork(caller, typeof body.network === "string" ? undefined : (sent.network as typeof body.network), typeof body.network === "string" ? body.network : body.networkId, body.networkVersion);
   const input = parseEngineInput({ network, computation });
   assertNetworkWithinPlan(caller.plan, (input as { network: { size: { columns: number; rows: number } } }).network.size);
   assertEnsembleWithinPlan(caller.plan, input as { computation: unknown });
