@@ -21,4 +21,6 @@ export const COST_CONSTANTS = {
   baselineBytes: 80 * 1024 * 1024,
   /** The peak memory limit of one computation (product.md: 2 GB). */
   memoryLimitBytes: 2 * 1024 * 1024 * 1024,
+  /** The compute-time limit of one computation: 6 compute-hours (the Lab plan's largest job). */
+  computeSecondsLimit: 6 * 3600,
 };

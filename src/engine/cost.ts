@@ -5,6 +5,23 @@ import { buildSample } from "./network/lattice";
 import { CH_LEFT_OUT, type NetworkGraph } from "./network/graph";
 import type { ComputeInput, Network } from "./schema";
 import { magneticCellSize } from "./compute/spectrum-cell";
+import { thermalPlan } from "./compute/quadrature";
+import { networkScale } from "./compute/common";
+import { BOLTZMANN_J_PER_K, JOULE_PER_MEV } from "./constants";
+import type { ConductanceComputation } from "./schema";
+
+/**
+ * Energies per sample of a conductance: 1 at T = 0; a fixed rule: n + n/2 (its error estimate)
+ * + 1; the adaptive rule: its first panels for resonances of a 64th of the period (the real count
+ * follows the narrowest resonance of the sample, found only when it runs), + 1.
+ */
+export function conductanceEnergyEvaluations(net: Network, c: ConductanceComputation): number {
+  if (!(c.temperatureK > 0)) return 1;
+  if (c.temperaturePoints !== undefined) return c.temperaturePoints + Math.ceil(c.temperaturePoints / 2) + 1;
+  const period = networkScale(net).energyPeriodMeV;
+  const kT = (BOLTZMANN_J_PER_K * c.temperatureK) / JOULE_PER_MEV;
+  return Math.min(c.temperatureMaxEnergies, thermalPlan(kT, period, period / 64).energies) + 1;
+}
 
 export interface CostEstimate {
   computeSeconds: number;
@@ -71,7 +88,7 @@ export function estimateCost(input: ComputeInput): CostEstimate {
   switch (c.kind) {
     case "conductance": {
       const s = sweepCost(net, "leads");
-      const points = c.temperatureK > 0 ? (c.temperaturePoints ?? 24) + 1 : 1;
+      const points = conductanceEnergyEvaluations(net, c);
       const samples = c.ensemble?.samples ?? 1;
       add("slice composition, valley K with reflection (one energy)", samples * points, s.work, K.sliceMulAddsPerSecond);
       if (valleys === 2) add("slice composition, valley K' transmission only (one energy)", samples * points, s.workWithoutReflection, K.sliceMulAddsPerSecond);
@@ -131,13 +148,22 @@ function blochSize(net: Network, denominator: number): number {
   return cell * slots;
 }
 
-/** Refuse up front a computation whose estimated peak memory exceeds the limit (2 GB). */
+/** Refuse up front a computation whose estimated peak memory exceeds the limit (2 GB) or whose
+ * estimated compute time exceeds the engine's limit (6 compute-hours, the largest plan's cap). */
 export function checkResourceLimits(input: ComputeInput): CostEstimate {
   const est = estimateCost(input);
   if (est.peakMemoryBytes > K.memoryLimitBytes) {
     const gb = (b: number) => (b / 1024 ** 3).toFixed(2);
     throw new EngineLimitError(
       `the ${input.computation.kind} computation on a ${input.network.size.columns} x ${input.network.size.rows} ${input.network.lattice} network needs an estimated ${gb(est.peakMemoryBytes)} GB of memory, over the ${gb(K.memoryLimitBytes)} GB limit per computation; use a smaller network`,
+      est.peakMemoryBytes,
+      K.memoryLimitBytes,
+    );
+  }
+  if (est.computeSeconds > K.computeSecondsLimit) {
+    const h = (x: number) => (x / 3600).toPrecision(3);
+    throw new EngineLimitError(
+      `the ${input.computation.kind} computation on a ${input.network.size.columns} x ${input.network.size.rows} ${input.network.lattice} network needs an estimated ${Math.round(est.computeSeconds).toLocaleString("en-US")} compute-seconds (${h(est.computeSeconds)} compute-hours), over the limit of ${h(K.computeSecondsLimit)} compute-hours per computation; use a smaller network or fewer points`,
       est.peakMemoryBytes,
       K.memoryLimitBytes,
     );

@@ -10,7 +10,18 @@ import { Absorber } from "../scattering/absorber";
 import { getKernels } from "../linalg/kernels";
 import { energyPhase, fluxPerPlaquette, mean, networkScale, std } from "./common";
 import { Progress, type ComputeOptions } from "./progress";
-import { thermalNodes } from "./quadrature";
+import { thermalAverage, thermalPlan, type ThermalAverage } from "./quadrature";
+import { narrowestResonance } from "./resonance";
+import { ThermalResolutionError } from "./quadrature";
+import { EngineInputError } from "../errors";
+
+/** A thermal average beyond what the rule can resolve is refused (CLI exit 2, API 422), naming the field. */
+function thermalOrRefuse(run: () => ThermalAverage): ThermalAverage {
+  try { return run(); } catch (e) {
+    if (e instanceof ThermalResolutionError) throw new EngineInputError("computation.temperatureMaxEnergies", e.message);
+    throw e;
+  }
+}
 
 export interface ValleyPair<T> { valleyK: T; valleyKPrime: T | null }
 export interface ConductanceFigures { valleyK: number; valleyKPrime: number | null; total: number; unit: "e2/h" }
@@ -31,6 +42,19 @@ export interface ConductanceResult {
   transmissionEigenvalues: ValleyPair<number[]>;
   fano: number | null;
   checks: { currentConservationError: number };
+  /** The thermal average (null at T = 0): rule, energies per sample (the largest), estimated relative error (the largest). */
+  thermal: {
+    method: ThermalAverage["method"];
+    domain: ThermalAverage["domain"];
+    energiesPerSample: number;
+    estimatedRelativeError: number;
+    relativeTolerance: number;
+    converged: boolean;
+    /** Half-width of the narrowest resonance found (meV); the first panels are 8 times as wide. */
+    narrowestResonanceMeV: number | null;
+  } | null;
+  /** Problems a reader must see beside the numbers (empty when there are none). */
+  warnings: string[];
   ensemble?: {
     samples: number;
     mean: ConductanceFigures;
@@ -122,49 +146,62 @@ export function computeConductance(net: Network, c: ConductanceComputation, opts
   const spin = net.degeneracy.spin;
   const samples = c.ensemble?.samples ?? 1;
   const kTMeV = (BOLTZMANN_J_PER_K * c.temperatureK) / JOULE_PER_MEV;
-  const nodes = thermalNodes(c.energyMeV, kTMeV, c.temperaturePoints ?? 24);
-  const extraEigenPoint = kTMeV > 0;
+  const thermalOn = kTMeV > 0;
   const g0 = buildSample(net, { mode: "leads", fluxPerPlaquette: phi, sample: 0 });
-  const evals = nodes.energiesMeV.length + (extraEigenPoint ? 1 : 0);
-  const progress = new Progress(samples * evals * conductanceWork(g0, valleys), opts);
+  // progress: the adaptive rule's first panels (refinements extend it; progress is capped below 1)
+  const expected = thermalOn ? (c.temperaturePoints !== undefined ? c.temperaturePoints + Math.ceil(c.temperaturePoints / 2) : thermalPlan(kTMeV, scale.energyPeriodMeV, scale.energyPeriodMeV / 64).energies) + 1 : 1;
+  const progress = new Progress(samples * expected * conductanceWork(g0, valleys), opts);
   const perSample: { gK: number; gKp: number | null; total: number }[] = [];
   let eigK: number[] = [], eigKp: number[] | null = null;
   let noiseSum = 0, tSum = 0, err = 0;
   let chK = 0, chKp: number | null = null;
+  let thermal: ConductanceResult["thermal"] = null;
   for (let s = 0; s < samples; s++) {
     const gK = s === 0 ? g0 : buildSample(net, { mode: "leads", fluxPerPlaquette: phi, sample: s });
     const gKp = valleys === 2 ? reverseGraph(gK) : null;
-    let TK = 0, TKp = 0;
-    for (let e = 0; e < nodes.energiesMeV.length; e++) {
-      const th = energyPhase(scale, nodes.energiesMeV[e]);
-      const wantEig = !extraEigenPoint;
-      const rK = sampleTransport(gK, th, wantEig, progress);
-      TK += nodes.weights[e] * rK.transmission;
-      err = Math.max(err, rK.conservationError);
-      if (s === 0) chK = rK.injected;
-      let rKp: SampleTransport | null = null;
-      if (gKp) {
-        // the R + T = N check runs on valley K of every sample and energy (K' skips the reflection rows)
-        rKp = sampleTransport(gKp, th, wantEig, progress, false);
-        TKp += nodes.weights[e] * rKp.transmission;
-        if (s === 0) chKp = rKp.injected;
-      }
-      if (wantEig) {
-        noiseSum += rK.noise + (rKp?.noise ?? 0); tSum += rK.transmission + (rKp?.transmission ?? 0);
-        if (s === 0) { eigK = rK.eigenvalues ?? []; eigKp = rKp ? rKp.eigenvalues ?? [] : null; }
-      }
-    }
-    if (extraEigenPoint) {
-      const th = energyPhase(scale, c.energyMeV);
-      const rK = sampleTransport(gK, th, s === 0, progress);
-      const rKp = gKp ? sampleTransport(gKp, th, s === 0, progress, false) : null;
-      err = Math.max(err, rK.conservationError);
-      noiseSum += rK.noise + (rKp?.noise ?? 0); tSum += rK.transmission + (rKp?.transmission ?? 0);
-      if (s === 0) { eigK = rK.eigenvalues ?? []; eigKp = rKp ? rKp.eigenvalues ?? [] : null; }
+    // at the chemical potential: transmission, eigenvalues and shot noise (T = 0 quantities)
+    const th0 = energyPhase(scale, c.energyMeV);
+    const r0 = sampleTransport(gK, th0, s === 0, progress);
+    const r0p = gKp ? sampleTransport(gKp, th0, s === 0, progress, false) : null;
+    err = Math.max(err, r0.conservationError);
+    noiseSum += r0.noise + (r0p?.noise ?? 0); tSum += r0.transmission + (r0p?.transmission ?? 0);
+    if (s === 0) { eigK = r0.eigenvalues ?? []; eigKp = r0p ? r0p.eigenvalues ?? [] : null; chK = r0.injected; chKp = r0p ? r0p.injected : null; }
+    let TK = r0.transmission, TKp = r0p?.transmission ?? 0;
+    if (thermalOn) {
+      // the R + T = N check runs on valley K at every energy (K' skips the reflection rows)
+      const f = (eMeV: number): number[] => {
+        const th = energyPhase(scale, eMeV);
+        const rK = sampleTransport(gK, th, false, progress);
+        err = Math.max(err, rK.conservationError);
+        return [rK.transmission, gKp ? sampleTransport(gKp, th, false, progress, false).transmission : 0];
+      };
+      const resonance = c.temperaturePoints === undefined ? narrowestResonance(gK) : null;
+      const widthMeV = resonance ? resonance.widthRad * scale.energyScaleMeV : null;
+      const avg = thermalOrRefuse(() => thermalAverage(f, c.energyMeV, kTMeV, scale.energyPeriodMeV, {
+        relativeTolerance: c.temperatureTolerance,
+        maxEnergies: c.temperatureMaxEnergies,
+        fixedPoints: c.temperaturePoints,
+        scale: r0.injected + (r0p?.injected ?? 0),
+        panelMeV: widthMeV === null ? scale.energyPeriodMeV : 8 * widthMeV,
+      }));
+      TK = avg.values[0]; TKp = avg.values[1];
+      const prev = thermal as ConductanceResult["thermal"];
+      thermal = {
+        method: avg.method, domain: avg.domain,
+        energiesPerSample: Math.max(prev?.energiesPerSample ?? 0, avg.energies),
+        estimatedRelativeError: Math.max(prev?.estimatedRelativeError ?? 0, avg.estimatedRelativeError),
+        relativeTolerance: avg.relativeTolerance,
+        converged: (prev?.converged ?? true) && avg.converged,
+        narrowestResonanceMeV: widthMeV === null ? null : Math.min(prev?.narrowestResonanceMeV ?? Infinity, widthMeV),
+      };
     }
     const copies = gK.copies;
     const gk = TK * copies, gkp = gKp ? TKp * copies : null;
     perSample.push({ gK: gk, gKp: gkp, total: spin * (gk + (gkp ?? 0)) });
+  }
+  const warnings: string[] = [];
+  if (thermal && !thermal.converged) {
+    warnings.push(`The thermal average reached an estimated relative error of ${thermal.estimatedRelativeError.toExponential(1)}, above the tolerance ${thermal.relativeTolerance.toExponential(1)} (${thermal.energiesPerSample} energies per sample${thermal.method === "gauss-legendre" ? ", fixed rule of temperaturePoints" : ", limit temperatureMaxEnergies"}); the conductance at this temperature is less accurate than asked.`);
   }
   const copies = g0.copies;
   const dup = (xs: number[]) => copies === 1 ? xs : xs.flatMap((x) => Array(copies).fill(x) as number[]);
@@ -193,6 +230,8 @@ export function computeConductance(net: Network, c: ConductanceComputation, opts
     transmissionEigenvalues: { valleyK: dup(eigK), valleyKPrime: eigKp ? dup(eigKp) : null },
     fano: tSum > 0 ? noiseSum / tSum : null,
     checks: { currentConservationError: err },
+    thermal,
+    warnings,
   };
   if (c.ensemble) {
     const sd = fig(std);

@@ -7,6 +7,7 @@
 import type { LocalizationComputation, Network } from "../schema";
 import { CH_LEFT_IN, CH_LEFT_OUT, channelPhases, reverseGraph, type NetworkGraph } from "../network/graph";
 import { buildSample, sampleGeometryNm } from "../network/lattice";
+import { buildSchedule } from "../network/schedule";
 import { Absorber } from "../scattering/absorber";
 import { fluxPerPlaquette, mean, networkScale, std } from "./common";
 import { Progress, type ComputeOptions } from "./progress";
@@ -20,7 +21,7 @@ export interface LocalizationResult {
   samples: number;
   rows: number;
   widthNm: number;
-  /** Strip lengths (nm) at which T was read (one per column). */
+  /** Distances from the left lead (nm) at which T was read: after column i, (i + 1) x column pitch. */
   lengthsNm: number[];
   meanLnT: { valleyK: number[]; valleyKPrime: number[] | null };
   stderrLnT: { valleyK: number[]; valleyKPrime: number[] | null };
@@ -31,7 +32,26 @@ export interface LocalizationResult {
   lambda: { valleyK: number | null; valleyKPrime: number | null };
 }
 
-/** ln T after every clean cut of one sweep. */
+/**
+ * Abscissae (units of l) of the clean cuts that follow each column but the last: triangular
+ * columns hold nodes at x = i and i + 1/2, so the cut after column i lies at i + 3/4; square
+ * columns are l / sqrt2 apart, the cut after column c at (c + 1/2) / sqrt2.
+ */
+export function columnCutXs(net: Network, columns: number): number[] {
+  const xs: number[] = [];
+  for (let i = 0; i + 1 < columns; i++) xs.push(net.lattice === "triangular" ? i + 0.75 : (i + 0.5) / Math.SQRT2);
+  return xs;
+}
+
+/** Column pitch in units of l (triangular l, square l / sqrt2). */
+export function columnPitch(net: Network): number {
+  return net.lattice === "triangular" ? 1 : 1 / Math.SQRT2;
+}
+
+/**
+ * ln T read at the clean cuts at `atXs` (and at the end, into the right lead) of one sweep.
+ * The graph must have a schedule with clean cuts there (buildSchedule(g, undefined, "columns")).
+ */
 export function lnTransmissionProfile(g: NetworkGraph, theta: number, progress?: Progress, atXs?: number[]): { xs: number[]; lnT: number[] } {
   // left-lead output rows are not needed for T(L): skipped (exact, half the work)
   const abs = new Absorber(g, channelPhases(g, theta), false, undefined, 16, CH_LEFT_OUT);
@@ -78,19 +98,25 @@ export function computeLocalization(net: Network, c: LocalizationComputation, op
   const g0 = buildSample(net, { mode: "leads", fluxPerPlaquette: phi, sample: 0 });
   const progress = new Progress(samples * valleys * g0.schedule.length, opts);
   const profK: number[][] = [], profKp: number[][] = [];
-  let xs: number[] = [];
+  const cutXs = columnCutXs(net, net.size.columns);
   for (let s = 0; s < samples; s++) {
     const g = s === 0 ? g0 : buildSample(net, { mode: "leads", fluxPerPlaquette: phi, sample: s });
-    const a = lnTransmissionProfile(g, theta, progress);
-    xs = a.xs; profK.push(a.lnT);
+    // left to right, so that a clean cut follows every column (T is read after each column)
+    buildSchedule(g, undefined, "columns");
+    const a = lnTransmissionProfile(g, theta, progress, cutXs);
+    if (a.lnT.length !== net.size.columns) throw new Error(`internal: T read at ${a.lnT.length} cuts, expected one per column (${net.size.columns})`);
+    profK.push(a.lnT);
     if (valleys === 2) {
-      // the same strip lengths for K' (its absorption order has cuts at every half column)
-      const b = lnTransmissionProfile(reverseGraph(g), theta, progress, a.xs.slice(0, -1));
+      const gr = reverseGraph(g);
+      buildSchedule(gr, undefined, "columns");
+      const b = lnTransmissionProfile(gr, theta, progress, cutXs);
       if (b.lnT.length !== a.lnT.length) throw new Error("internal: valley profiles do not align");
       profKp.push(b.lnT);
     }
   }
-  const lengthsNm = xs.map((x) => x * l);
+  const pitch = columnPitch(net);
+  const lengthsNm = Array.from({ length: net.size.columns }, (_, i) => (i + 1) * pitch * l);
+  const xs = lengthsNm;
   const fitFromColumns = c.fitFromColumns ?? Math.max(net.size.rows, Math.floor(net.size.columns / 4));
   const fitFromNm = Math.min(fitFromColumns * (geom.lengthNm / net.size.columns), lengthsNm[Math.max(0, lengthsNm.length - 2)] ?? 0);
   const stats = (prof: number[][]) => {

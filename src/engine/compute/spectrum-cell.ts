@@ -9,7 +9,7 @@
  * triangular lattice, with s1 the a1-coordinate; A = B (0, x) for the square lattice).
  */
 import type { Network, MatrixNode, TriangularProbabilityNode, SquareNode } from "../schema";
-import { packMatrix, squareNodeMatrix, triangularNodeMatrix } from "../network/node-matrices";
+import { squareNodeMatrix, triangularNodeFromSpec } from "../network/node-matrices";
 import { gaugeIntegral, GAUGE_LANDAU_Y, plaquetteArea, type LinearGauge } from "../network/lattice";
 
 export function magneticCellSize(_lattice: "triangular" | "square", denominator: number): number {
@@ -54,7 +54,7 @@ export function periodicCell(net: Network, numerator: number, denominator: numbe
   if (net.lattice === "triangular") {
     const node = net.node;
     const isMatrix = "matrix" in node;
-    const m = isMatrix ? packMatrix((node as MatrixNode).matrix) : (() => { const t = node as TriangularProbabilityNode; return triangularNodeMatrix(t.forward, t.left, t.right, t.branch, t.phaseRad); })();
+    const m = triangularNodeFromSpec(node as MatrixNode | TriangularProbabilityNode);
     const nch = isMatrix && (node as MatrixNode).matrix.length === 6 ? 2 : 1;
     const slots = 3 * nch;
     const a: [number, number][] = [[1, 0], [-0.5, Math.sqrt(3) / 2], [-0.5, -Math.sqrt(3) / 2]];

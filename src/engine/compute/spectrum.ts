@@ -55,7 +55,9 @@ export function defaultPath(lattice: Network["lattice"], perSegment: number): { 
   let corners: [number, number][], names: string[];
   if (lattice === "triangular") {
     const b1: [number, number] = [2 * Math.PI, (2 * Math.PI) / Math.sqrt(3)], b2: [number, number] = [0, (4 * Math.PI) / Math.sqrt(3)];
-    const K: [number, number] = [(2 * b1[0] + b2[0]) / 3, (2 * b1[1] + b2[1]) / 3];
+    // zone corner K = (b1 + b2) / 3: k.a_j = 2 pi / 3 for all three j, |K| = 4 pi / (3 l); M = b1 / 2,
+    // the midpoint of the zone edge that ends at K, |M| = 2 pi / (sqrt3 l) (physics.md section 6)
+    const K: [number, number] = [(b1[0] + b2[0]) / 3, (b1[1] + b2[1]) / 3];
     const M: [number, number] = [b1[0] / 2, b1[1] / 2];
     corners = [[0, 0], K, M, [0, 0]]; names = ["Gamma", "K", "M", "Gamma"];
   } else {

@@ -23,7 +23,7 @@
  */
 import type { Network, TriangularProbabilityNode, MatrixNode, SquareNode } from "../schema";
 import { CH_LEFT_IN, CH_LEFT_OUT, CH_LINK, CH_RIGHT_IN, CH_RIGHT_OUT, type NetworkGraph } from "./graph";
-import { packMatrix, squareNodeMatrix, triangularNodeMatrix } from "./node-matrices";
+import { squareNodeMatrix, triangularNodeFromSpec, triangularNodeMatrix } from "./node-matrices";
 import { randomStream, sampleSeed, mix32 } from "../rng";
 import { buildSchedule } from "./schedule";
 
@@ -58,6 +58,8 @@ interface LatticeRules {
   /** Row index range check / wrap: row count in lattice-Y units. */
   rowOf(Y: number): number;
   periodY: number;
+  /** Open transverse edges: real nodes have 0 <= Y < openYMaxExcl (lattice-Y units). */
+  openYMaxExcl: number;
   periodX: number;
   /** Virtual node at an out-of-range position: source offset of its input, its output. */
   virtual(X: number, Y: number, top: boolean): { inFrom: [number, number]; outTo: [number, number]; outSlot: number };
@@ -72,9 +74,9 @@ function triangularRules(net: Network, columns: number, rows: number, rand: (() 
   const node = net.node;
   const isMatrix = "matrix" in node;
   const nch = isMatrix && (node as MatrixNode).matrix.length === 6 ? 2 : 1;
-  const fixedMatrix = isMatrix ? packMatrix((node as MatrixNode).matrix) : null;
+  const fixedMatrix = isMatrix ? triangularNodeFromSpec(node as MatrixNode) : null;
   const p = node as TriangularProbabilityNode;
-  const base = isMatrix ? null : triangularNodeMatrix(p.forward, p.left, p.right, p.branch, p.phaseRad);
+  const base = isMatrix ? null : triangularNodeFromSpec(p);
   const dirs = [[2, 0], [-1, 1], [-1, -1]];
   return {
     slots: 3 * nch,
@@ -84,6 +86,7 @@ function triangularRules(net: Network, columns: number, rows: number, rand: (() 
     physical: (X, Y) => [X / 2, (Y * Math.sqrt(3)) / 2],
     rowOf: (Y) => Y,
     periodY: rows,
+    openYMaxExcl: rows,
     periodX: 2 * columns,
     virtual: (_X, _Y, top) => top
       ? { inFrom: [1, -1], outTo: [-1, -1], outSlot: 2 } // arrives along a2, leaves along a3
@@ -115,9 +118,12 @@ function squareRules(net: Network, columns: number, rows: number, rand: (() => n
     physical: (X, Y) => [X / Math.SQRT2, Y / Math.SQRT2],
     rowOf: (Y) => Math.floor(Y / 2),
     periodY: 2 * rows,
+    // open strip (Chalker & Coddington 1988 termination): the top B site of every odd column is
+    // no node but a pass-through, so every cut carries rows channels each way
+    openYMaxExcl: 2 * rows - 1,
     periodX: columns,
     virtual: (_X, _Y, top) => top
-      ? { inFrom: [1, -1], outTo: [-1, -1], outSlot: 0 } // virtual A above: in SE, out SW -> B.NE
+      ? { inFrom: [-1, -1], outTo: [1, -1], outSlot: 0 } // top B site: in SW (from A.NE), out SE -> A.NW
       : { inFrom: [1, 1], outTo: [-1, 1], outSlot: 1 }, // virtual B below: in NE, out NW -> A.SE
     nodeMatrix: () => {
       if (rand && net.disorder.forwardSpread > 0) {
@@ -158,13 +164,14 @@ export function buildSample(net: Network, opts: SampleOptions): NetworkGraph {
   const nodeXs: number[] = [], nodeYs: number[] = [], real: number[] = [], virtualTop: number[] = [];
   const matrices: Float64Array[] = [];
   const keyOf = (X: number, Y: number) => `${X},${Y}`;
+  const yMin = 0, yMaxExcl = periodicY ? rules.periodY : rules.openYMaxExcl;
   for (let i = 0; i < columns; i++) for (let r = 0; r < rows; r++) {
     const [X, Y] = rules.position(i, r);
+    if (!periodicY && Y >= yMaxExcl) continue; // an edge site of the open square strip (a pass-through)
     ids.set(keyOf(X, Y), nodeXs.length);
     nodeXs.push(X); nodeYs.push(Y); real.push(1); virtualTop.push(0);
     matrices.push(rules.nodeMatrix(i, r, nodeRand));
   }
-  const yMin = 0, yMaxExcl = rules.periodY;
   type Where = { kind: "node"; id: number; X: number; Y: number } | { kind: "lead"; side: "left" | "right" } | { kind: "virtual"; X: number; Y: number };
   const resolve = (X: number, Y: number): Where => {
     let y = Y, x = X;

@@ -101,7 +101,133 @@ export function circulantAmplitudes(f: number, l: number, r: number, branch: 1 |
   if (branch === -1) { sf = [sf[0], -sf[1]]; sl = [sl[0], -sl[1]]; sr = [sr[0], -sr[1]]; }
   // overall phase chi: reference is arg(s_f) when f > 0, else the non-zero turning amplitude
   const rot = (z: [number, number]): [number, number] => [z[0] * Math.cos(phaseRad) - z[1] * Math.sin(phaseRad), z[0] * Math.sin(phaseRad) + z[1] * Math.cos(phaseRad)];
-  return { sf: rot(sf), sl: rot(sl), sr: rot(sr) };
+  sf = rot(sf); sl = rot(sl); sr = rot(sr);
+  // the mirror-symmetric gauge (physics.md section 6): s_l -> w^k s_l, s_r -> w^2k s_r with
+  // w = exp(2 pi i / 3) and k chosen so that arg(s_l conj(s_r)) lies in (-pi/3, pi/3]
+  const k = mirrorGaugeStep(sf, sl, sr);
+  if (k !== 0) { sl = cmulPhase(sl, (2 * Math.PI * k) / 3); sr = cmulPhase(sr, (4 * Math.PI * k) / 3); }
+  // left = right: the mirror y -> -y maps the node onto itself exactly (s_l = s_r)
+  if (l === r) sr = [sl[0], sl[1]];
+  return { sf, sl, sr };
+}
+
+type C = [number, number];
+const ZERO_AMPLITUDE = 1e-12;
+const cabs = (z: C) => Math.hypot(z[0], z[1]);
+const cmulPhase = (z: C, phase: number): C => [z[0] * Math.cos(phase) - z[1] * Math.sin(phase), z[0] * Math.sin(phase) + z[1] * Math.cos(phase)];
+const argMulConj = (a: C, b: C) => Math.atan2(a[1] * b[0] - a[0] * b[1], a[0] * b[0] + a[1] * b[1]);
+/** Reduce an angle into (-pi, pi]. */
+function wrapPi(x: number): number {
+  let y = x % (2 * Math.PI);
+  if (y <= -Math.PI) y += 2 * Math.PI;
+  if (y > Math.PI) y -= 2 * Math.PI;
+  return y;
+}
+/** The k in {0, 1, 2} that brings an angle d, which the relabelling moves by -2 pi k / 3, into (-pi/3, pi/3]. */
+function thirdStep(d: number, sign: 1 | -1): 0 | 1 | 2 {
+  for (const k of [0, 1, 2] as const) {
+    const x = wrapPi(d - (sign * 2 * Math.PI * k) / 3);
+    if (x > -Math.PI / 3 - 1e-12 && x <= Math.PI / 3 + 1e-12) return k;
+  }
+  return 0;
+}
+
+/**
+ * The relabelling step k (s_l -> w^k s_l, s_r -> w^2k s_r) that puts a circulant node into the
+ * mirror-symmetric gauge: arg(s_l conj(s_r)) in (-pi/3, pi/3] when both turns are present; with
+ * one turning amplitude, arg(s_turn conj(s_f)) in (-pi/3, pi/3]; for a pure turn (s_f = 0) the
+ * phase of the turning amplitude itself (a pure turn e^{i chi} P equals e^{i (chi + 2 pi/3)} P
+ * up to the relabelling, so only chi mod 2 pi/3 is physical in the bulk).
+ */
+function mirrorGaugeStep(sf: C, sl: C, sr: C): 0 | 1 | 2 {
+  const hasL = cabs(sl) > ZERO_AMPLITUDE, hasR = cabs(sr) > ZERO_AMPLITUDE, hasF = cabs(sf) > ZERO_AMPLITUDE;
+  // under step k: arg(s_l conj s_r) moves by -2 pi k/3; arg(s_l conj s_f) by +2 pi k/3;
+  // arg(s_r conj s_f) by +4 pi k/3 = -2 pi k/3 (mod 2 pi); arg(s_l) by +2 pi k/3; arg(s_r) by -2 pi k/3
+  if (hasL && hasR) return thirdStep(argMulConj(sl, sr), 1);
+  if (hasL) return thirdStep(hasF ? argMulConj(sl, sf) : Math.atan2(sl[1], sl[0]), -1);
+  if (hasR) return thirdStep(hasF ? argMulConj(sr, sf) : Math.atan2(sr[1], sr[0]), 1);
+  return 0;
+}
+
+/**
+ * An explicit node matrix in the same gauge as the probability nodes (physics.md section 6), so
+ * that every way of writing one node gives the same open-edge results. A diagonal relabelling
+ * D S D^-1 (D = diag of phases per direction and channel) is invisible in the bulk but changes the
+ * phase of every edge bounce; the canonical representative is chosen per channel c from that
+ * channel's own 3 x 3 block B[m][j] = S[3c + m][3c + j]:
+ *  1. if the three left-turn amplitudes B[j+1][j] are non-zero, D gives them one common phase
+ *     theta with 3 theta = arg of their product (invariant); else the same with the three right
+ *     turns B[j-1][j]; else the non-zero turning amplitudes are made real and positive along a
+ *     spanning tree of the three directions (fixed order: left turns, then right turns);
+ *  2. in cases 1 the residual relabelling w^k (w = exp(2 pi i/3)) is fixed as for a probability
+ *     node, with the sums over j of the left turns, right turns and forward amplitudes in place of
+ *     s_l, s_r and s_f (see mirrorGaugeStep).
+ * For a circulant matrix this is exactly the probability node's gauge. A block without turning
+ * amplitudes is left as written (a diagonal block is gauge invariant).
+ */
+export function canonicalNodeGauge(m: Float64Array, nch: number): Float64Array {
+  const n = 3 * nch;
+  const alpha = new Float64Array(n);
+  const get = (i: number, j: number): C => [m[2 * (i * n + j)], m[2 * (i * n + j) + 1]];
+  for (let c = 0; c < nch; c++) {
+    const o = 3 * c;
+    const B = (i: number, j: number) => get(o + i, o + j);
+    const left = [0, 1, 2].map((j) => B((j + 1) % 3, j));
+    const right = [0, 1, 2].map((j) => B((j + 2) % 3, j));
+    const fwd = [0, 1, 2].map((j) => B(j, j));
+    const a = [0, 0, 0];
+    const equalise = (amps: C[], step: 1 | 2): boolean => {
+      if (!amps.every((z) => cabs(z) > ZERO_AMPLITUDE)) return false;
+      // amplitude j goes from direction j to j + step; after D its phase is arg + a[j+step] - a[j]
+      const args = amps.map((z) => Math.atan2(z[1], z[0]));
+      const theta = (args[0] + args[1] + args[2]) / 3;
+      let j = 0;
+      a[0] = 0;
+      for (let t = 0; t < 2; t++) { const next = (j + step) % 3; a[next] = a[j] + theta - args[j]; j = next; }
+      return true;
+    };
+    let cyclic = equalise(left, 1);
+    if (!cyclic) cyclic = equalise(right, 2);
+    if (cyclic) {
+      const sf = fwd[0];
+      // sums over the three directions (equal entries for a circulant) for the residual step
+      const sum = (zs: C[], d: number[]): C => zs.reduce<C>((acc, z, j) => { const w = cmulPhase(z, a[(j + d[0]) % 3] - a[j]); return [acc[0] + w[0], acc[1] + w[1]]; }, [0, 0]);
+      const L = sum(left, [1]), R = sum(right, [2]);
+      const F: C = fwd.reduce<C>((acc, z) => [acc[0] + z[0], acc[1] + z[1]], [0, 0]);
+      const k = mirrorGaugeStep(cabs(F) > ZERO_AMPLITUDE ? F : sf, L, R);
+      // residual relabelling: a[j] += 2 pi k j / 3 multiplies left turns by w^k, right turns by w^2k
+      for (let j = 0; j < 3; j++) a[j] += (2 * Math.PI * k * j) / 3;
+    } else {
+      // spanning tree over the non-zero turning amplitudes: make each tree entry real positive
+      const cand: [number, number][] = [[1, 0], [2, 1], [0, 2], [2, 0], [0, 1], [1, 2]]; // [to, from]
+      const fixed = [true, false, false];
+      let changed = true;
+      while (changed) {
+        changed = false;
+        for (const [to, from] of cand) {
+          const z = B(to, from);
+          if (cabs(z) <= ZERO_AMPLITUDE || fixed[to] === fixed[from]) continue;
+          // entry phase after D: arg z + a[to] - a[from] = 0
+          const ph = Math.atan2(z[1], z[0]);
+          if (fixed[from]) a[to] = a[from] - ph; else a[from] = a[to] + ph;
+          fixed[to] = fixed[from] = true; changed = true;
+        }
+      }
+    }
+    for (let j = 0; j < 3; j++) alpha[o + j] = a[j];
+  }
+  const out = new Float64Array(m.length);
+  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) {
+    const z = cmulPhase(get(i, j), alpha[i] - alpha[j]);
+    out[2 * (i * n + j)] = z[0]; out[2 * (i * n + j) + 1] = z[1];
+  }
+  return out;
+}
+
+/** The valley-K matrix of a triangular node as the engine uses it (canonical gauge), packed. */
+export function triangularNodeFromSpec(node: { forward: number; left: number; right: number; branch: 1 | -1; phaseRad: number } | { matrix: [number, number][][] }): Float64Array {
+  if ("matrix" in node) return canonicalNodeGauge(packMatrix(node.matrix), node.matrix.length === 6 ? 2 : 1);
+  return triangularNodeMatrix(node.forward, node.left, node.right, node.branch, node.phaseRad);
 }
 
 /** Packed 3x3 circulant node matrix. */

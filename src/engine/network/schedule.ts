@@ -9,7 +9,11 @@ import type { NetworkGraph } from "./graph";
 const MAX_GROUP_NODES = 16;
 const MAX_GROUP_FEEDBACK = 16;
 
-export function buildSchedule(g: NetworkGraph, keys?: Float64Array): void {
+/**
+ * `order: "columns"` keeps the plain left-to-right order by abscissa (no half-column shifts), so
+ * that a clean cut exists between every two node abscissae (localization reads T there).
+ */
+export function buildSchedule(g: NetworkGraph, keys?: Float64Array, order: "cheapest" | "columns" = "cheapest"): void {
   const n = g.nodeCount;
   const key = keys ?? g.nodeX;
   // keys are multiples of a lattice step; find it
@@ -26,27 +30,27 @@ export function buildSchedule(g: NetworkGraph, keys?: Float64Array): void {
     (k) => (k % 2 === 0 ? k - 1.5 : k),
   ];
   let best: { order: number[]; cost: number; tk: Float64Array } | null = null;
-  for (const t of transforms) {
+  for (const t of order === "columns" ? transforms.slice(0, 1) : transforms) {
     const tk = new Float64Array(n);
     for (let i = 0; i < n; i++) tk[i] = t(ik[i]);
-    const order = Array.from({ length: n }, (_, i) => i).sort((a, b) => tk[a] - tk[b] || g.nodeY[a] - g.nodeY[b] || a - b);
-    const cost = simulate(g, order);
-    if (!best || cost < best.cost) best = { order, cost, tk };
+    const seq = Array.from({ length: n }, (_, i) => i).sort((a, b) => tk[a] - tk[b] || g.nodeY[a] - g.nodeY[b] || a - b);
+    const cost = simulate(g, seq);
+    if (!best || cost < best.cost) best = { order: seq, cost, tk };
   }
-  const { order, tk } = best as { order: number[]; cost: number; tk: Float64Array };
+  const { order: nodeOrder, tk } = best as { order: number[]; cost: number; tk: Float64Array };
   // groups
   const absorbed = new Uint8Array(n);
   const groups: Int32Array[] = [];
   let i = 0;
   while (i < n) {
     let j = i;
-    while (j < n && tk[order[j]] === tk[order[i]]) j++;
-    // chunk order[i..j)
+    while (j < n && tk[nodeOrder[j]] === tk[nodeOrder[i]]) j++;
+    // chunk nodeOrder[i..j)
     let cur: number[] = [], curQ = 0;
     const inGroup = new Set<number>();
     const flush = () => { if (cur.length) { groups.push(Int32Array.from(cur)); for (const m of cur) absorbed[m] = 1; } cur = []; curQ = 0; inGroup.clear(); };
     for (let t = i; t < j; t++) {
-      const m = order[t];
+      const m = nodeOrder[t];
       let q = 0, linked = false;
       for (let s = g.slotOffset[m]; s < g.slotOffset[m] + g.slotCount[m]; s++) {
         const to = g.chToNode[g.outChannel[s]], from = g.chFromNode[g.inChannel[s]];
