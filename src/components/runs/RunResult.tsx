@@ -60,6 +60,18 @@ function ConductanceResult({ r }: { r: R }) {
       ) : (
         <p className="text-caption text-fg-faint">Current conservation error |R + T − N| = {num(r.checks?.currentConservationError)} (should be ≤ 1e−10).</p>
       )}
+      {r.thermal ? (
+        <p className="text-caption text-fg-faint" data-testid="thermal-accuracy">
+          Thermal average: {r.thermal.energiesPerSample} energies per sample, estimated relative error {num(r.thermal.estimatedRelativeError)} (tolerance {num(r.thermal.relativeTolerance)}).
+        </p>
+      ) : null}
+      {Array.isArray(r.warnings) && r.warnings.length > 0 ? (
+        <ul role="alert" className="tk-card space-y-1 text-caption" data-testid="result-warnings">
+          {r.warnings.map((w: string, i: number) => (
+            <li key={i}>Warning: {w}</li>
+          ))}
+        </ul>
+      ) : null}
       <div className="grid gap-6 xl:grid-cols-2">
         {eig.length > 0 ? <Histogram title="Transmission eigenvalues" name="transmission-eigenvalues" values={eig} xLabel="Transmission eigenvalue T (dimensionless)" bins={20} /> : null}
         {histo && Array.isArray(histo.counts) ? (
