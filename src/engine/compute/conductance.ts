@@ -10,9 +10,8 @@ import { Absorber } from "../scattering/absorber";
 import { getKernels } from "../linalg/kernels";
 import { energyPhase, fluxPerPlaquette, mean, networkScale, std } from "./common";
 import { Progress, type ComputeOptions } from "./progress";
-import { thermalAverage, thermalPlan, type ThermalAverage } from "./quadrature";
+import { thermalAverage, thermalPlan, ThermalResolutionError, type ThermalAverage } from "./quadrature";
 import { narrowestResonance } from "./resonance";
-import { ThermalResolutionError } from "./quadrature";
 import { EngineInputError } from "../errors";
 
 /** A thermal average beyond what the rule can resolve is refused (CLI exit 2, API 422), naming the field. */

@@ -1,6 +1,6 @@
 /** Engine v2 (physics.md section 6): open edges, zone points, thermal accuracy, strip lengths, time limit. */
 import { describe, expect, it } from "vitest";
-import { parseComputeInput, type ConductanceComputation, type SpectrumComputation } from "@/engine/schema";
+import { parseComputeInput, type SpectrumComputation } from "@/engine/schema";
 import { compute } from "@/engine/compute";
 import { computeSpectrum } from "@/engine/compute/spectrum";
 import { periodicCell } from "@/engine/compute/spectrum-cell";
@@ -165,4 +165,3 @@ describe("localization lengths and the compute-time limit", () => {
     expect(() => checkResourceLimits(huge)).toThrow(/compute-hours|GB/);
   });
 });
-void (null as unknown as ConductanceComputation);
