@@ -1,8 +1,11 @@
 import { defineConfig } from "vitest/config";
 import path from "node:path";
 
-// Three projects: unit (pure, no services), integration (real PostgreSQL, Redis, the fakes and a
-// running web app + worker started by scripts/test.sh), e2e (headless Debian Chromium).
+// Projects: unit and engine-ts (pure, no services), integration (real PostgreSQL, Redis, the fakes
+// and a running web app + worker started by scripts/test.sh), e2e (headless Debian Chromium), and
+// recovery (kills the worker and flushes Redis). Projects of one group run at the same time, so the
+// destructive recovery file has a group of its own that starts only when every other file is done.
+const DESTRUCTIVE = ["tests/integration/runs-recovery.test.ts"];
 export default defineConfig({
   resolve: { alias: { "@": path.resolve(import.meta.dirname, "src") } },
   test: {
@@ -34,10 +37,23 @@ export default defineConfig({
         test: {
           name: "integration",
           include: ["tests/integration/**/*.test.ts"],
+          exclude: DESTRUCTIVE,
           environment: "node",
           testTimeout: 180_000,
           hookTimeout: 120_000,
           fileParallelism: false,
+        },
+      },
+      {
+        extends: true,
+        test: {
+          name: "recovery",
+          include: DESTRUCTIVE,
+          environment: "node",
+          testTimeout: 240_000,
+          hookTimeout: 120_000,
+          fileParallelism: false,
+          sequence: { groupOrder: 1 },
         },
       },
       // npm run test:soak only (scripts/soak.sh sets TRISKEL_SOAK=1): fault drills with restarts

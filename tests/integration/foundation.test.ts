@@ -1,9 +1,8 @@
 // Skeleton end to end: PostgreSQL, Redis/BullMQ with the real worker process, the health endpoint.
 import { afterAll, describe, expect, it } from "vitest";
-import { Queue, QueueEvents } from "bullmq";
-import { Redis } from "ioredis";
 import postgres from "postgres";
-import { appUrl, databaseUrl, redisUrl } from "../support/services";
+import { appUrl, databaseUrl } from "../support/services";
+import { pingWorker } from "../support/worker";
 
 const sql = postgres(databaseUrl(), { max: 2, onnotice: () => {} });
 afterAll(async () => {
@@ -35,23 +34,10 @@ describe("database", () => {
 
 describe("queue", () => {
   it("a job enqueued on the system queue is completed by the worker process", async () => {
-    const connection = new Redis(redisUrl(), { maxRetriesPerRequest: null });
-    const eventsConnection = new Redis(redisUrl(), { maxRetriesPerRequest: null });
-    const queue = new Queue("system", { connection, prefix: process.env.QUEUE_PREFIX ?? "triskel" });
-    const events = new QueueEvents("system", { connection: eventsConnection, prefix: process.env.QUEUE_PREFIX ?? "triskel" });
-    try {
-      await events.waitUntilReady();
-      const job = await queue.add("ping", { hello: "network" });
-      const result = (await job.waitUntilFinished(events, 30_000)) as { pong: boolean; echo: unknown; workerPid: number };
-      expect(result.pong).toBe(true);
-      expect(result.echo).toEqual({ hello: "network" });
-      expect(result.workerPid).not.toBe(process.pid);
-    } finally {
-      await events.close();
-      await queue.close();
-      await connection.quit();
-      await eventsConnection.quit();
-    }
+    const result = await pingWorker({ hello: "network" });
+    expect(result.pong).toBe(true);
+    expect(result.echo).toEqual({ hello: "network" });
+    expect(result.workerPid).not.toBe(process.pid);
   });
 });
 
