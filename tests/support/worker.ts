@@ -26,10 +26,14 @@ export async function pingWorker(data: unknown = { hello: "network" }, timeoutMs
     const until = Date.now() + timeoutMs;
     let state = "unknown";
     while (Date.now() < until) {
-      const now = await Job.fromId(queue, job.id!);
-      state = now ? await now.getState() : "missing";
-      if (state === "completed") return now!.returnvalue as Pong;
-      if (state === "failed") throw new Error(`the ping failed in the worker: ${now!.failedReason}`);
+      // State first, then the job as stored: read in the other order, a job that finishes in
+      // between would show state "completed" with the return value it had while still active.
+      state = await queue.getJobState(job.id!);
+      if (state === "completed" || state === "failed") {
+        const done = await Job.fromId(queue, job.id!);
+        if (state === "failed") throw new Error(`the ping failed in the worker: ${done?.failedReason}`);
+        return done!.returnvalue as Pong;
+      }
       await new Promise((r) => setTimeout(r, 100));
     }
     throw new Error(`no worker answered a ping within ${timeoutMs / 1000} s (job ${job.id} is ${state}); worker log:\n${workerLogTail()}`);
