@@ -2,6 +2,8 @@
  * Plan figures (product.md "Plans"; demo figures, invented). Kept here as configuration:
  * code reads limits from this table, never from literals.
  */
+import { COST_CONSTANTS } from "@/engine/cost-constants";
+
 export type PlanId = "free" | "lab";
 
 export interface PlanLimits {
@@ -17,6 +19,11 @@ export interface PlanLimits {
   maxCellsPerSide: number;
   maxSweepPoints: number;
   maxEnsembleSamples: number;
+  /**
+   * Largest estimated compute time of one job (a run, one sweep point, a whole fit), seconds.
+   * Lab's is the engine's own limit (COST_CONSTANTS.computeSecondsLimit), so no plan allows more.
+   */
+  maxJobComputeSeconds: number;
   /** BullMQ priority: lower numbers run first. */
   queuePriority: number;
   queuePriorityLabel: "low" | "normal";
@@ -34,6 +41,7 @@ export const PLANS: Record<PlanId, PlanLimits> = {
     maxCellsPerSide: 40,
     maxSweepPoints: 100,
     maxEnsembleSamples: 50,
+    maxJobComputeSeconds: 10 * 60,
     queuePriority: 10,
     queuePriorityLabel: "low",
     maxMembers: 1,
@@ -47,6 +55,7 @@ export const PLANS: Record<PlanId, PlanLimits> = {
     maxCellsPerSide: 400,
     maxSweepPoints: 20_000,
     maxEnsembleSamples: 1_000,
+    maxJobComputeSeconds: COST_CONSTANTS.computeSecondsLimit,
     queuePriority: 1,
     queuePriorityLabel: "normal",
     maxMembers: null,

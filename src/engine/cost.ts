@@ -166,6 +166,7 @@ export function checkResourceLimits(input: ComputeInput): CostEstimate {
       `the ${input.computation.kind} computation on a ${input.network.size.columns} x ${input.network.size.rows} ${input.network.lattice} network needs an estimated ${Math.round(est.computeSeconds).toLocaleString("en-US")} compute-seconds (${h(est.computeSeconds)} compute-hours), over the limit of ${h(K.computeSecondsLimit)} compute-hours per computation; use a smaller network or fewer points`,
       est.peakMemoryBytes,
       K.memoryLimitBytes,
+      { estimatedComputeSeconds: est.computeSeconds, limitComputeSeconds: K.computeSecondsLimit },
     );
   }
   return est;

@@ -19,16 +19,29 @@ export class EngineInputError extends Error {
   }
 }
 
+/** A computation refused before it starts: its estimated memory or compute time is over the engine's limit. */
 export class EngineLimitError extends Error {
   readonly reason: string;
+  /** Which limit: peak memory, or compute time. */
+  readonly resource: "memory" | "computeTime";
   readonly estimatedPeakMemoryBytes: number;
   readonly limitBytes: number;
-  constructor(reason: string, estimatedPeakMemoryBytes: number, limitBytes: number) {
+  readonly estimatedComputeSeconds?: number;
+  readonly limitComputeSeconds?: number;
+  constructor(
+    reason: string,
+    estimatedPeakMemoryBytes: number,
+    limitBytes: number,
+    time?: { estimatedComputeSeconds: number; limitComputeSeconds: number },
+  ) {
     super(reason);
     this.name = "EngineLimitError";
     this.reason = reason;
+    this.resource = time ? "computeTime" : "memory";
     this.estimatedPeakMemoryBytes = estimatedPeakMemoryBytes;
     this.limitBytes = limitBytes;
+    this.estimatedComputeSeconds = time?.estimatedComputeSeconds;
+    this.limitComputeSeconds = time?.limitComputeSeconds;
   }
 }
 

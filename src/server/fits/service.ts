@@ -12,7 +12,7 @@ import { getDb } from "@/server/db";
 import { datasets, fits, networks, networkVersions } from "@/server/db/schema";
 import { ApiError, zodToApiError } from "@/server/http/errors";
 import { getQueue, type QueueName } from "@/server/queue";
-import { assertEnsembleWithinPlan, assertNetworkWithinPlan, queuePriority } from "@/server/runs/limits";
+import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan, queuePriority } from "@/server/runs/limits";
 import type { DatasetPoints } from "@/server/datasets/service";
 import { ENGINE_VERSION, engine, inputHash, parseComputeInput, secondsPerEvaluation } from "./engine";
 import { FitInputError, validateSpecs } from "./fitter";
@@ -105,6 +105,7 @@ export async function createFit(caller: Caller, raw: unknown) {
   }
   const evaluations = expectedEvaluations(body.fit.length, body.options);
   const estimatedComputeSeconds = evaluations * points.x.length * secondsPerEvaluation(worst);
+  assertJobComputeWithinPlan(caller.plan, estimatedComputeSeconds, `The fit (${evaluations * points.x.length} engine evaluations)`);
   await assertWithinBudget(caller.workspaceId, estimatedComputeSeconds);
 
   const stored = { ...(input as object), sweepParameter: body.sweepParameter, fit: body.fit, options: body.options ?? {} };

@@ -27,7 +27,13 @@ registerErrorMapper((err) => {
     return new ApiError("invalid_input", err.message, { field: e.field, issues: e.issues });
   }
   if (err instanceof EngineLimitError) {
-    return new ApiError("invalid_input", err.message, { limit: "engine", estimatedPeakMemoryBytes: err.estimatedPeakMemoryBytes, limitBytes: err.limitBytes });
+    return new ApiError("invalid_input", err.message, {
+      limit: "engine",
+      resource: err.resource,
+      estimatedPeakMemoryBytes: err.estimatedPeakMemoryBytes,
+      limitBytes: err.limitBytes,
+      ...(err.resource === "computeTime" ? { estimatedComputeSeconds: err.estimatedComputeSeconds, limitComputeSeconds: err.limitComputeSeconds } : {}),
+    });
   }
   return undefined;
 });

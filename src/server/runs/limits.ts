@@ -6,17 +6,36 @@
 import { PLANS, type PlanId } from "@/config/plans";
 import { ApiError } from "@/server/http/errors";
 
-export type PlanLimitName = "maxCellsPerSide" | "maxSweepPoints" | "maxEnsembleSamples";
+export type PlanLimitName = "maxCellsPerSide" | "maxSweepPoints" | "maxEnsembleSamples" | "maxJobComputeSeconds";
 
-function refuse(plan: PlanId, limit: PlanLimitName, value: number, requested: number, what: string): never {
+const count = (x: number) => x.toLocaleString("en-US");
+
+function refuse(plan: PlanId, limit: PlanLimitName, value: number, requested: number, what: string, format = count, unit?: string): never {
   const p = PLANS[plan];
   const lab = PLANS.lab;
-  const upgrade = plan === "free" && lab[limit] > p[limit] ? ` The ${lab.label} plan allows ${lab[limit].toLocaleString("en-US")}.` : "";
+  const upgrade = plan === "free" && lab[limit] > p[limit] ? ` The ${lab.label} plan allows ${format(lab[limit])}.` : "";
   throw new ApiError(
     plan === "free" ? "payment_required" : "invalid_input",
-    `${what} is ${requested.toLocaleString("en-US")}, over the ${p.label} plan's limit ${limit} = ${value.toLocaleString("en-US")}.${upgrade}`,
-    { limit, value, requested, plan },
+    `${what} is ${format(requested)}, over the ${p.label} plan's limit ${limit} = ${format(value)}.${upgrade}`,
+    { limit, value, requested, plan, ...(unit ? { unit } : {}) },
   );
+}
+
+/** Compute-seconds with the larger unit beside them: "1,234 compute-seconds (20.6 compute-minutes)". */
+export function formatComputeTime(seconds: number): string {
+  const s = `${count(Math.round(seconds))} compute-seconds`;
+  if (seconds >= 3600) return `${s} (${(seconds / 3600).toPrecision(3)} compute-hours)`;
+  if (seconds >= 60) return `${s} (${(seconds / 60).toPrecision(3)} compute-minutes)`;
+  return seconds < 1 ? `${seconds.toPrecision(2)} compute-seconds` : s;
+}
+
+/**
+ * The per-job compute-time cap: one run, one sweep point or one whole fit whose estimate is over
+ * the plan's maxJobComputeSeconds is refused before anything is written (dry runs too).
+ */
+export function assertJobComputeWithinPlan(plan: PlanId, estimatedSeconds: number, what: string): void {
+  const max = PLANS[plan].maxJobComputeSeconds;
+  if (estimatedSeconds > max) refuse(plan, "maxJobComputeSeconds", max, estimatedSeconds, `${what}: the estimated compute time`, formatComputeTime, "compute-seconds");
 }
 
 export function assertNetworkWithinPlan(plan: PlanId, size: { columns: number; rows: number }, where = "network.size"): void {

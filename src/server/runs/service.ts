@@ -15,7 +15,7 @@ import { isUuid, resolveNetwork } from "@/server/networks/service";
 import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "./cursor";
 import { enqueueAfterCommit } from "./enqueue";
 import { estimateSeconds, inputHash, kindOf, networkSize, parseInput, type ComputeInput } from "./engine";
-import { assertEnsembleWithinPlan, assertNetworkWithinPlan, queuePriority } from "./limits";
+import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan, queuePriority } from "./limits";
 
 export const RUN_STATUSES = ["queued", "running", "succeeded", "failed", "cancelled"] as const;
 export type RunStatus = (typeof RUN_STATUSES)[number];
@@ -72,6 +72,7 @@ async function prepareRun(caller: Caller, body: unknown) {
   if (!parsed.success) throw zodToApiError(parsed.error);
   const { input, networkVersionId } = await resolveSubmission(caller, parsed.data);
   const estimated = estimateSeconds(input);
+  assertJobComputeWithinPlan(caller.plan, estimated, "The run");
   await assertWithinBudget(caller.workspaceId, estimated);
   return { input, networkVersionId, estimated };
 }

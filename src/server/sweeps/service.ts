@@ -18,7 +18,7 @@ import { isUuid } from "@/server/networks/service";
 import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/runs/cursor";
 import { enqueueAfterCommit } from "@/server/runs/enqueue";
 import { ENGINE_VERSION, applyParameter, estimateSeconds, inputHash, kindOf, networkSize, parseInput, sweepableParameters, type ComputeInput } from "@/server/runs/engine";
-import { assertEnsembleWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/runs/limits";
+import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/runs/limits";
 import { RUN_STATUSES, resolveSubmission } from "@/server/runs/service";
 import { axesSchema, ensembleSchema, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, unitOf, type Ensemble, type ResolvedAxis } from "./axes";
 import { deriveSweepStatus, refreshSweep, type SweepCounts } from "./progress";
@@ -85,6 +85,7 @@ async function prepareSweep(caller: Caller, body: unknown) {
     assertNetworkWithinPlan(caller.plan, networkSize(input.network), `${where}: network.size`);
     assertEnsembleWithinPlan(caller.plan, input);
     const estimate = estimateSeconds(input);
+    assertJobComputeWithinPlan(caller.plan, estimate, where);
     total += estimate;
     points.push({ input, estimate, hash: inputHash(input) });
   }
