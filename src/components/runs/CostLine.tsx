@@ -1,13 +1,14 @@
 "use client";
 
-import type { PlanId } from "@/config/plans";
-import { CostEstimate } from "@/components/billing";
+import { PLANS, type PlanId } from "@/config/plans";
+import { CostEstimate, formatComputeSeconds } from "@/components/billing";
 
 /**
  * The estimate before submit: the billing work's <CostEstimate> (compute-seconds and cost on the
- * workspace's plan) plus the number of points for a sweep.
+ * workspace's plan) plus the number of points for a sweep, and a warning when one job (the run,
+ * or the costliest sweep point, `jobSeconds`) is over the plan's per-job cap, which the server refuses.
  */
-export function CostLine({ seconds, plan, points = 1 }: { seconds: number | null; plan?: PlanId; points?: number }) {
+export function CostLine({ seconds, plan, points = 1, jobSeconds }: { seconds: number | null; plan?: PlanId; points?: number; jobSeconds?: number | null }) {
   if (seconds === null) {
     return (
       <p className="text-caption text-fg-faint" data-testid="estimate">
@@ -15,9 +16,18 @@ export function CostLine({ seconds, plan, points = 1 }: { seconds: number | null
       </p>
     );
   }
+  const p = PLANS[plan ?? "free"];
+  const job = jobSeconds ?? (points > 1 ? null : seconds);
+  const overCap = job !== null && job > p.maxJobComputeSeconds;
   return (
     <div data-testid="estimate" className="space-y-0.5">
       <CostEstimate computeSeconds={seconds} plan={plan ?? "free"} />
+      {overCap ? (
+        <p role="alert" className="text-caption text-danger" data-testid="job-cap">
+          {points > 1 ? "One point" : "This run"} is estimated at {formatComputeSeconds(job)}, over the {p.label} plan&apos;s limit of {formatComputeSeconds(p.maxJobComputeSeconds)} per job; it would be refused.
+          {p.id === "free" ? ` The ${PLANS.lab.label} plan allows ${formatComputeSeconds(PLANS.lab.maxJobComputeSeconds)}.` : " Use a smaller network, fewer samples or fewer energies."}
+        </p>
+      ) : null}
       <p className="text-micro text-fg-faint">
         {points > 1 ? `For all ${points.toLocaleString("en")} points. ` : ""}You are charged for the compute-seconds actually used.
       </p>

@@ -204,7 +204,7 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkRecord; c
         {samples !== "" && !ensembleError ? ` × ${ensembleN} seeds` : ""}
         <span className={overLimit ? "text-danger" : "text-fg-faint"}> · the {PLANS[plan].label} plan allows up to {limit.toLocaleString("en")} points per sweep</span>
       </p>
-      <CostLine seconds={perPoint === null || !axisOk ? null : perPoint * pointCount * (ensembleError ? 1 : ensembleN)} plan={plan} points={pointCount} />
+      <CostLine seconds={perPoint === null || !axisOk ? null : perPoint * pointCount * (ensembleError ? 1 : ensembleN)} plan={plan} points={pointCount} jobSeconds={perPoint === null ? null : perPoint * (ensembleError ? 1 : ensembleN)} />
       {serverError ? (
         <p role="alert" className="rounded-field bg-danger-soft p-2 text-caption text-danger">
           {serverError}

@@ -13,6 +13,7 @@ export default function PricingPage() {
     ["Included compute", `${free.includedComputeSeconds / 60} compute-minutes per month`, "none; every compute-second is metered"],
     ["Largest network", `${free.maxCellsPerSide} × ${free.maxCellsPerSide} cells`, `${lab.maxCellsPerSide} × ${lab.maxCellsPerSide} cells`],
     ["Sweep points", free.maxSweepPoints.toLocaleString("en-US"), lab.maxSweepPoints.toLocaleString("en-US")],
+    ["Longest job (estimated; a run, one sweep point or a whole fit)", `${free.maxJobComputeSeconds / 60} compute-minutes`, `${lab.maxJobComputeSeconds / 3600} compute-hours`],
     ["Queue priority", free.queuePriorityLabel, lab.queuePriorityLabel],
     ["Members", String(free.maxMembers), "seats bought"],
   ];
