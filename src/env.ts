@@ -3,13 +3,21 @@ import { z } from "zod";
 /**
  * Every environment variable Triskel reads, validated once at start-up. The scripts in
  * scripts/ export working local defaults, so nothing needs editing on a developer's machine.
- * A bad or missing value stops the process with one line naming it (see `loadEnv`).
+ * A bad or missing value stops the process with one line naming it (see `loadEnvOrExit`).
+ *
+ * The only place that reads process.env (tests/unit/env-usage.test.ts keeps it so), apart from
+ * the engine's own kernel variables (src/engine), Next's NEXT_RUNTIME (src/instrumentation.ts)
+ * and the worker's thread counts for OpenBLAS (worker/main.ts). Every key is listed in
+ * .env.example. Call env() inside functions, never at module level: `next build` imports server
+ * modules and must work without the variables.
  */
 const url = (what: string) => z.string().url({ message: `must be a URL (${what})` });
 
 export const envSchema = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
   DATABASE_URL: url("postgres://user@host:port/db").refine((v) => /^postgres(ql)?:\/\//.test(v), "must start with postgres://"),
+  /** Connections in each process's PostgreSQL pool (web and worker each have one). */
+  DATABASE_POOL_SIZE: z.coerce.number().int().min(1).max(200).default(10),
   REDIS_URL: url("redis://host:port").refine((v) => /^rediss?:\/\//.test(v), "must start with redis://"),
   /** Public base URL of the web app, used in e-mails and redirects. */
   APP_URL: url("http://127.0.0.1:3000").default("http://127.0.0.1:3000"),
@@ -18,6 +26,9 @@ export const envSchema = z.object({
   /** Engine runs in parallel per worker process (threads in the pool). */
   WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(2),
   LOG_LEVEL: z.enum(["debug", "info", "warn", "error"]).default("info"),
+  // --- request rate limits per API token and per signed-in member (src/server/http/rate-limit.ts) ---
+  RATE_LIMIT_READS_PER_MINUTE: z.coerce.number().int().min(1).default(600),
+  RATE_LIMIT_WRITES_PER_MINUTE: z.coerce.number().int().min(1).default(120),
   // --- accounts (docs/accounts.md): Clerk through @clerk/nextjs, which reads its own CLERK_* and
   // NEXT_PUBLIC_CLERK_* variables; scripts/env.d/clerk.sh points them at the local stand-in.
   CLERK_SECRET_KEY: z.string().regex(/^sk_(test|live)_/, "must be a Clerk secret key (sk_test_... or sk_live_...)").optional(),
@@ -36,6 +47,12 @@ export const envSchema = z.object({
   STRIPE_API_HOST: z.string().optional(),
   STRIPE_API_PORT: z.coerce.number().int().min(1).max(65535).optional(),
   STRIPE_API_PROTOCOL: z.enum(["http", "https"]).optional(),
+  /** How often the meter sender (worker) looks for usage to send to Stripe. */
+  METER_SENDER_INTERVAL_MS: z.coerce.number().int().min(50).max(3_600_000).default(2000),
+  /** A row claimed by one sender is left alone by the others this long (a killed sender's rows come back). */
+  METER_SENDER_LEASE_SECONDS: z.coerce.number().int().min(1).max(3600).default(30),
+  /** Only for a standalone sender (`tsx worker/billing.ts`, tests): send this workspace's usage only. */
+  METER_SENDER_WORKSPACE_ID: z.preprocess((v) => (v === "" ? undefined : v), z.uuid({ message: "must be a workspace id (a UUID)" }).optional()),
   // --- runs and sweeps worker (issue 4) ---
   /** Engine threads per worker process (piscina pool); default: WORKER_CONCURRENCY. */
   WORKER_POOL_SIZE: z.coerce.number().int().min(1).max(64).optional(),

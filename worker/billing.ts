@@ -2,8 +2,7 @@
 // e-mails, and the end of grace periods. `startBillingLoop()` is called from worker/main.ts.
 // Run alone (`tsx worker/billing.ts`) it is one more sender, as many as you like can run at once.
 import { pathToFileURL } from "node:url";
-import { loadEnvOrExit } from "../src/env";
-import { METER_SENDER } from "../src/server/billing/config";
+import { env, loadEnvOrExit } from "../src/env";
 import { sendDueMeterEvents } from "../src/server/billing/meter-sender";
 import { sendSpendCapNotices } from "../src/server/billing/notify";
 import { billingConfigured } from "../src/server/billing/stripe";
@@ -11,7 +10,7 @@ import { reconcileSeats } from "../src/server/billing/subscriptions";
 import { expireGracePeriods } from "../src/server/billing/webhooks";
 
 export function startBillingLoop(options: { intervalMs?: number; workspaceId?: string } = {}): () => void {
-  const intervalMs = options.intervalMs ?? METER_SENDER.intervalMs;
+  const intervalMs = options.intervalMs ?? env().METER_SENDER_INTERVAL_MS;
   let stopped = false;
   let timer: NodeJS.Timeout | undefined;
   const lastErrors = new Map<string, string>();
@@ -56,8 +55,7 @@ export function startBillingLoop(options: { intervalMs?: number; workspaceId?: s
 }
 
 if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
-  loadEnvOrExit();
-  const workspaceId = process.env.METER_SENDER_WORKSPACE_ID || undefined;
+  const workspaceId = loadEnvOrExit().METER_SENDER_WORKSPACE_ID;
   console.log(`[billing] standalone sender pid ${process.pid}${workspaceId ? ` for workspace ${workspaceId}` : ""}`);
   startBillingLoop({ workspaceId });
   setInterval(() => {}, 1 << 30);

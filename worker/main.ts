@@ -1,6 +1,7 @@
 import { hostname } from "node:os";
 // Native linear-algebra kernels must not start threads of their own: compute-seconds are
-// measured per engine thread.
+// measured per engine thread. These two are read by OpenBLAS/OpenMP, not by Triskel, so they are
+// set here in process.env (inherited by the engine threads) rather than read through src/env.ts.
 process.env.OPENBLAS_NUM_THREADS ??= "1";
 process.env.OMP_NUM_THREADS ??= "1";
 

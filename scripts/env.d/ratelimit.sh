@@ -1,5 +1,5 @@
-# Request rate limits per API token and per signed-in member (src/server/http/rate-limit.ts):
-# defaults 600 reads and 120 writes per minute. Test and soak instances get budgets no test
+# Request rate limits per API token and per signed-in member (src/server/http/rate-limit.ts;
+# defaults in src/env.ts: 600 reads and 120 writes per minute). Test and soak instances get budgets no test
 # reaches by accident (tests/integration/rate-limit.test.ts fills one token's budget on purpose).
 case "$TRISKEL_INSTANCE" in
   test-* | soak-*)

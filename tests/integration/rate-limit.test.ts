@@ -4,12 +4,12 @@
 // member's write counts are brought to one below the budget, then real requests cross it.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { Redis } from "ioredis";
+import { parseEnv } from "@/env";
 import { api, appUrl, redisUrl } from "../support/services";
 import { sessionFetch } from "../support/session";
 
-const WRITES = Number(process.env.RATE_LIMIT_WRITES_PER_MINUTE ?? 120);
-const READS = Number(process.env.RATE_LIMIT_READS_PER_MINUTE ?? 600);
-const PREFIX = process.env.QUEUE_PREFIX ?? "triskel";
+// The budgets the web app runs with: the same variables and defaults (src/env.ts).
+const { RATE_LIMIT_WRITES_PER_MINUTE: WRITES, RATE_LIMIT_READS_PER_MINUTE: READS, QUEUE_PREFIX: PREFIX } = parseEnv(process.env);
 const redis = new Redis(redisUrl(), { maxRetriesPerRequest: 2 });
 
 let token: { id: string; secret: string };

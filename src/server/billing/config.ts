@@ -1,7 +1,9 @@
 /**
  * Billing settings that are not plan figures (those live in src/config/plans.ts): names of the
  * Stripe objects Triskel creates, the grace period after a failed payment, the meter sender's
- * pace. Figures here are configuration, read by code, never repeated as literals elsewhere.
+ * batches and back-off. Figures here are configuration, read by code, never repeated as literals
+ * elsewhere. The sender's pace and lease are environment variables (METER_SENDER_INTERVAL_MS,
+ * METER_SENDER_LEASE_SECONDS in src/env.ts).
  */
 export const STRIPE_OBJECTS = {
   seatProductId: "triskel_lab_seat",
@@ -22,11 +24,7 @@ export const BILLING_RULES = {
 };
 
 export const METER_SENDER = {
-  /** How often the sender looks for work, ms. */
-  intervalMs: Number(process.env.METER_SENDER_INTERVAL_MS ?? 2000),
   batchSize: 50,
-  /** A claimed row is left alone by other senders for this long (a killed sender's rows come back). */
-  leaseSeconds: Number(process.env.METER_SENDER_LEASE_SECONDS ?? 30),
   /** Retry delay after a temporary failure: base * 2^(attempts-1), capped. */
   backoffBaseMs: 1000,
   backoffMaxMs: 60_000,

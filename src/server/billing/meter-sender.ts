@@ -1,5 +1,6 @@
 import { sql } from "drizzle-orm";
 import Stripe from "stripe";
+import { env } from "@/env";
 import { getDb } from "@/server/db";
 import { backoffMs, METER_SENDER, STRIPE_OBJECTS } from "./config";
 import { getStripe } from "./stripe";
@@ -126,7 +127,7 @@ export async function sendDueMeterEvents(opts: SenderOptions = {}): Promise<Send
   const stripe = getStripe();
   const batchSize = opts.batchSize ?? METER_SENDER.batchSize;
   for (;;) {
-    const batch = await claim(batchSize, opts.leaseSeconds ?? METER_SENDER.leaseSeconds, opts.workspaceId);
+    const batch = await claim(batchSize, opts.leaseSeconds ?? env().METER_SENDER_LEASE_SECONDS, opts.workspaceId);
     if (batch.length === 0) break;
     report.claimed += batch.length;
     let stripeDown = false;

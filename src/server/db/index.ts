@@ -11,7 +11,7 @@ const globalForDb = globalThis as unknown as { __triskelDb?: Handle };
 
 function open(): Handle {
   const sql = postgres(env().DATABASE_URL, {
-    max: Number(process.env.DATABASE_POOL_SIZE ?? 10),
+    max: env().DATABASE_POOL_SIZE,
     idle_timeout: 30,
     connect_timeout: 5,
     onnotice: () => {},

@@ -8,12 +8,16 @@ import { ApiError } from "./errors";
  * process shares one count (rate-limiter-flexible). Reads and writes have separate budgets: a
  * script polling run status should never lock out its own submissions.
  */
-export const RATE_LIMITS = {
-  read: { points: Number(process.env.RATE_LIMIT_READS_PER_MINUTE ?? 600), durationSeconds: 60 },
-  write: { points: Number(process.env.RATE_LIMIT_WRITES_PER_MINUTE ?? 120), durationSeconds: 60 },
-} as const;
+type Kind = "read" | "write";
 
-type Kind = keyof typeof RATE_LIMITS;
+/** Budgets per minute (RATE_LIMIT_READS_PER_MINUTE, RATE_LIMIT_WRITES_PER_MINUTE), read when first needed. */
+export function rateLimits(): Record<Kind, { points: number; durationSeconds: number }> {
+  const e = env();
+  return {
+    read: { points: e.RATE_LIMIT_READS_PER_MINUTE, durationSeconds: 60 },
+    write: { points: e.RATE_LIMIT_WRITES_PER_MINUTE, durationSeconds: 60 },
+  };
+}
 
 const globalForLimits = globalThis as unknown as { __triskelLimits?: { redis: Redis; limiters: Record<Kind, RateLimiterRedis> } };
 
@@ -22,12 +26,13 @@ function limiters() {
     // No offline queue: while Redis is down a count fails at once (and the request is allowed).
     const redis = new Redis(env().REDIS_URL, { enableOfflineQueue: false, maxRetriesPerRequest: 1, connectTimeout: 2000 });
     redis.on("error", () => {});
+    const limits = rateLimits();
     const make = (kind: Kind) =>
       new RateLimiterRedis({
         storeClient: redis,
         keyPrefix: `${env().QUEUE_PREFIX}:rl:${kind}`,
-        points: RATE_LIMITS[kind].points,
-        duration: RATE_LIMITS[kind].durationSeconds,
+        points: limits[kind].points,
+        duration: limits[kind].durationSeconds,
       });
     globalForLimits.__triskelLimits = { redis, limiters: { read: make("read"), write: make("write") } };
   }
@@ -49,7 +54,7 @@ export async function consumeRateLimit(key: string, method: string): Promise<voi
   } catch (res) {
     if (res instanceof RateLimiterRes) {
       const retryAfter = Math.max(1, Math.ceil(res.msBeforeNext / 1000));
-      const { points, durationSeconds } = RATE_LIMITS[kind];
+      const { points, durationSeconds } = rateLimits()[kind];
       throw new ApiError(
         "rate_limited",
         `Too many ${kind === "read" ? "read" : "write"} requests: the limit is ${points} per ${durationSeconds} s for each API token and member. Retry in ${retryAfter} s.`,
