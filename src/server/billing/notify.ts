@@ -1,8 +1,8 @@
 import { sql } from "drizzle-orm";
-import nodemailer, { type Transporter } from "nodemailer";
 import { computeCostUsd } from "@/config/plans";
 import { env } from "@/env";
 import { getDb } from "@/server/db";
+import { sendMail } from "@/server/mail";
 import { billingPeriod } from "./budget";
 import { BILLING_RULES } from "./config";
 
@@ -10,18 +10,8 @@ import { BILLING_RULES } from "./config";
  * Spend-cap e-mails: when a Lab workspace's compute spend this period reaches 80 % and then
  * 100 % of its cap, the Owner and the Billing admins get one e-mail each time (recorded in
  * spend_cap_notices, so never twice for the same period and threshold).
- * Mail goes over SMTP (SMTP_URL; locally the maildev stand-in on 127.0.0.1:$SMTP_PORT).
+ * Mail goes through the app's one mail transport (src/server/mail: SMTP_URL, MAIL_FROM).
  */
-
-const globalForMail = globalThis as unknown as { __triskelBillingMail?: Transporter };
-function transport(): Transporter {
-  if (!globalForMail.__triskelBillingMail) {
-    const url = process.env.SMTP_URL || (process.env.SMTP_PORT ? `smtp://127.0.0.1:${process.env.SMTP_PORT}` : "");
-    if (!url) throw new Error("no SMTP server configured (SMTP_URL)");
-    globalForMail.__triskelBillingMail = nodemailer.createTransport(url);
-  }
-  return globalForMail.__triskelBillingMail;
-}
 
 const fmtUsd = (n: number) => `${n.toFixed(2)} USD`;
 
@@ -78,7 +68,7 @@ export async function sendSpendCapNotices(now = new Date()): Promise<number> {
       if (emails.length === 0) continue;
       const { subject, text } = spendCapMessage({ workspaceName: r.name, period, thresholdPercent: percent, spendUsd: spend, spendCapUsd: cap, billingUrl: `${env().APP_URL}/billing` });
       try {
-        await transport().sendMail({ from: process.env.MAIL_FROM || "Triskel <no-reply@triskel.local>", to: emails, subject, text });
+        await sendMail({ to: emails, subject, text });
         await db.execute(sql`update spend_cap_notices set sent_at = now() where id = ${inserted[0].id}`);
         sent++;
       } catch (err) {

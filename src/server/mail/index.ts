@@ -1,15 +1,18 @@
 /**
- * Outgoing e-mail through nodemailer over SMTP (SMTP_URL). In development and tests that is the
- * maildev stand-in on 127.0.0.1 (scripts/fakes.d/20-mail.sh); messages can be read at MAIL_WEB_URL.
+ * Outgoing e-mail through nodemailer over SMTP (SMTP_URL), from MAIL_FROM: the one mail transport
+ * of the process (invitations, spend-cap notices). In development and tests that is the maildev
+ * stand-in on 127.0.0.1 (scripts/fakes.d/20-mail.sh); messages can be read at MAIL_WEB_URL.
  */
 import nodemailer, { type Transporter } from "nodemailer";
 import { env } from "@/env";
 
 export interface OutgoingMail {
-  to: string;
+  /** One address, or several for one message to all of them. */
+  to: string | string[];
   subject: string;
   text: string;
-  html: string;
+  /** Without it the message is plain text only. */
+  html?: string;
 }
 
 let transport: Transporter | undefined;
