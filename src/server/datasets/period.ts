@@ -5,11 +5,10 @@
  * magnitude. Then dB -> area A = (h/e)/dB -> moire period and twist angle.
  *
  * Geometry (physics.md sections 2 and 4): triangle area A_triangle = (sqrt3/4) l^2, unit cell
- * (two triangles) A_cell = (sqrt3/2) l^2, l = a / (2 sin(theta/2)) with a = 0.246 nm.
+ * (two triangles) A_cell = (sqrt3/2) l^2, l = a / (2 sin(theta/2)) with the graphene lattice
+ * constant a. The constants and the twist/period conversion are the engine's (src/engine/constants.ts).
  */
-import { H_OVER_E_WEBER } from "./units";
-
-export const GRAPHENE_LATTICE_NM = 0.246;
+import { FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM, twistFromPeriodDegrees } from "@/engine/constants";
 
 export interface PeriodOptions {
   /** Degree of the polynomial background removed before the transform (0-8). */
@@ -50,20 +49,15 @@ export class PeriodAnalysisError extends Error {
   }
 }
 
-/** l = a / (2 sin(theta/2)) inverted: theta = 2 asin(a / (2 l)), degrees; null if l < a/2. */
-export function twistDegreesFromPeriodNm(periodNm: number, latticeNm = GRAPHENE_LATTICE_NM): number | null {
-  const s = latticeNm / (2 * periodNm);
-  if (!(s > 0 && s <= 1)) return null;
-  return (2 * Math.asin(s) * 180) / Math.PI;
-}
-
-export function periodNmFromTwistDegrees(twistDegrees: number, latticeNm = GRAPHENE_LATTICE_NM): number {
-  return latticeNm / (2 * Math.sin(((twistDegrees * Math.PI) / 180) / 2));
+/** The twist angle (degrees) of a moire period (nm), or null when no angle gives it (l < a/2). */
+export function twistDegreesFromPeriodNm(periodNm: number): number | null {
+  if (!(Number.isFinite(periodNm) && periodNm >= GRAPHENE_LATTICE_NM / 2)) return null;
+  return twistFromPeriodDegrees(periodNm);
 }
 
 /** Area (nm^2) enclosing one flux quantum when the field period is dB (tesla): A = (h/e)/dB. */
 export function areaNm2FromFieldPeriod(periodTesla: number): number {
-  return (H_OVER_E_WEBER / periodTesla) * 1e18;
+  return (FLUX_QUANTUM_WB / periodTesla) * 1e18;
 }
 
 export function readingsFromArea(areaNm2: number): { perTriangle: PeriodReading; perUnitCell: PeriodReading } {
@@ -256,7 +250,7 @@ export function analysePeriod(fieldTesla: number[], conductance: number[], optio
   return {
     peak: { frequencyPerTesla: fPeak, amplitude: amp[kPeak], prominence: amp[kPeak] / median },
     periodTesla,
-    fluxQuantumWeber: H_OVER_E_WEBER,
+    fluxQuantumWeber: FLUX_QUANTUM_WB,
     areaNm2,
     perTriangle,
     perUnitCell,

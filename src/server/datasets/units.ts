@@ -1,14 +1,8 @@
 /**
  * Units a dataset's columns may be given in, and their conversion into the engine's units.
- * Pure; no I/O. Exact SI constants (SI 2019 / CODATA 2018): e = 1.602176634e-19 C,
- * h = 6.62607015e-34 J s, so e^2/h = 3.874045865e-5 S and h/e^2 = 25812.80745 ohm.
+ * Pure; no I/O. The conductance quantum e^2/h is the engine's (src/engine/constants.ts, exact SI).
  */
-export const ELEMENTARY_CHARGE_C = 1.602176634e-19;
-export const PLANCK_JS = 6.62607015e-34;
-/** Conductance quantum e^2/h in siemens (exact inputs). */
-export const E2_OVER_H_SIEMENS = (ELEMENTARY_CHARGE_C * ELEMENTARY_CHARGE_C) / PLANCK_JS;
-/** Flux quantum h/e in webers (tesla m^2). */
-export const H_OVER_E_WEBER = PLANCK_JS / ELEMENTARY_CHARGE_C;
+import { CONDUCTANCE_QUANTUM_S } from "@/engine/constants";
 
 export const X_UNITS = ["T", "mT", "V", "cm^-2"] as const;
 export type XUnit = (typeof X_UNITS)[number];
@@ -29,7 +23,7 @@ export const X_UNIT_INFO: Record<XUnit, { quantity: XQuantity; toCanonical: numb
 export const Y_UNIT_INFO: Record<YUnit, { kind: "conductance" | "resistance"; toSi: number; label: string }> = {
   S: { kind: "conductance", toSi: 1, label: "conductance (S)" },
   uS: { kind: "conductance", toSi: 1e-6, label: "conductance (µS)" },
-  "e2/h": { kind: "conductance", toSi: E2_OVER_H_SIEMENS, label: "conductance (e²/h)" },
+  "e2/h": { kind: "conductance", toSi: CONDUCTANCE_QUANTUM_S, label: "conductance (e²/h)" },
   ohm: { kind: "resistance", toSi: 1, label: "resistance (Ω)" },
   kohm: { kind: "resistance", toSi: 1e3, label: "resistance (kΩ)" },
 };
@@ -50,15 +44,15 @@ export function convertY(value: number, unit: YUnit, sigma?: number): { g: numbe
   const info = Y_UNIT_INFO[unit];
   if (unit === "e2/h") return sigma === undefined ? { g: value } : { g: value, sigma };
   if (info.kind === "conductance") {
-    const g = (value * info.toSi) / E2_OVER_H_SIEMENS;
-    return sigma === undefined ? { g } : { g, sigma: (sigma * info.toSi) / E2_OVER_H_SIEMENS };
+    const g = (value * info.toSi) / CONDUCTANCE_QUANTUM_S;
+    return sigma === undefined ? { g } : { g, sigma: (sigma * info.toSi) / CONDUCTANCE_QUANTUM_S };
   }
   const rOhm = value * info.toSi;
   if (!(rOhm > 0)) return null;
-  const g = 1 / rOhm / E2_OVER_H_SIEMENS;
+  const g = 1 / rOhm / CONDUCTANCE_QUANTUM_S;
   if (sigma === undefined) return { g };
   const sOhm = sigma * info.toSi;
-  return { g, sigma: sOhm / (rOhm * rOhm) / E2_OVER_H_SIEMENS };
+  return { g, sigma: sOhm / (rOhm * rOhm) / CONDUCTANCE_QUANTUM_S };
 }
 
 /** Unit spellings accepted as a suffix inside a cell or in a column header, mapped to our units. */

@@ -8,7 +8,7 @@
 import { writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { ENGINE_VERSION, applyParameter, compute, parseComputeInput } from "@/engine";
-import { E2_OVER_H_SIEMENS } from "@/server/datasets/units";
+import { CONDUCTANCE_QUANTUM_S } from "@/engine/constants";
 import { LK07_COMPUTATION, LK07_FIELD_RANGE_TESLA, LK07_NAME, LK07_NETWORK, LK07_NOISE, LK07_POINTS } from "./lk07";
 
 function gaussian(seed: number) {
@@ -36,7 +36,7 @@ const lines = [
 for (let i = 0; i < LK07_POINTS; i++) {
   const b = b0 + ((b1 - b0) * i) / (LK07_POINTS - 1);
   const r = compute(applyParameter(input, "fieldTesla", b)) as { siemens: number };
-  const g = r.siemens / E2_OVER_H_SIEMENS + LK07_NOISE.sigmaE2h * noise();
+  const g = r.siemens / CONDUCTANCE_QUANTUM_S + LK07_NOISE.sigmaE2h * noise();
   lines.push(`${b.toFixed(6)},${g.toFixed(6)},${LK07_NOISE.sigmaE2h}`);
 }
 const out = join(import.meta.dirname, "lk07.csv");

@@ -3,7 +3,7 @@
  * when the computation has temperatureK > 0) at every x of the dataset. The engine is passed in
  * (the contract of src/engine: applyParameter + compute), so this module stays pure and testable.
  */
-import { E2_OVER_H_SIEMENS } from "@/server/datasets/units";
+import { CONDUCTANCE_QUANTUM_S } from "@/engine/constants";
 import { fitCurve, FitInputError, type FitOptions, type FitParameterSpec, type FitResult } from "./fitter";
 
 /** The part of the engine's API a fit uses. */
@@ -22,7 +22,7 @@ import { FITTABLE } from "./parameters";
  */
 export function conductanceOf(result: unknown): number {
   const r = result as { siemens?: unknown; conductance?: { total?: unknown }; ensemble?: { mean?: { total?: unknown } } };
-  if (typeof r?.siemens === "number" && Number.isFinite(r.siemens) && !r.ensemble) return r.siemens / E2_OVER_H_SIEMENS;
+  if (typeof r?.siemens === "number" && Number.isFinite(r.siemens) && !r.ensemble) return r.siemens / CONDUCTANCE_QUANTUM_S;
   const total = r?.ensemble?.mean?.total ?? r?.conductance?.total;
   if (typeof total !== "number" || !Number.isFinite(total)) throw new Error("the engine result has no conductance.total");
   return total;

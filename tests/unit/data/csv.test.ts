@@ -1,7 +1,8 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { DatasetCsvError, parseDatasetCsv, previewCsv, type ColumnMapping } from "@/server/datasets/csv";
-import { convertY, E2_OVER_H_SIEMENS, H_OVER_E_WEBER } from "@/server/datasets/units";
+import { CONDUCTANCE_QUANTUM_S } from "@/engine/constants";
+import { convertY, Y_UNIT_INFO } from "@/server/datasets/units";
 
 const fieldMap: ColumnMapping = { xColumn: "B", xUnit: "T", yColumn: "G", yUnit: "e2/h" };
 
@@ -17,16 +18,16 @@ function issuesOf(text: string, mapping: ColumnMapping = fieldMap) {
 
 describe("units", () => {
   it("uses the exact SI constants (CODATA 2018 / SI 2019)", () => {
-    // e^2/h = 3.874045865e-5 S and h/e = 4.135667696e-15 Wb (physics.md section 4).
-    expect(E2_OVER_H_SIEMENS).toBeCloseTo(3.874045865e-5, 14);
-    expect(1 / E2_OVER_H_SIEMENS).toBeCloseTo(25812.80745, 4);
-    expect(H_OVER_E_WEBER).toBeCloseTo(4.135667696e-15, 23);
+    // e^2/h = 3.874045865e-5 S (physics.md section 4), the engine's constant.
+    expect(Y_UNIT_INFO["e2/h"].toSi).toBe(CONDUCTANCE_QUANTUM_S);
+    expect(convertY(3.874045865e-5, "S")!.g).toBeCloseTo(1, 9);
+    expect(convertY(25812.80745, "ohm")!.g).toBeCloseTo(1, 9);
   });
   it("converts resistances into conductance and propagates the uncertainty", () => {
     const r = convertY(25.81280745, "kohm", 0.1)!; // one resistance quantum
     expect(r.g).toBeCloseTo(1, 9);
     // sigma_G = sigma_R / R^2 in SI, then in units of e^2/h
-    expect(r.sigma!).toBeCloseTo(100 / 25812.80745 ** 2 / E2_OVER_H_SIEMENS, 12);
+    expect(r.sigma!).toBeCloseTo(100 / 25812.80745 ** 2 / CONDUCTANCE_QUANTUM_S, 12);
     expect(convertY(38.74045865, "uS")!.g).toBeCloseTo(1, 9);
     expect(convertY(0, "ohm")).toBeNull();
   });
@@ -40,7 +41,7 @@ describe("parseDatasetCsv", () => {
     expect(d.y[0]).toBeCloseTo(2, 7);
     expect(d.y[1]).toBeCloseTo(1, 7);
     expect(d.xDescending).toBe(true);
-    expect(d.sigma![0]).toBeCloseTo((10 / 12906.4037 ** 2) / E2_OVER_H_SIEMENS, 9);
+    expect(d.sigma![0]).toBeCloseTo((10 / 12906.4037 ** 2) / CONDUCTANCE_QUANTUM_S, 9);
     expect(d.xQuantity).toBe("field");
   });
 

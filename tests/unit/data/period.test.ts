@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { analysePeriod, areaNm2FromFieldPeriod, periodNmFromTwistDegrees, readingsFromArea, twistDegreesFromPeriodNm } from "@/server/datasets/period";
+import { periodFromTwistNm } from "@/engine/constants";
+import { analysePeriod, areaNm2FromFieldPeriod, readingsFromArea, twistDegreesFromPeriodNm } from "@/server/datasets/period";
 
 /** Deterministic pseudo-random numbers (mulberry32) and Gaussian noise (Box-Muller). */
 function rng(seed: number) {
@@ -17,13 +18,15 @@ function rng(seed: number) {
 describe("period to twist angle conversion", () => {
   it("agrees with l = a / (2 sin(theta/2)), a = 0.246 nm (physics.md section 4)", () => {
     // theta = 0.1 degree gives l of about 141 nm (physics.md, derived): 0.246 / (2 sin(0.05 deg)).
-    expect(periodNmFromTwistDegrees(0.1)).toBeCloseTo(0.246 / (2 * Math.sin((0.05 * Math.PI) / 180)), 9);
-    expect(periodNmFromTwistDegrees(0.1)).toBeCloseTo(140.95, 1);
-    for (const theta of [0.05, 0.11, 0.3, 1.1, 5]) expect(twistDegreesFromPeriodNm(periodNmFromTwistDegrees(theta))!).toBeCloseTo(theta, 10);
+    expect(periodFromTwistNm(0.1)).toBeCloseTo(0.246 / (2 * Math.sin((0.05 * Math.PI) / 180)), 9);
+    expect(periodFromTwistNm(0.1)).toBeCloseTo(140.95, 1);
+    for (const theta of [0.05, 0.11, 0.3, 1.1, 5]) expect(twistDegreesFromPeriodNm(periodFromTwistNm(theta))!).toBeCloseTo(theta, 10);
     expect(twistDegreesFromPeriodNm(0.1)).toBeNull(); // shorter than a/2: no angle
+    expect(twistDegreesFromPeriodNm(0.123)).toBeCloseTo(180, 9); // exactly a/2: theta = 180 degrees
+    for (const l of [0, -5, Number.NaN, Number.POSITIVE_INFINITY]) expect(twistDegreesFromPeriodNm(l)).toBeNull();
   });
   it("turns a field period into an area with h/e exact and into l for one flux quantum per triangle or per cell", () => {
-    const l = periodNmFromTwistDegrees(0.11);
+    const l = periodFromTwistNm(0.11);
     const aTri = (Math.sqrt(3) / 4) * l * l;
     // dB = (h/e) / A, h/e = 6.62607015e-34 / 1.602176634e-19 Wb (exact SI 2019)
     const dB = 6.62607015e-34 / 1.602176634e-19 / (aTri * 1e-18);
