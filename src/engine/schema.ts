@@ -5,7 +5,7 @@
  */
 import { z } from "zod";
 import { EngineInputError, type EngineIssue } from "./errors";
-import { periodFromTwistNm } from "./constants";
+import { GRAPHENE_LATTICE_NM, periodFromTwistNm } from "./constants";
 import { checkTriangularNode, checkExplicitNodeMatrix, reachableForwardRange } from "./network/node-matrices";
 
 export const MAX_COLUMNS = 2000;
@@ -53,7 +53,7 @@ const baseNetworkSchema = z.strictObject({
   size: sizeSchema,
   transverse: z.enum(["periodic", "open"]).default("periodic"),
   periodNm: z.number().min(1).max(100000).optional().describe("link length l (moire period) in nm"),
-  twistDegrees: z.number().min(0.01).max(5).optional().describe("twist angle; l = a / (2 sin(theta/2)), a = 0.246 nm"),
+  twistDegrees: z.number().min(0.01).max(5).optional().describe(`twist angle; l = a / (2 sin(theta/2)), a = ${GRAPHENE_LATTICE_NM} nm`),
   modeVelocityMps: z.number().min(1e3).max(1e7).default(1e6).describe("velocity of the link modes in m/s"),
   channelsPerLink: z.union([z.literal(1), z.literal(2)]).default(1),
   degeneracy: degeneracySchema.optional(),

@@ -1,20 +1,8 @@
-/** Units and formatting helpers shared by forms, tables and plots. */
-
-/** Graphene lattice constant, nm (common practice; physics.md section 4). */
-export const GRAPHENE_LATTICE_NM = 0.246;
-export const E2_OVER_H_SIEMENS = 3.874045865e-5;
-export const H_OVER_E2_OHM = 25812.80745;
-
-/** Moiré period l = a / (2 sin(theta / 2)), nm, from the twist angle in degrees. */
-export function periodFromTwistNm(twistDegrees: number): number {
-  const theta = (twistDegrees * Math.PI) / 180;
-  return GRAPHENE_LATTICE_NM / (2 * Math.sin(theta / 2));
-}
-
-/** Inverse of periodFromTwistNm: twist angle in degrees for a period in nm. */
-export function twistFromPeriodDegrees(periodNm: number): number {
-  return ((2 * Math.asin(GRAPHENE_LATTICE_NM / (2 * periodNm))) * 180) / Math.PI;
-}
+/**
+ * Units and formatting helpers shared by forms, tables and plots. The physical constants and the
+ * twist/period conversion are the engine's (src/engine/constants.ts, browser-safe): import them
+ * from there.
+ */
 
 /** A number with a sensible number of significant digits (no trailing noise). */
 export function num(x: number | null | undefined, digits = 4): string {
@@ -23,6 +11,33 @@ export function num(x: number | null | undefined, digits = 4): string {
   const a = Math.abs(x);
   if (a >= 1e5 || a < 1e-3) return x.toExponential(Math.max(0, digits - 1)).replace("e+", "e");
   return Number(x.toPrecision(digits)).toString();
+}
+
+/**
+ * A constant to `digits` significant figures for the reader: fixed when its exponent is below
+ * `digits` (thousands grouped with `group` from five integer digits), else mantissa and power of ten.
+ */
+function significant(x: number, digits: number, group: string): { mantissa: string; exponent: number } {
+  const [m, e] = x.toExponential(digits - 1).split("e");
+  const exponent = Number(e);
+  if (exponent < 0 || exponent >= digits) return { mantissa: m, exponent };
+  const [int, frac] = x.toPrecision(digits).split(".");
+  const grouped = int.length > 4 ? int.replace(/\B(?=(\d{3})+$)/g, group) : int;
+  return { mantissa: frac === undefined ? grouped : `${grouped}.${frac}`, exponent: 0 };
+}
+
+const SUPERSCRIPT: Record<string, string> = { "-": "⁻", "0": "⁰", "1": "¹", "2": "²", "3": "³", "4": "⁴", "5": "⁵", "6": "⁶", "7": "⁷", "8": "⁸", "9": "⁹" };
+
+/** Plain text, e.g. 4.135667697 × 10⁻¹⁵ or 25 812.80746 (thin spaces). */
+export function sigText(x: number, digits: number): string {
+  const { mantissa, exponent } = significant(x, digits, "\u2009");
+  return exponent === 0 ? mantissa : `${mantissa} × 10${[...String(exponent)].map((c) => SUPERSCRIPT[c]).join("")}`;
+}
+
+/** LaTeX, e.g. 3.874045865\times10^{-5} or 25\,812.80746. */
+export function sigLatex(x: number, digits: number): string {
+  const { mantissa, exponent } = significant(x, digits, "\\,");
+  return exponent === 0 ? mantissa : `${mantissa}\\times10^{${exponent}}`;
 }
 
 export function withUnit(x: number | null | undefined, unit: string, digits = 4): string {

@@ -1,7 +1,9 @@
 "use client";
 
 import { useMutation } from "@tanstack/react-query";
+import { FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM } from "@/engine/constants";
 import { apiFetch } from "@/lib/api";
+import { sigText } from "@/lib/units";
 import { XYChart } from "@/components/charts/XYChart";
 import { ErrorNote } from "@/components/ui/Page";
 import { sig } from "./format";
@@ -65,7 +67,9 @@ export function PeriodPanel({ datasetId }: { datasetId: string }) {
               </p>
               <p className="mt-1 text-caption text-fg-soft">{r.perUnitCell.assumption}</p>
             </div>
-            <p className="text-caption text-fg-faint">l = a / (2 sin(θ/2)) with a = 0.246 nm; h/e = 4.135667696 × 10⁻¹⁵ Wb (exact SI).</p>
+            <p className="text-caption text-fg-faint">
+              l = a / (2 sin(θ/2)) with a = {GRAPHENE_LATTICE_NM} nm; h/e = {sigText(FLUX_QUANTUM_WB, 10)} Wb (exact in the SI, shown to 10 digits).
+            </p>
           </div>
         </div>
       ) : null}

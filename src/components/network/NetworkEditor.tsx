@@ -7,7 +7,8 @@ import { apiFetch, ApiClientError, type NetworkRecord } from "@/lib/api";
 import { validateNetwork, type Issues } from "@/lib/engineClient";
 import { qk } from "@/lib/queryKeys";
 import { checkTriple } from "@/lib/ternary";
-import { GRAPHENE_LATTICE_NM, num, periodFromTwistNm, twistFromPeriodDegrees } from "@/lib/units";
+import { GRAPHENE_LATTICE_NM, periodFromTwistNm, twistFromPeriodDegrees } from "@/engine/constants";
+import { num } from "@/lib/units";
 import { Field, NumberInput, Select } from "@/components/ui/Field";
 import { useMe } from "@/components/shell/useMe";
 import { PLANS } from "@/config/plans";
@@ -168,7 +169,7 @@ export function NetworkEditor({ initial, canEdit }: Props) {
               label="Twist angle θ"
               unit="degrees"
               error={err("twistDegrees")}
-              hint={typeof draft.twistDegrees === "number" && draft.twistDegrees > 0 ? <span data-testid="scale-conversion">l = a / (2 sin(θ/2)) = {num(periodFromTwistNm(draft.twistDegrees), 4)} nm (a = {GRAPHENE_LATTICE_NM} nm)</span> : "l = a / (2 sin(θ/2)), a = 0.246 nm"}
+              hint={typeof draft.twistDegrees === "number" && draft.twistDegrees > 0 ? <span data-testid="scale-conversion">l = a / (2 sin(θ/2)) = {num(periodFromTwistNm(draft.twistDegrees), 4)} nm (a = {GRAPHENE_LATTICE_NM} nm)</span> : `l = a / (2 sin(θ/2)), a = ${GRAPHENE_LATTICE_NM} nm`}
             >
               <NumberInput id="twistDegrees" value={draft.twistDegrees} onChange={(v) => set("twistDegrees", v)} error={err("twistDegrees")} />
             </Field>

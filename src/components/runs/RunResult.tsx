@@ -1,7 +1,8 @@
 "use client";
 
 import { useMemo } from "react";
-import { E2_OVER_H_SIEMENS, num, withUnit } from "@/lib/units";
+import { CONDUCTANCE_QUANTUM_S } from "@/engine/constants";
+import { num, withUnit } from "@/lib/units";
 import { BandChart } from "@/components/charts/BandChart";
 import { Histogram } from "@/components/charts/Histogram";
 import { XYChart } from "@/components/charts/XYChart";
@@ -40,7 +41,7 @@ function ConductanceResult({ r }: { r: R }) {
     if (t && typeof t === "object") return Object.values(t).flat(3).filter(isNum) as number[];
     return [] as number[];
   }, [r.transmissionEigenvalues]);
-  const siemens = isNum(r.siemens) ? r.siemens : isNum(r.siemens?.total) ? r.siemens.total : isNum(g.total) ? g.total * E2_OVER_H_SIEMENS : null;
+  const siemens = isNum(r.siemens) ? r.siemens : isNum(r.siemens?.total) ? r.siemens.total : isNum(g.total) ? g.total * CONDUCTANCE_QUANTUM_S : null;
   const ohms = isNum(r.ohms) ? r.ohms : isNum(r.ohms?.total) ? r.ohms.total : null;
   const histo = ens?.histogram;
   return (

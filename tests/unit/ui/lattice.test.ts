@@ -2,7 +2,8 @@
 // a3 = l(-1/2, -sqrt3/2); valley K runs R -> R + a_j, valley K' is reversed.
 import { describe, expect, it } from "vitest";
 import { linkCountOf, networkGeometry } from "@/lib/lattice";
-import { periodFromTwistNm, twistFromPeriodDegrees, num, elapsed } from "@/lib/units";
+import { CONDUCTANCE_QUANTUM_S, FLUX_QUANTUM_WB, periodFromTwistNm, RESISTANCE_QUANTUM_OHM, twistFromPeriodDegrees } from "@/engine/constants";
+import { elapsed, num, sigLatex, sigText } from "@/lib/units";
 
 describe("network geometry for the drawing", () => {
   it("gives every inner triangular node three links out along a1, a2, a3 (valley K)", () => {
@@ -55,6 +56,15 @@ describe("units", () => {
   it("converts twist angle and moiré period with a = 0.246 nm", () => {
     expect(periodFromTwistNm(0.1)).toBeCloseTo(140.95, 1);
     expect(twistFromPeriodDegrees(periodFromTwistNm(0.11))).toBeCloseTo(0.11, 10);
+  });
+  it("states the constants to ten significant figures, in text and in LaTeX", () => {
+    // e^2/h = 3.8740458649e-5 S, h/e^2 = 25812.807459 ohm, h/e = 4.1356676969e-15 Wb (exact SI, rounded).
+    expect(sigText(FLUX_QUANTUM_WB, 10)).toBe("4.135667697 × 10⁻¹⁵");
+    expect(sigText(RESISTANCE_QUANTUM_OHM, 10)).toBe("25\u2009812.80746");
+    expect(sigText(0.246, 3)).toBe("2.46 × 10⁻¹");
+    expect(sigLatex(CONDUCTANCE_QUANTUM_S, 10)).toBe("3.874045865\\times10^{-5}");
+    expect(sigLatex(RESISTANCE_QUANTUM_OHM, 10)).toBe("25\\,812.80746");
+    expect(sigLatex(1234.5, 5)).toBe("1234.5");
   });
   it("formats numbers and elapsed time", () => {
     expect(num(3.874045865e-5)).toBe("3.874e-5");

@@ -4,6 +4,8 @@ import katex from "katex";
 import "katex/dist/katex.min.css";
 import { Mark } from "@/components/shell/Mark";
 import { PLANS } from "@/config/plans";
+import { CONDUCTANCE_QUANTUM_S, FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM, periodFromTwistNm, RESISTANCE_QUANTUM_OHM } from "@/engine/constants";
+import { sigLatex } from "@/lib/units";
 
 export const metadata: Metadata = {
   title: "Model manual",
@@ -201,7 +203,7 @@ export default function ManualPage() {
           <p>
             The two leads sit on the faces perpendicular to <M>{String.raw`\mathbf a_1`}</M>, on the left and on the right. Columns count nodes from lead to lead and rows count them across. The scale comes from the twist angle through the graphene lattice constant:
           </p>
-          <M block>{String.raw`l = \frac{a}{2\sin(\theta/2)},\qquad a = 0.246\ \text{nm}\quad(\theta = 0.1^\circ \Rightarrow l \approx 141\ \text{nm}).`}</M>
+          <M block>{String.raw`l = \frac{a}{2\sin(\theta/2)},\qquad a = ${GRAPHENE_LATTICE_NM}\ \text{nm}\quad(\theta = 0.1^\circ \Rightarrow l \approx ${periodFromTwistNm(0.1).toFixed(0)}\ \text{nm}).`}</M>
 
           <h2 id="node">The node and the reachable region</h2>
           <p>
@@ -276,9 +278,9 @@ export default function ManualPage() {
           </p>
 
           <h2 id="constants">Constants</h2>
-          <p>Since the 2019 SI revision, e and h are exact, so</p>
-          <M block>{String.raw`\frac{e^2}{h} = 3.874045865\times10^{-5}\ \text{S},\qquad \frac{h}{e^2} = 25\,812.80745\ \Omega,\qquad \frac{h}{e} = 4.135667696\times10^{-15}\ \text{Wb}.`}</M>
-          <p>The graphene lattice constant a = 0.246 nm is common practice. The default mode velocity, 10⁶ m/s, is a starting point for a fit, not a measured value for domain walls.</p>
+          <p>Since the 2019 SI revision, e and h are exact, and so are these (shown to ten significant figures):</p>
+          <M block>{String.raw`\frac{e^2}{h} \approx ${sigLatex(CONDUCTANCE_QUANTUM_S, 10)}\ \text{S},\qquad \frac{h}{e^2} \approx ${sigLatex(RESISTANCE_QUANTUM_OHM, 10)}\ \Omega,\qquad \frac{h}{e} \approx ${sigLatex(FLUX_QUANTUM_WB, 10)}\ \text{Wb}.`}</M>
+          <p>The graphene lattice constant a = {GRAPHENE_LATTICE_NM} nm is common practice. The default mode velocity, 10⁶ m/s, is a starting point for a fit, not a measured value for domain walls.</p>
 
           <h2 id="cautions">Cautions</h2>
           <ul className="mt-3 list-disc space-y-2 pl-5">
