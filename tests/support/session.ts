@@ -26,6 +26,7 @@
  */
 import type { BrowserContext, Page } from "playwright-core";
 import { DEMO_LAB, DEMO_PEOPLE, type DemoPerson } from "../../src/server/demo/scenario";
+import { failOnRateLimit } from "./services";
 
 export type DemoPersonKey = DemoPerson["key"];
 
@@ -89,8 +90,16 @@ export async function signInThroughForm(page: Page, who: DemoPersonKey | { email
   await Promise.all([page.waitForURL((u) => u.pathname === target.split("?")[0], { timeout: 60_000 }), page.click('button[type="submit"]')]);
 }
 
-/** fetch against the app with a demo person's session cookies instead of an API token. */
-export async function sessionFetch(who: DemoPersonKey | { email: string; password: string }, path: string, init: RequestInit & { json?: unknown } & SessionOptions = {}): Promise<Response> {
+/**
+ * fetch against the app with a demo person's session cookies instead of an API token. A 429 fails
+ * the test (failOnRateLimit in ./services) unless `rateLimitExpected` says the 429 is what the test
+ * is about (tests/integration/rate-limit.test.ts only).
+ */
+export async function sessionFetch(
+  who: DemoPersonKey | { email: string; password: string },
+  path: string,
+  init: RequestInit & { json?: unknown; rateLimitExpected?: boolean } & SessionOptions = {},
+): Promise<Response> {
   const { cookies } = await sessionCookies(who, { workspace: init.workspace, organizationId: init.organizationId });
   const headers = new Headers(init.headers);
   headers.set("cookie", Object.entries(cookies).map(([k, v]) => `${k}=${v}`).join("; "));
@@ -99,7 +108,8 @@ export async function sessionFetch(who: DemoPersonKey | { email: string; passwor
     headers.set("content-type", "application/json");
     body = JSON.stringify(init.json);
   }
-  return fetch(new URL(path, appUrl()), { ...init, headers, body, redirect: "manual" });
+  const res = await fetch(new URL(path, appUrl()), { ...init, headers, body, redirect: "manual" });
+  return init.rateLimitExpected ? res : failOnRateLimit(res, `${init.method ?? "GET"} ${path} (session of ${typeof who === "string" ? who : who.email})`);
 }
 
 /** Creates a person at the sign-in stand-in (as if they had signed up); returns their credentials. */
