@@ -1,23 +1,18 @@
 // Accessibility of the main pages: axe-core (node_modules/axe-core/axe.min.js) injected into the
 // page; no serious or critical violations.
 import { createRequire } from "node:module";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser, Page } from "playwright-core";
-import { launchBrowser } from "../support/browser";
+import { beforeAll, describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { url, useBrowser } from "../support/browser";
 import { api } from "../support/services";
-import { signedInPage, url } from "./app-helpers";
 
 const axePath = createRequire(import.meta.url).resolve("axe-core/axe.min.js");
 
-let browser: Browser;
-let close: () => Promise<void>;
+const browser = useBrowser();
+
 let page: Page;
 beforeAll(async () => {
-  ({ browser, close } = await launchBrowser());
-  page = await signedInPage(browser, "researcher");
-});
-afterAll(async () => {
-  await close?.();
+  page = await browser.signedInPage("researcher");
 });
 
 async function seriousViolations(p: Page) {

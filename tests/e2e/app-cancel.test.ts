@@ -1,19 +1,10 @@
 // Cancelling from the sweep page: the button stops a running sweep; its page then says so and no
 // further points are computed.
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { launchBrowser } from "../support/browser";
+import { describe, expect, it } from "vitest";
+import { url, useBrowser } from "../support/browser";
 import { api } from "../support/services";
-import { signedInPage, url } from "./app-helpers";
 
-let browser: Browser;
-let close: () => Promise<void>;
-beforeAll(async () => {
-  ({ browser, close } = await launchBrowser());
-});
-afterAll(async () => {
-  await close?.();
-});
+const browser = useBrowser();
 
 describe("cancel from the page", () => {
   it("cancels a running sweep and shows it cancelled", async () => {
@@ -25,7 +16,7 @@ describe("cancel from the page", () => {
     });
     expect(res.status).toBe(202);
     const { id } = (await res.json()) as { id: string };
-    const page = await signedInPage(browser, "researcher");
+    const page = await browser.signedInPage("researcher");
     await page.goto(url(`/sweeps/${id}`));
     const cancel = page.getByRole("button", { name: "Cancel sweep" });
     await cancel.waitFor();

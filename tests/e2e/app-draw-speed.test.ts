@@ -1,24 +1,14 @@
 // Acceptance figure of the network drawing (issue 7): a 200 x 200 network (120,000 links) must
 // first-draw in under 1 s. Measured inside the page with performance.now around the geometry
 // and the canvas paint (the component writes it to data-first-draw-ms).
-import { join } from "node:path";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { launchBrowser, SCREENSHOT_DIR } from "../support/browser";
-import { fill, signedInPage, url } from "./app-helpers";
+import { describe, expect, it } from "vitest";
+import { fill, screenshot, url, useBrowser } from "../support/browser";
 
-let browser: Browser;
-let close: () => Promise<void>;
-beforeAll(async () => {
-  ({ browser, close } = await launchBrowser());
-});
-afterAll(async () => {
-  await close?.();
-});
+const browser = useBrowser();
 
 describe("drawing a large network", () => {
   it("first-draws 200 x 200 cells in under 1 s and stays zoomable", async () => {
-    const page = await signedInPage(browser, "researcher");
+    const page = await browser.signedInPage("researcher");
     await page.goto(url("/networks/new"));
     await page.locator("svg[data-renderer=svg]").waitFor();
     await fill(page, "size.columns", 200);
@@ -46,6 +36,6 @@ describe("drawing a large network", () => {
     for (let i = 0; i < 12; i++) await page.mouse.wheel(0, -400);
     await expect.poll(async () => Number(await canvas.getAttribute("data-zoom")), { timeout: 20_000 }).toBeGreaterThan(8);
     await expect.poll(async () => Number(await canvas.getAttribute("data-painted")), { timeout: 20_000 }).toBeLessThan(120_000);
-    await page.screenshot({ path: join(SCREENSHOT_DIR, "app-draw-200x200-zoomed.png") });
+    await screenshot(page, "app-draw-200x200-zoomed.png", { fullPage: false });
   });
 });

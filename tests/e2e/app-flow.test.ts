@@ -3,27 +3,21 @@
 // conductance and watch it finish with its plot, run a two-axis sweep and watch the heat map
 // fill in, export CSV. Screenshots go to tests/e2e/screenshots/.
 import { readFileSync } from "node:fs";
-import { join } from "node:path";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser, Page } from "playwright-core";
-import { launchBrowser, SCREENSHOT_DIR } from "../support/browser";
-import { fill, signedInPage, url } from "./app-helpers";
+import { beforeAll, describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { fill, screenshot, url, useBrowser } from "../support/browser";
 
-let browser: Browser;
-let close: () => Promise<void>;
+const browser = useBrowser();
+
 let page: Page;
 let networkUrl = "";
 const name = `Flow network ${Date.now().toString(36)}`;
 
 beforeAll(async () => {
-  ({ browser, close } = await launchBrowser());
-  page = await signedInPage(browser, "researcher", { throughForm: true });
-});
-afterAll(async () => {
-  await close?.();
+  page = await browser.signedInPage("researcher", { throughForm: true });
 });
 
-const shot = (file: string) => page.screenshot({ path: join(SCREENSHOT_DIR, file), fullPage: true });
+const shot = (file: string) => screenshot(page, file);
 
 describe("web app main flow", () => {
   it("shows the signed-in shell, switches to the lab workspace, and shows the navigation for the role", async () => {

@@ -1,15 +1,13 @@
 // Every computation's result page draws its figure with axes in physical units: band structure,
 // density of states and carrier density, local density of states on the network with its colour
 // legend, localization, and a one-axis sweep with its ensemble error band.
-import { join } from "node:path";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser, Page } from "playwright-core";
-import { launchBrowser, SCREENSHOT_DIR } from "../support/browser";
+import { beforeAll, describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { screenshot, url, useBrowser } from "../support/browser";
 import { api } from "../support/services";
-import { signedInPage, url } from "./app-helpers";
 
-let browser: Browser;
-let close: () => Promise<void>;
+const browser = useBrowser();
+
 let page: Page;
 const network = {
   lattice: "triangular",
@@ -34,11 +32,7 @@ async function finished(kind: string, path: "runs" | "sweeps", body: Record<stri
 }
 
 beforeAll(async () => {
-  ({ browser, close } = await launchBrowser());
-  page = await signedInPage(browser, "researcher");
-});
-afterAll(async () => {
-  await close?.();
+  page = await browser.signedInPage("researcher");
 });
 
 describe("result figures", () => {
@@ -50,7 +44,7 @@ describe("result figures", () => {
     expect(await chart.locator("[data-band] circle").count()).toBeGreaterThan(20);
     await expect(chart.locator("[data-label=y]").textContent()).resolves.toBe("Energy (meV)");
     await expect(chart.locator("[data-axis=x] text").allTextContents()).resolves.toEqual(["Γ", "K", "M", "Γ"]);
-    await page.screenshot({ path: join(SCREENSHOT_DIR, "app-result-bands.png"), fullPage: true });
+    await screenshot(page, "app-result-bands.png");
   });
 
   it("density of states and carrier density against energy", async () => {
@@ -63,7 +57,7 @@ describe("result figures", () => {
     expect(await dos.locator("[data-series]").getAttribute("d")).toMatch(/^M[\d.]+,[\d.]+(L[\d.]+,[\d.]+){20,}/);
     const n = page.locator('[data-chart="carrier-density"]');
     await expect(n.locator("[data-label=y]").textContent()).resolves.toMatch(/Carrier density n \(cm⁻²\)/);
-    await page.screenshot({ path: join(SCREENSHOT_DIR, "app-result-dos.png"), fullPage: true });
+    await screenshot(page, "app-result-dos.png");
   });
 
   it("local density of states drawn on the network with a colour legend", async () => {
@@ -74,7 +68,7 @@ describe("result figures", () => {
     const colours = await drawing.locator("line.tk-link").evaluateAll((ls) => new Set(ls.map((l) => l.getAttribute("stroke"))).size);
     expect(colours).toBeGreaterThan(5);
     await expect(page.getByTestId("ldos-legend").innerText()).resolves.toMatch(/LDOS per link \(states \/ meV\)/);
-    await page.screenshot({ path: join(SCREENSHOT_DIR, "app-result-ldos.png"), fullPage: true });
+    await screenshot(page, "app-result-ldos.png");
   });
 
   it("localization length and ln T against strip length", async () => {
@@ -98,6 +92,6 @@ describe("result figures", () => {
     const box = (await plot.locator("svg").boundingBox())!;
     await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2);
     await expect.poll(() => plot.getByTestId("readout").innerText()).toMatch(/Magnetic field = [\d.]+ T · mean ± s\.e\. [\d.e-]+ ± [\d.e-]+ e²\/h/);
-    await page.screenshot({ path: join(SCREENSHOT_DIR, "app-result-sweep-band.png"), fullPage: true });
+    await screenshot(page, "app-result-sweep-band.png");
   });
 });

@@ -1,25 +1,16 @@
 // Inline messages of the run form (the engine's schema, field by field) and the not-found page
 // of the signed-in area.
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { launchBrowser } from "../support/browser";
+import { describe, expect, it } from "vitest";
+import { fill, url, useBrowser } from "../support/browser";
 import { api } from "../support/services";
-import { fill, signedInPage, url } from "./app-helpers";
 
-let browser: Browser;
-let close: () => Promise<void>;
-beforeAll(async () => {
-  ({ browser, close } = await launchBrowser());
-});
-afterAll(async () => {
-  await close?.();
-});
+const browser = useBrowser();
 
 describe("states of the web app", () => {
   it("names the field and the allowed range when a run parameter is out of bounds", async () => {
     const list = (await (await api("/api/v1/networks?limit=50", { as: "researcher" })).json()) as { networks: { id: string; name: string }[] };
     const id = list.networks.find((n) => n.name.startsWith("Clean"))!.id;
-    const page = await signedInPage(browser, "researcher");
+    const page = await browser.signedInPage("researcher");
     await page.goto(url(`/networks/${id}`));
     const form = page.getByRole("form", { name: "Run a computation" });
     await form.waitFor();
@@ -36,7 +27,7 @@ describe("states of the web app", () => {
   });
 
   it("shows the workspace's not-found page for a run that is not there", async () => {
-    const page = await signedInPage(browser, "researcher");
+    const page = await browser.signedInPage("researcher");
     await page.goto(url("/runs/00000000-0000-4000-8000-000000000000"));
     await page.getByRole("heading", { name: "Nothing here in this workspace" }).waitFor();
     await expect(page.getByRole("link", { name: "Go to networks" }).count()).resolves.toBe(1);

@@ -1,17 +1,14 @@
 // Tables of runs and sweeps (filters and pages through the API, sorting the page shown) and what
 // each role sees: a viewer gets no create or run buttons, an owner sees Billing in the navigation.
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { launchBrowser } from "../support/browser";
+import { beforeAll, describe, expect, it } from "vitest";
+import { url, useBrowser } from "../support/browser";
 import { api } from "../support/services";
-import { signedInPage, url } from "./app-helpers";
 
-let browser: Browser;
-let close: () => Promise<void>;
+const browser = useBrowser();
+
 let networkId = "";
 
 beforeAll(async () => {
-  ({ browser, close } = await launchBrowser());
   const list = (await (await api("/api/v1/networks?limit=50", { as: "researcher" })).json()) as { networks: { id: string; name: string }[] };
   networkId = list.networks.find((n) => n.name.startsWith("Clean"))!.id;
   // Two small runs to list: one conductance, one band structure.
@@ -20,13 +17,10 @@ beforeAll(async () => {
     expect(res.status).toBe(202);
   }
 });
-afterAll(async () => {
-  await close?.();
-});
 
 describe("runs table", () => {
   it("filters by computation through the API and sorts the page", async () => {
-    const page = await signedInPage(browser, "researcher");
+    const page = await browser.signedInPage("researcher");
     const asked: string[] = [];
     page.on("request", (r) => {
       if (r.url().includes("/api/v1/runs?")) asked.push(r.url());
@@ -52,7 +46,7 @@ describe("runs table", () => {
 
 describe("roles in the interface", () => {
   it("gives a viewer no buttons to create networks or start runs", async () => {
-    const page = await signedInPage(browser, "viewer");
+    const page = await browser.signedInPage("viewer");
     await page.goto(url("/networks"));
     await page.getByRole("table", { name: "networks" }).waitFor();
     await expect.poll(() => page.locator("aside").innerText()).toMatch(/Viewer/i);
@@ -65,7 +59,7 @@ describe("roles in the interface", () => {
   });
 
   it("shows Billing in the navigation to an owner", async () => {
-    const page = await signedInPage(browser, "owner");
+    const page = await browser.signedInPage("owner");
     await page.goto(url("/networks"));
     const nav = page.getByRole("navigation", { name: "Main" });
     await expect.poll(() => nav.getByRole("link", { name: /^Billing/ }).count(), { timeout: 20_000 }).toBe(1);

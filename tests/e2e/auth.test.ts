@@ -1,31 +1,15 @@
 // Accounts in the browser (Debian Chromium): sign-up with a personal Free workspace, sign-out and
 // sign-in through our own pages on the real Clerk SDK and the stand-in; an invitation by e-mail
 // accepted by a new person who then sees the lab's networks; a Viewer cannot start a run.
-import { join } from "node:path";
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { launchBrowser, SCREENSHOT_DIR } from "../support/browser";
-import { api, appUrl } from "../support/services";
-import { signInPage, signInThroughForm, waitForMail } from "../support/session";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
+import { screenshot, url, useBrowser } from "../support/browser";
+import { api } from "../support/services";
+import { signInThroughForm, waitForMail } from "../support/session";
 
-let browser: Browser;
-let close: () => Promise<void>;
-beforeAll(async () => {
-  ({ browser, close } = await launchBrowser());
-});
-afterAll(async () => {
-  await close?.();
-});
+const browser = useBrowser();
 
-const url = (path: string) => new URL(path, appUrl()).toString();
 const unique = (tag: string) => `${tag}-${Date.now()}-${Math.floor(Math.random() * 1e6)}@e2e.example`;
-
-async function freshPage(): Promise<Page> {
-  const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
-  const page = await context.newPage();
-  page.setDefaultTimeout(30_000);
-  return page;
-}
 
 /** GET /api/v1/workspace from inside the page (its cookies, its session). */
 async function whoAmI(page: Page): Promise<{ status: number; body: any }> {
@@ -45,7 +29,7 @@ async function signUp(page: Page, name: string, email: string, password: string)
 
 describe("sign-up, sign-out, sign-in", () => {
   it("a new person signs up, gets a personal Free workspace, signs out and signs in again", async () => {
-    const page = await freshPage();
+    const page = await browser.newPage();
     const email = unique("signup");
     const password = "correct-horse-2026";
     await page.goto(url("/sign-up"));
@@ -55,7 +39,7 @@ describe("sign-up, sign-out, sign-in", () => {
     await page.fill("#email", "not-an-address");
     await page.click('button[type="submit"]');
     await expect(page.locator("#email-error").innerText()).resolves.toMatch(/valid e-mail/);
-    await page.screenshot({ path: join(SCREENSHOT_DIR, "auth-sign-up.png"), fullPage: true });
+    await screenshot(page, "auth-sign-up.png");
 
     await signUp(page, "Ada Quill", email, password);
     await page.waitForURL((u) => u.pathname === "/networks", { timeout: 60_000 });
@@ -82,7 +66,7 @@ describe("sign-up, sign-out, sign-in", () => {
     await page.fill("#password", "wrong-password");
     await page.click('button[type="submit"]');
     await expect(page.locator("#password-error").innerText()).resolves.toMatch(/incorrect/i);
-    await page.screenshot({ path: join(SCREENSHOT_DIR, "auth-sign-in-error.png"), fullPage: true });
+    await screenshot(page, "auth-sign-in-error.png");
     await signInThroughForm(page, { email, password });
     const again = await whoAmI(page);
     expect(again.status).toBe(200);
@@ -94,8 +78,7 @@ describe("sign-up, sign-out, sign-in", () => {
 describe("invitations", () => {
   it("an Owner invites a Researcher; the e-mail arrives; the invitee signs up, accepts and sees the lab's networks", async () => {
     // The Owner, signed in with the lab active, invites from the browser session.
-    const owner = await freshPage();
-    await signInPage(owner, "owner");
+    const owner = await browser.signedInPage("owner");
     await owner.goto(url("/networks"));
     const email = unique("invitee");
     const invited = await owner.evaluate(async (address) => {
@@ -110,11 +93,11 @@ describe("invitations", () => {
     const link = /https?:\/\/\S+\/accept-invitation\?token=[A-Za-z0-9_%-]+/.exec(mail.text)?.[0];
     expect(link).toBeTruthy();
 
-    const invitee = await freshPage();
+    const invitee = await browser.newPage();
     await invitee.goto(link!);
     await expect(invitee.getByText("Larkspur Devices Lab").first().isVisible()).resolves.toBe(true);
     await expect(invitee.getByText("Researcher").first().isVisible()).resolves.toBe(true);
-    await invitee.screenshot({ path: join(SCREENSHOT_DIR, "auth-accept-invitation.png"), fullPage: true });
+    await screenshot(invitee, "auth-accept-invitation.png");
     await invitee.click("text=Create an account to join");
     await invitee.waitForURL((u) => u.pathname === "/sign-up");
     await expect(invitee.inputValue("#email")).resolves.toBe(email);
@@ -128,7 +111,7 @@ describe("invitations", () => {
     expect(me.body.workspace.clerkOrgId).toBe("org_demo_larkspur");
     expect(me.body.member).toMatchObject({ email, role: "researcher" });
     await invitee.getByText("Clean 0.11° triangular network").first().waitFor({ timeout: 30_000 });
-    await invitee.screenshot({ path: join(SCREENSHOT_DIR, "auth-invitee-networks.png"), fullPage: true });
+    await screenshot(invitee, "auth-invitee-networks.png");
     await invitee.context().close();
     // Leave the demo lab as seeded for other test files.
     expect((await api(`/api/v1/workspace/members/${me.body.member.id}`, { method: "DELETE", as: "owner" })).status).toBe(204);
@@ -142,8 +125,7 @@ describe("roles in the browser", () => {
     const net = list.find((n) => n.name === "Clean 0.11° triangular network")!;
     expect(net).toBeTruthy();
 
-    const viewer = await freshPage();
-    await signInPage(viewer, "viewer");
+    const viewer = await browser.signedInPage("viewer");
     await viewer.goto(url(`/networks/${net.id}`));
     await viewer.getByText("Your role can read results but not start runs").waitFor({ timeout: 30_000 });
     await expect(viewer.locator('#run button[type="submit"]').count()).resolves.toBe(0);
@@ -157,11 +139,10 @@ describe("roles in the browser", () => {
     }, net.id);
     expect(refused.status).toBe(403);
     expect(refused.body.error.code).toBe("forbidden");
-    await viewer.screenshot({ path: join(SCREENSHOT_DIR, "auth-viewer-network.png"), fullPage: true });
+    await screenshot(viewer, "auth-viewer-network.png");
     await viewer.context().close();
 
-    const researcher = await freshPage();
-    await signInPage(researcher, "researcher");
+    const researcher = await browser.signedInPage("researcher");
     await researcher.goto(url(`/networks/${net.id}`));
     await researcher.locator('#run button[type="submit"]').waitFor({ timeout: 30_000 });
     await researcher.context().close();

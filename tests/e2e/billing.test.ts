@@ -2,12 +2,11 @@
 // sees plan, seats and usage on the Billing page, and opens the portal stand-in and comes back.
 // Uses a lab workspace of its own (new people and organization at the sign-in stand-in), so the
 // demo lab keeps its figures for other test files.
-import { join } from "node:path";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { launchBrowser, SCREENSHOT_DIR } from "../support/browser";
-import { appUrl } from "../support/services";
-import { createStandInUser, sessionCookies } from "../support/session";
+import { describe, expect, it } from "vitest";
+import { screenshot, url, useBrowser } from "../support/browser";
+import { createStandInUser } from "../support/session";
+
+const browser = useBrowser();
 
 const clerk = (path: string, body: unknown) =>
   fetch(`${process.env.CLERK_FAKE_URL}${path}`, {
@@ -19,15 +18,6 @@ const clerk = (path: string, body: unknown) =>
     return r.json() as Promise<{ id: string }>;
   });
 
-let browser: Browser;
-let close: () => Promise<void>;
-beforeAll(async () => {
-  ({ browser, close } = await launchBrowser());
-});
-afterAll(async () => {
-  await close?.();
-});
-
 describe("Billing page", () => {
   it("a Billing admin upgrades to Lab, sees seats and usage, and opens the portal stand-in", async () => {
     const tag = Date.now().toString(36);
@@ -35,14 +25,9 @@ describe("Billing page", () => {
     const admin = await createStandInUser({ email: `billing-${tag}@harrowgate.example`, name: "Bram Kestel" });
     const org = await clerk("/v1/organizations", { name: `Harrowgate Spin Lab ${tag}`, created_by: owner.clerkUserId });
     await clerk(`/v1/organizations/${org.id}/memberships`, { user_id: admin.clerkUserId, role: "org:billing_admin" });
-    const { cookies } = await sessionCookies({ email: admin.email, password: admin.password }, { organizationId: org.id });
+    const page = await browser.signedInPage({ email: admin.email, password: admin.password }, { organizationId: org.id });
 
-    const context = await browser.newContext({ viewport: { width: 1280, height: 1000 } });
-    await context.addCookies(Object.entries(cookies).map(([name, value]) => ({ name, value, url: appUrl(), sameSite: "Lax" as const, httpOnly: name === "__client" })));
-    const page = await context.newPage();
-    page.setDefaultTimeout(30_000);
-
-    await page.goto(new URL("/billing", appUrl()).toString());
+    await page.goto(url("/billing"));
     await page.locator('[data-testid="billing-page"]').waitFor();
     expect(await page.locator('[data-testid="plan-label"]').innerText()).toBe("Free");
 
@@ -57,7 +42,7 @@ describe("Billing page", () => {
     await page.locator('[data-testid="usage-members"]').waitFor();
     expect(await page.locator('[data-testid="usage-members"]').innerText()).toContain("Bram Kestel");
     await page.locator('figure[data-chart^="usage-"]').waitFor();
-    await page.screenshot({ path: join(SCREENSHOT_DIR, "billing-lab.png"), fullPage: true });
+    await screenshot(page, "billing-lab.png");
 
     await Promise.all([page.waitForURL(/\/portal\/bps_/), page.locator('[data-testid="open-portal"]').click()]);
     expect(await page.locator('[data-testid="portal-status"]').innerText()).toBe("Status: active");
@@ -66,6 +51,6 @@ describe("Billing page", () => {
     await page.locator('[data-testid="billing-page"]').waitFor();
     await page.locator('[data-testid="invoices"]').waitFor();
     expect(await page.locator('[data-testid="invoices"]').innerText()).toContain("paid");
-    await context.close();
+    await page.context().close();
   });
 });

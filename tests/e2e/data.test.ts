@@ -4,25 +4,20 @@
 // uncertainties. Screenshots go to tests/e2e/screenshots/.
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser, Page } from "playwright-core";
-import { launchBrowser, SCREENSHOT_DIR } from "../support/browser";
-import { signedInPage, url } from "./app-helpers";
+import { beforeAll, describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { screenshot, url, useBrowser } from "../support/browser";
 
-let browser: Browser;
-let close: () => Promise<void>;
+const browser = useBrowser();
+
 let page: Page;
 const csv = readFileSync(join(import.meta.dirname, "..", "..", "src", "server", "demo", "lk07.csv"), "utf8");
 const name = `LK-07 upload ${Date.now().toString(36)}`;
 
 beforeAll(async () => {
-  ({ browser, close } = await launchBrowser());
-  page = await signedInPage(browser, "researcher");
+  page = await browser.signedInPage("researcher");
 });
-afterAll(async () => {
-  await close?.();
-});
-const shot = (file: string) => page.screenshot({ path: join(SCREENSHOT_DIR, file), fullPage: true });
+const shot = (file: string) => screenshot(page, file);
 
 describe("datasets and fits in the browser", () => {
   it("uploads the demo CSV by drag and drop, maps columns and shows the preview", async () => {

@@ -1,18 +1,9 @@
 // Browser check of the public pages, in Debian's Chromium.
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { join } from "node:path";
-import { launchBrowser, SCREENSHOT_DIR } from "../support/browser";
+import { describe, expect, it } from "vitest";
+import { screenshot, url, useBrowser } from "../support/browser";
 import { appUrl } from "../support/services";
 
-let browser: Browser;
-let close: () => Promise<void>;
-beforeAll(async () => {
-  ({ browser, close } = await launchBrowser());
-});
-afterAll(async () => {
-  await close?.();
-});
+const browser = useBrowser();
 
 describe("landing page", () => {
   it("renders the job of the product, the cautions and the shipped font", async () => {
@@ -41,13 +32,13 @@ describe("landing page", () => {
     expect(fontsLoaded).toBeGreaterThan(0);
     expect(failed).toEqual([]);
     expect(external).toEqual([]);
-    await page.screenshot({ path: join(SCREENSHOT_DIR, "landing.png"), fullPage: true });
+    await screenshot(page, "landing.png");
     await page.close();
   });
 
   it("shows the health endpoint's JSON", async () => {
     const page = await browser.newPage();
-    const res = await page.goto(new URL("/api/v1/health", appUrl()).toString());
+    const res = await page.goto(url("/api/v1/health"));
     expect(res?.status()).toBe(200);
     const body = JSON.parse(await page.locator("body").innerText());
     expect(body.database.status).toBe("ok");

@@ -6,7 +6,7 @@ import { readdirSync, readFileSync, statSync } from "node:fs";
 import { join, relative } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import postgres from "postgres";
-import { appUrl, databaseUrl, demoTokens, type DemoTokenKey } from "../support/services";
+import { appUrl, databaseUrl, demoTokens, failOnRateLimit, type DemoTokenKey } from "../support/services";
 import { CALLERS, fitBody, SMALL_RUN, TABLE, type CallerKey, type Entry, type Expect, type Fixtures } from "./authz-table";
 
 const API_DIR = join(import.meta.dirname, "..", "..", "src", "app", "api");
@@ -49,12 +49,8 @@ async function call(who: CallerKey, method: string, path: string, body?: unknown
     headers["content-type"] = "application/json";
     payload = JSON.stringify(body ?? {});
   }
-  for (let attempt = 0; ; attempt++) {
-    const res = await fetch(new URL(path, appUrl()), { method, headers, body: payload, redirect: "manual" });
-    if (res.status !== 429 || attempt >= 3) return res;
-    await res.text();
-    await new Promise((r) => setTimeout(r, 1000 * Number(res.headers.get("retry-after") ?? "1")));
-  }
+  const res = await fetch(new URL(path, appUrl()), { method, headers, body: payload, redirect: "manual" });
+  return failOnRateLimit(res, `${who} ${method} ${path}`);
 }
 
 async function ok<T = any>(res: Response, what: string): Promise<T> {

@@ -9,6 +9,7 @@
 // (cancelling a finished run, a portal for a workspace without a customer).
 
 import { LK07_COMPUTATION, LK07_FIT_START, LK07_NETWORK } from "../../src/server/demo/lk07";
+import { datasetForm } from "../support/csv";
 
 export const CALLERS = ["owner", "billingAdmin", "researcher", "viewer", "other", "anonymous", "revoked"] as const;
 export type CallerKey = (typeof CALLERS)[number];
@@ -58,12 +59,7 @@ export function fitBody(datasetId: string) {
 }
 
 const CSV = "B (mT),R (kohm)\n0,12.9\n10,13.1\n20,13.4\n30,13.0\n";
-function csvForm() {
-  const form = new FormData();
-  form.set("file", new Blob([CSV], { type: "text/csv" }), "authz.csv");
-  for (const [k, v] of Object.entries({ name: "authz matrix curve", xColumn: "B (mT)", xUnit: "mT", yColumn: "R (kohm)", yUnit: "kohm" })) form.set(k, v);
-  return form;
-}
+const csvForm = () => datasetForm(CSV, { name: "authz matrix curve", xColumn: "B (mT)", xUnit: "mT", yColumn: "R (kohm)", yUnit: "kohm" }, "authz.csv");
 
 let seq = 0;
 const unique = (p: string) => `${p}-${Date.now().toString(36)}-${seq++}@authz.example`;

@@ -8,7 +8,7 @@ import postgres from "postgres";
 import Stripe from "stripe";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { displayPrefix, hashToken, newTokenSecret } from "@/server/auth/tokens";
-import { appUrl, databaseUrl } from "../support/services";
+import { appUrl, databaseUrl, failOnRateLimit } from "../support/services";
 
 const sql = postgres(databaseUrl(), { max: 3, onnotice: () => {} });
 const port = Number(process.env.STRIPE_FAKE_PORT);
@@ -62,6 +62,7 @@ async function call(ws: TestWorkspace, as: keyof TestWorkspace["tokens"], path: 
     headers: { authorization: `Bearer ${ws.tokens[as]}`, ...(init.json !== undefined ? { "content-type": "application/json" } : {}) },
     body: init.json !== undefined ? JSON.stringify(init.json) : undefined,
   });
+  failOnRateLimit(res, `${as} ${init.method ?? "GET"} ${path}`);
   return { status: res.status, body: await res.json() };
 }
 
@@ -198,11 +199,7 @@ describe("metering: ledger rows become meter events", () => {
 
   it("meters a real run end to end: POST /api/v1/runs -> worker -> ledger row -> meter event", async () => {
     const network = { lattice: "triangular", size: { columns: 6, rows: 6 }, transverse: "periodic", twistDegrees: 0.11, modeVelocityMps: 1.0e6, channelsPerLink: 1, node: { forward: 0.6, left: 0.2, right: 0.2 } };
-    let created = await call(ws, "researcher", "/api/v1/runs", { method: "POST", json: { network, computation: { kind: "conductance", energyMeV: 0.4 } } });
-    for (let i = 0; created.status === 429 && i < 5; i++) {
-      await new Promise((r) => setTimeout(r, 1500));
-      created = await call(ws, "researcher", "/api/v1/runs", { method: "POST", json: { network, computation: { kind: "conductance", energyMeV: 0.4 } } });
-    }
+    const created = await call(ws, "researcher", "/api/v1/runs", { method: "POST", json: { network, computation: { kind: "conductance", energyMeV: 0.4 } } });
     expect(created.status).toBe(202);
     const runId = created.body.id as string;
     const ledger = await until("the run's ledger row", async () => (await sql`select id, compute_seconds from usage_ledger where run_id = ${runId}`)[0], 120_000);
@@ -310,13 +307,9 @@ const smallRun = {
   network: { lattice: "triangular", size: { columns: 6, rows: 6 }, transverse: "periodic", twistDegrees: 0.11, modeVelocityMps: 1.0e6, channelsPerLink: 1, node: { forward: 0.6, left: 0.2, right: 0.2 } },
   computation: { kind: "conductance", energyMeV: 0.4 },
 };
-/** A dry run through the runs API (every check, budget included; nothing written), 429s waited out. */
-async function dryRun(ws: TestWorkspace) {
-  for (let i = 0; ; i++) {
-    const r = await call(ws, "owner", "/api/v1/runs?dryRun=true", { method: "POST", json: smallRun });
-    if (r.status !== 429 || i >= 5) return r;
-    await new Promise((res) => setTimeout(res, 1500));
-  }
+/** A dry run through the runs API (every check, budget included; nothing written). */
+function dryRun(ws: TestWorkspace) {
+  return call(ws, "owner", "/api/v1/runs?dryRun=true", { method: "POST", json: smallRun });
 }
 
 describe("free quota and spend cap", () => {

@@ -3,6 +3,7 @@
 // seeded synthetic dataset.
 import { afterAll, describe, expect, it } from "vitest";
 import postgres from "postgres";
+import { csvText, datasetForm } from "../support/csv";
 import { api, databaseUrl } from "../support/services";
 
 const sql = postgres(databaseUrl(), { max: 2, onnotice: () => {} });
@@ -13,10 +14,7 @@ afterAll(async () => {
 });
 
 function upload(csv: string, fields: Record<string, string>, as: "researcher" | "viewer" | "student" = "researcher") {
-  const form = new FormData();
-  form.set("file", new Blob([csv], { type: "text/csv" }), "curve.csv");
-  for (const [k, v] of Object.entries(fields)) form.set(k, v);
-  return api("/api/v1/datasets", { method: "POST", body: form, as });
+  return api("/api/v1/datasets", { method: "POST", body: datasetForm(csv, fields), as });
 }
 
 const mapping = { name: "it resistance curve", xColumn: "B (mT)", xUnit: "mT", yColumn: "R (kohm)", yUnit: "kohm", sigmaColumn: "dR (kohm)" };
@@ -61,7 +59,7 @@ describe("POST /api/v1/datasets", () => {
     expect((await bad.json()).error.message).toMatch(/xUnit/);
     const json = await api("/api/v1/datasets", { method: "POST", json: { name: "x" } });
     expect(json.status).toBe(400);
-    const big = "B,G\n" + "0.000001,1.000000\n".repeat(300_000);
+    const big = csvText(["B", "G"], Array(300_000).fill(["0.000001", "1.000000"]), { finalNewline: true });
     const res = await upload(big, { name: "big", xColumn: "B", xUnit: "T", yColumn: "G", yUnit: "e2/h" });
     expect(res.status).toBe(413);
     expect((await res.json()).error.message).toMatch(/5 MB/);

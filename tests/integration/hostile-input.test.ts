@@ -5,7 +5,8 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from "vitest";
 import fc from "fast-check";
 import postgres from "postgres";
-import { api, appUrl, databaseUrl, demoTokens } from "../support/services";
+import { csvText, datasetForm } from "../support/csv";
+import { api, appUrl, databaseUrl, demoTokens, failOnRateLimit } from "../support/services";
 import { LK07_COMPUTATION, LK07_FIT_START, LK07_NETWORK } from "../../src/server/demo/lk07";
 
 const sql = postgres(databaseUrl(), { max: 2, onnotice: () => {} });
@@ -42,12 +43,8 @@ async function expectRefused(what: string, path: string, init: RequestInit) {
   tried++;
   const headers = new Headers(init.headers);
   headers.set("authorization", `Bearer ${demoTokens().researcher}`);
-  let res = await fetch(new URL(path, appUrl()), { ...init, headers });
-  for (let i = 0; res.status === 429 && i < 3; i++) {
-    await res.text();
-    await new Promise((r) => setTimeout(r, 1000 * Number(res.headers.get("retry-after") ?? "1")));
-    res = await fetch(new URL(path, appUrl()), { ...init, headers });
-  }
+  // A 429 would otherwise count as a proper refusal (4xx with a message): it fails the test instead.
+  const res = failOnRateLimit(await fetch(new URL(path, appUrl()), { ...init, headers }), `${what} ${path}`);
   const text = await res.text();
   let body: any = null;
   try {
@@ -193,20 +190,16 @@ describe("hostile JSON bodies to runs, networks, sweeps and fits", () => {
 
 describe("hostile CSV uploads", () => {
   const mapping = { name: "hostile csv", xColumn: "B (mT)", xUnit: "mT", yColumn: "R (kohm)", yUnit: "kohm" };
-  const upload = (csv: string | Uint8Array, fields: Record<string, string> = mapping, what = "csv") => {
-    const form = new FormData();
-    form.set("file", new Blob([csv as BlobPart], { type: "text/csv" }), "hostile.csv");
-    for (const [k, v] of Object.entries(fields)) form.set(k, v);
-    return expectRefused(what, "/api/v1/datasets", { method: "POST", body: form });
-  };
+  const upload = (csv: string | Uint8Array, fields: Record<string, string> = mapping, what = "csv") =>
+    expectRefused(what, "/api/v1/datasets", { method: "POST", body: datasetForm(csv, fields, "hostile.csv") });
 
   it("random and malformed files: 4xx with a message, nothing written", async () => {
     const before = await counts();
     const cell = fc.oneof(fc.constantFrom("NaN", "Infinity", "-", "", "1e999", "=cmd|' /C calc'!A0", "\"unterminated", "1,5", "💥", "null"), fc.string({ maxLength: 12 }).filter((s) => Number.isNaN(Number(s)) || s.trim() === ""));
     await fc.assert(
       fc.asyncProperty(fc.array(fc.tuple(cell, cell), { minLength: 0, maxLength: 30 }), async (rows) => {
-        // The mapped columns exist but no row holds two numbers.
-        const csv = "B (mT),R (kohm)\n" + rows.map(([a, b]) => `${a},${b}`).join("\n");
+        // The mapped columns exist but no row holds two numbers (each cell is written as one cell).
+        const csv = csvText(["B (mT)", "R (kohm)"], rows);
         return upload(csv, mapping, `rows ${JSON.stringify(rows).slice(0, 60)}`);
       }),
       { numRuns: 40, seed: 29 },
@@ -220,10 +213,12 @@ describe("hostile CSV uploads", () => {
     await upload("B (mT),R (kohm)\n0,1\n1,2\n", { ...mapping, xUnit: "parsecs" }, "unknown unit");
     await upload("B (mT),R (kohm)\n0,1\n1,2\n", { ...mapping, xColumn: "" }, "no x column");
     await upload("B (mT),R (kohm)\n0,1\n1,2\n", { ...mapping, name: "x".repeat(100_000) }, "huge name");
-    const wide = Array.from({ length: 5000 }, (_, i) => `c${i}`).join(",");
-    await upload(`${wide}\n`, mapping, "5000 columns, no rows");
+    await upload(csvText(Array.from({ length: 5000 }, (_, i) => `c${i}`), [], { finalNewline: true }), mapping, "5000 columns, no rows");
+    // Broken quoting, written out as it is: a quote that never closes, a quote inside a bare cell.
+    await upload('B (mT),R (kohm)\n"unterminated,1\n0,1\n1,2\n2,3\n', mapping, "unterminated quote");
+    await upload('B (mT),R (kohm)\n0,1"5\n1,2\n2,3\n3,4"\n', mapping, "stray quotes");
     // Over the 5 MB upload limit.
-    await upload("B (mT),R (kohm)\n" + "1,2\n".repeat(1_500_000), mapping, "6 MB");
+    await upload(csvText(["B (mT)", "R (kohm)"], Array(1_500_000).fill([1, 2]), { finalNewline: true }), mapping, "6 MB");
     const notMultipart = await fetch(new URL("/api/v1/datasets", appUrl()), { method: "POST", headers: { authorization: `Bearer ${demoTokens().researcher}`, "content-type": "text/csv" }, body: "B,R\n1,2\n" });
     tried++;
     expect(notMultipart.status).toBe(400);

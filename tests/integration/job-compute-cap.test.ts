@@ -4,6 +4,7 @@
 // (naming the Lab plan's cap), 422 on Lab, where no plan allows more. Networks are synthetic.
 import { afterAll, describe, expect, it } from "vitest";
 import { PLANS } from "../../src/config/plans";
+import { csvText, datasetForm } from "../support/csv";
 import { api } from "../support/services";
 import { counts, post, smallNetwork, sql, workspaceId } from "./runs-support";
 
@@ -93,10 +94,9 @@ describe("the per-job compute-time cap", () => {
   });
 
   it("a fit is one job: a Free fit whose evaluations add up to more than the cap is refused (402) before it is stored", async () => {
-    const csv = "# synthetic\nB (T),G (e2/h)\n" + Array.from({ length: 60 }, (_, i) => `${(i * 0.05).toFixed(2)},${(1 + 0.1 * Math.cos(i)).toFixed(4)}`).join("\n") + "\n";
-    const form = new FormData();
-    form.set("file", new Blob([csv], { type: "text/csv" }), "synthetic.csv");
-    for (const [k, v] of Object.entries({ name: "cap test curve (synthetic)", xColumn: "B (T)", xUnit: "T", yColumn: "G (e2/h)", yUnit: "e2/h" })) form.set(k, v);
+    const rows = Array.from({ length: 60 }, (_, i) => [(i * 0.05).toFixed(2), (1 + 0.1 * Math.cos(i)).toFixed(4)]);
+    const csv = csvText(["B (T)", "G (e2/h)"], rows, { comments: ["synthetic"], finalNewline: true });
+    const form = datasetForm(csv, { name: "cap test curve (synthetic)", xColumn: "B (T)", xUnit: "T", yColumn: "G (e2/h)", yUnit: "e2/h" }, "synthetic.csv");
     const up = await api("/api/v1/datasets", { method: "POST", body: form, as: "student" });
     expect(up.status).toBe(201);
     const datasetId = (await up.json()).id;

@@ -93,7 +93,7 @@ describe("rate limits", () => {
     const key = `${PREFIX}:rl:read:user:${me!.userId}`;
     await redis.set(key, String(READS), "PX", 20_000);
     try {
-      const limited = await sessionFetch("researcher2", "/api/v1/runs?limit=1");
+      const limited = await sessionFetch("researcher2", "/api/v1/runs?limit=1", { rateLimitExpected: true });
       expect(limited.status).toBe(429);
       expect(limited.headers.get("retry-after")).toMatch(/^\d+$/);
       // The same person's API token is a different key.

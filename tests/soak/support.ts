@@ -7,7 +7,7 @@ import { join } from "node:path";
 import { promisify } from "node:util";
 import postgres from "postgres";
 import { displayPrefix, hashToken, newTokenSecret } from "@/server/auth/tokens";
-import { appUrl, databaseUrl } from "../support/services";
+import { appUrl, databaseUrl, failOnRateLimit } from "../support/services";
 
 export const sql = postgres(databaseUrl(), { max: 3, onnotice: () => {}, connect_timeout: 5 });
 export const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -60,6 +60,7 @@ export async function call(w: SoakWorkspace, as: keyof SoakWorkspace["tokens"], 
     body: json !== undefined ? JSON.stringify(json) : undefined,
     signal: AbortSignal.timeout(timeoutMs),
   });
+  failOnRateLimit(res, `${as} ${method} ${path}`);
   const text = await res.text();
   let body: any = text;
   try {

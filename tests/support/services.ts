@@ -16,7 +16,22 @@ export function demoTokens(): Record<DemoTokenKey, string> {
   return JSON.parse(readFileSync(required("DEMO_TOKENS_FILE"), "utf8"));
 }
 
-/** fetch against the running app with a demo member's token. */
+/**
+ * Throws on a 429. Test instances get request budgets no test reaches (scripts/env.d/ratelimit.sh:
+ * 1,000,000 reads and writes a minute), so outside tests/integration/rate-limit.test.ts a 429 means
+ * the rate limiter is wrong: the test fails here, loudly, instead of waiting it out and retrying.
+ */
+export function failOnRateLimit(res: Response, what: string): Response {
+  if (res.status === 429) {
+    throw new Error(
+      `${what}: 429 Too Many Requests (Retry-After: ${res.headers.get("retry-after") ?? "none"}). Test instances have budgets no test ` +
+        "reaches (scripts/env.d/ratelimit.sh), so this is a rate-limiter bug; it is not waited out or retried.",
+    );
+  }
+  return res;
+}
+
+/** fetch against the running app with a demo member's token; a 429 fails the test (failOnRateLimit). */
 export async function api(path: string, init: RequestInit & { as?: DemoTokenKey | null; json?: unknown } = {}): Promise<Response> {
   const headers = new Headers(init.headers);
   if (init.as !== null) headers.set("authorization", `Bearer ${demoTokens()[init.as ?? "researcher"]}`);
@@ -25,5 +40,5 @@ export async function api(path: string, init: RequestInit & { as?: DemoTokenKey 
     headers.set("content-type", "application/json");
     body = JSON.stringify(init.json);
   }
-  return fetch(new URL(path, appUrl()), { ...init, headers, body });
+  return failOnRateLimit(await fetch(new URL(path, appUrl()), { ...init, headers, body }), `${init.method ?? "GET"} ${path}`);
 }

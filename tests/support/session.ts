@@ -26,8 +26,11 @@
  */
 import type { BrowserContext, Page } from "playwright-core";
 import { DEMO_LAB, DEMO_PEOPLE, type DemoPerson } from "../../src/server/demo/scenario";
+import { failOnRateLimit } from "./services";
 
 export type DemoPersonKey = DemoPerson["key"];
+/** A person who is not in the demo data (createStandInUser), by e-mail and password. */
+export type Credentials = { email: string; password: string };
 
 function need(name: string): string {
   const v = process.env[name];
@@ -51,7 +54,7 @@ export interface SessionOptions {
 }
 
 /** A fresh session at the stand-in: the three cookies a signed-in browser carries. */
-export async function sessionCookies(who: DemoPersonKey | { email: string; password: string }, opts: SessionOptions = {}) {
+export async function sessionCookies(who: DemoPersonKey | Credentials, opts: SessionOptions = {}) {
   const person = typeof who === "string" ? demoPerson(who) : who;
   const inLab = typeof who === "string" && DEMO_LAB.members.some((m) => m.key === who);
   const organizationId = opts.organizationId ?? (opts.workspace === "personal" || !inLab ? undefined : DEMO_LAB.clerkOrgId);
@@ -65,21 +68,21 @@ export async function sessionCookies(who: DemoPersonKey | { email: string; passw
   return body;
 }
 
-/** Puts a demo person's session cookies into a browser context (every page in it is signed in). */
-export async function signInContext(context: BrowserContext, who: DemoPersonKey, opts: SessionOptions = {}): Promise<void> {
+/** Puts a person's session cookies into a browser context (every page in it is signed in). */
+export async function signInContext(context: BrowserContext, who: DemoPersonKey | Credentials, opts: SessionOptions = {}): Promise<void> {
   const { cookies } = await sessionCookies(who, opts);
   const url = appUrl();
   await context.clearCookies();
   await context.addCookies(Object.entries(cookies).map(([name, value]) => ({ name, value, url, sameSite: "Lax" as const, httpOnly: name === "__client" })));
 }
 
-/** Signs the page's context in as a demo person (no form); navigate afterwards. */
-export async function signInPage(page: Page, who: DemoPersonKey, opts: SessionOptions = {}): Promise<void> {
+/** Signs the page's context in as a person (no form); navigate afterwards. */
+export async function signInPage(page: Page, who: DemoPersonKey | Credentials, opts: SessionOptions = {}): Promise<void> {
   await signInContext(page.context(), who, opts);
 }
 
 /** Signs in through our real sign-in page, as a person would; waits for the page after sign-in. */
-export async function signInThroughForm(page: Page, who: DemoPersonKey | { email: string; password: string }, opts: { redirectTo?: string } = {}): Promise<void> {
+export async function signInThroughForm(page: Page, who: DemoPersonKey | Credentials, opts: { redirectTo?: string } = {}): Promise<void> {
   const person = typeof who === "string" ? demoPerson(who) : who;
   const target = opts.redirectTo ?? "/networks";
   await page.goto(`${appUrl()}/sign-in?redirect_url=${encodeURIComponent(target)}`);
@@ -89,8 +92,16 @@ export async function signInThroughForm(page: Page, who: DemoPersonKey | { email
   await Promise.all([page.waitForURL((u) => u.pathname === target.split("?")[0], { timeout: 60_000 }), page.click('button[type="submit"]')]);
 }
 
-/** fetch against the app with a demo person's session cookies instead of an API token. */
-export async function sessionFetch(who: DemoPersonKey | { email: string; password: string }, path: string, init: RequestInit & { json?: unknown } & SessionOptions = {}): Promise<Response> {
+/**
+ * fetch against the app with a demo person's session cookies instead of an API token. A 429 fails
+ * the test (failOnRateLimit in ./services) unless `rateLimitExpected` says the 429 is what the test
+ * is about (tests/integration/rate-limit.test.ts only).
+ */
+export async function sessionFetch(
+  who: DemoPersonKey | Credentials,
+  path: string,
+  init: RequestInit & { json?: unknown; rateLimitExpected?: boolean } & SessionOptions = {},
+): Promise<Response> {
   const { cookies } = await sessionCookies(who, { workspace: init.workspace, organizationId: init.organizationId });
   const headers = new Headers(init.headers);
   headers.set("cookie", Object.entries(cookies).map(([k, v]) => `${k}=${v}`).join("; "));
@@ -99,7 +110,8 @@ export async function sessionFetch(who: DemoPersonKey | { email: string; passwor
     headers.set("content-type", "application/json");
     body = JSON.stringify(init.json);
   }
-  return fetch(new URL(path, appUrl()), { ...init, headers, body, redirect: "manual" });
+  const res = await fetch(new URL(path, appUrl()), { ...init, headers, body, redirect: "manual" });
+  return init.rateLimitExpected ? res : failOnRateLimit(res, `${init.method ?? "GET"} ${path} (session of ${typeof who === "string" ? who : who.email})`);
 }
 
 /** Creates a person at the sign-in stand-in (as if they had signed up); returns their credentials. */

@@ -13,15 +13,6 @@ export function nativeKernels(): ComplexKernels {
   return loaded.kernels;
 }
 
-/** Deterministic generator (xorshift32) for test matrices. */
-export function rng(seed: number): () => number {
-  let s = seed >>> 0 || 1;
-  return () => {
-    s ^= s << 13; s >>>= 0; s ^= s >>> 17; s ^= s << 5; s >>>= 0;
-    return s / 4294967296;
-  };
-}
-
 export function randomComplex(rand: () => number, count: number): Float64Array {
   return Float64Array.from({ length: 2 * count }, () => 2 * rand() - 1);
 }

@@ -8,8 +8,9 @@ import { SingularMatrixError } from "@/engine/errors";
 import { tsKernels } from "@/engine/linalg/kernels";
 import {
   eigenvectorResidual, identity, nativeKernels, numpyEval, randomComplex, randomHermitian, randomSquare, realToComplex,
-  relativeDifference, rng, unorderedDifference,
+  relativeDifference, unorderedDifference,
 } from "./helpers";
+import { seededUniform } from "../../support/random";
 
 const TOL = 1e-10;
 const nat = nativeKernels();
@@ -24,7 +25,7 @@ describe("matmul (cblas_zgemm) agrees with the TypeScript kernels", () => {
   const shapes: [number, number, number][] = [[1, 1, 1], [2, 3, 1], [1, 5, 4], [7, 13, 5], [8, 12, 8], [16, 8, 16], [64, 64, 64], [100, 3, 90], [33, 70, 17]];
   for (const [m, k, n] of shapes) {
     it(`${m}x${k} times ${k}x${n}`, () => {
-      const rand = rng(m * 1000 + k * 10 + n);
+      const rand = seededUniform(m * 1000 + k * 10 + n);
       const a = randomComplex(rand, m * k), b = randomComplex(rand, k * n);
       const a0 = a.slice(), b0 = b.slice();
       const c = nat.matmul(a, b, m, k, n);
@@ -36,7 +37,7 @@ describe("matmul (cblas_zgemm) agrees with the TypeScript kernels", () => {
   }
 
   it("accepts arrays longer than needed and views into a larger buffer (subarray)", () => {
-    const rand = rng(5);
+    const rand = seededUniform(5);
     const big = randomComplex(rand, 200);
     const a = big.subarray(6, 6 + 2 * 12), b = big.subarray(40, 40 + 2 * 12 + 10);
     expect(relativeDifference(nat.matmul(a, b, 3, 4, 3), tsKernels.matmul(a, b, 3, 4, 3))).toBeLessThan(TOL);
@@ -57,7 +58,7 @@ describe("gemmAccumulate (C += A B in place, offsets and leading dimensions)", (
   ];
   for (const cs of cases) {
     it(`m=${cs.m} n=${cs.n} k=${cs.k} lda=${cs.lda} ldb=${cs.ldb} ldc=${cs.ldc}`, () => {
-      const rand = rng(cs.m + 7 * cs.n + 13 * cs.k);
+      const rand = seededUniform(cs.m + 7 * cs.n + 13 * cs.k);
       const a = randomComplex(rand, cs.aOff / 2 + cs.m * cs.lda + 1);
       const b = randomComplex(rand, cs.bOff / 2 + cs.k * cs.ldb + 1);
       const c0 = randomComplex(rand, cs.cOff / 2 + cs.m * cs.ldc + 3);
@@ -82,7 +83,7 @@ describe("gemmAccumulate (C += A B in place, offsets and leading dimensions)", (
   });
 
   it("accumulates twice into the same block (a true +=)", () => {
-    const rand = rng(99);
+    const rand = seededUniform(99);
     const a = randomComplex(rand, 9), b = randomComplex(rand, 9);
     const c = new Float64Array(18);
     nat.gemmAccumulate(3, 3, 3, a, 0, 3, b, 0, 3, c, 0, 3);
@@ -95,7 +96,7 @@ describe("gemmAccumulate (C += A B in place, offsets and leading dimensions)", (
 describe("solve (zgetrf + triangular solves) with several right-hand sides", () => {
   for (const [n, nrhs] of [[1, 1], [3, 4], [17, 1], [17, 25], [40, 7], [64, 64]]) {
     it(`n=${n}, nrhs=${nrhs}`, () => {
-      const rand = rng(31 * n + nrhs);
+      const rand = seededUniform(31 * n + nrhs);
       const a = randomSquare(rand, n, 1.5), b = randomComplex(rand, n * nrhs);
       const a0 = a.slice(), b0 = b.slice();
       const x = nat.solve(a, b, n, nrhs);
@@ -121,7 +122,7 @@ describe("solve (zgetrf + triangular solves) with several right-hand sides", () 
 describe("inverse (zgetrf + zgetri)", () => {
   for (const n of [1, 2, 9, 32]) {
     it(`n=${n}`, () => {
-      const rand = rng(500 + n);
+      const rand = seededUniform(500 + n);
       const a = randomSquare(rand, n, 1);
       const inv = nat.inverse(a, n);
       expect(relativeDifference(inv, tsKernels.inverse(a, n))).toBeLessThan(TOL);
@@ -133,7 +134,7 @@ describe("inverse (zgetrf + zgetri)", () => {
 describe("eigHermitian (zheevd)", () => {
   for (const n of [1, 2, 5, 16, 48]) {
     it(`n=${n}: ascending eigenvalues, orthonormal eigenvectors`, () => {
-      const rand = rng(700 + n);
+      const rand = seededUniform(700 + n);
       const a = randomHermitian(rand, n);
       const mine = nat.eigHermitian(a, n, true);
       const ref = tsKernels.eigHermitian(a, n, true);
@@ -155,7 +156,7 @@ describe("eigHermitian (zheevd)", () => {
   }
 
   it("returns no vectors when none are asked for, and the same eigenvalues", () => {
-    const a = randomHermitian(rng(3), 7);
+    const a = randomHermitian(seededUniform(3), 7);
     const r = nat.eigHermitian(a, 7, false);
     expect(r.vectors).toBeNull();
     expect(relativeDifference(realToComplex(r.values), realToComplex(nat.eigHermitian(a, 7, true).values))).toBeLessThan(TOL);
@@ -163,7 +164,7 @@ describe("eigHermitian (zheevd)", () => {
 
   it("reads only the lower triangle (garbage above the diagonal changes nothing)", () => {
     const n = 6;
-    const a = randomHermitian(rng(8), n);
+    const a = randomHermitian(seededUniform(8), n);
     const dirty = a.slice();
     for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) { dirty[2 * (i * n + j)] = 100 + i; dirty[2 * (i * n + j) + 1] = -50 * j; }
     expect(relativeDifference(realToComplex(nat.eigHermitian(dirty, n, false).values), realToComplex(nat.eigHermitian(a, n, false).values))).toBeLessThan(TOL);
@@ -180,7 +181,7 @@ describe("eigHermitian (zheevd)", () => {
 describe("eigGeneral (zgeev)", () => {
   for (const n of [1, 2, 6, 20, 50]) {
     it(`n=${n}: same eigenvalues as the TypeScript QR iteration`, () => {
-      const rand = rng(900 + n);
+      const rand = seededUniform(900 + n);
       const a = randomComplex(rand, n * n);
       const a0 = a.slice();
       const ev = nat.eigGeneral(a, n);
@@ -198,7 +199,7 @@ describe("eigGeneral (zgeev)", () => {
     for (let i = 0; i < n; i++) { diag[2 * i] = i + 1; diag[2 * i + 1] = -i; }
     expect(unorderedDifference(nat.eigGeneral(tri, n), diag)).toBeLessThan(TOL);
     // Householder reflector I - 2 v v^H / |v|^2: unitary.
-    const v = randomComplex(rng(4), n);
+    const v = randomComplex(seededUniform(4), n);
     const vn = v.reduce((s, x) => s + x * x, 0);
     const u = identity(n);
     for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) {
@@ -211,7 +212,7 @@ describe("eigGeneral (zgeev)", () => {
 });
 
 describe("agreement with numpy (Debian python3-numpy, independent of both backends)", () => {
-  const n = 12, rand = rng(2024);
+  const n = 12, rand = seededUniform(2024);
   const a = randomSquare(rand, n, 1), b = randomComplex(rand, n * 3), h = randomHermitian(rand, n);
   it("matmul, solve, inverse", () => {
     const sq = { data: a, shape: [n, n] };

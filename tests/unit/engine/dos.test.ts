@@ -5,13 +5,14 @@ import { computeLdos, linkResolventDiagonal } from "@/engine/compute/ldos";
 import { buildClosedSample } from "@/engine/compute/closed";
 import { networkScale } from "@/engine/compute/common";
 import { channelPhases, reverseGraph } from "@/engine/network/graph";
-import { graphJson, lcg, numpy, randomUnitary } from "./helpers/reference";
+import { graphJson, numpy, randomUnitary } from "./helpers/reference";
+import { seededUniform } from "../../support/random";
 
 const make = (network: object, computation: object) => parseComputeInput({ network: { lattice: "triangular", size: { columns: 4, rows: 4 }, periodNm: 130, node: { forward: 0.5, left: 0.3, right: 0.2 }, ...network }, computation });
 
 describe("check 6: DOS sum rule, 3 states per channel per cell per energy period", () => {
   // Source: trace formula, physics.md section 3: each eigenphase of U contributes one state per period (exact).
-  const rand = lcg(77);
+  const rand = seededUniform(77);
   const nodes: object[] = [{ forward: 0.5, left: 0.3, right: 0.2 }, { forward: 1 }, { matrix: randomUnitary(3, rand) }, { forward: 0.2, left: 0.1, right: 0.7, branch: -1, phaseRad: 2 }];
   for (const node of nodes) {
     it(`Bloch DOS integrates to 3 per cell for node ${JSON.stringify(node).slice(0, 60)}`, () => {

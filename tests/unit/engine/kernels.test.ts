@@ -1,13 +1,14 @@
 import { describe, expect, it } from "vitest";
 import { tsKernels, getKernels, setKernels } from "@/engine/linalg/kernels";
 import { SingularMatrixError } from "@/engine/errors";
-import { lcg, numpy, randomComplex, split } from "./helpers/reference";
+import { numpy, randomComplex, split } from "./helpers/reference";
+import { seededUniform } from "../../support/random";
 
 const maxDiff = (a: Float64Array | number[], re: number[], im: number[]) => { let w = 0; for (let i = 0; i < re.length; i++) w = Math.max(w, Math.hypot(a[2 * i] - re[i], a[2 * i + 1] - im[i])); return w; };
 
 describe("TypeScript complex kernels against numpy (Debian python3-numpy)", () => {
   // Source: numpy.linalg / numpy matmul as the independent reference implementation.
-  const rand = lcg(99);
+  const rand = seededUniform(99);
   it("matmul and gemmAccumulate with leading dimensions", () => {
     const a = randomComplex(7 * 5, rand), b = randomComplex(5 * 9, rand);
     const ref = numpy({ op: "matmul", m: 7, k: 5, n: 9, are: split(a).re, aim: split(a).im, bre: split(b).re, bim: split(b).im });

@@ -4,7 +4,8 @@ import { computeConductance, leadChannels, composeSample, sampleTransport } from
 import { buildSample } from "@/engine/network/lattice";
 import { channelPhases, reverseGraph, CH_LINK } from "@/engine/network/graph";
 import { networkScale } from "@/engine/compute/common";
-import { graphJson, lcg, numpy, randomUnitary } from "./helpers/reference";
+import { graphJson, numpy, randomUnitary } from "./helpers/reference";
+import { seededUniform } from "../../support/random";
 
 function input(network: object, computation: object = {}) {
   return parseComputeInput({ network: { lattice: "triangular", size: { columns: 5, rows: 4 }, periodNm: 120, node: { forward: 0.5, left: 0.3, right: 0.2 }, ...network }, computation: { kind: "conductance", ...computation } });
@@ -113,7 +114,7 @@ describe("check 5: flux periodicity with period h / (e A_triangle)", () => {
 
 describe("check 7: independent dense solve of the whole network (numpy) agrees to 1e-9", () => {
   // Source: numpy.linalg.solve (Debian python3-numpy) on the full linear system of all link amplitudes.
-  const rand = lcg(20240607);
+  const rand = seededUniform(20240607);
   const cases: { name: string; net: object; fieldTesla: number }[] = [
     { name: "triangular probability nodes, spread, disorder, field, cylinder", net: { size: { columns: 5, rows: 4 }, disorder: { linkPhaseWidthRad: 6.28, forwardSpread: 0.3, seed: 2 } }, fieldTesla: 0.31 },
     { name: "triangular explicit random unitary node, open edges", net: { transverse: "open", size: { columns: 4, rows: 3 }, node: { matrix: randomUnitary(3, rand) }, disorder: { linkPhaseWidthRad: 3, seed: 4 } }, fieldTesla: -0.2 },

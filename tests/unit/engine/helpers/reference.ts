@@ -31,12 +31,6 @@ export function graphJson(g: NetworkGraph, z: Float64Array): object {
   return { nodes, channels };
 }
 
-/** Deterministic pseudo-random numbers for test matrices. */
-export function lcg(seed: number): () => number {
-  let s = seed >>> 0;
-  return () => { s = (Math.imul(s, 1664525) + 1013904223) >>> 0; return s / 4294967296; };
-}
-
 /** Random unitary n x n (Gram-Schmidt of a random complex matrix), as [[re, im]] rows. */
 export function randomUnitary(n: number, rand: () => number): [number, number][][] {
   const cols: [number, number][][] = [];

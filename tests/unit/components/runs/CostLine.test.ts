@@ -3,8 +3,8 @@
 import { createElement } from "react";
 import { renderToStaticMarkup } from "react-dom/server";
 import { describe, expect, it } from "vitest";
-import { CostLine } from "../../../src/components/runs/CostLine";
-import { PLANS } from "../../../src/config/plans";
+import { CostLine } from "../../../../src/components/runs/CostLine";
+import { PLANS } from "../../../../src/config/plans";
 
 const html = (props: Parameters<typeof CostLine>[0]) => renderToStaticMarkup(createElement(CostLine, props));
 

@@ -1,10 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { axesSchema, gridIndices, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, unitOf } from "@/server/sweeps/axes";
 import { deriveSweepStatus } from "@/server/sweeps/progress";
-import { assertEnsembleWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/runs/limits";
-import { ApiError } from "@/server/http/errors";
-import { PLANS } from "@/config/plans";
-import { decodeCursor, encodeCursor, pageLimit } from "@/server/runs/cursor";
 
 describe("sweep axes", () => {
   it("spaces `from, to, points` evenly and ends exactly at `to`", () => {
@@ -61,46 +57,5 @@ describe("sweep status from its points", () => {
     expect(deriveSweepStatus(c(0, 0, 4, 1, 0), false)).toBe("failed");
     expect(deriveSweepStatus(c(0, 0, 2, 0, 3), true)).toBe("cancelled");
     expect(deriveSweepStatus(c(0, 1, 2, 0, 3), true)).toBe("running");
-  });
-});
-
-describe("plan limits", () => {
-  const thrown = (fn: () => void) => {
-    try {
-      fn();
-    } catch (e) {
-      return e as ApiError;
-    }
-    throw new Error("expected a refusal");
-  };
-  it("answers 402 on Free naming the limit and its value", () => {
-    const e = thrown(() => assertNetworkWithinPlan("free", { columns: PLANS.free.maxCellsPerSide + 1, rows: 4 }));
-    expect(e.status).toBe(402);
-    expect(e.message).toContain(`maxCellsPerSide = ${PLANS.free.maxCellsPerSide}`);
-    expect(e.details).toMatchObject({ limit: "maxCellsPerSide", value: PLANS.free.maxCellsPerSide, plan: "free" });
-  });
-  it("answers 422 on Lab, where no plan allows more", () => {
-    const e = thrown(() => assertSweepWithinPlan("lab", PLANS.lab.maxSweepPoints + 1, 1));
-    expect(e.status).toBe(422);
-    expect(e.message).toContain("maxSweepPoints");
-  });
-  it("checks the engine's ensemble size", () => {
-    const e = thrown(() => assertEnsembleWithinPlan("free", { computation: { kind: "conductance", ensemble: { samples: PLANS.free.maxEnsembleSamples + 1 } } }));
-    expect(e.details).toMatchObject({ limit: "maxEnsembleSamples" });
-    expect(() => assertEnsembleWithinPlan("free", { computation: { kind: "conductance" } })).not.toThrow();
-    expect(() => assertNetworkWithinPlan("free", { columns: 40, rows: 40 })).not.toThrow();
-  });
-  it("gives Lab jobs a higher queue priority than Free (lower number)", () => {
-    expect(queuePriority("lab")).toBeLessThan(queuePriority("free"));
-  });
-});
-
-describe("list cursors", () => {
-  it("round-trip and refuse anything else", () => {
-    const c = encodeCursor("2026-12-01T21:00:00.123456Z", "0b7f4a9e-2c41-4a7e-9a55-3f1d2c3b4a5e");
-    expect(decodeCursor(c)).toEqual({ at: "2026-12-01T21:00:00.123456Z", id: "0b7f4a9e-2c41-4a7e-9a55-3f1d2c3b4a5e" });
-    expect(() => decodeCursor("garbage")).toThrow(/cursor/);
-    expect(pageLimit(null)).toBe(50);
-    expect(() => pageLimit("0")).toThrow(/limit/);
   });
 });

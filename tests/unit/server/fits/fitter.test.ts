@@ -1,17 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { FitCancelled, FitInputError, fitCurve } from "@/server/fits/fitter";
-
-function gaussRng(seed: number) {
-  let a = seed >>> 0;
-  const u = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  return () => Math.sqrt(-2 * Math.log(u() + 1e-12)) * Math.cos(2 * Math.PI * u());
-}
+import { seededGaussian } from "../../../support/random";
 
 // Analytic stand-in for a magnetoconductance: background c plus an oscillation of amplitude A
 // and period P (tesla). Parameters differ by orders of magnitude, as engine parameters do.
@@ -31,7 +20,7 @@ describe("fitCurve (Levenberg-Marquardt, uncertainties from the Jacobian)", () =
     let inside1 = 0;
     let total = 0;
     for (const seed of [1, 2, 3, 4, 5, 6]) {
-      const g = gaussRng(seed);
+      const g = seededGaussian(seed);
       const y = model(truth).map((v) => v + sigmaNoise * g());
       const r = fitCurve(model, { x: xs, y, sigma: xs.map(() => sigmaNoise) }, specs);
       expect(r.converged).toBe(true);
@@ -53,7 +42,7 @@ describe("fitCurve (Levenberg-Marquardt, uncertainties from the Jacobian)", () =
   });
 
   it("without a sigma column scales the covariance by the residual variance", () => {
-    const g = gaussRng(9);
+    const g = seededGaussian(9);
     const y = model(truth).map((v) => v + 0.02 * g());
     const r = fitCurve(model, { x: xs, y }, specs);
     expect(r.weighted).toBe(false);
@@ -65,7 +54,7 @@ describe("fitCurve (Levenberg-Marquardt, uncertainties from the Jacobian)", () =
   });
 
   it("multi-start escapes a local minimum that a single start falls into", () => {
-    const g = gaussRng(4);
+    const g = seededGaussian(4);
     const y = model(truth).map((v) => v + 0.01 * g());
     const far = specs.map((s) => (s.parameter === "P" ? { ...s, initial: 0.085 } : s));
     const single = fitCurve(model, { x: xs, y }, far);

@@ -1,19 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { periodFromTwistNm } from "@/engine/constants";
 import { analysePeriod, areaNm2FromFieldPeriod, readingsFromArea, twistDegreesFromPeriodNm } from "@/server/datasets/period";
-
-/** Deterministic pseudo-random numbers (mulberry32) and Gaussian noise (Box-Muller). */
-function rng(seed: number) {
-  let a = seed >>> 0;
-  const u = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  return { u, gauss: () => Math.sqrt(-2 * Math.log(u() + 1e-12)) * Math.cos(2 * Math.PI * u()) };
-}
+import { seededRandom } from "../../../support/random";
 
 describe("period to twist angle conversion", () => {
   it("agrees with l = a / (2 sin(theta/2)), a = 0.246 nm (physics.md section 4)", () => {
@@ -42,12 +30,12 @@ describe("period to twist angle conversion", () => {
 describe("analysePeriod", () => {
   it("recovers the period of a synthetic oscillation on a background to 1 % (uniform grid, several seeds)", () => {
     for (const seed of [1, 2, 3, 4]) {
-      const r = rng(seed);
-      const dB = 0.05 + 0.1 * r.u(); // tesla
-      const phase = 2 * Math.PI * r.u();
+      const r = seededRandom(seed);
+      const dB = 0.05 + 0.1 * r.uniform(); // tesla
+      const phase = 2 * Math.PI * r.uniform();
       const n = 160;
       const x = Array.from({ length: n }, (_, i) => -0.6 + (1.2 * i) / (n - 1));
-      const y = x.map((b) => 3 + 0.8 * b * b - 0.3 * b + 0.05 * Math.cos((2 * Math.PI * b) / dB + phase) + 0.005 * r.gauss());
+      const y = x.map((b) => 3 + 0.8 * b * b - 0.3 * b + 0.05 * Math.cos((2 * Math.PI * b) / dB + phase) + 0.005 * r.gaussian());
       const a = analysePeriod(x, y);
       expect(Math.abs(a.periodTesla - dB) / dB).toBeLessThan(0.01);
       expect(a.settings.resampled).toBe(false);
@@ -55,15 +43,15 @@ describe("analysePeriod", () => {
     }
   });
   it("resamples a non-uniform field grid and still recovers the period to 1 %", () => {
-    const r = rng(11);
+    const r = seededRandom(11);
     const x: number[] = [];
     let b = 0;
     for (let i = 0; i < 220; i++) {
       x.push(b);
-      b += 0.004 + 0.004 * r.u();
+      b += 0.004 + 0.004 * r.uniform();
     }
     const dB = 0.072;
-    const y = x.map((v) => 1.5 + 0.2 * v + 0.03 * Math.sin((2 * Math.PI * v) / dB) + 0.002 * r.gauss());
+    const y = x.map((v) => 1.5 + 0.2 * v + 0.03 * Math.sin((2 * Math.PI * v) / dB) + 0.002 * r.gaussian());
     const a = analysePeriod(x, y);
     expect(a.settings.resampled).toBe(true);
     expect(Math.abs(a.periodTesla - dB) / dB).toBeLessThan(0.01);

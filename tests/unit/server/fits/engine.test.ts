@@ -5,18 +5,7 @@ import { describe, expect, it } from "vitest";
 import { parseComputeInput } from "@/engine";
 import { engine } from "@/server/fits/engine";
 import { engineCurve, runFit } from "@/server/fits/model";
-
-function gaussian(seed: number) {
-  let a = seed >>> 0;
-  const u = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  return () => Math.sqrt(-2 * Math.log(u() + 1e-12)) * Math.cos(2 * Math.PI * u());
-}
+import { seededGaussian } from "../../../support/random";
 
 const input = parseComputeInput({
   network: {
@@ -42,7 +31,7 @@ describe("fit on the engine's conductance", () => {
     expect(Math.max(...clean) - Math.min(...clean)).toBeGreaterThan(0.1);
     const sigma = 0.01;
     for (const seed of [11, 12, 13]) {
-      const g = gaussian(seed);
+      const g = seededGaussian(seed);
       const y = clean.map((v) => v + sigma * g());
       const r = runFit(engine, {
         input,

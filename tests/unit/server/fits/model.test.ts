@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { checkFitSpecs, conductanceOf, engineCurve, expectedEvaluations, runFit, type EngineLike } from "@/server/fits/model";
+import { seededGaussian } from "../../../support/random";
 
 // A stand-in with the engine's contract (applyParameter on dotted paths, compute -> conductance.total
 // in e2/h): an Aharonov-Bohm-like oscillation whose amplitude grows with the turning probability,
@@ -24,18 +25,6 @@ const standIn: EngineLike = {
 };
 const base: In = { network: { node: { forward: 0.5, left: 0.25, right: 0.25 } }, computation: { fieldTesla: 0, contactOhms: 0 } };
 
-function noise(seed: number) {
-  let a = seed >>> 0;
-  const u = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  return () => Math.sqrt(-2 * Math.log(u() + 1e-12)) * Math.cos(2 * Math.PI * u());
-}
-
 describe("engine-backed fit model", () => {
   it("evaluates one engine computation per data x with the fitted values applied", () => {
     const y = engineCurve(standIn, base, "fieldTesla", [0, 0.2915], { "node.forward": 0.5, contactOhms: 0 });
@@ -50,7 +39,7 @@ describe("engine-backed fit model", () => {
     const x = Array.from({ length: 120 }, (_, i) => -1.5 + (3 * i) / 119);
     const truth = { "node.forward": 0.55, contactOhms: 600 };
     for (const seed of [1, 2, 3]) {
-      const g = noise(seed);
+      const g = seededGaussian(seed);
       const y = engineCurve(standIn, base, "fieldTesla", x, truth).map((v) => v + 0.004 * g());
       const r = runFit(standIn, {
         input: base,

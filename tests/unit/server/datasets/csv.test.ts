@@ -3,6 +3,7 @@ import fc from "fast-check";
 import { DatasetCsvError, parseDatasetCsv, previewCsv, type ColumnMapping } from "@/server/datasets/csv";
 import { CONDUCTANCE_QUANTUM_S } from "@/engine/constants";
 import { convertY, Y_UNIT_INFO } from "@/server/datasets/units";
+import { csvText } from "../../../support/csv";
 
 const fieldMap: ColumnMapping = { xColumn: "B", xUnit: "T", yColumn: "G", yUnit: "e2/h" };
 
@@ -130,7 +131,7 @@ describe("parseDatasetCsv", () => {
       fc.property(fc.uniqueArray(fc.double({ min: -10, max: 10, noNaN: true, noDefaultInfinity: true }), { minLength: 4, maxLength: 40 }), (xsRaw) => {
         const xs = [...xsRaw].map((v) => (Object.is(v, -0) ? 0 : v)).sort((a, b) => a - b);
         if (new Set(xs).size !== xs.length) return;
-        const text = "B,G\n" + xs.map((v, i) => `${v},${i + 1}`).join("\n");
+        const text = csvText(["B", "G"], xs.map((v, i) => [v, i + 1]));
         const d = parseDatasetCsv(text, fieldMap);
         expect(d.x).toEqual(xs);
         expect(d.y).toEqual(xs.map((_, i) => i + 1));

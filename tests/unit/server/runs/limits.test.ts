@@ -1,0 +1,35 @@
+import { describe, expect, it } from "vitest";
+import { assertEnsembleWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/runs/limits";
+import { ApiError } from "@/server/http/errors";
+import { PLANS } from "@/config/plans";
+
+describe("plan limits", () => {
+  const thrown = (fn: () => void) => {
+    try {
+      fn();
+    } catch (e) {
+      return e as ApiError;
+    }
+    throw new Error("expected a refusal");
+  };
+  it("answers 402 on Free naming the limit and its value", () => {
+    const e = thrown(() => assertNetworkWithinPlan("free", { columns: PLANS.free.maxCellsPerSide + 1, rows: 4 }));
+    expect(e.status).toBe(402);
+    expect(e.message).toContain(`maxCellsPerSide = ${PLANS.free.maxCellsPerSide}`);
+    expect(e.details).toMatchObject({ limit: "maxCellsPerSide", value: PLANS.free.maxCellsPerSide, plan: "free" });
+  });
+  it("answers 422 on Lab, where no plan allows more", () => {
+    const e = thrown(() => assertSweepWithinPlan("lab", PLANS.lab.maxSweepPoints + 1, 1));
+    expect(e.status).toBe(422);
+    expect(e.message).toContain("maxSweepPoints");
+  });
+  it("checks the engine's ensemble size", () => {
+    const e = thrown(() => assertEnsembleWithinPlan("free", { computation: { kind: "conductance", ensemble: { samples: PLANS.free.maxEnsembleSamples + 1 } } }));
+    expect(e.details).toMatchObject({ limit: "maxEnsembleSamples" });
+    expect(() => assertEnsembleWithinPlan("free", { computation: { kind: "conductance" } })).not.toThrow();
+    expect(() => assertNetworkWithinPlan("free", { columns: 40, rows: 40 })).not.toThrow();
+  });
+  it("gives Lab jobs a higher queue priority than Free (lower number)", () => {
+    expect(queuePriority("lab")).toBeLessThan(queuePriority("free"));
+  });
+});
