@@ -12,9 +12,9 @@ function sides(f: number, l: number, r: number): [number, number, number] {
   return [Math.sqrt(f * r), Math.sqrt(l * f), Math.sqrt(r * l)];
 }
 
-function reachable(f: number, l: number, r: number): boolean {
+function reachable(f: number, l: number, r: number, tolerance = TRIANGLE_TOLERANCE): boolean {
   const [s1, s2, s3] = sides(f, l, r);
-  return s1 <= s2 + s3 + TRIANGLE_TOLERANCE && s2 <= s1 + s3 + TRIANGLE_TOLERANCE && s3 <= s1 + s2 + TRIANGLE_TOLERANCE;
+  return s1 <= s2 + s3 + tolerance && s2 <= s1 + s3 + tolerance && s3 <= s1 + s2 + tolerance;
 }
 
 /**
@@ -25,10 +25,17 @@ export function reachableForwardRange(left: number, right: number, near: number)
   const turn = left + right;
   if (turn <= 0) return { min: 1, max: 1 };
   const t = left / turn;
-  const ok = (f: number) => reachable(f, (1 - f) * t, (1 - f) * (1 - t));
+  // No tolerance here: every forward inside the reported range closes its triangle exactly.
+  const ok = (f: number) => reachable(f, (1 - f) * t, (1 - f) * (1 - t), 0);
   const N = 4000;
+  // forward = 1 (no turning at all) is always reachable, but for left != right it is an isolated
+  // point: just below it the node is unreachable (|sqrt r - sqrt l| <= sqrt(r l) needs
+  // 1 - f >= (sqrt(1-t) - sqrt t)^2 / (t (1-t))). The last grid point is therefore taken a hair
+  // below 1, so that point cannot join the interval below it across a gap narrower than a step.
+  const TOP = 1 - 1e-12;
+  const at = (i: number) => (i === N ? TOP : i / N);
   const grid: boolean[] = [];
-  for (let i = 0; i <= N; i++) grid.push(ok(i / N));
+  for (let i = 0; i <= N; i++) grid.push(ok(at(i)));
   // intervals of reachable grid points
   const intervals: [number, number][] = [];
   for (let i = 0; i <= N; i++) {
@@ -48,7 +55,7 @@ export function reachableForwardRange(left: number, right: number, near: number)
   let best = intervals[0];
   for (const iv of intervals) if (near >= iv[0] / N - 1 / N && near <= iv[1] / N + 1 / N) best = iv;
   const min = best[0] === 0 ? 0 : refine((best[0] - 1) / N, best[0] / N);
-  const max = best[1] === N ? 1 : refine(best[1] / N, (best[1] + 1) / N);
+  const max = best[1] === N ? 1 : refine(best[1] / N, at(best[1] + 1));
   return { min, max };
 }
 

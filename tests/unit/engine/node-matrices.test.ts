@@ -75,3 +75,23 @@ describe("check 2: unitarity of every node matrix", () => {
     expect(checkExplicitNodeMatrix([[[1, 0], [0, 0]], [[0, 0], [1, 0]]], 3)).toMatch(/3 x 3/);
   });
 });
+
+describe("reachable forward range near forward = 1", () => {
+  // Exact bound, derived by hand from the triangle inequality of the circulant amplitudes
+  // (physics.md section 2): |sqrt(f r) - sqrt(f l)| <= sqrt(r l) with l = (1-f) t, r = (1-f)(1-t)
+  // gives f / (1 - f) <= t (1-t) / (sqrt(1-t) - sqrt t)^2, so for t != 1/2 the range ends at
+  // f_max = 1 / (1 + (sqrt(1-t) - sqrt t)^2 / (t (1-t))); forward = 1 itself is an isolated point.
+  const fMax = (t: number) => 1 / (1 + (Math.sqrt(1 - t) - Math.sqrt(t)) ** 2 / (t * (1 - t)));
+  it("matches the exact bound when the gap below 1 is narrower than the search grid", () => {
+    for (const t of [0.4944, 0.4955, 0.4962, 0.4975, 0.499, 0.45, 0.3]) {
+      const range = reachableForwardRange(t, 1 - t, 0.9);
+      expect(range.max).toBeCloseTo(fMax(t), 9);
+      expect(range.max).toBeLessThan(1);
+      const f = range.max - 1e-9;
+      expect(checkTriangularNode(f, (1 - f) * t, (1 - f) * (1 - t))).toBeNull();
+    }
+  });
+  it("reaches 1 for left = right", () => {
+    expect(reachableForwardRange(0.5, 0.5, 0.9).max).toBe(1);
+  });
+});
