@@ -15,7 +15,7 @@ import { getDb } from "@/server/db";
 import { networkVersions, runs, sweeps } from "@/server/db/schema";
 import { ApiError, zodToApiError } from "@/server/http/errors";
 import { isUuid } from "@/server/networks/service";
-import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/runs/cursor";
+import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
 import { enqueueAfterCommit } from "@/server/runs/enqueue";
 import { ENGINE_VERSION, applyParameter, estimateSeconds, inputHash, kindOf, networkSize, parseInput, sweepableParameters, type ComputeInput } from "@/server/runs/engine";
 import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/runs/limits";

@@ -4,7 +4,7 @@ import { deriveSweepStatus } from "@/server/sweeps/progress";
 import { assertEnsembleWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/runs/limits";
 import { ApiError } from "@/server/http/errors";
 import { PLANS } from "@/config/plans";
-import { decodeCursor, encodeCursor, pageLimit } from "@/server/runs/cursor";
+import { decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
 
 describe("sweep axes", () => {
   it("spaces `from, to, points` evenly and ends exactly at `to`", () => {
