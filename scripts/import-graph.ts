@@ -22,7 +22,7 @@ const EXTENSIONS = [".ts", ".tsx", ".mts", ".js", ".mjs"];
 export interface ImportEdge {
   /** The specifier as written. */
   specifier: string;
-  /** Absolute path of the imported source file, or null for a package / Node built-in / unresolved file. */
+  /** Absolute path of the imported file, or null for a package or Node built-in (a local path that names no file throws). */
   resolved: string | null;
   /** Erased at compile time (`import type`, `export type`, or every named binding marked `type`). */
   typeOnly: boolean;
@@ -58,7 +58,10 @@ export function importsOf(file: string): ImportEdge[] {
   const source = ts.createSourceFile(file, readFileSync(file, "utf8"), ts.ScriptTarget.Latest, true, file.endsWith(".tsx") ? ts.ScriptKind.TSX : ts.ScriptKind.TS);
   const edges: ImportEdge[] = [];
   const add = (specifier: string, typeOnly: boolean) => {
-    edges.push({ specifier, resolved: isLocal(specifier) ? resolveSpecifier(file, specifier) : null, typeOnly });
+    const resolved = isLocal(specifier) ? resolveSpecifier(file, specifier) : null;
+    // A local import that names no file would hide an edge: refuse it (the tree would not compile either).
+    if (isLocal(specifier) && !resolved) throw new Error(`${relative(file)}: cannot resolve the import "${specifier}"`);
+    edges.push({ specifier, resolved, typeOnly });
   };
   const visit = (node: ts.Node) => {
     if (ts.isImportDeclaration(node) && ts.isStringLiteral(node.moduleSpecifier)) {
