@@ -8,6 +8,7 @@ import { computeCostUsd } from "@/config/plans";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
 import { assertWithinBudget } from "@/server/billing/budget";
+import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan, queuePriority } from "@/server/billing/limits";
 import { getDb } from "@/server/db";
 import { networkVersions, runs } from "@/server/db/schema";
 import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
@@ -15,7 +16,6 @@ import { ApiError, zodToApiError } from "@/server/http/errors";
 import { isUuid, resolveNetwork } from "@/server/networks/service";
 import { enqueueAfterCommit } from "./enqueue";
 import { estimateSeconds, inputHash, kindOf, networkSize, parseInput, type ComputeInput } from "./engine";
-import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan, queuePriority } from "./limits";
 
 export const RUN_STATUSES = ["queued", "running", "succeeded", "failed", "cancelled"] as const;
 export type RunStatus = (typeof RUN_STATUSES)[number];

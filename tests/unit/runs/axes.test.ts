@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { axesSchema, gridIndices, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, unitOf } from "@/server/sweeps/axes";
 import { deriveSweepStatus } from "@/server/sweeps/progress";
-import { assertEnsembleWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/runs/limits";
+import { assertEnsembleWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/billing/limits";
 import { ApiError } from "@/server/http/errors";
 import { PLANS } from "@/config/plans";
 import { decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
