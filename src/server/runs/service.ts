@@ -11,11 +11,11 @@ import { assertWithinBudget } from "@/server/billing/budget";
 import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan, queuePriority } from "@/server/billing/limits";
 import { getDb } from "@/server/db";
 import { networkVersions, runs } from "@/server/db/schema";
+import { estimateSeconds, inputHash, kindOf, networkSize, parseInput, type ComputeInput } from "@/server/engine";
 import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
 import { isUuid, resolveNetwork } from "@/server/networks/service";
 import { enqueueAfterCommit } from "./enqueue";
-import { estimateSeconds, inputHash, kindOf, networkSize, parseInput, type ComputeInput } from "./engine";
 
 export const RUN_STATUSES = ["queued", "running", "succeeded", "failed", "cancelled"] as const;
 export type RunStatus = (typeof RUN_STATUSES)[number];
