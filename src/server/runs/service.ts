@@ -16,6 +16,7 @@ import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } fr
 import { ApiError, zodToApiError } from "@/server/http/errors";
 import { isUuid, resolveNetwork } from "@/server/networks/service";
 import { enqueueAfterCommit } from "./enqueue";
+import { refreshSweep } from "./sweep-progress";
 
 export const RUN_STATUSES = ["queued", "running", "succeeded", "failed", "cancelled"] as const;
 export type RunStatus = (typeof RUN_STATUSES)[number];
@@ -223,6 +224,5 @@ export async function cancelRun(caller: Caller, id: string) {
 }
 
 async function refreshSweepAfterCancel(sweepId: string) {
-  const { refreshSweep } = await import("@/server/sweeps/progress");
   await getDb().transaction((tx) => refreshSweep(tx, sweepId));
 }

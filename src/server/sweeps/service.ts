@@ -20,8 +20,8 @@ import { ApiError, zodToApiError } from "@/server/http/errors";
 import { isUuid } from "@/server/networks/service";
 import { enqueueAfterCommit } from "@/server/runs/enqueue";
 import { RUN_STATUSES, resolveSubmission } from "@/server/runs/service";
+import { deriveSweepStatus, refreshSweep, type SweepCounts } from "@/server/runs/sweep-progress";
 import { axesSchema, ensembleSchema, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, unitOf, type Ensemble, type ResolvedAxis } from "./axes";
-import { deriveSweepStatus, refreshSweep, type SweepCounts } from "./progress";
 
 export const sweepBody = z
   .object({
