@@ -2,7 +2,7 @@
  * Plan figures (product.md "Plans"; demo figures, invented). Kept here as configuration:
  * code reads limits from this table, never from literals.
  */
-import { COST_CONSTANTS } from "@/engine/cost-constants";
+import { COST_CONSTANTS } from "@/engine/browser";
 
 export type PlanId = "free" | "lab";
 

@@ -3,11 +3,9 @@
  * so the forms validate with exactly what the API validates with. Issues come back keyed by
  * dotted field path ("node.forward", "size.columns") for inline messages.
  */
-// The schema module is pure (zod only); importing it, not the engine's index, keeps worker and
-// thread-pool code out of the browser bundle.
-import { computationSchema, networkSchema, type ComputeInput } from "@/engine/schema";
-import { estimateCost } from "@/engine/cost";
-import { SWEEPABLE_PARAMETERS } from "@/engine/parameters";
+// The engine's browser-safe entry (no Node built-ins, no native addon, no compute code); the
+// engine's index would bring the kernel backend and node:crypto into the browser bundle.
+import { computationSchema, estimateCost, networkSchema, SWEEPABLE_PARAMETERS, type ComputeInput } from "@/engine/browser";
 
 export type Issues = Record<string, string>;
 

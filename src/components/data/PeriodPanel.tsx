@@ -1,7 +1,7 @@
 "use client";
 
 import { useMutation } from "@tanstack/react-query";
-import { FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM } from "@/engine/constants";
+import { FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM } from "@/engine/browser";
 import { apiFetch } from "@/lib/api";
 import { sigText } from "@/lib/units";
 import { XYChart } from "@/components/charts/XYChart";

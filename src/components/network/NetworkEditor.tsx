@@ -7,7 +7,7 @@ import { apiFetch, ApiClientError, type NetworkRecord } from "@/lib/api";
 import { validateNetwork, type Issues } from "@/lib/engineClient";
 import { qk } from "@/lib/queryKeys";
 import { checkTriple } from "@/lib/ternary";
-import { GRAPHENE_LATTICE_NM, periodFromTwistNm, twistFromPeriodDegrees } from "@/engine/constants";
+import { GRAPHENE_LATTICE_NM, periodFromTwistNm, twistFromPeriodDegrees } from "@/engine/browser";
 import { num } from "@/lib/units";
 import { Field, NumberInput, Select } from "@/components/ui/Field";
 import { useMe } from "@/components/shell/useMe";

@@ -1,6 +1,6 @@
 /** Editing state of a network description (engine schema v1) and helpers around it. */
 import type { NetworkShape } from "@/lib/lattice";
-import { periodFromTwistNm } from "@/engine/constants";
+import { periodFromTwistNm } from "@/engine/browser";
 
 export type NetworkDraft = Record<string, any>;
 

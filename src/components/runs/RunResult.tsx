@@ -1,7 +1,7 @@
 "use client";
 
 import { useMemo } from "react";
-import { CONDUCTANCE_QUANTUM_S } from "@/engine/constants";
+import { CONDUCTANCE_QUANTUM_S } from "@/engine/browser";
 import { num, withUnit } from "@/lib/units";
 import { BandChart } from "@/components/charts/BandChart";
 import { Histogram } from "@/components/charts/Histogram";

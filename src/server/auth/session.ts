@@ -15,7 +15,7 @@ import {
   userByClerkId,
   workspaceByClerkOrg,
   type UserRow,
-} from "@/server/workspaces/sync";
+} from "./sync";
 import type { Caller } from "./index";
 import { roleFromClerk } from "./roles";
 

@@ -17,7 +17,7 @@ import {
   upsertUser,
   userByClerkId,
   workspaceByClerkOrg,
-} from "@/server/workspaces/sync";
+} from "./sync";
 import { roleFromClerk } from "./roles";
 
 /** Signatures older or newer than this are refused (replays). */

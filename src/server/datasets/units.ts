@@ -2,7 +2,7 @@
  * Units a dataset's columns may be given in, and their conversion into the engine's units.
  * Pure; no I/O. The conductance quantum e^2/h is the engine's (src/engine/constants.ts, exact SI).
  */
-import { CONDUCTANCE_QUANTUM_S } from "@/engine/constants";
+import { CONDUCTANCE_QUANTUM_S } from "@/engine/browser";
 
 export const X_UNITS = ["T", "mT", "V", "cm^-2"] as const;
 export type XUnit = (typeof X_UNITS)[number];

@@ -7,12 +7,12 @@ import { and, desc, eq, inArray, sql } from "drizzle-orm";
 import { z } from "zod";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
+import { assertNetworkWithinPlan } from "@/server/billing/limits";
 import { getDb } from "@/server/db";
 import { networks, networkVersions, runs, sweeps } from "@/server/db/schema";
+import { networkSize, parseNetworkDefinition } from "@/server/engine";
+import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
-import { assertNetworkWithinPlan } from "@/server/runs/limits";
-import { networkSize, parseNetworkDefinition } from "@/server/runs/engine";
-import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/runs/cursor";
 
 const nameSchema = z.string().trim().min(1, "must not be empty").max(200, "at most 200 characters");
 const uuidLike = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;

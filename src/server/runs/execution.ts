@@ -6,7 +6,7 @@
 import { sql } from "drizzle-orm";
 import { billingPeriod } from "@/server/billing/budget";
 import { getDb } from "@/server/db";
-import { refreshSweep } from "@/server/sweeps/progress";
+import { refreshSweep } from "./sweep-progress";
 
 /** Run kinds the engine computes on the `runs` queue (other modules may keep companion rows of their own kinds). */
 export const ENGINE_RUN_KINDS = ["conductance", "spectrum", "dos", "ldos", "localization"] as const;

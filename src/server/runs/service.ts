@@ -8,14 +8,15 @@ import { computeCostUsd } from "@/config/plans";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
 import { assertWithinBudget } from "@/server/billing/budget";
+import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan, queuePriority } from "@/server/billing/limits";
 import { getDb } from "@/server/db";
 import { networkVersions, runs } from "@/server/db/schema";
+import { estimateSeconds, inputHash, kindOf, networkSize, parseInput, type ComputeInput } from "@/server/engine";
+import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
 import { isUuid, resolveNetwork } from "@/server/networks/service";
-import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "./cursor";
 import { enqueueAfterCommit } from "./enqueue";
-import { estimateSeconds, inputHash, kindOf, networkSize, parseInput, type ComputeInput } from "./engine";
-import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan, queuePriority } from "./limits";
+import { refreshSweep } from "./sweep-progress";
 
 export const RUN_STATUSES = ["queued", "running", "succeeded", "failed", "cancelled"] as const;
 export type RunStatus = (typeof RUN_STATUSES)[number];
@@ -223,6 +224,5 @@ export async function cancelRun(caller: Caller, id: string) {
 }
 
 async function refreshSweepAfterCancel(sweepId: string) {
-  const { refreshSweep } = await import("@/server/sweeps/progress");
   await getDb().transaction((tx) => refreshSweep(tx, sweepId));
 }

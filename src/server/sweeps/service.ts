@@ -11,17 +11,17 @@ import { computeCostUsd } from "@/config/plans";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
 import { assertWithinBudget } from "@/server/billing/budget";
+import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/billing/limits";
 import { getDb } from "@/server/db";
 import { networkVersions, runs, sweeps } from "@/server/db/schema";
+import { ENGINE_VERSION, applyParameter, estimateSeconds, inputHash, kindOf, networkSize, parseInput, sweepableParameters, type ComputeInput } from "@/server/engine";
+import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
 import { isUuid } from "@/server/networks/service";
-import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/runs/cursor";
 import { enqueueAfterCommit } from "@/server/runs/enqueue";
-import { ENGINE_VERSION, applyParameter, estimateSeconds, inputHash, kindOf, networkSize, parseInput, sweepableParameters, type ComputeInput } from "@/server/runs/engine";
-import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/runs/limits";
 import { RUN_STATUSES, resolveSubmission } from "@/server/runs/service";
+import { deriveSweepStatus, refreshSweep, type SweepCounts } from "@/server/runs/sweep-progress";
 import { axesSchema, ensembleSchema, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, unitOf, type Ensemble, type ResolvedAxis } from "./axes";
-import { deriveSweepStatus, refreshSweep, type SweepCounts } from "./progress";
 
 export const sweepBody = z
   .object({

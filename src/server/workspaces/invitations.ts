@@ -10,13 +10,13 @@ import { env } from "@/env";
 import type { Caller } from "@/server/auth";
 import { ROLE_LABELS, type Role } from "@/server/auth/permissions";
 import { CLERK_ROLE_FOR } from "@/server/auth/roles";
+import { membershipRole, setMembership } from "@/server/auth/sync";
 import { getDb } from "@/server/db";
 import { invitations, users, workspaces } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
 import { sendMail } from "@/server/mail";
 import { invitationMail } from "@/server/mail/invitation";
 import { requireMemberChange, seatUse, workspaceOf } from "./members";
-import { membershipRole, setMembership } from "./sync";
 
 const SECRET_PREFIX = "inv_";
 const hashSecret = (s: string) => createHash("sha256").update(s, "utf8").digest("hex");

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { axesSchema, gridIndices, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, unitOf } from "@/server/sweeps/axes";
-import { deriveSweepStatus } from "@/server/sweeps/progress";
+import { deriveSweepStatus } from "@/server/runs/sweep-progress";
 
 describe("sweep axes", () => {
   it("spaces `from, to, points` evenly and ends exactly at `to`", () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { assertEnsembleWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/runs/limits";
+import { assertEnsembleWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/billing/limits";
 import { ApiError } from "@/server/http/errors";
 import { PLANS } from "@/config/plans";
 

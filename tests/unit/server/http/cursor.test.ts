@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { decodeCursor, encodeCursor, pageLimit } from "@/server/runs/cursor";
+import { decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
 
 describe("list cursors", () => {
   it("round-trip and refuse anything else", () => {

@@ -1,7 +1,8 @@
 /**
  * A sweep's status, progress and compute-seconds are derived from its points (child runs).
  * refreshSweep locks the sweep row first, so two workers finishing points at once serialise and
- * the second one counts both.
+ * the second one counts both. Kept with the runs: a point's every change of status (claimed,
+ * finished, cancelled, failed) refreshes its sweep here, and the sweeps module reads it too.
  */
 import { sql } from "drizzle-orm";
 import type { Db } from "@/server/db";

@@ -2,6 +2,7 @@
  * The one place the web app and the worker reach the physics engine (src/engine). Teaches the
  * HTTP layer the engine's typed errors (422 with the field and the message) and answers the
  * questions the submission rules ask: which kind of computation, how large a network.
+ * Its own folder below networks, runs and sweeps, which all use it.
  */
 import {
   ENGINE_VERSION,
