@@ -1,4 +1,19 @@
+import { realpathSync } from "node:fs";
+import path from "node:path";
 import type { NextConfig } from "next";
+
+// Turbopack resolves files only below its root: the project folder, or, when node_modules is a
+// symlink to another checkout (a git worktree sharing one install), the folder holding both.
+function turbopackRoot(dir: string): string {
+  let root = dir;
+  try {
+    const modules = path.dirname(realpathSync(path.join(dir, "node_modules")));
+    while (path.relative(root, modules).startsWith("..")) root = path.dirname(root);
+  } catch {
+    // no node_modules yet: the project folder
+  }
+  return root;
+}
 
 // NEXT_DIST_DIR lets the test command build into its own folder, so a developer's running
 // instance (.next) and a test run never overwrite each other.
@@ -33,7 +48,7 @@ const nextConfig: NextConfig = {
   distDir: process.env.NEXT_DIST_DIR || ".next",
   reactStrictMode: true,
   poweredByHeader: false,
-  turbopack: { root: import.meta.dirname },
+  turbopack: { root: turbopackRoot(import.meta.dirname) },
   serverExternalPackages: ["piscina", "bullmq", "ioredis", "postgres"],
   // scripts/lib.sh (build_web) writes tsconfig.next.json for each build folder, so builds never
   // rewrite the committed tsconfig.json; a plain `next build` uses tsconfig.json.
