@@ -8,8 +8,8 @@ import { qk } from "@/lib/queryKeys";
 import { XYChart } from "@/components/charts/XYChart";
 import { Field } from "@/components/ui/Field";
 import { PageHeader } from "@/components/ui/Page";
-import { DATASET_MAX_BYTES, DatasetCsvError, parseDatasetCsv, previewCsv, type ColumnMapping, type CsvIssue } from "@/server/datasets/csv";
-import { isXUnit, isYUnit, X_UNIT_INFO, X_UNITS, Y_UNIT_INFO, Y_UNITS, type XUnit, type YUnit } from "@/server/datasets/units";
+import { DATASET_MAX_BYTES, DatasetCsvError, parseDatasetCsv, previewCsv, type ColumnMapping, type CsvIssue } from "@/shared/csv";
+import { isXUnit, isYUnit, X_UNIT_INFO, X_UNITS, Y_UNIT_INFO, Y_UNITS, type XUnit, type YUnit } from "@/shared/units";
 
 type Preview = ReturnType<typeof previewCsv>;
 

@@ -10,9 +10,9 @@ import { requirePermission } from "@/server/auth";
 import { getDb } from "@/server/db";
 import { datasets } from "@/server/db/schema";
 import { ApiError, zodToApiError } from "@/server/http/errors";
-import { DATASET_MAX_BYTES, DatasetCsvError, parseDatasetCsv, type ColumnMapping, type ParsedDataset } from "./csv";
+import { DATASET_MAX_BYTES, DatasetCsvError, parseDatasetCsv, type ColumnMapping, type ParsedDataset } from "@/shared/csv";
+import { X_UNITS, Y_UNITS } from "@/shared/units";
 import { analysePeriod, PeriodAnalysisError } from "./period";
-import { X_UNITS, Y_UNITS } from "./units";
 
 export const uploadFields = z.object({
   name: z.string().trim().min(1, "give the dataset a name").max(200, "at most 200 characters"),

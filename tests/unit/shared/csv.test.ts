@@ -1,9 +1,9 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
-import { DatasetCsvError, parseDatasetCsv, previewCsv, type ColumnMapping } from "@/server/datasets/csv";
+import { DatasetCsvError, parseDatasetCsv, previewCsv, type ColumnMapping } from "@/shared/csv";
 import { CONDUCTANCE_QUANTUM_S } from "@/engine/constants";
-import { convertY, Y_UNIT_INFO } from "@/server/datasets/units";
-import { csvText } from "../../../support/csv";
+import { convertY, Y_UNIT_INFO } from "@/shared/units";
+import { csvText } from "../../support/csv";
 
 const fieldMap: ColumnMapping = { xColumn: "B", xUnit: "T", yColumn: "G", yUnit: "e2/h" };
 
