@@ -6,7 +6,7 @@ import { useState } from "react";
 import { ApiClientError, apiFetch } from "@/lib/api";
 import { qk } from "@/lib/queryKeys";
 import { LK07_COMPUTATION, LK07_FIT_START, LK07_NAME, LK07_NETWORK } from "@/server/demo/lk07";
-import { FIT_PARAMETERS } from "@/server/fits/parameters";
+import { FIT_PARAMETERS } from "@/shared/fit-parameters";
 
 type Row = { on: boolean; initial: string; min: string; max: string };
 

@@ -12,8 +12,8 @@ export interface EngineLike {
   applyParameter(input: never, parameter: string, value: number): unknown;
 }
 
-export { FIT_PARAMETERS, FITTABLE, SWEEP_FOR_QUANTITY } from "./parameters";
-import { FITTABLE } from "./parameters";
+export { FIT_PARAMETERS, FITTABLE, SWEEP_FOR_QUANTITY } from "@/shared/fit-parameters";
+import { FITTABLE } from "@/shared/fit-parameters";
 
 /**
  * The two-terminal conductance in e^2/h from an engine conductance result, including the series

@@ -1,5 +1,7 @@
-/** What a fit may adjust (client-safe: the fit form reads it too). */
-/** Parameters a fit may adjust, with the bounds and starting values the form proposes. */
+/**
+ * What a fit may adjust: the parameters, with the bounds and starting values the fit form proposes
+ * (src/components/data/FitForm.tsx); the server accepts only these names (src/server/fits/model.ts).
+ */
 export const FIT_PARAMETERS: { parameter: string; label: string; unit: string; initial: number; min: number; max: number }[] = [
   { parameter: "node.forward", label: "node forward probability (left and right keep their ratio)", unit: "", initial: 0.6, min: 0.12, max: 0.98 },
   { parameter: "modeVelocityMps", label: "mode velocity", unit: "m/s", initial: 1.0e6, min: 1e5, max: 3e6 },
