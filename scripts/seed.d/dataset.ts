@@ -6,7 +6,8 @@ import { join } from "node:path";
 import { and, eq } from "drizzle-orm";
 import { datasets } from "../../src/server/db/schema";
 import { insertDataset } from "../../src/server/datasets/service";
-import { LK07_DESCRIPTION, LK07_NAME } from "../../src/server/demo/lk07";
+import { LK07_DESCRIPTION } from "../../src/server/demo/lk07";
+import { LK07_NAME } from "../../src/shared/lk07";
 import type { SeedContext } from "./index";
 
 export const LK07_MAPPING = { xColumn: "B (T)", xUnit: "T", yColumn: "G (e2/h)", yUnit: "e2/h", sigmaColumn: "sigma (e2/h)" } as const;

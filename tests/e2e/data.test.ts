@@ -53,7 +53,7 @@ describe("datasets and fits in the browser", () => {
     await page.locator("[data-testid=period-result]").waitFor();
     await page.locator("[data-chart=period-spectrum] svg path[data-series=spectrum]").waitFor();
     await expect(page.locator("[data-chart=period-spectrum] [data-points=peak] circle").count()).resolves.toBe(1);
-    // Made at 0.11 degrees (src/server/demo/lk07.ts); one flux quantum per triangle.
+    // Made at 0.11 degrees (LK07_NETWORK, src/shared/lk07.ts); one flux quantum per triangle.
     const twist = Number((await page.locator("[data-testid=twist-degrees]").innerText()).replace("°", ""));
     expect(Math.abs(twist - 0.11)).toBeLessThan(0.003);
     await expect(page.getByText("one flux quantum per triangle").isVisible()).resolves.toBe(true);

@@ -8,7 +8,7 @@
 // "ok" means the permission check passed: 2xx, or 409 when the object's state refuses the action
 // (cancelling a finished run, a portal for a workspace without a customer).
 
-import { LK07_COMPUTATION, LK07_FIT_START, LK07_NETWORK } from "../../src/server/demo/lk07";
+import { LK07_COMPUTATION, LK07_FIT_START, LK07_NETWORK } from "../../src/shared/lk07";
 import { datasetForm } from "../support/csv";
 
 export const CALLERS = ["owner", "billingAdmin", "researcher", "viewer", "other", "anonymous", "revoked"] as const;

@@ -5,7 +5,8 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import postgres from "postgres";
 import { api, databaseUrl } from "../support/services";
-import { LK07_COMPUTATION, LK07_FIT_START, LK07_NETWORK, LK07_TRUTH } from "../../src/server/demo/lk07";
+import { LK07_TRUTH } from "../../src/server/demo/lk07";
+import { LK07_COMPUTATION, LK07_FIT_START, LK07_NETWORK } from "../../src/shared/lk07";
 
 const sql = postgres(databaseUrl(), { max: 2, onnotice: () => {} });
 let datasetId = "";

@@ -7,7 +7,7 @@ import fc from "fast-check";
 import postgres from "postgres";
 import { csvText, datasetForm } from "../support/csv";
 import { api, appUrl, databaseUrl, demoTokens, failOnRateLimit } from "../support/services";
-import { LK07_COMPUTATION, LK07_FIT_START, LK07_NETWORK } from "../../src/server/demo/lk07";
+import { LK07_COMPUTATION, LK07_FIT_START, LK07_NETWORK } from "../../src/shared/lk07";
 
 const sql = postgres(databaseUrl(), { max: 2, onnotice: () => {} });
 let workspaceId = "";

@@ -5,7 +5,7 @@ import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { ApiClientError, apiFetch } from "@/lib/api";
 import { qk } from "@/lib/queryKeys";
-import { LK07_COMPUTATION, LK07_FIT_START, LK07_NAME, LK07_NETWORK } from "@/server/demo/lk07";
+import { LK07_COMPUTATION, LK07_FIT_START, LK07_NAME, LK07_NETWORK } from "@/shared/lk07";
 import { FIT_PARAMETERS } from "@/shared/fit-parameters";
 
 type Row = { on: boolean; initial: string; min: string; max: string };

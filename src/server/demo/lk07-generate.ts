@@ -9,7 +9,8 @@ import { writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { ENGINE_VERSION, applyParameter, compute, parseComputeInput } from "@/engine";
 import { CONDUCTANCE_QUANTUM_S } from "@/engine/constants";
-import { LK07_COMPUTATION, LK07_FIELD_RANGE_TESLA, LK07_NAME, LK07_NETWORK, LK07_NOISE, LK07_POINTS } from "./lk07";
+import { LK07_COMPUTATION, LK07_NAME, LK07_NETWORK } from "@/shared/lk07";
+import { LK07_FIELD_RANGE_TESLA, LK07_NOISE, LK07_POINTS } from "./lk07";
 
 function gaussian(seed: number) {
   let a = seed >>> 0;
