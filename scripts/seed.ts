@@ -9,7 +9,7 @@ import { closeDb, getDb } from "../src/server/db";
 import { apiTokens, memberships, networks, networkVersions, users, workspaces } from "../src/server/db/schema";
 import { DEMO_LAB, DEMO_NETWORKS, DEMO_PEOPLE, type DemoPerson } from "../src/server/demo/scenario";
 import { displayPrefix, hashToken, newTokenSecret } from "../src/server/auth/tokens";
-import type { Role } from "../src/server/auth/permissions";
+import type { Role } from "../src/shared/permissions";
 import { runSeedExtensions } from "./seed.d/index";
 
 loadEnvOrExit();

@@ -3,10 +3,10 @@ import { getDb } from "@/server/db";
 import { apiTokens, memberships, workspaces } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
 import { consumeRateLimit } from "@/server/http/rate-limit";
-import { can, describeAction, lesserRole, rolesAllowed, ROLE_LABELS, type Action, type Role } from "./permissions";
+import { can, describeAction, lesserRole, rolesAllowed, ROLE_LABELS, type Action, type Role } from "@/shared/permissions";
 import { hashToken, looksLikeToken } from "./tokens";
 
-export type { Action, Role } from "./permissions";
+export type { Action, Role } from "@/shared/permissions";
 
 /** Who is calling, in which workspace, with which role. Every server module takes one. */
 export interface Caller {

@@ -4,7 +4,7 @@
  * Clerk's built-in `org:admin` and `org:member` are understood too (as Owner and Viewer), so an
  * instance that still has the defaults works, with the least rights for plain members.
  */
-import type { Role } from "./permissions";
+import type { Role } from "@/shared/permissions";
 
 export const CLERK_ROLE_FOR: Record<Role, string> = {
   owner: "org:owner",

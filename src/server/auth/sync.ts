@@ -6,7 +6,7 @@
 import { and, eq } from "drizzle-orm";
 import { getDb } from "@/server/db";
 import { memberships, users, workspaces } from "@/server/db/schema";
-import type { Role } from "./permissions";
+import type { Role } from "@/shared/permissions";
 
 export type UserRow = typeof users.$inferSelect;
 export type WorkspaceRow = typeof workspaces.$inferSelect;

@@ -2,7 +2,7 @@
  * The demo scenario of product.md: invented people and a fictional lab. Shared by the database
  * seed (scripts/seed.ts) and the sign-in stand-in (fakes/clerk), so both know the same people.
  */
-import type { Role } from "@/server/auth/permissions";
+import type { Role } from "@/shared/permissions";
 
 export interface DemoPerson {
   key: "owner" | "billingAdmin" | "researcher" | "researcher2" | "viewer" | "student";

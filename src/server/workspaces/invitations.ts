@@ -8,7 +8,6 @@ import { and, desc, eq, gt, isNull } from "drizzle-orm";
 import { clerkClient } from "@clerk/nextjs/server";
 import { env } from "@/env";
 import type { Caller } from "@/server/auth";
-import { ROLE_LABELS, type Role } from "@/server/auth/permissions";
 import { CLERK_ROLE_FOR } from "@/server/auth/roles";
 import { membershipRole, setMembership } from "@/server/auth/sync";
 import { getDb } from "@/server/db";
@@ -16,6 +15,7 @@ import { invitations, users, workspaces } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
 import { sendMail } from "@/server/mail";
 import { invitationMail } from "@/server/mail/invitation";
+import { ROLE_LABELS, type Role } from "@/shared/permissions";
 import { requireMemberChange, seatUse, workspaceOf } from "./members";
 
 const SECRET_PREFIX = "inv_";

@@ -7,11 +7,11 @@ import { and, asc, eq, isNull, gt, sql } from "drizzle-orm";
 import { clerkClient } from "@clerk/nextjs/server";
 import { PLANS } from "@/config/plans";
 import { can, requirePermission, type Caller } from "@/server/auth";
-import { ROLE_LABELS, ROLES, rolesAllowed, type Action, type Role } from "@/server/auth/permissions";
 import { CLERK_ROLE_FOR } from "@/server/auth/roles";
 import { getDb } from "@/server/db";
 import { invitations, memberships, users, workspaces } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
+import { ACTIONS, ROLE_LABELS, ROLES, rolesAllowed, type Action, type Role } from "@/shared/permissions";
 
 /** Roles a Billing admin may invite or remove (seats only). */
 export const SEAT_ROLES: readonly Role[] = ["researcher", "viewer"];
@@ -25,7 +25,7 @@ export async function workspaceOf(caller: Caller) {
 export async function describeWorkspace(caller: Caller) {
   const ws = await workspaceOf(caller);
   const [me] = await getDb().select({ email: users.email, name: users.name, clerkUserId: users.clerkUserId }).from(users).where(eq(users.id, caller.userId));
-  const actions = Object.fromEntries((["results.view", "work.create", "work.manageOthers", "members.manage", "members.seats", "seats.manage", "billing.manage", "usage.view", "tokens.own"] as Action[]).map((a) => [a, can(caller.role, a)]));
+  const actions = Object.fromEntries(ACTIONS.map((a) => [a, can(caller.role, a)])) as Record<Action, boolean>;
   return {
     workspace: { id: ws.id, name: ws.name, slug: ws.slug, kind: ws.kind, plan: ws.plan, seats: ws.seats, clerkOrgId: ws.clerkOrgId },
     member: { id: caller.userId, email: me?.email ?? null, name: me?.name ?? "", role: caller.role, roleLabel: ROLE_LABELS[caller.role] },

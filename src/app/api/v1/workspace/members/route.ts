@@ -1,7 +1,7 @@
 import { NextResponse } from "next/server";
 import { z } from "zod";
 import { can, getCaller } from "@/server/auth";
-import { ROLES } from "@/server/auth/permissions";
+import { ROLES } from "@/shared/permissions";
 import { readJson, route, zodToApiError } from "@/server/http/errors";
 import { invite, listInvitations } from "@/server/workspaces/invitations";
 import { listMembers, seatUse } from "@/server/workspaces/members";

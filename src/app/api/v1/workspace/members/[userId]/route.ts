@@ -1,7 +1,7 @@
 import { NextResponse } from "next/server";
 import { z } from "zod";
 import { getCaller } from "@/server/auth";
-import { ROLES } from "@/server/auth/permissions";
+import { ROLES } from "@/shared/permissions";
 import { ApiError, readJson, route, zodToApiError } from "@/server/http/errors";
 import { changeRole, removeMember } from "@/server/workspaces/members";
 

@@ -1,5 +1,6 @@
 /**
- * Who may do what (product.md, "Roles"): the one table every route and server action consults.
+ * Who may do what (product.md, "Roles"): the one table every route and server action consults
+ * (src/server/auth: requirePermission) and the browser reads too (src/components/shell/useMe.ts).
  * The UI hides what a role cannot do; the server refuses it regardless.
  */
 export const ROLES = ["owner", "billing_admin", "researcher", "viewer"] as const;
@@ -12,16 +13,18 @@ export const ROLE_LABELS: Record<Role, string> = {
   viewer: "Viewer",
 };
 
-export type Action =
-  | "results.view" // see networks, runs, sweeps, datasets, fits and their results
-  | "work.create" // create networks, runs, sweeps, datasets, fits
-  | "work.manageOthers" // cancel or delete another member's runs, sweeps, networks
-  | "members.manage" // invite or remove members, change roles
-  | "members.seats" // invite or remove Researchers and Viewers (a Billing admin fills and frees seats)
-  | "seats.manage" // change the number of seats
-  | "billing.manage" // plan, payment, spend cap, invoices
-  | "usage.view" // compute use per member
-  | "tokens.own"; // create and revoke one's own API tokens
+export const ACTIONS = [
+  "results.view", // see networks, runs, sweeps, datasets, fits and their results
+  "work.create", // create networks, runs, sweeps, datasets, fits
+  "work.manageOthers", // cancel or delete another member's runs, sweeps, networks
+  "members.manage", // invite or remove members, change roles
+  "members.seats", // invite or remove Researchers and Viewers (a Billing admin fills and frees seats)
+  "seats.manage", // change the number of seats
+  "billing.manage", // plan, payment, spend cap, invoices
+  "usage.view", // compute use per member
+  "tokens.own", // create and revoke one's own API tokens
+] as const;
+export type Action = (typeof ACTIONS)[number];
 
 const TABLE: Record<Action, readonly Role[]> = {
   "results.view": ["owner", "billing_admin", "researcher", "viewer"],

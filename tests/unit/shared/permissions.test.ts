@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { can, lesserRole, tokenRolesFor } from "@/server/auth/permissions";
+import { ACTIONS, can, describeAction, lesserRole, ROLES, rolesAllowed, tokenRolesFor } from "@/shared/permissions";
 
 // The expected values are the Roles table of product.md, copied by hand.
 describe("role permissions (product.md, Roles)", () => {
@@ -18,6 +18,17 @@ describe("role permissions (product.md, Roles)", () => {
     expect(can("billing_admin", "seats.manage")).toBe(true);
     expect(can("owner", "work.manageOthers")).toBe(true);
     expect(can("researcher", "work.manageOthers")).toBe(false);
+  });
+
+  it("ACTIONS lists each action of the table once; the Owner may do all of them, a Viewer only look", () => {
+    expect(new Set(ACTIONS).size).toBe(ACTIONS.length);
+    expect(ACTIONS.length).toBe(9);
+    for (const a of ACTIONS) {
+      expect(can("owner", a), a).toBe(true);
+      expect(rolesAllowed(a).every((r) => ROLES.includes(r)), a).toBe(true);
+      expect(describeAction(a), a).toMatch(/\w/);
+    }
+    expect(ACTIONS.filter((a) => can("viewer", a))).toEqual(["results.view", "usage.view", "tokens.own"]);
   });
 
   it("a token never outranks its member", () => {
