@@ -1,10 +1,10 @@
 // Creates, idempotently, the Stripe objects Triskel bills with: the billing meter
 // (compute_seconds, sum), the seat product with its per-seat monthly price, and the compute
 // product with its metered price on that meter. The Free plan is "no subscription", so it needs
-// nothing. Figures come from src/config/plans.ts. Safe to run again: it changes nothing that
+// nothing. Figures come from src/shared/plans.ts. Safe to run again: it changes nothing that
 // already matches, and moves a lookup key to a new price when a figure changed.
 import Stripe from "stripe";
-import { PLANS } from "../src/config/plans";
+import { PLANS } from "../src/shared/plans";
 import { loadEnvOrExit } from "../src/env";
 import { STRIPE_OBJECTS } from "../src/server/billing/config";
 import { getStripe } from "../src/server/billing/stripe";

@@ -1,9 +1,9 @@
-// The per-job compute-time cap (src/config/plans.ts maxJobComputeSeconds: Free 10 compute-minutes,
+// The per-job compute-time cap (src/shared/plans.ts maxJobComputeSeconds: Free 10 compute-minutes,
 // Lab 6 compute-hours, the engine's own limit). A run, each sweep point and a whole fit whose
 // estimate is over the cap are refused before anything is written, dry runs too: 402 on Free
 // (naming the Lab plan's cap), 422 on Lab, where no plan allows more. Networks are synthetic.
 import { afterAll, describe, expect, it } from "vitest";
-import { PLANS } from "../../src/config/plans";
+import { PLANS } from "../../src/shared/plans";
 import { csvText, datasetForm } from "../support/csv";
 import { api } from "../support/services";
 import { counts, post, smallNetwork, sql, workspaceId } from "./runs-support";

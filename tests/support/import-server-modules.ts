@@ -1,4 +1,4 @@
-// Imports every server module, config and library module and every API route, as `next build`
+// Imports every server module, shared and library module and every API route, as `next build`
 // does when it collects pages, and prints one JSON line: how many loaded and which threw. Run it
 // with no Triskel variables set (tests/unit/env-usage.test.ts): a module that reads env() at its
 // top level fails here, and would fail a build without the deployment's variables.
@@ -13,7 +13,7 @@ function walk(dir: string): string[] {
   );
 }
 // *-generate.ts files are scripts (they write files when run), not modules of the app.
-const files = [...walk("src/server"), ...walk("src/config"), ...walk("src/lib"), ...walk("src/app").filter((f) => f.endsWith("/route.ts"))].filter((f) => !f.endsWith("-generate.ts"));
+const files = [...walk("src/server"), ...walk("src/shared"), ...walk("src/lib"), ...walk("src/app").filter((f) => f.endsWith("/route.ts"))].filter((f) => !f.endsWith("-generate.ts"));
 const failed: { file: string; error: string }[] = [];
 for (const file of files) {
   try {

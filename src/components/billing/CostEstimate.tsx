@@ -1,4 +1,4 @@
-import { computeCostUsd, PLANS, type PlanId } from "@/config/plans";
+import { computeCostUsd, PLANS, type PlanId } from "@/shared/plans";
 
 /** Compute-seconds and cost of a job before it is submitted (product: show the cost first). */
 export function estimateCost(computeSeconds: number, plan: PlanId): { computeSeconds: number; costUsd: number; note: string } {

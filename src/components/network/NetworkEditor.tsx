@@ -11,7 +11,7 @@ import { GRAPHENE_LATTICE_NM, periodFromTwistNm, twistFromPeriodDegrees } from "
 import { num } from "@/lib/units";
 import { Field, NumberInput, Select } from "@/components/ui/Field";
 import { useMe } from "@/components/shell/useMe";
-import { PLANS } from "@/config/plans";
+import { PLANS } from "@/shared/plans";
 import { defaultNetwork, linkLengthNm, setPath, shapeOf, type NetworkDraft } from "./draft";
 import { NetworkDrawing } from "./NetworkDrawing";
 import { TernaryDiagram } from "./TernaryDiagram";

@@ -1,6 +1,6 @@
 "use client";
 
-import { PLANS, type PlanId } from "@/config/plans";
+import { PLANS, type PlanId } from "@/shared/plans";
 import { CostEstimate, formatComputeSeconds } from "@/components/billing";
 
 /**

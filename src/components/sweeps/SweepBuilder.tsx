@@ -6,7 +6,7 @@ import { useMemo, useState } from "react";
 import { apiFetch, ApiClientError, type NetworkRecord, type SweepAxis, type SweepRecord } from "@/lib/api";
 import { estimateInput, validateComputation } from "@/lib/engineClient";
 import { axisLabel, PARAMETER_UNITS } from "@/lib/units";
-import { PLANS } from "@/config/plans";
+import { PLANS } from "@/shared/plans";
 import { Field, NumberInput, Select } from "@/components/ui/Field";
 import { useMe } from "@/components/shell/useMe";
 import { buildComputation, defaultsFor, FIELDS, isShown, KINDS, type ComputationKind, type FormValues } from "@/components/runs/computations";

@@ -1,5 +1,5 @@
 import { and, eq, sql } from "drizzle-orm";
-import { computeCostUsd, PLANS, type PlanId } from "@/config/plans";
+import { computeCostUsd, PLANS, type PlanId } from "@/shared/plans";
 import { getDb } from "@/server/db";
 import { usageLedger, workspaces } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";

@@ -1,5 +1,5 @@
 /**
- * Billing settings that are not plan figures (those live in src/config/plans.ts): names of the
+ * Billing settings that are not plan figures (those live in src/shared/plans.ts): names of the
  * Stripe objects Triskel creates, the grace period after a failed payment, the meter sender's
  * batches and back-off. Figures here are configuration, read by code, never repeated as literals
  * elsewhere. The sender's pace and lease are environment variables (METER_SENDER_INTERVAL_MS,

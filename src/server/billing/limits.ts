@@ -1,9 +1,9 @@
 /**
- * Plan limits at submission (product.md "Plans"; figures in src/config/plans.ts). On Free, a job
+ * Plan limits at submission (product.md "Plans"; figures in src/shared/plans.ts). On Free, a job
  * over a limit answers 402 (the Lab plan allows more); on Lab, where no plan allows more, 422.
  * The message names the limit and its value.
  */
-import { PLANS, type PlanId } from "@/config/plans";
+import { PLANS, type PlanId } from "@/shared/plans";
 import { ApiError } from "@/server/http/errors";
 
 export type PlanLimitName = "maxCellsPerSide" | "maxSweepPoints" | "maxEnsembleSamples" | "maxJobComputeSeconds";

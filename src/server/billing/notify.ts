@@ -1,5 +1,5 @@
 import { sql } from "drizzle-orm";
-import { computeCostUsd } from "@/config/plans";
+import { computeCostUsd } from "@/shared/plans";
 import { env } from "@/env";
 import { getDb } from "@/server/db";
 import { sendMail } from "@/server/mail";

@@ -1,5 +1,5 @@
 import { count, eq, sql } from "drizzle-orm";
-import { PLANS } from "@/config/plans";
+import { PLANS } from "@/shared/plans";
 import { env } from "@/env";
 import { requirePermission, type Caller } from "@/server/auth";
 import { getDb } from "@/server/db";

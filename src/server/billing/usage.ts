@@ -1,5 +1,5 @@
 import { sql } from "drizzle-orm";
-import { computeCostUsd, type PlanId } from "@/config/plans";
+import { computeCostUsd, type PlanId } from "@/shared/plans";
 import { requirePermission, type Caller } from "@/server/auth";
 import { getDb } from "@/server/db";
 import { ApiError } from "@/server/http/errors";

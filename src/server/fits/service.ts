@@ -4,7 +4,7 @@
  */
 import { and, desc, eq, lt, sql } from "drizzle-orm";
 import { z } from "zod";
-import { computeCostUsd } from "@/config/plans";
+import { computeCostUsd } from "@/shared/plans";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
 import { assertWithinBudget } from "@/server/billing/budget";

@@ -7,7 +7,7 @@
  */
 import { and, asc, desc, eq, sql, type SQL } from "drizzle-orm";
 import { z } from "zod";
-import { computeCostUsd } from "@/config/plans";
+import { computeCostUsd } from "@/shared/plans";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
 import { assertWithinBudget } from "@/server/billing/budget";

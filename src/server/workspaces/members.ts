@@ -5,7 +5,7 @@
  */
 import { and, asc, eq, isNull, gt, sql } from "drizzle-orm";
 import { clerkClient } from "@clerk/nextjs/server";
-import { PLANS } from "@/config/plans";
+import { PLANS } from "@/shared/plans";
 import { can, requirePermission, type Caller } from "@/server/auth";
 import { CLERK_ROLE_FOR } from "@/server/auth/roles";
 import { getDb } from "@/server/db";

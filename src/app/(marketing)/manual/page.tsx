@@ -3,7 +3,7 @@ import Link from "next/link";
 import katex from "katex";
 import "katex/dist/katex.min.css";
 import { Mark } from "@/components/shell/Mark";
-import { PLANS } from "@/config/plans";
+import { PLANS } from "@/shared/plans";
 import { CONDUCTANCE_QUANTUM_S, FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM, periodFromTwistNm, RESISTANCE_QUANTUM_OHM } from "@/engine/constants";
 import { sigLatex } from "@/lib/units";
 

@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { PLANS } from "@/config/plans";
+import { PLANS } from "@/shared/plans";
 
 export const metadata: Metadata = { title: "Pricing" };
 

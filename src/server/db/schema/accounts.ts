@@ -3,7 +3,7 @@ import { index, integer, numeric, pgEnum, pgTable, text, timestamp, uniqueIndex,
 
 /** Member roles, product.md "Roles". */
 export const memberRole = pgEnum("member_role", ["owner", "billing_admin", "researcher", "viewer"]);
-/** Plans, product.md "Plans"; figures live in src/config/plans.ts. */
+/** Plans, product.md "Plans"; figures live in src/shared/plans.ts. */
 export const planName = pgEnum("plan_name", ["free", "lab"]);
 export const workspaceKind = pgEnum("workspace_kind", ["personal", "lab"]);
 /** Billing state of a workspace: `grace` after a failed payment, then back to Free limits. */

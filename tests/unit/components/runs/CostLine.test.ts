@@ -1,10 +1,10 @@
 // The estimate line on the run and sweep forms warns before submitting a job over the plan's
-// per-job compute cap (src/config/plans.ts maxJobComputeSeconds), which the server refuses.
+// per-job compute cap (src/shared/plans.ts maxJobComputeSeconds), which the server refuses.
 import { createElement } from "react";
 import { renderToStaticMarkup } from "react-dom/server";
 import { describe, expect, it } from "vitest";
 import { CostLine } from "../../../../src/components/runs/CostLine";
-import { PLANS } from "../../../../src/config/plans";
+import { PLANS } from "../../../../src/shared/plans";
 
 const html = (props: Parameters<typeof CostLine>[0]) => renderToStaticMarkup(createElement(CostLine, props));
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { assertEnsembleWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/billing/limits";
 import { ApiError } from "@/server/http/errors";
-import { PLANS } from "@/config/plans";
+import { PLANS } from "@/shared/plans";
 
 describe("plan limits", () => {
   const thrown = (fn: () => void) => {

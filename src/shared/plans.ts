@@ -1,6 +1,7 @@
 /**
  * Plan figures (product.md "Plans"; demo figures, invented). Kept here as configuration:
- * code reads limits from this table, never from literals.
+ * code reads limits from this table, never from literals. One table for both sides: the server
+ * enforces it (src/server/billing) and the browser shows it (pricing, cost lines, editor limits).
  */
 import { COST_CONSTANTS } from "@/engine/browser";
 
