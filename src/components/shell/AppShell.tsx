@@ -3,10 +3,11 @@
 import Link from "next/link";
 import { usePathname } from "next/navigation";
 import type { ReactNode } from "react";
+import { ROLE_LABELS, type Role } from "@/shared/permissions";
 import { Mark } from "./Mark";
 import { ThemeSwitch } from "./ThemeSwitch";
 import { WorkspaceSwitcher } from "./WorkspaceSwitcher";
-import { canBill, useMe, type Role } from "./useMe";
+import { canBill, useMe } from "./useMe";
 
 interface NavItem {
   href: string;
@@ -24,8 +25,6 @@ const NAV: NavItem[] = [
   { href: "/workspace", label: "Workspace", hint: "members, API tokens" },
   { href: "/billing", label: "Billing", hint: "plan, seats, spend cap", show: canBill },
 ];
-
-const ROLE_LABEL: Record<Role, string> = { owner: "Owner", billing_admin: "Billing admin", researcher: "Researcher", viewer: "Viewer" };
 
 export function AppShell({ children }: { children: ReactNode }) {
   const pathname = usePathname() ?? "";
@@ -75,7 +74,7 @@ export function AppShell({ children }: { children: ReactNode }) {
           {me.data?.user ? (
             <p className="text-caption text-fg-faint">
               {me.data.user.name || me.data.user.email}
-              {role ? <span className="ml-1 rounded bg-surface px-1 text-micro uppercase tracking-wide text-fg-soft">{ROLE_LABEL[role]}</span> : null}
+              {role ? <span className="ml-1 rounded bg-surface px-1 text-micro uppercase tracking-wide text-fg-soft">{ROLE_LABELS[role]}</span> : null}
             </p>
           ) : null}
         </div>

@@ -3,14 +3,16 @@
 import { useQuery } from "@tanstack/react-query";
 import { apiFetch } from "@/lib/api";
 import { qk } from "@/lib/queryKeys";
+import { can, type Role } from "@/shared/permissions";
+import type { PlanId } from "@/shared/plans";
+import type { WorkspaceDescription } from "@/shared/workspace";
 
-export type Role = "owner" | "billing_admin" | "researcher" | "viewer";
+export type { Role } from "@/shared/permissions";
 
 export interface Me {
-  user?: { id?: string; name?: string | null; email?: string | null };
-  workspace?: { id: string; name: string; plan?: "free" | "lab" };
-  role?: Role;
-  workspaces?: { id: string; name: string; role?: Role; plan?: string }[];
+  user: { id: string; name: string | null; email: string | null };
+  workspace: { id: string; name: string; plan: PlanId };
+  role: Role;
 }
 
 /**
@@ -20,37 +22,21 @@ export interface Me {
 export function useMe() {
   return useQuery({
     queryKey: qk.me,
-    queryFn: async (): Promise<Me> => {
-      const raw = await apiFetch<Record<string, unknown>>("/api/v1/workspace");
-      return normaliseMe(raw);
-    },
+    queryFn: async (): Promise<Me> => normaliseMe(await apiFetch<WorkspaceDescription>("/api/v1/workspace")),
     staleTime: 60_000,
   });
 }
 
-export function normaliseMe(raw: Record<string, unknown>): Me {
-  const r = raw as Record<string, any>;
-  // GET /api/v1/workspace: { workspace: { id, name, plan, kind }, member: { id, email, name, role }, can }
-  if (r.member && r.workspace) {
-    return {
-      user: { id: r.member.id, name: r.member.name || null, email: r.member.email },
-      workspace: { id: r.workspace.id, name: r.workspace.name, plan: r.workspace.plan },
-      role: r.member.role,
-      workspaces: [],
-    };
-  }
-  const workspace = r.workspace ?? (r.workspaceId ? { id: r.workspaceId, name: r.workspaceName ?? "Workspace", plan: r.plan } : undefined);
-  const role = (r.role ?? r.membership?.role ?? workspace?.role) as Role | undefined;
-  const list = (r.workspaces ?? r.memberships ?? []) as any[];
+/** The parts of GET /api/v1/workspace the UI shows (an empty member name reads as none). */
+export function normaliseMe(d: WorkspaceDescription): Me {
   return {
-    user: r.user ?? (r.email || r.name ? { id: r.userId, name: r.name, email: r.email } : undefined),
-    workspace: workspace ? { id: workspace.id, name: workspace.name, plan: workspace.plan ?? r.plan } : undefined,
-    role,
-    workspaces: list.map((w) => ({ id: w.id ?? w.workspaceId, name: w.name ?? w.workspaceName ?? w.workspace?.name, role: w.role, plan: w.plan ?? w.workspace?.plan })),
+    user: { id: d.member.id, name: d.member.name || null, email: d.member.email },
+    workspace: { id: d.workspace.id, name: d.workspace.name, plan: d.workspace.plan },
+    role: d.member.role,
   };
 }
 
-const CREATE: Role[] = ["owner", "researcher"];
-export const canCreate = (role?: Role) => (role ? CREATE.includes(role) : false);
-export const canBill = (role?: Role) => role === "owner" || role === "billing_admin";
-export const canManageOthers = (role?: Role) => role === "owner";
+// What the UI may offer, from the permissions table the server enforces (src/shared/permissions.ts).
+export const canCreate = (role?: Role) => (role ? can(role, "work.create") : false);
+export const canBill = (role?: Role) => (role ? can(role, "billing.manage") : false);
+export const canManageOthers = (role?: Role) => (role ? can(role, "work.manageOthers") : false);

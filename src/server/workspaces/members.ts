@@ -12,6 +12,7 @@ import { getDb } from "@/server/db";
 import { invitations, memberships, users, workspaces } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
 import { ACTIONS, ROLE_LABELS, ROLES, rolesAllowed, type Action, type Role } from "@/shared/permissions";
+import type { WorkspaceDescription } from "@/shared/workspace";
 
 /** Roles a Billing admin may invite or remove (seats only). */
 export const SEAT_ROLES: readonly Role[] = ["researcher", "viewer"];
@@ -22,7 +23,7 @@ export async function workspaceOf(caller: Caller) {
   return ws;
 }
 
-export async function describeWorkspace(caller: Caller) {
+export async function describeWorkspace(caller: Caller): Promise<WorkspaceDescription> {
   const ws = await workspaceOf(caller);
   const [me] = await getDb().select({ email: users.email, name: users.name, clerkUserId: users.clerkUserId }).from(users).where(eq(users.id, caller.userId));
   const actions = Object.fromEntries(ACTIONS.map((a) => [a, can(caller.role, a)])) as Record<Action, boolean>;
