@@ -1,3 +1,4 @@
+import "./server/server-only";
 import { z } from "zod";
 
 /**

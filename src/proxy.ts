@@ -1,6 +1,7 @@
 // Next 16 "proxy" (formerly middleware): Clerk's clerkMiddleware reads the session on every page
 // and API request, so `auth()` works in server code. Signed-out visitors of the signed-in area are
 // sent to our sign-in page. Public pages, the health check and Bearer-token API calls pass untouched.
+import "@/server/server-only";
 import { clerkMiddleware, createRouteMatcher } from "@clerk/nextjs/server";
 import { NextResponse, type NextFetchEvent, type NextRequest } from "next/server";
 

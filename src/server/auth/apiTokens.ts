@@ -2,6 +2,7 @@
  * API tokens of a member for one workspace (product.md: "API tokens: own; Viewers: read-only").
  * The secret is returned once at creation; only its sha256 is stored, lists never show either.
  */
+import "@/server/server-only";
 import { and, desc, eq } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/server/db";

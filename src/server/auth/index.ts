@@ -1,3 +1,4 @@
+import "@/server/server-only";
 import { and, eq, isNull } from "drizzle-orm";
 import { getDb } from "@/server/db";
 import { apiTokens, memberships, workspaces } from "@/server/db/schema";

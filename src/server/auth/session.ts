@@ -3,6 +3,7 @@
  * session picks the workspace (by clerk_org_id); no organization means the personal workspace.
  * Whatever the mirror lacks is fetched from Clerk's Backend API once (lazy sync).
  */
+import "@/server/server-only";
 import { auth, clerkClient } from "@clerk/nextjs/server";
 import { ApiError } from "@/server/http/errors";
 import {

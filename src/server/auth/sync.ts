@@ -3,6 +3,7 @@
  * at it). Kept current two ways: Clerk webhooks (src/app/api/webhooks/clerk) and this lazy sync,
  * which fills in whatever is missing on a signed-in user's first request.
  */
+import "@/server/server-only";
 import { and, eq } from "drizzle-orm";
 import { getDb } from "@/server/db";
 import { memberships, users, workspaces } from "@/server/db/schema";

@@ -3,6 +3,7 @@
  * node:crypto, and the events that keep the PostgreSQL mirror current. Applying an event twice
  * changes nothing, and a redelivered message id is acknowledged without being applied again.
  */
+import "@/server/server-only";
 import { createHmac, timingSafeEqual } from "node:crypto";
 import { eq } from "drizzle-orm";
 import { getDb } from "@/server/db";

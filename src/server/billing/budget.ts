@@ -1,3 +1,4 @@
+import "@/server/server-only";
 import { and, eq, sql } from "drizzle-orm";
 import { computeCostUsd, PLANS, type PlanId } from "@/shared/plans";
 import { getDb } from "@/server/db";

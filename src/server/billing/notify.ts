@@ -1,3 +1,4 @@
+import "@/server/server-only";
 import { sql } from "drizzle-orm";
 import { computeCostUsd } from "@/shared/plans";
 import { env } from "@/env";

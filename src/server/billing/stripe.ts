@@ -1,3 +1,4 @@
+import "@/server/server-only";
 import Stripe from "stripe";
 import { env } from "@/env";
 import { ApiError } from "@/server/http/errors";

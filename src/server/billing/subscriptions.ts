@@ -1,3 +1,4 @@
+import "@/server/server-only";
 import { count, eq, sql } from "drizzle-orm";
 import { PLANS } from "@/shared/plans";
 import { env } from "@/env";

@@ -1,3 +1,4 @@
+import "@/server/server-only";
 import { sql } from "drizzle-orm";
 import { computeCostUsd, type PlanId } from "@/shared/plans";
 import { requirePermission, type Caller } from "@/server/auth";

@@ -1,3 +1,4 @@
+import "@/server/server-only";
 import { and, eq, sql } from "drizzle-orm";
 import Stripe from "stripe";
 import { env } from "@/env";

@@ -2,6 +2,7 @@
  * Datasets: upload (multipart CSV + column mapping), list, read, period analysis. Every query is
  * scoped to the caller's workspace.
  */
+import "@/server/server-only";
 import { createHash } from "node:crypto";
 import { and, desc, eq, lt } from "drizzle-orm";
 import { z } from "zod";

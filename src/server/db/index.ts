@@ -1,3 +1,4 @@
+import "@/server/server-only";
 import { drizzle, type PostgresJsDatabase } from "drizzle-orm/postgres-js";
 import postgres from "postgres";
 import { env } from "@/env";

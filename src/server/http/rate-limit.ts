@@ -1,3 +1,4 @@
+import "@/server/server-only";
 import { RateLimiterRedis, RateLimiterRes } from "rate-limiter-flexible";
 import { Redis } from "ioredis";
 import { env } from "@/env";

@@ -3,6 +3,7 @@
  * of the process (invitations, spend-cap notices). In development and tests that is the maildev
  * stand-in on 127.0.0.1 (scripts/fakes.d/20-mail.sh); messages can be read at MAIL_WEB_URL.
  */
+import "@/server/server-only";
 import nodemailer, { type Transporter } from "nodemailer";
 import { env } from "@/env";
 

@@ -3,6 +3,7 @@
  * version they used, so a result can always be traced to the exact description it came from.
  * Every query is scoped to the caller's workspace.
  */
+import "@/server/server-only";
 import { and, desc, eq, inArray, sql } from "drizzle-orm";
 import { z } from "zod";
 import type { Caller } from "@/server/auth";

@@ -1,3 +1,4 @@
+import "@/server/server-only";
 import { Queue, type ConnectionOptions } from "bullmq";
 import { Redis } from "ioredis";
 import { env } from "@/env";

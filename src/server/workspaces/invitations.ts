@@ -3,6 +3,7 @@
  * the invitee opens the link, signs in or signs up with that address, accepts, and becomes a
  * member of the workspace's Clerk organization with the role given (and of our mirror).
  */
+import "@/server/server-only";
 import { createHash, randomBytes } from "node:crypto";
 import { and, desc, eq, gt, isNull } from "drizzle-orm";
 import { clerkClient } from "@clerk/nextjs/server";

@@ -3,6 +3,7 @@
  * system of record for organization memberships, so changes go to Clerk first, then the mirror.
  * Owners manage everyone; a Billing admin may only fill and free seats (Researchers, Viewers).
  */
+import "@/server/server-only";
 import { and, asc, eq, isNull, gt, sql } from "drizzle-orm";
 import { clerkClient } from "@clerk/nextjs/server";
 import { PLANS } from "@/shared/plans";

@@ -1,3 +1,4 @@
+import "../../server-only";
 import { sql } from "drizzle-orm";
 import { index, integer, numeric, pgEnum, pgTable, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
 

@@ -1,3 +1,4 @@
+import "../../server-only";
 import { index, integer, jsonb, pgEnum, pgTable, real, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
 import { workspaces } from "./accounts";
 import { usageLedger } from "./compute";

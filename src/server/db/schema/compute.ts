@@ -1,3 +1,4 @@
+import "../../server-only";
 import { sql } from "drizzle-orm";
 import { index, integer, json, jsonb, pgEnum, pgTable, real, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
 import { planName, users, workspaces } from "./accounts";

@@ -1,3 +1,4 @@
+import "../../server-only";
 import { boolean, index, integer, jsonb, pgTable, real, text, timestamp, uuid } from "drizzle-orm/pg-core";
 import { users, workspaces } from "./accounts";
 import { jobStatus, runs } from "./compute";

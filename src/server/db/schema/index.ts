@@ -1,4 +1,5 @@
 // One file per domain; each later feature adds its own file and a line here.
+import "../../server-only";
 export * from "./accounts";
 export * from "./compute";
 export * from "./invitations";

@@ -1,3 +1,4 @@
+import "../../server-only";
 import { index, pgTable, text, timestamp, uuid } from "drizzle-orm/pg-core";
 import { memberRole, users, workspaces } from "./accounts";
 

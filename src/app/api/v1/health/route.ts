@@ -1,3 +1,4 @@
+import "@/server/server-only";
 import { NextResponse } from "next/server";
 import { pingDb } from "@/server/db";
 import { pingRedis } from "@/server/queue";

@@ -1,3 +1,4 @@
+import "@/server/server-only";
 import { NextResponse } from "next/server";
 import { env } from "@/env";
 import { handleClerkWebhook } from "@/server/auth/webhooks";
