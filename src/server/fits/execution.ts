@@ -5,6 +5,7 @@
  * usage-ledger row. The fit row is locked and its run_id checked inside that transaction, so a
  * retried job never writes a second ledger row.
  */
+import "@/server/server-only";
 import { sql } from "drizzle-orm";
 import { billingPeriod } from "@/server/billing/budget";
 import { getDb } from "@/server/db";

@@ -2,6 +2,7 @@
  * Fits: submission (validation, estimate, budget, queue), reads, lists, cancellation, export.
  * Every query is scoped to the caller's workspace.
  */
+import "@/server/server-only";
 import { and, desc, eq, lt, sql } from "drizzle-orm";
 import { z } from "zod";
 import { computeCostUsd } from "@/shared/plans";

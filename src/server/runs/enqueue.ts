@@ -1,3 +1,4 @@
+import "@/server/server-only";
 import type { JobsOptions } from "bullmq";
 import { getQueue, QUEUES } from "@/server/queue";
 

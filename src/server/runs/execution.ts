@@ -3,6 +3,7 @@
  * cancellation checks, and the one transaction that writes the result, the status, the
  * compute-seconds, the engine version, the input hash and the usage-ledger row together.
  */
+import "@/server/server-only";
 import { sql } from "drizzle-orm";
 import { billingPeriod } from "@/server/billing/budget";
 import { getDb } from "@/server/db";

@@ -2,6 +2,7 @@
  * Runs: submission (validation, plan limits, estimate, budget, then the row, then the job),
  * lists, reads, cancellation and the JSON export. Every query is scoped to the caller's workspace.
  */
+import "@/server/server-only";
 import { and, desc, eq, inArray, isNull, sql, type SQL } from "drizzle-orm";
 import { z } from "zod";
 import { computeCostUsd } from "@/shared/plans";

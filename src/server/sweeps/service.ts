@@ -5,6 +5,7 @@
  * run per point are written in one transaction and each point becomes its own job, so many
  * workers share one sweep.
  */
+import "@/server/server-only";
 import { and, asc, desc, eq, sql, type SQL } from "drizzle-orm";
 import { z } from "zod";
 import { computeCostUsd } from "@/shared/plans";
