@@ -6,10 +6,11 @@
  * written.
  *
  * Used by the import checks in tests/unit (the browser-safe engine entry, no cycles between the
- * folders of src/server), and as a script:
+ * folders of src/server, browser code and src/shared apart from src/server), and as a script:
  *   node_modules/.bin/tsx scripts/import-graph.ts server-cycles    # folder cycles in src/server
  *   node_modules/.bin/tsx scripts/import-graph.ts browser-entry    # Node built-ins under src/engine/browser.ts
- * Both exit 1 and print what is wrong when the check fails.
+ *   node_modules/.bin/tsx scripts/import-graph.ts layers           # browser code or src/shared reaching the server; missing server-only markers
+ * Each exits 1 and prints what is wrong when the check fails.
  */
 import { existsSync, readFileSync, readdirSync, statSync } from "node:fs";
 import path from "node:path";
@@ -120,14 +121,16 @@ export interface GraphModule {
 
 /**
  * Every source file reachable from `entry` through runtime imports (type-only imports skipped unless
- * `includeTypeOnly`), breadth first, each with the shortest chain that reaches it.
+ * `includeTypeOnly`), breadth first, each with the shortest chain that reaches it. A module for
+ * which `stopAt` answers true is listed but its own imports are not followed.
  */
-export function walk(entry: string, options: { includeTypeOnly?: boolean } = {}): Map<string, GraphModule> {
+export function walk(entry: string, options: { includeTypeOnly?: boolean; stopAt?: (file: string) => boolean } = {}): Map<string, GraphModule> {
   const seen = new Map<string, GraphModule>([[entry, { file: entry, via: [entry] }]]);
   const queue = [entry];
   while (queue.length > 0) {
     const file = queue.shift()!;
     const here = seen.get(file)!;
+    if (file !== entry && options.stopAt?.(file)) continue;
     for (const edge of importsOf(file)) {
       if (edge.typeOnly && !options.includeTypeOnly) continue;
       if (!edge.resolved || seen.has(edge.resolved)) continue;
@@ -152,6 +155,11 @@ export function sourceFiles(dir: string): string[] {
     else if (/\.tsx?$/.test(entry.name) && !/\.test\.tsx?$/.test(entry.name) && !entry.name.endsWith(".d.ts")) out.push(full);
   }
   return out.sort();
+}
+
+/** Modules marked "use client" under src/ (the roots of the browser bundles). */
+export function clientModules(): string[] {
+  return sourceFiles(path.join(ROOT, "src")).filter((f) => /^\s*["']use client["']/m.test(readFileSync(f, "utf8").slice(0, 400)));
 }
 
 export interface BrowserEntryProblem {
@@ -257,6 +265,106 @@ export function describeCycles(graph: Map<string, Map<string, FolderEdge>>, cycl
   return lines;
 }
 
+// ---- Layers: browser code and src/shared against src/server --------------------------------------
+
+const SERVER_DIR = path.join(ROOT, "src/server") + path.sep;
+const SHARED_DIR = path.join(ROOT, "src/shared") + path.sep;
+const ENGINE_DIR = path.join(ROOT, "src/engine") + path.sep;
+const ENV_FILE = path.join(ROOT, "src/env.ts");
+const ENGINE_BROWSER = path.join(ROOT, "src/engine/browser.ts");
+/** The marker every module that touches the database, the queue or secrets imports first. */
+export const SERVER_ONLY_MARKER = path.join(ROOT, "src/server/server-only.ts");
+
+/** Clients and SDKs of the database, the queue, the payment, sign-in and mail services. */
+const SERVER_PACKAGE = /^(postgres|drizzle-orm\/postgres-js|bullmq|ioredis|stripe|nodemailer|@clerk\/nextjs\/server|@clerk\/backend)(\/.*)?$/;
+/** Packages no browser or shared module may import: the above, the query builder, the server's
+ * rate limiter and thread pool, and the npm marker package "server-only". */
+const BROWSER_FORBIDDEN_PACKAGE = /^(postgres|drizzle-orm|bullmq|ioredis|stripe|nodemailer|@clerk\/nextjs\/server|@clerk\/backend|rate-limiter-flexible|piscina|server-only)(\/.*)?$/;
+
+export interface LayerProblem {
+  /** The module that imports it (repository-relative). */
+  file: string;
+  /** The import as written. */
+  specifier: string;
+  /** What is wrong with it. */
+  reason: string;
+  /** Root first, ending with `file`. */
+  chain: string[];
+}
+
+/**
+ * Imports that do not belong in code that runs in the browser, in the import graphs of `roots`
+ * (runtime imports followed; the walk does not go on into src/server, whose entry is the problem):
+ * anything under src/server or src/env.ts (type-only imports too: a type both sides use belongs in
+ * src/shared), a Node built-in, or a package of the database, the queue or the hosted services.
+ */
+export function browserLayerProblems(roots: string[]): LayerProblem[] {
+  const problems: LayerProblem[] = [];
+  const done = new Set<string>();
+  const isServer = (file: string) => file.startsWith(SERVER_DIR) || file === ENV_FILE;
+  for (const root of roots) {
+    for (const mod of walk(root, { stopAt: isServer }).values()) {
+      if (done.has(mod.file) || (mod.file !== root && isServer(mod.file))) continue;
+      done.add(mod.file);
+      const report = (specifier: string, reason: string) => problems.push({ file: relative(mod.file), specifier, reason, chain: mod.via.map(relative) });
+      for (const edge of importsOf(mod.file)) {
+        if (edge.resolved && isServer(edge.resolved)) report(edge.specifier, `server code (${relative(edge.resolved)})${edge.typeOnly ? ", type-only: move the type to src/shared" : ""}`);
+        else if (edge.typeOnly) continue;
+        else if (isNodeBuiltin(edge.specifier)) report(edge.specifier, "a Node built-in");
+        else if (BROWSER_FORBIDDEN_PACKAGE.test(edge.specifier)) report(edge.specifier, "a package of the database, the queue or a hosted service");
+      }
+    }
+  }
+  return problems;
+}
+
+/**
+ * browserLayerProblems for every module of src/shared, plus its own rule: src/shared imports only
+ * src/shared and the engine's browser entry (never src/components, src/lib, src/app or deep engine paths).
+ */
+export function sharedLayerProblems(): LayerProblem[] {
+  const files = sourceFiles(SHARED_DIR);
+  const problems = browserLayerProblems(files);
+  for (const file of files) {
+    for (const edge of importsOf(file)) {
+      if (!edge.resolved || edge.resolved.startsWith(SERVER_DIR) || edge.resolved === ENV_FILE) continue; // reported above
+      if (edge.resolved.startsWith(SHARED_DIR) || edge.resolved === ENGINE_BROWSER) continue;
+      const reason = edge.resolved.startsWith(ENGINE_DIR) ? 'a deep engine path: import "@/engine/browser"' : `outside src/shared (${relative(edge.resolved)})`;
+      problems.push({ file: relative(file), specifier: edge.specifier, reason, chain: [relative(file)] });
+    }
+  }
+  return problems;
+}
+
+/**
+ * Why `file` must import the server-only marker: the imports by which it touches the database,
+ * the queue or secrets (src/server/db, src/server/queue, src/env.ts, or their clients and the
+ * payment, sign-in and mail SDKs; runtime imports, static or dynamic). Modules of src/server/db,
+ * src/server/queue and src/env.ts itself always must. Empty: it need not.
+ */
+export function serverResourceImports(file: string): string[] {
+  const own = file.startsWith(path.join(ROOT, "src/server/db") + path.sep) || file.startsWith(path.join(ROOT, "src/server/queue") + path.sep) || file === ENV_FILE;
+  const isResource = (f: string) => f.startsWith(path.join(ROOT, "src/server/db") + path.sep) || f.startsWith(path.join(ROOT, "src/server/queue") + path.sep) || f === ENV_FILE;
+  const why = importsOf(file)
+    .filter((e) => !e.typeOnly && ((e.resolved !== null && isResource(e.resolved)) || SERVER_PACKAGE.test(e.specifier)))
+    .map((e) => e.specifier);
+  return own ? [`(${relative(file)} itself)`, ...why] : why;
+}
+
+/** Whether `file` imports the server-only marker (a runtime import, not type-only). */
+export function importsServerOnlyMarker(file: string): boolean {
+  return importsOf(file).some((e) => !e.typeOnly && e.resolved === SERVER_ONLY_MARKER);
+}
+
+/** Modules of src/ (the engine aside) that touch the database, the queue or secrets without the marker. */
+export function missingServerOnlyMarkers(): { file: string; because: string[] }[] {
+  return sourceFiles(path.join(ROOT, "src"))
+    .filter((f) => !f.startsWith(ENGINE_DIR) && f !== SERVER_ONLY_MARKER)
+    .map((f) => ({ file: f, because: serverResourceImports(f) }))
+    .filter((m) => m.because.length > 0 && !importsServerOnlyMarker(m.file))
+    .map((m) => ({ file: relative(m.file), because: m.because }));
+}
+
 if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
   const what = process.argv[2];
   if (what === "server-cycles") {
@@ -270,8 +378,15 @@ if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.me
     for (const p of problems) console.log(`${p.file} imports ${p.specifier} (${p.chain.join(" -> ")})`);
     if (problems.length === 0) console.log("src/engine/browser.ts: no Node built-ins or native addon in its import graph");
     process.exit(problems.length === 0 ? 0 : 1);
+  } else if (what === "layers") {
+    const problems = [...browserLayerProblems(clientModules()), ...sharedLayerProblems()];
+    for (const p of problems) console.log(`${p.file} imports ${p.specifier}: ${p.reason} (${p.chain.join(" -> ")})`);
+    const missing = missingServerOnlyMarkers();
+    for (const m of missing) console.log(`${m.file} touches ${m.because.join(", ")} but does not import "@/server/server-only"`);
+    if (problems.length === 0 && missing.length === 0) console.log("browser code and src/shared reach no server code; every module that touches the database, the queue or secrets is marked server-only");
+    process.exit(problems.length === 0 && missing.length === 0 ? 0 : 1);
   } else {
-    console.error("usage: tsx scripts/import-graph.ts server-cycles | browser-entry");
+    console.error("usage: tsx scripts/import-graph.ts server-cycles | browser-entry | layers");
     process.exit(2);
   }
 }

@@ -2,20 +2,14 @@
 // imports followed, type-only imports skipped because the compiler erases them) holds no Node
 // built-in and not the native addon; and browser code reaches the engine through that entry only.
 import path from "node:path";
-import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
-import { ROOT, browserEntryProblems, importsOf, relative, sourceFiles, walk } from "../../../scripts/import-graph";
+import { ROOT, browserEntryProblems, clientModules, importsOf, relative, walk } from "../../../scripts/import-graph";
 
 const ENTRY = path.join(ROOT, "src/engine/browser.ts");
 const ENGINE = path.join(ROOT, "src/engine") + path.sep;
 
 const describeProblems = (problems: ReturnType<typeof browserEntryProblems>) =>
   problems.map((p) => `${p.file} imports ${p.specifier} (via ${p.chain.join(" -> ")})`).join("\n");
-
-/** Modules marked "use client" (the roots of the browser bundles). */
-function clientModules(): string[] {
-  return sourceFiles(path.join(ROOT, "src")).filter((f) => /^\s*["']use client["']/m.test(readFileSync(f, "utf8").slice(0, 400)));
-}
 
 describe("browser-safe engine entry", () => {
   it("imports no Node built-in (node:*, fs, path, worker_threads, module, os, child_process, ...) and not the native addon", () => {
