@@ -2,7 +2,7 @@
  * Browser-safe entry of the engine: schema parsing, types, constants, the cost estimate and the
  * sweepable parameters, with no Node built-in and no native addon anywhere in its import graph
  * (checked by tests/unit/engine/browser-entry.test.ts). Browser code (src/lib, src/components,
- * src/config) imports the engine through "@/engine/browser" only.
+ * src/shared) imports the engine through "@/engine/browser" only.
  *
  * The full entry (src/engine/index.ts) re-exports all of this and adds what needs Node: the
  * kernel backend choice (native addon), ENGINE_VERSION, compute, inputHash (node:crypto) and the
