@@ -9,8 +9,7 @@ import { Piscina } from "piscina";
 import type { Redis } from "ioredis";
 import { claimFit, finishFit, fitShouldStop, markFitFailed, queuedFits, writeFitProgress } from "../src/server/fits/execution";
 import type { FitTask, FitTaskOutcome } from "../src/server/fits/fit-thread";
-
-export const FITS_QUEUE = "fits";
+import { QUEUES } from "../src/server/queue";
 
 export function startFitsWorker(connection: Redis, prefix: string): Worker {
   const pool = new Piscina<FitTask, FitTaskOutcome>({
@@ -56,7 +55,7 @@ export function startFitsWorker(connection: Redis, prefix: string): Worker {
     return { status: out.outcome, written };
   }
 
-  const worker = new Worker(FITS_QUEUE, processFit, { connection: connection as ConnectionOptions, prefix, concurrency: 1, lockDuration: 60_000, maxStalledCount: 3 });
+  const worker = new Worker(QUEUES.fits, processFit, { connection: connection as ConnectionOptions, prefix, concurrency: 1, lockDuration: 60_000, maxStalledCount: 3 });
   worker.on("failed", (job, err) => {
     if (!job) return;
     if (job.attemptsMade >= (job.opts.attempts ?? 1) || /stalled more than/i.test(err.message)) {
@@ -67,7 +66,7 @@ export function startFitsWorker(connection: Redis, prefix: string): Worker {
 
   // Fits the database holds as queued but Redis lost (job id = fit id, so adding twice is harmless).
   void (async () => {
-    const queue = new Queue(FITS_QUEUE, { connection: connection as ConnectionOptions, prefix });
+    const queue = new Queue(QUEUES.fits, { connection: connection as ConnectionOptions, prefix });
     try {
       for (const { id } of await queuedFits()) await queue.add("fit", { fitId: id }, { jobId: id, attempts: 3, backoff: { type: "exponential", delay: 2000 }, removeOnComplete: { age: 3600 }, removeOnFail: { age: 86400 } });
     } catch (e) {

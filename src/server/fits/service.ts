@@ -12,13 +12,12 @@ import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWith
 import { getDb } from "@/server/db";
 import { datasets, fits, networks, networkVersions } from "@/server/db/schema";
 import { ApiError, zodToApiError } from "@/server/http/errors";
-import { getQueue, type QueueName } from "@/server/queue";
+import { getQueue, QUEUES } from "@/server/queue";
 import type { DatasetPoints } from "@/server/datasets/service";
 import { ENGINE_VERSION, engine, inputHash, parseComputeInput, secondsPerEvaluation } from "./engine";
 import { FitInputError, validateSpecs } from "./fitter";
 import { checkFitSpecs, expectedEvaluations, SWEEP_FOR_QUANTITY } from "./model";
 
-export const FITS_QUEUE = "fits";
 export const FIT_JOB_NAME = "fit";
 
 const spec = z.object({ parameter: z.string().min(1), initial: z.number(), min: z.number(), max: z.number() }).strict();
@@ -161,7 +160,7 @@ function parseEngineInput(json: { network: unknown; computation: unknown }): unk
 
 export async function enqueueFit(fitId: string, plan: Caller["plan"]): Promise<void> {
   try {
-    await getQueue(FITS_QUEUE as QueueName).add(FIT_JOB_NAME, { fitId }, {
+    await getQueue(QUEUES.fits).add(FIT_JOB_NAME, { fitId }, {
       jobId: fitId,
       priority: queuePriority(plan),
       attempts: 3,
