@@ -55,7 +55,7 @@ export function startFitsWorker(connection: Redis, prefix: string): Worker {
       computeSeconds: out.cpuSeconds,
       engineVersion: out.engineVersion,
     });
-    return { status: out.outcome, written };
+    return { status: out.outcome, computeSeconds: out.cpuSeconds, cpuSource: out.cpuSource, written };
   }
 
   const worker = new Worker(QUEUES.fits, processFit, { connection: connection as ConnectionOptions, prefix, concurrency: 1, lockDuration: 60_000, maxStalledCount: 3 });
