@@ -73,10 +73,11 @@ export async function createFit(caller: Caller, raw: unknown) {
   computation.kind = "conductance";
   // The same network resolution and engine validation as runs (saved network in this workspace or
   // inline; engine errors answer 422 with the field through the engine door's mapper; plan limits).
-  // A saved network may also be named by its id in `network`.
+  // A saved network may also be named by its id in `network` (then not also in `networkId`).
+  const idInNetwork = typeof body.network === "string" && body.networkId === undefined;
   const { input } = await resolveSubmission(caller, {
-    network: typeof body.network === "string" ? undefined : sent.network,
-    networkId: typeof body.network === "string" ? body.network : body.networkId,
+    network: idInNetwork ? undefined : sent.network,
+    networkId: idInNetwork ? (body.network as string) : body.networkId,
     networkVersion: body.networkVersion,
     computation,
   });
