@@ -2,9 +2,9 @@
  * One engine computation inside a piscina worker thread, so a long run never blocks the worker's
  * event loop (job locks, progress and cancellation keep flowing). The parent shares a
  * SharedArrayBuffer: Int32 at byte 0 is the cancel flag (1 = stop), Float64 at byte 8 is the
- * progress (0 to 1). CPU time is measured for this thread only.
+ * progress (0 to 1). CPU time is measured for this thread only (src/server/jobs/cpu-clock.ts).
  */
-import { readFileSync } from "node:fs";
+import { cpuClock, startCpuMeter, type CpuSource } from "@/server/jobs/cpu-clock";
 import { ENGINE_VERSION, EngineCancelledError, EngineInputError, EngineLimitError, compute, inputHash, parseComputeInput } from "@/engine";
 
 export interface EngineTask {
@@ -16,38 +16,12 @@ export type EngineOutcome =
   | { outcome: "succeeded"; resultJson: string; cpuSeconds: number; cpuSource: CpuSource; engineVersion: string; inputHash: string }
   | { outcome: "cancelled" | "failed"; error: { code: string; message: string; field?: string }; cpuSeconds: number; cpuSource: CpuSource; engineVersion: string; inputHash: string | null };
 
-type CpuSource = "thread" | "process" | "wall";
-
-const sleeper = new Int32Array(new SharedArrayBuffer(4));
-
-/**
- * CPU seconds of the calling thread (Linux: /proc/thread-self/schedstat, nanoseconds), else a
- * fallback. The kernel brings a running thread's total up to date only when it is scheduled, so
- * each reading first sleeps for a millisecond (sleeping costs no CPU): short runs then read their
- * true figure instead of 0.
- */
-function cpuClock(): { source: CpuSource; read: () => number } {
-  try {
-    readFileSync("/proc/thread-self/schedstat", "utf8");
-    return {
-      source: "thread",
-      read: () => {
-        Atomics.wait(sleeper, 0, 0, 1);
-        return Number(readFileSync("/proc/thread-self/schedstat", "utf8").split(" ")[0]) / 1e9;
-      },
-    };
-  } catch {
-    // Not Linux: the process's CPU counts other threads too; wall time of a busy thread is closer.
-    return { source: "wall", read: () => Number(process.hrtime.bigint()) / 1e9 };
-  }
-}
 const clock = cpuClock();
 
 export default function runEngine(task: EngineTask): EngineOutcome {
   const cancelFlag = new Int32Array(task.control, 0, 1);
   const progress = new Float64Array(task.control, 8, 1);
-  const started = clock.read();
-  const spent = () => Math.max(0, clock.read() - started);
+  const spent = startCpuMeter(clock);
   let hash: string | null = null;
   try {
     const input = parseComputeInput(task.input);

@@ -2,15 +2,17 @@
  * The `fits` queue: one job per fit (job id = fit id). The fit itself runs in a worker thread
  * (src/server/fits/fit-thread.ts) so this event loop keeps the job lock, writes progress once a
  * second and passes cancellation on. Outcome, companion run and ledger row: one transaction
- * (src/server/fits/execution.ts), written at most once however often the job is retried.
+ * (src/server/fits/execution.ts), written at most once however often the job is retried. Fits
+ * the database holds as queued but Redis lost are enqueued again by the periodic recovery pass
+ * every kind shares (src/server/jobs/recovery.ts, run from worker/main.ts).
  */
-import { Queue, Worker, type ConnectionOptions, type Job } from "bullmq";
+import { Worker, type ConnectionOptions, type Job } from "bullmq";
 import { Piscina } from "piscina";
 import type { Redis } from "ioredis";
-import { claimFit, finishFit, fitShouldStop, markFitFailed, queuedFits, writeFitProgress } from "../src/server/fits/execution";
+import { claimFit, finishFit, fitShouldStop, markFitFailed, writeFitProgress } from "../src/server/fits/execution";
+import { JOB_KINDS, rowIdOf } from "../src/server/jobs";
 import type { FitTask, FitTaskOutcome } from "../src/server/fits/fit-thread";
-
-export const FITS_QUEUE = "fits";
+import { QUEUES } from "../src/server/queue";
 
 export function startFitsWorker(connection: Redis, prefix: string): Worker {
   const pool = new Piscina<FitTask, FitTaskOutcome>({
@@ -22,7 +24,7 @@ export function startFitsWorker(connection: Redis, prefix: string): Worker {
   });
 
   async function processFit(job: Job<{ fitId: string }>) {
-    const fitId = job.data?.fitId ?? job.id!;
+    const fitId = rowIdOf(JOB_KINDS.fit, job);
     const fit = await claimFit(fitId);
     if (!fit) return { skipped: true };
     const control = new SharedArrayBuffer(24);
@@ -53,28 +55,17 @@ export function startFitsWorker(connection: Redis, prefix: string): Worker {
       computeSeconds: out.cpuSeconds,
       engineVersion: out.engineVersion,
     });
-    return { status: out.outcome, written };
+    return { status: out.outcome, computeSeconds: out.cpuSeconds, cpuSource: out.cpuSource, written };
   }
 
-  const worker = new Worker(FITS_QUEUE, processFit, { connection: connection as ConnectionOptions, prefix, concurrency: 1, lockDuration: 60_000, maxStalledCount: 3 });
+  const worker = new Worker(QUEUES.fits, processFit, { connection: connection as ConnectionOptions, prefix, concurrency: 1, lockDuration: 60_000, maxStalledCount: 3 });
   worker.on("failed", (job, err) => {
     if (!job) return;
     if (job.attemptsMade >= (job.opts.attempts ?? 1) || /stalled more than/i.test(err.message)) {
-      markFitFailed(job.data?.fitId ?? job.id!, err.message).catch((e) => console.error(`[fits] could not mark fit ${job.id} failed: ${(e as Error).message}`));
+      markFitFailed(rowIdOf(JOB_KINDS.fit, job), err.message).catch((e) => console.error(`[fits] could not mark fit ${job.id} failed: ${(e as Error).message}`));
     }
   });
   worker.on("closed", () => void pool.destroy());
 
-  // Fits the database holds as queued but Redis lost (job id = fit id, so adding twice is harmless).
-  void (async () => {
-    const queue = new Queue(FITS_QUEUE, { connection: connection as ConnectionOptions, prefix });
-    try {
-      for (const { id } of await queuedFits()) await queue.add("fit", { fitId: id }, { jobId: id, attempts: 3, backoff: { type: "exponential", delay: 2000 }, removeOnComplete: { age: 3600 }, removeOnFail: { age: 86400 } });
-    } catch (e) {
-      console.error(`[fits] re-enqueue scan: ${(e as Error).message}`);
-    } finally {
-      await queue.close().catch(() => {});
-    }
-  })();
   return worker;
 }

@@ -8,10 +8,10 @@ process.env.OMP_NUM_THREADS ??= "1";
 import { Worker, type ConnectionOptions } from "bullmq";
 import { loadEnvOrExit } from "../src/env";
 import { closeDb } from "../src/server/db";
-import { QUEUES, closeQueues, getQueue, newRedis } from "../src/server/queue";
+import { JOB_KINDS, recoverLostJobs, rowIdOf } from "../src/server/jobs";
+import { QUEUES, closeQueues, newRedis } from "../src/server/queue";
 import { markRunFailed } from "../src/server/runs/execution";
 import { createEnginePool } from "./pool";
-import { recoverLostRuns } from "./recovery";
 import { makeRunProcessor } from "./runs";
 import { processSystemJob } from "./system";
 
@@ -38,7 +38,7 @@ runsWorker.on("failed", (job, err) => {
   if (!job) return;
   const attempts = job.opts.attempts ?? 1;
   if (job.attemptsMade >= attempts || /stalled more than/i.test(err.message)) {
-    markRunFailed(job.data?.runId ?? job.id!, err.message).catch((e) => console.error(`[worker] could not mark run ${job.id} failed: ${(e as Error).message}`));
+    markRunFailed(rowIdOf(JOB_KINDS.run, job), err.message).catch((e) => console.error(`[worker] could not mark run ${job.id} failed: ${(e as Error).message}`));
   }
 });
 
@@ -56,7 +56,8 @@ console.log(
   `[worker] pid ${process.pid} consuming ${workers.map((w) => w.name).join(", ")} (prefix ${env.QUEUE_PREFIX}, concurrency ${env.WORKER_CONCURRENCY}, engine threads ${poolSize})`,
 );
 
-// Recovery: on start and periodically, enqueue runs the database holds as queued but Redis lost.
+// Recovery: on start and periodically, for every job kind, enqueue the rows the database holds as
+// queued but Redis lost (src/server/jobs/recovery.ts).
 const recoveryOptions = { prefix: env.QUEUE_PREFIX, staleAfterMs: 3 * env.WORKER_LOCK_MS, lockMs: Math.max(1000, env.WORKER_RECOVERY_INTERVAL_MS - 500) };
 let recovering = false;
 let stopping = false;
@@ -64,9 +65,13 @@ async function recover() {
   if (recovering || stopping) return;
   recovering = true;
   try {
-    await recoverLostRuns(getQueue(QUEUES.runs), connection, recoveryOptions);
-  } catch (err) {
-    console.error(`[worker] recovery pass failed: ${(err as Error).message}`);
+    for (const kind of Object.values(JOB_KINDS)) {
+      try {
+        await recoverLostJobs(kind, connection, recoveryOptions);
+      } catch (err) {
+        console.error(`[worker] recovery pass (${kind.queue}) failed: ${(err as Error).message}`);
+      }
+    }
   } finally {
     recovering = false;
   }

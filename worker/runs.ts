@@ -1,6 +1,6 @@
 import type { Job } from "bullmq";
 import type { Piscina } from "piscina";
-import type { RunJobData } from "../src/server/runs/enqueue";
+import { JOB_KINDS, rowIdOf } from "../src/server/jobs";
 import { claimRun, finishRun, shouldStop, writeProgress } from "../src/server/runs/execution";
 import type { EngineOutcome, EngineTask } from "./engine-thread";
 
@@ -14,8 +14,8 @@ const HEARTBEAT_MS = 5000;
  * everything in one transaction.
  */
 export function makeRunProcessor(pool: Piscina<EngineTask, EngineOutcome>, workerId: string) {
-  return async function processRun(job: Job<RunJobData>) {
-    const runId = job.data?.runId ?? job.id!;
+  return async function processRun(job: Job) {
+    const runId = rowIdOf(JOB_KINDS.run, job);
     const run = await claimRun(runId, workerId);
     if (!run) return { runId, skipped: true };
 

@@ -90,6 +90,27 @@ describe("fits", () => {
     expect(list.items.map((x: { id: string }) => x.id)).toContain(id);
   });
 
+  it("an engine input error in a fit answers like the same error in a run: 422, same code, message, field and issues", async () => {
+    const network = { ...LK07_NETWORK, size: { columns: 4, rows: 3 } };
+    const run = await api("/api/v1/runs", { method: "POST", json: { network, computation: LK07_COMPUTATION } });
+    const fit = await api("/api/v1/fits", { method: "POST", json: { datasetId, network, computation: LK07_COMPUTATION, sweepParameter: "fieldTesla", fit: LK07_FIT_START } });
+    expect(run.status).toBe(422);
+    expect(fit.status).toBe(422);
+    const runError = (await run.json()).error;
+    const fitError = (await fit.json()).error;
+    expect(runError.code).toBe("invalid_input");
+    expect(runError.details.field).toBe("network.size.rows");
+    expect(runError.details.issues).toHaveLength(1);
+    expect(fitError).toEqual(runError);
+    // A saved network that is not in this workspace: the same answer as a run's.
+    const missing = "00000000-0000-0000-0000-000000000000";
+    const runMissing = await api("/api/v1/runs", { method: "POST", json: { networkId: missing, computation: LK07_COMPUTATION } });
+    const fitMissing = await api("/api/v1/fits", { method: "POST", json: { datasetId, networkId: missing, computation: LK07_COMPUTATION, sweepParameter: "fieldTesla", fit: LK07_FIT_START } });
+    expect(runMissing.status).toBe(404);
+    expect(fitMissing.status).toBe(404);
+    expect((await fitMissing.json()).error).toEqual((await runMissing.json()).error);
+  });
+
   it("answers 422 naming the field for parameters, bounds, sweep parameter and network; 403 for a viewer; 404 across workspaces", async () => {
     const base = { datasetId, network: LK07_NETWORK, computation: LK07_COMPUTATION, sweepParameter: "fieldTesla" };
     const cases: [unknown, RegExp][] = [

@@ -1,12 +1,14 @@
 // Crash recovery with real processes: SIGKILL the worker in the middle of a sweep and start a new
 // one (the sweep completes, every point once, one ledger row per point); flush Redis while runs
-// are queued (they still complete, from the database). vitest.config.ts runs this file in a group of
+// are queued (they still complete, from the database); lose a queued fit's job (the periodic
+// recovery pass every job kind shares enqueues it again). vitest.config.ts runs this file in a group of
 // its own after every other file; it still leaves a worker running that answers a ping.
 import { afterAll, describe, expect, it } from "vitest";
 import { Queue } from "bullmq";
 import { Redis } from "ioredis";
 import { redisUrl } from "../support/services";
 import { pingWorker } from "../support/worker";
+import { LK07_COMPUTATION, LK07_NETWORK } from "../../src/shared/lk07";
 import { get, killWorker, post, smallNetwork, sql, startWorker, waitFor, workerPid } from "./runs-support";
 
 const redis = new Redis(redisUrl(), { maxRetriesPerRequest: null });
@@ -104,5 +106,51 @@ describe("crash recovery", () => {
     expect(runs.map((r) => r.status)).toEqual(["succeeded", "succeeded", "succeeded"]);
     const ledger = await sql`select run_id from usage_ledger where run_id = any(${ids}::uuid[])`;
     expect(ledger).toHaveLength(3);
+  });
+
+  it("a fit whose Redis job is lost is enqueued again by the periodic recovery pass and metered once", async () => {
+    const prefix = process.env.QUEUE_PREFIX ?? "triskel";
+    const datasetId = (await get("/api/v1/datasets")).body.items.find((d: { name: string }) => /LK-07/.test(d.name)).id;
+    const queue = new Queue("fits", { connection: redis, prefix });
+    await queue.pause();
+    let id = "";
+    try {
+      // A short fit: one parameter, one start, a few iterations.
+      const r = await post("/api/v1/fits", {
+        datasetId,
+        network: LK07_NETWORK,
+        computation: LK07_COMPUTATION,
+        sweepParameter: "fieldTesla",
+        fit: [{ parameter: "node.forward", initial: 0.5, min: 0.2, max: 0.9 }],
+        options: { multiStart: 1, maxIterations: 3 },
+      });
+      expect(r.status).toBe(202);
+      id = r.body.id;
+      expect(await redis.exists(`${prefix}:fits:${id}`)).toBe(1);
+      const [row] = await sql`select status from fits where id = ${id}`;
+      expect(row.status).toBe("queued");
+      // Lose the fits queue's jobs (this one with them); the database still says queued.
+      await queue.obliterate({ force: true });
+      expect(await redis.exists(`${prefix}:fits:${id}`)).toBe(0);
+    } finally {
+      await queue.resume();
+      await queue.close();
+    }
+    const [still] = await sql`select status, attempts from fits where id = ${id}`;
+    expect(still.status).toBe("queued");
+    expect(still.attempts).toBe(0);
+
+    // The worker was not restarted: only its periodic pass can bring the job back.
+    const f = await waitFor("the lost fit to complete", async () => {
+      const b = (await get(`/api/v1/fits/${id}`)).body;
+      return finished(b.status) ? b : undefined;
+    }, 170_000, 500);
+    expect(f.status).toBe("succeeded");
+    expect(f.result.parameters.map((p: { parameter: string }) => p.parameter)).toEqual(["node.forward"]);
+    const ledger = await sql`select l.compute_seconds from fits f join usage_ledger l on l.run_id = f.run_id where f.id = ${id}`;
+    expect(ledger).toHaveLength(1);
+    expect(ledger[0].compute_seconds).toBeCloseTo(f.computeSeconds, 3);
+    const companions = await sql`select count(*)::int as n from runs where kind = 'fit' and input->>'fitId' = ${id}`;
+    expect(companions[0].n).toBe(1);
   });
 });

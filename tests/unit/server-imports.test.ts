@@ -1,7 +1,7 @@
 // No import loops between the folders of src/server: the folder-level graph (an edge A -> B when a
 // file under src/server/A imports one under src/server/B; static, dynamic and type-only imports
 // all count) has no cycle. Layers, lowest first: the marker server-only.ts; db, http, queue, mail;
-// engine; auth; billing, workspaces, datasets; networks; runs; sweeps, fits, demo.
+// engine; auth; billing, workspaces, datasets; networks; jobs; runs; sweeps, fits, demo.
 // The same check from the command line: node_modules/.bin/tsx scripts/import-graph.ts server-cycles
 import path from "node:path";
 import { describe, expect, it } from "vitest";

@@ -2,10 +2,10 @@
  * The fits' door to the physics engine (src/engine): the pieces a fit needs, typed loosely so the
  * fit modules stay pure and testable with a stand-in engine.
  */
-import { ENGINE_VERSION, applyParameter, compute, estimateCost, inputHash, parseComputeInput } from "@/engine";
+import { ENGINE_VERSION, EngineCancelledError, EngineInputError, applyParameter, compute, estimateCost, inputHash, parseComputeInput } from "@/engine";
 import type { EngineLike } from "./model";
 
-export { ENGINE_VERSION, inputHash, parseComputeInput };
+export { ENGINE_VERSION, EngineCancelledError, EngineInputError, inputHash, parseComputeInput };
 
 export const engine: EngineLike = {
   compute: (input, options) => compute(input as never, options as never),

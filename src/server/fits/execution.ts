@@ -3,12 +3,15 @@
  * transaction that writes the result together with the metering: a companion `runs` row of kind
  * "fit" (created only at the end, already finished, so run recovery never picks it up) and its
  * usage-ledger row. The fit row is locked and its run_id checked inside that transaction, so a
- * retried job never writes a second ledger row.
+ * retried job never writes a second ledger row. The steps every job kind shares (claim, finish
+ * once, ledger row, mark failed) are src/server/jobs.
  */
 import "@/server/server-only";
 import { sql } from "drizzle-orm";
-import { billingPeriod } from "@/server/billing/budget";
 import { getDb } from "@/server/db";
+import { cancelUnstarted, claimJobRow, finishJobRow, JOB_KINDS, lockRunningRow, markJobFailed, writeLedgerRow } from "@/server/jobs";
+
+const FIT = JOB_KINDS.fit;
 
 export interface ClaimedFit {
   id: string;
@@ -24,12 +27,11 @@ export interface ClaimedFit {
 
 export async function claimFit(fitId: string): Promise<ClaimedFit | null> {
   const db = getDb();
-  const [row] = await db.execute<{ id: string; workspace_id: string; created_by: string | null; dataset_id: string; input: Record<string, unknown>; input_hash: string; estimated_compute_seconds: number; attempts: number }>(sql`
-    update fits set status = 'running', started_at = coalesce(started_at, now()), attempts = attempts + 1
-    where id = ${fitId} and status in ('queued', 'running') and cancel_requested_at is null
-    returning id, workspace_id, created_by, dataset_id, input, input_hash, estimated_compute_seconds, attempts`);
+  const row = await claimJobRow<{ id: string; workspace_id: string; created_by: string | null; dataset_id: string; input: Record<string, unknown>; input_hash: string; estimated_compute_seconds: number; attempts: number }>(db, FIT, fitId, {
+    returning: sql`id, workspace_id, created_by, dataset_id, input, input_hash, estimated_compute_seconds, attempts`,
+  });
   if (!row) {
-    await db.execute(sql`update fits set status = 'cancelled', finished_at = now() where id = ${fitId} and status in ('queued', 'running') and cancel_requested_at is not null`);
+    await cancelUnstarted(db, FIT, fitId);
     return null;
   }
   const [d] = await db.execute<{ points: ClaimedFit["points"] }>(sql`select points from datasets where id = ${row.dataset_id} and workspace_id = ${row.workspace_id}`);
@@ -67,12 +69,10 @@ export interface FitOutcome {
 /** Writes the outcome, the companion run and the ledger row once. Returns false if already finished. */
 export async function finishFit(fit: ClaimedFit, out: FitOutcome): Promise<boolean> {
   return getDb().transaction(async (tx) => {
-    const [cur] = await tx.execute<{ status: string; run_id: string | null; started_at: string | null }>(sql`select status, run_id, started_at from fits where id = ${fit.id} for update`);
-    if (!cur || cur.status !== "running") return false;
+    const cur = await lockRunningRow<{ run_id: string | null; started_at: string | null }>(tx, FIT, fit.id, sql`run_id, started_at`);
+    if (!cur) return false;
     let runId = cur.run_id;
     if (!runId) {
-      const [ws] = await tx.execute<{ plan: string; plan_state: string }>(sql`select plan, plan_state from workspaces where id = ${fit.workspaceId}`);
-      const plan = ws?.plan_state === "suspended" ? "free" : (ws?.plan ?? "free");
       const summary = out.status === "succeeded" ? { fitId: fit.id, chi2PerDof: (out.result as { chi2PerDof?: number })?.chi2PerDof ?? null } : { fitId: fit.id };
       const [run] = await tx.execute<{ id: string }>(sql`
         insert into runs (workspace_id, created_by, kind, input, status, progress, result, error, estimated_compute_seconds, compute_seconds, engine_version, input_hash, attempts, started_at, finished_at)
@@ -81,25 +81,17 @@ export async function finishFit(fit: ClaimedFit, out: FitOutcome): Promise<boole
           ${out.engineVersion}, ${fit.inputHash}, ${fit.attempts}, coalesce(${cur.started_at}::timestamptz, now()), now())
         returning id`);
       runId = run.id;
-      await tx.execute(sql`
-        insert into usage_ledger (workspace_id, user_id, run_id, compute_seconds, plan, period)
-        values (${fit.workspaceId}, ${fit.createdBy}, ${runId}, ${out.computeSeconds}, ${plan}, ${billingPeriod()})
-        on conflict (run_id) do nothing`);
+      await writeLedgerRow(tx, { workspaceId: fit.workspaceId, userId: fit.createdBy, runId, computeSeconds: out.computeSeconds });
     }
-    await tx.execute(sql`
-      update fits set status = ${out.status}, progress = ${out.status === "succeeded" ? 1 : sql`progress`}, result = ${out.result === undefined ? null : JSON.stringify(out.result)}::jsonb,
-        error = ${out.error ? JSON.stringify(out.error) : null}::jsonb, compute_seconds = ${out.computeSeconds}, engine_version = ${out.engineVersion},
-        run_id = ${runId}, finished_at = now()
-      where id = ${fit.id}`);
+    await finishJobRow(tx, FIT, fit.id, out.status, sql`
+      progress = ${out.status === "succeeded" ? 1 : sql`progress`}, result = ${out.result === undefined ? null : JSON.stringify(out.result)}::jsonb,
+      error = ${out.error ? JSON.stringify(out.error) : null}::jsonb, compute_seconds = ${out.computeSeconds}, engine_version = ${out.engineVersion},
+      run_id = ${runId}`);
     return true;
   });
 }
 
+/** After the queue gave up on the job (retries exhausted, stalled too often): failed, not left hanging. */
 export async function markFitFailed(fitId: string, message: string): Promise<void> {
-  await getDb().execute(sql`update fits set status = 'failed', error = ${JSON.stringify({ code: "worker_failed", message })}::jsonb, finished_at = now() where id = ${fitId} and status in ('queued', 'running')`);
-}
-
-/** Fits the database holds as queued (for re-enqueueing after Redis lost them). */
-export async function queuedFits(limit = 1000): Promise<{ id: string }[]> {
-  return getDb().execute<{ id: string }>(sql`select id from fits where status = 'queued' order by created_at limit ${limit}`);
+  await markJobFailed(getDb(), FIT, fitId, message);
 }

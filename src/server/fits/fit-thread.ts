@@ -3,8 +3,8 @@
  * and writing progress. Shared control block: Int32 [0] cancel flag (1 = stop), Int32 [1]
  * iteration, Float64 at byte 8 progress 0-1, Float64 at byte 16 current chi2.
  */
-import { readFileSync } from "node:fs";
-import { ENGINE_VERSION, engine, parseComputeInput } from "./engine";
+import { cpuClock, startCpuMeter, type CpuSource } from "@/server/jobs/cpu-clock";
+import { ENGINE_VERSION, EngineCancelledError, EngineInputError, engine, parseComputeInput } from "./engine";
 import { FitCancelled, FitInputError } from "./fitter";
 import { runFit, type FitJobInput } from "./model";
 
@@ -15,24 +15,15 @@ export interface FitTask {
 }
 
 export type FitTaskOutcome =
-  | { outcome: "succeeded"; result: unknown; cpuSeconds: number; engineVersion: string }
-  | { outcome: "cancelled" | "failed"; error: { code: string; message: string; field?: string }; cpuSeconds: number; engineVersion: string };
+  | { outcome: "succeeded"; result: unknown; cpuSeconds: number; cpuSource: CpuSource; engineVersion: string }
+  | { outcome: "cancelled" | "failed"; error: { code: string; message: string; field?: string }; cpuSeconds: number; cpuSource: CpuSource; engineVersion: string };
 
-function cpuClock(): () => number {
-  try {
-    readFileSync("/proc/thread-self/schedstat", "utf8");
-    return () => Number(readFileSync("/proc/thread-self/schedstat", "utf8").split(" ")[0]) / 1e9;
-  } catch {
-    return () => Number(process.hrtime.bigint()) / 1e9;
-  }
-}
 const clock = cpuClock();
 
 export default function runFitTask(task: FitTask): FitTaskOutcome {
   const flags = new Int32Array(task.control, 0, 2);
   const floats = new Float64Array(task.control, 8, 2);
-  const started = clock();
-  const spent = () => Math.max(0, clock() - started);
+  const spent = startCpuMeter(clock);
   try {
     const { network, computation, sweepParameter, fit, options } = task.input as { network: unknown; computation: unknown; sweepParameter: string; fit: FitJobInput["fit"]; options?: FitJobInput["options"] };
     const input = parseComputeInput({ network, computation });
@@ -48,12 +39,13 @@ export default function runFitTask(task: FitTask): FitTaskOutcome {
         },
       },
     );
-    return { outcome: "succeeded", result: { ...result, engineVersion: ENGINE_VERSION }, cpuSeconds: spent(), engineVersion: ENGINE_VERSION };
+    return { outcome: "succeeded", result: { ...result, engineVersion: ENGINE_VERSION }, cpuSeconds: spent(), cpuSource: clock.source, engineVersion: ENGINE_VERSION };
   } catch (err) {
-    if (err instanceof FitCancelled) return { outcome: "cancelled", error: { code: "cancelled", message: err.message }, cpuSeconds: spent(), engineVersion: ENGINE_VERSION };
+    const base = { cpuSeconds: spent(), cpuSource: clock.source, engineVersion: ENGINE_VERSION };
+    if (err instanceof FitCancelled) return { outcome: "cancelled", error: { code: "cancelled", message: err.message }, ...base };
+    if (err instanceof EngineCancelledError) return { outcome: "cancelled", error: { code: "cancelled", message: "The fit was cancelled." }, ...base };
     const e = err as Error & { field?: string };
-    if (e.name === "EngineCancelledError") return { outcome: "cancelled", error: { code: "cancelled", message: "The fit was cancelled." }, cpuSeconds: spent(), engineVersion: ENGINE_VERSION };
-    const code = err instanceof FitInputError ? "invalid_input" : e.name === "EngineInputError" ? "invalid_input" : "fit_failed";
-    return { outcome: "failed", error: { code, message: e.message, ...(e.field ? { field: e.field } : {}) }, cpuSeconds: spent(), engineVersion: ENGINE_VERSION };
+    const code = err instanceof FitInputError || err instanceof EngineInputError ? "invalid_input" : "fit_failed";
+    return { outcome: "failed", error: { code, message: e.message, ...(e.field ? { field: e.field } : {}) }, ...base };
   }
 }

@@ -9,18 +9,16 @@ import { computeCostUsd } from "@/shared/plans";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
 import { assertWithinBudget } from "@/server/billing/budget";
-import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan, queuePriority } from "@/server/billing/limits";
+import { assertJobComputeWithinPlan, queuePriority } from "@/server/billing/limits";
 import { getDb } from "@/server/db";
-import { datasets, fits, networks, networkVersions } from "@/server/db/schema";
+import { datasets, fits } from "@/server/db/schema";
 import { ApiError, zodToApiError } from "@/server/http/errors";
-import { getQueue, type QueueName } from "@/server/queue";
+import { enqueueAfterCommit } from "@/server/jobs";
+import { resolveSubmission } from "@/server/runs/service";
 import type { DatasetPoints } from "@/server/datasets/service";
-import { ENGINE_VERSION, engine, inputHash, parseComputeInput, secondsPerEvaluation } from "./engine";
+import { ENGINE_VERSION, engine, inputHash, secondsPerEvaluation } from "./engine";
 import { FitInputError, validateSpecs } from "./fitter";
 import { checkFitSpecs, expectedEvaluations, SWEEP_FOR_QUANTITY } from "./model";
-
-export const FITS_QUEUE = "fits";
-export const FIT_JOB_NAME = "fit";
 
 const spec = z.object({ parameter: z.string().min(1), initial: z.number(), min: z.number(), max: z.number() }).strict();
 export const fitBody = z
@@ -74,10 +72,16 @@ export async function createFit(caller: Caller, raw: unknown) {
   for (const key of Object.keys(sent.computation ?? {})) computation[key] = (sent.computation as Record<string, unknown>)[key];
   if (computation.kind !== undefined && computation.kind !== "conductance") throw new ApiError("invalid_input", "computation.kind: fits compare conductance; use \"conductance\".", { field: "computation.kind" });
   computation.kind = "conductance";
-  const network = await resolveNetwork(caller, typeof body.network === "string" ? undefined : (sent.network as typeof body.network), typeof body.network === "string" ? body.network : body.networkId, body.networkVersion);
-  const input = parseEngineInput({ network, computation });
-  assertNetworkWithinPlan(caller.plan, (input as { network: { size: { columns: number; rows: number } } }).network.size);
-  assertEnsembleWithinPlan(caller.plan, input as { computation: unknown });
+  // The same network resolution and engine validation as runs (saved network in this workspace or
+  // inline; engine errors answer 422 with the field through the engine door's mapper; plan limits).
+  // A saved network may also be named by its id in `network` (then not also in `networkId`).
+  const idInNetwork = typeof body.network === "string" && body.networkId === undefined;
+  const { input } = await resolveSubmission(caller, {
+    network: idInNetwork ? undefined : sent.network,
+    networkId: idInNetwork ? (body.network as string) : body.networkId,
+    networkVersion: body.networkVersion,
+    computation,
+  });
   const points = dataset.points as DatasetPoints;
   try {
     validateSpecs(body.fit, points.x.length);
@@ -123,7 +127,7 @@ export async function createFit(caller: Caller, raw: unknown) {
       engineVersion: ENGINE_VERSION,
     })
     .returning();
-  await enqueueFit(row.id, caller.plan);
+  await enqueueAfterCommit("fit", [{ id: row.id, priority: queuePriority(caller.plan) }]);
   return {
     id: row.id,
     status: row.status,
@@ -132,49 +136,6 @@ export async function createFit(caller: Caller, raw: unknown) {
 }
 
 const round = (x: number, d: number) => Math.round(x * 10 ** d) / 10 ** d;
-
-/** The network: inline (engine schema) or a saved network of this workspace (latest or given version). */
-async function resolveNetwork(caller: Caller, inline: unknown, networkId: string | undefined, version: number | undefined): Promise<unknown> {
-  if ((inline === undefined) === (networkId === undefined)) {
-    throw new ApiError("invalid_input", "network: send the network description inline, or a saved network's id (as `network` or `networkId`), not both.", { field: "network" });
-  }
-  if (inline !== undefined) return inline;
-  if (!uuidRe.test(networkId!)) throw new ApiError("not_found", `network: no saved network ${networkId} in this workspace.`, { field: "network" });
-  const db = getDb();
-  const [net] = await db.select().from(networks).where(and(eq(networks.id, networkId!), eq(networks.workspaceId, caller.workspaceId)));
-  if (!net) throw new ApiError("not_found", `network: no saved network ${networkId} in this workspace.`, { field: "network" });
-  const v = version ?? net.currentVersion;
-  const [row] = await db.select().from(networkVersions).where(and(eq(networkVersions.networkId, net.id), eq(networkVersions.version, v)));
-  if (!row) throw new ApiError("not_found", `networkVersion: network ${net.name} has no version ${v}.`, { field: "networkVersion" });
-  return row.definition;
-}
-
-/** Engine validation; its errors name the field (mapped to 422 with the field under network./computation.). */
-function parseEngineInput(json: { network: unknown; computation: unknown }): unknown {
-  try {
-    return parseComputeInput(json as never);
-  } catch (err) {
-    const e = err as Error & { field?: string; issues?: unknown };
-    if (e.name === "EngineInputError" || e.name === "EngineLimitError") throw new ApiError("invalid_input", e.message, { field: e.field, issues: e.issues });
-    throw err;
-  }
-}
-
-export async function enqueueFit(fitId: string, plan: Caller["plan"]): Promise<void> {
-  try {
-    await getQueue(FITS_QUEUE as QueueName).add(FIT_JOB_NAME, { fitId }, {
-      jobId: fitId,
-      priority: queuePriority(plan),
-      attempts: 3,
-      backoff: { type: "exponential", delay: 2000 },
-      removeOnComplete: { age: 3600, count: 2000 },
-      removeOnFail: { age: 24 * 3600 },
-    });
-  } catch (err) {
-    // The fit stays `queued` in the database; the worker's start-up scan enqueues it again.
-    console.error(`[fits] could not enqueue fit ${fitId}: ${(err as Error).message}`);
-  }
-}
 
 export function fitView(f: FitRow, datasetName?: string) {
   const input = f.input as Record<string, unknown>;

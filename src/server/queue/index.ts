@@ -3,8 +3,8 @@ import { Queue, type ConnectionOptions } from "bullmq";
 import { Redis } from "ioredis";
 import { env } from "@/env";
 
-/** Queue names. Runs and sweep points share `runs`; `system` carries maintenance jobs. */
-export const QUEUES = { runs: "runs", system: "system" } as const;
+/** Queue names, defined once. Runs and sweep points share `runs`; fits have `fits`; `system` carries maintenance jobs. */
+export const QUEUES = { runs: "runs", fits: "fits", system: "system" } as const;
 export type QueueName = (typeof QUEUES)[keyof typeof QUEUES];
 
 /** A new Redis connection as BullMQ wants it (no per-request retry limit). Callers quit it. */

@@ -15,8 +15,8 @@ import { networkVersions, runs } from "@/server/db/schema";
 import { estimateSeconds, inputHash, kindOf, networkSize, parseInput, type ComputeInput } from "@/server/engine";
 import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
+import { enqueueAfterCommit } from "@/server/jobs";
 import { isUuid, resolveNetwork } from "@/server/networks/service";
-import { enqueueAfterCommit } from "./enqueue";
 import { refreshSweep } from "./sweep-progress";
 
 export const RUN_STATUSES = ["queued", "running", "succeeded", "failed", "cancelled"] as const;
@@ -102,7 +102,7 @@ export async function createRun(caller: Caller, body: unknown) {
       priority,
     })
     .returning();
-  await enqueueAfterCommit([{ id: row.id, priority }]);
+  await enqueueAfterCommit("run", [{ id: row.id, priority }]);
   return { id: row.id, status: row.status, estimate: estimateView(caller.plan, estimated), kind: row.kind, inputHash: row.inputHash, createdAt: row.createdAt.toISOString() };
 }
 

@@ -19,7 +19,7 @@ import { ENGINE_VERSION, applyParameter, estimateSeconds, inputHash, kindOf, net
 import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
 import { isUuid } from "@/server/networks/service";
-import { enqueueAfterCommit } from "@/server/runs/enqueue";
+import { enqueueAfterCommit } from "@/server/jobs";
 import { RUN_STATUSES, resolveSubmission } from "@/server/runs/service";
 import { deriveSweepStatus, refreshSweep, type SweepCounts } from "@/server/runs/sweep-progress";
 import { axesSchema, ensembleSchema, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, unitOf, type Ensemble, type ResolvedAxis } from "./axes";
@@ -145,7 +145,7 @@ export async function createSweep(caller: Caller, body: unknown) {
     }
     return { sweep, ids };
   });
-  await enqueueAfterCommit(ids.map((id) => ({ id, priority })));
+  await enqueueAfterCommit("run", ids.map((id) => ({ id, priority })));
   return {
     id: sweep.id,
     name: sweep.name,
