@@ -85,6 +85,7 @@ interface RawTable {
 export function readCsvTable(text: string): RawTable {
   const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
   const records: { line: number; cells: string[] }[] = [];
+  const unclosed: number[] = []; // lines where a quote opens and never closes
   let counted = 0; // characters scanned for newlines
   let lines = 0; // newlines seen before `counted`
   Papa.parse<string[]>(body, {
@@ -94,11 +95,30 @@ export function readCsvTable(text: string): RawTable {
       let end = r.meta.cursor;
       while (end > 0 && (body[end - 1] === "\n" || body[end - 1] === "\r")) end--;
       for (; counted < end; counted++) if (body.charCodeAt(counted) === 10) lines++;
+      // Newlines inside the record's cells, except a run at the very end of its last cell: an
+      // unclosed quote swallows the file's final line break, which lies after `end`.
+      const open = r.errors.some((e) => e.code === "MissingQuotes");
       let inner = 0;
-      for (const c of r.data) for (let i = 0; i < c.length; i++) if (c.charCodeAt(i) === 10) inner++;
-      records.push({ line: lines + 1 - inner, cells: r.data });
+      r.data.forEach((c, k) => {
+        let stop = c.length;
+        if (open && k === r.data.length - 1) while (stop > 0 && (c[stop - 1] === "\n" || c[stop - 1] === "\r")) stop--;
+        for (let i = 0; i < stop; i++) if (c.charCodeAt(i) === 10) inner++;
+      });
+      const line = lines + 1 - inner;
+      if (open) unclosed.push(line);
+      records.push({ line, cells: r.data });
     },
   });
+  if (unclosed.length) {
+    throw new DatasetCsvError(
+      unclosed.map((line) => ({
+        code: "malformed_row" as const,
+        row: line,
+        column: null,
+        message: `Row ${line}: a quote (") opens a cell here and is never closed, so the rest of the file would be read as one cell; close the quote or remove it.`,
+      })),
+    );
+  }
   if (records.length === 0) throw new DatasetCsvError([{ code: "empty_file", row: null, column: null, message: "The file has no header and no rows; expected a header line naming the columns, then one line per point." }]);
   const [head, ...rows] = records;
   return { header: head.cells.map((h) => h.trim()), headerLine: head.line, rows };

@@ -35,6 +35,22 @@ describe("units", () => {
 });
 
 describe("parseDatasetCsv", () => {
+  it("a quote that never closes is named on the file line where it opens, after comments and the header", () => {
+    for (const [text, line] of [
+      ['B,G\n"0.1,2\n0.2,3\n', 2],
+      ['# synthetic\nB,G\n0.1,2\n"0.2,3\n0.3,4\n', 4],
+      ['B,G\n0.1,2\n0.2,"3\n0.3,4', 3],
+    ] as const) {
+      const err = (() => { try { parseDatasetCsv(text, fieldMap); } catch (e) { return e; } })();
+      expect(err).toBeInstanceOf(DatasetCsvError);
+      expect((err as DatasetCsvError).issues).toEqual([expect.objectContaining({ code: "malformed_row", row: line, column: null })]);
+      expect((err as DatasetCsvError).issues[0].message).toMatch(new RegExp(`^Row ${line}: a quote`));
+    }
+  });
+  it("a closed quoted cell holding a line break keeps the line numbers of the rows after it", () => {
+    const err = (() => { try { parseDatasetCsv('B,G\n"0.1\n",2\nx,3\n', fieldMap); } catch (e) { return e; } })();
+    expect((err as DatasetCsvError).issues.map((i) => i.row)).toContain(4);
+  });
   it("parses, converts mT to T, skips comments, keeps file line numbers, sorts a descending sweep", () => {
     const text = "# synthetic\nB (mT),R (kohm),dR (kohm)\n30,12.9064037,0.01\n20,25.81280745,0.02\n10,25.81280745,0.02\n0,12.9064037,0.01\n";
     const d = parseDatasetCsv(text, { xColumn: "B (mT)", xUnit: "mT", yColumn: "R (kohm)", yUnit: "kohm", sigmaColumn: "dR (kohm)" });
