@@ -1,9 +1,6 @@
 import { hostname } from "node:os";
-// Native linear-algebra kernels must not start threads of their own: compute-seconds are
-// measured per engine thread. These two are read by OpenBLAS/OpenMP, not by Triskel, so they are
-// set here in process.env (inherited by the engine threads) rather than read through src/env.ts.
-process.env.OPENBLAS_NUM_THREADS ??= "1";
-process.env.OMP_NUM_THREADS ??= "1";
+// Native linear-algebra kernels start no threads of their own (compute-seconds are measured per
+// engine thread): the engine's loader sets that in every engine thread (src/engine/native/index.ts).
 
 import { Worker, type ConnectionOptions } from "bullmq";
 import { loadEnvOrExit } from "../src/env";

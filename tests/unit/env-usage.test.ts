@@ -77,8 +77,6 @@ function allowed(r: EnvRead): boolean {
   if (r.file.startsWith("src/engine/")) return true;
   // Next.js's own runtime flag, set by Next and not by a deployment.
   if (r.file === "src/instrumentation.ts") return r.name === "NEXT_RUNTIME" && !r.assigned;
-  // The worker sets OpenBLAS/OpenMP thread counts before the native kernels load (writes only).
-  if (r.file === "worker/main.ts") return r.assigned && (r.name === "OPENBLAS_NUM_THREADS" || r.name === "OMP_NUM_THREADS");
   return false;
 }
 
@@ -112,7 +110,7 @@ describe("process.env is read through src/env.ts only", () => {
     const reads = [...sourceFiles("src"), ...sourceFiles("worker")].flatMap((file) => envReads(file, readFileSync(path.join(ROOT, file), "utf8")));
     // The scan sees the known, allowed uses (so an empty result cannot pass by accident).
     expect(reads.some((r) => r.file === "src/env.ts")).toBe(true);
-    expect(reads.filter((r) => r.file === "worker/main.ts").map((r) => r.name).sort()).toEqual(["OMP_NUM_THREADS", "OPENBLAS_NUM_THREADS"]);
+    expect(reads.filter((r) => r.file === "src/instrumentation.ts").map((r) => r.name)).toEqual(["NEXT_RUNTIME"]);
     const outside = reads.filter((r) => !allowed(r)).map((r) => `${r.file}:${r.line}: ${r.text}`);
     expect(outside, "read these through env() from src/env.ts (and add them to its schema and .env.example)").toEqual([]);
   });

@@ -5,7 +5,8 @@
  * - OPENBLAS_CORETYPE: kept if already set; otherwise chosen from /proc/cpuinfo (AVX-512 ->
  *   SkylakeX, AVX2 -> Haswell), because Debian's OpenBLAS 0.3.21 may not recognise a newer
  *   processor and would then run its slow generic code;
- * - OPENBLAS_NUM_THREADS=1 inside worker threads (the worker's pool supplies the parallelism).
+ * - OPENBLAS_NUM_THREADS=1 and OMP_NUM_THREADS=1 inside worker threads (the worker's pool supplies
+ *   the parallelism, and compute-seconds are measured per engine thread).
  * Inside a worker thread Node's process.env is a private copy that OpenBLAS never sees, so both are
  * set in the real process environment through the tiny triskel_env addon.
  *
@@ -143,7 +144,10 @@ function load(): NativeLoad {
       coreType = chosen; coreTypeSource = "cpuinfo";
     }
   }
-  if (!isMainThread) setenv("OPENBLAS_NUM_THREADS", "1");
+  if (!isMainThread) {
+    setenv("OPENBLAS_NUM_THREADS", "1");
+    setenv("OMP_NUM_THREADS", "1");
+  }
   // 2. The kernels addon (loads OpenBLAS and LAPACKE).
   let addon: NativeAddon;
   try {
