@@ -1,3 +1,4 @@
+import { formatComputeSeconds } from "@/shared/format";
 import { computeCostUsd, PLANS, type PlanId } from "@/shared/plans";
 
 /** Compute-seconds and cost of a job before it is submitted (product: show the cost first). */
@@ -10,12 +11,7 @@ export function estimateCost(computeSeconds: number, plan: PlanId): { computeSec
   return { computeSeconds: seconds, costUsd: computeCostUsd(plan, seconds), note: `metered at ${p.computePriceUsdPerHour.toFixed(2)} USD per compute-hour` };
 }
 
-export function formatComputeSeconds(seconds: number): string {
-  if (seconds < 1) return `${seconds.toFixed(2)} compute-seconds`;
-  if (seconds < 120) return `${seconds.toFixed(seconds < 10 ? 1 : 0)} compute-seconds`;
-  if (seconds < 7200) return `${(seconds / 60).toFixed(1)} compute-minutes`;
-  return `${(seconds / 3600).toFixed(2)} compute-hours`;
-}
+export { formatComputeSeconds };
 
 export function formatUsd(usd: number): string {
   if (usd > 0 && usd < 0.01) return "< 0.01 USD";

@@ -4,6 +4,7 @@
  * The message names the limit and its value.
  */
 import { PLANS, type PlanId } from "@/shared/plans";
+import { formatComputeTime } from "@/shared/format";
 import { ApiError } from "@/server/http/errors";
 
 export type PlanLimitName = "maxCellsPerSide" | "maxSweepPoints" | "maxEnsembleSamples" | "maxJobComputeSeconds";
@@ -19,14 +20,6 @@ function refuse(plan: PlanId, limit: PlanLimitName, value: number, requested: nu
     `${what} is ${format(requested)}, over the ${p.label} plan's limit ${limit} = ${format(value)}.${upgrade}`,
     { limit, value, requested, plan, ...(unit ? { unit } : {}) },
   );
-}
-
-/** Compute-seconds with the larger unit beside them: "1,234 compute-seconds (20.6 compute-minutes)". */
-export function formatComputeTime(seconds: number): string {
-  const s = `${count(Math.round(seconds))} compute-seconds`;
-  if (seconds >= 3600) return `${s} (${(seconds / 3600).toPrecision(3)} compute-hours)`;
-  if (seconds >= 60) return `${s} (${(seconds / 60).toPrecision(3)} compute-minutes)`;
-  return seconds < 1 ? `${seconds.toPrecision(2)} compute-seconds` : s;
 }
 
 /**
