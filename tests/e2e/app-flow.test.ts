@@ -125,8 +125,8 @@ describe("web app main flow", () => {
     await fill(page, "axis1.to", 10);
     await fill(page, "axis1.points", 5);
     // An ensemble of disorder seeds per point, so the sweep runs long enough to watch it fill in.
-    await fill(page, "sweep.ensemble", 40);
-    await expect(form.getByTestId("point-count").innerText()).resolves.toMatch(/^20 points × 40 seeds/);
+    await fill(page, "sweep.ensemble", 250);
+    await expect(form.getByTestId("point-count").innerText()).resolves.toMatch(/^20 points × 250 seeds/);
     await expect(form.getByTestId("estimate").innerText()).resolves.toMatch(/Estimate: [\d.]+ compute-(seconds|minutes)[\s\S]*For all 20 points/);
     await form.getByRole("button", { name: "Start sweep of 20 points" }).click();
     await page.waitForURL(/\/sweeps\/[0-9a-f-]{36}$/);
