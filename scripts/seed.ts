@@ -8,6 +8,7 @@ import { loadEnvOrExit } from "../src/env";
 import { closeDb, getDb } from "../src/server/db";
 import { apiTokens, memberships, networks, networkVersions, users, workspaces } from "../src/server/db/schema";
 import { DEMO_LAB, DEMO_NETWORKS, DEMO_PEOPLE, type DemoPerson } from "../src/server/demo/scenario";
+import { parseNetwork } from "../src/engine";
 import { displayPrefix, hashToken, newTokenSecret } from "../src/server/auth/tokens";
 import type { Role } from "../src/shared/permissions";
 import { runSeedExtensions } from "./seed.d/index";
@@ -82,7 +83,7 @@ for (const n of DEMO_NETWORKS) {
   if (existing) continue;
   await db.transaction(async (tx) => {
     const [net] = await tx.insert(networks).values({ workspaceId: lab.id, name: n.name, createdBy: researcher.id }).returning();
-    await tx.insert(networkVersions).values({ networkId: net.id, version: 1, definition: n.definition, createdBy: researcher.id });
+    await tx.insert(networkVersions).values({ networkId: net.id, version: 1, definition: parseNetwork(n.definition), createdBy: researcher.id });
   });
 }
 

@@ -12,7 +12,7 @@ export {
   networkSchema, computationSchema, computeInputSchema,
   conductanceComputationSchema, spectrumComputationSchema, dosComputationSchema, ldosComputationSchema, localizationComputationSchema,
   parseComputeInput, parseNetwork, linkLengthNm,
-  type Network, type Computation, type ComputeInput,
+  type Network, type NetworkDefinition, type Computation, type ComputeInput,
   type ConductanceComputation, type SpectrumComputation, type DosComputation, type LdosComputation, type LocalizationComputation,
 } from "./schema";
 export { EngineInputError, EngineLimitError, EngineCancelledError, SingularMatrixError, type EngineIssue } from "./errors";

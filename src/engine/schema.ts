@@ -148,6 +148,8 @@ function finishNetwork(n: BaseNetwork, ctx: z.RefinementCtx): Network {
 }
 
 export const networkSchema = baseNetworkSchema.transform((n, ctx) => finishNetwork(n, ctx));
+/** A network description as written (before defaults are filled in and the node is checked). */
+export type NetworkDefinition = z.input<typeof networkSchema>;
 
 const ensembleSchema = z.strictObject({ samples: z.int().min(1).max(100000) });
 const fluxSchema = z.strictObject({

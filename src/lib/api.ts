@@ -1,8 +1,12 @@
 /**
  * Client for the Triskel REST API (/api/v1), used by every page through TanStack Query.
  * Same-origin requests carry the session cookie; no token is needed in the browser.
- * Errors arrive as `{ error: { code, message, details } }` and are thrown as ApiClientError.
+ * Every call names its endpoint in the contract table (src/shared/api), so the answer's type is
+ * the one the route handler was checked against. Errors arrive as `{ error: { code, message,
+ * details } }` and are thrown as ApiClientError.
  */
+import { routeRequest, type ApiErrorBody, type ApiResponse, type ApiRoute, type JobError, type RouteParams } from "@/shared/api";
+
 export class ApiClientError extends Error {
   constructor(
     readonly status: number,
@@ -22,15 +26,26 @@ export class ApiClientError extends Error {
   }
 }
 
-export async function apiFetch<T>(path: string, init: RequestInit & { json?: unknown } = {}): Promise<T> {
-  const headers = new Headers(init.headers);
-  let body = init.body;
+/**
+ * One call of the API, by its name in the contract table (src/shared/api/routes.ts): the method and
+ * path come from the name, `{…}` segments from `params`; the answer has the contract's type.
+ */
+export async function api<R extends ApiRoute>(
+  route: R,
+  options: { params?: RouteParams<R>; query?: QueryParams; json?: unknown; form?: FormData; signal?: AbortSignal } = {},
+): Promise<ApiResponse<R>> {
+  const { method, path } = routeRequest(route, options.params as Record<string, string> | undefined);
+  return send<ApiResponse<R>>(`${path}${qs(options.query ?? {})}`, { method, json: options.json, form: options.form, signal: options.signal });
+}
+
+async function send<T>(path: string, init: { method: string; json?: unknown; form?: FormData; signal?: AbortSignal }): Promise<T> {
+  const headers = new Headers({ accept: "application/json" });
+  let body: string | FormData | undefined = init.form;
   if (init.json !== undefined) {
     headers.set("content-type", "application/json");
     body = JSON.stringify(init.json);
   }
-  headers.set("accept", "application/json");
-  const res = await fetch(path.startsWith("/") ? path : `/api/v1/${path}`, { ...init, headers, body, credentials: "same-origin" });
+  const res = await fetch(path, { method: init.method, headers, body, signal: init.signal, credentials: "same-origin" });
   const text = await res.text();
   let data: unknown = null;
   if (text) {
@@ -41,7 +56,7 @@ export async function apiFetch<T>(path: string, init: RequestInit & { json?: unk
     }
   }
   if (!res.ok) {
-    const err = (data as { error?: { code?: string; message?: string; details?: unknown } } | null)?.error;
+    const err = (data as Partial<ApiErrorBody> | null)?.error;
     throw new ApiClientError(res.status, err?.code ?? `http_${res.status}`, err?.message ?? describeStatus(res.status), err?.details);
   }
   return data as T;
@@ -55,91 +70,17 @@ function describeStatus(status: number): string {
   return `Request failed (HTTP ${status}).`;
 }
 
+export type QueryParams = Record<string, string | number | boolean | null | undefined>;
+
 /** Query string from an object, skipping empty values. */
-export function qs(params: Record<string, string | number | boolean | null | undefined>): string {
+export function qs(params: QueryParams): string {
   const p = new URLSearchParams();
   for (const [k, v] of Object.entries(params)) if (v !== undefined && v !== null && v !== "") p.set(k, String(v));
   const s = p.toString();
   return s ? `?${s}` : "";
 }
 
-// ---- Resource shapes (docs/api.md; the UI reads only what it shows) ----
-
-export type JobStatus = "queued" | "running" | "succeeded" | "failed" | "cancelled";
-
-export interface NetworkRecord {
-  id: string;
-  name: string;
-  version?: number;
-  network: Record<string, unknown>;
-  createdAt?: string;
-  updatedAt?: string;
-  createdBy?: string | { id?: string; name?: string; email?: string } | null;
-}
-
-export interface Estimate {
-  computeSeconds: number;
-  costUsd?: number;
-  [k: string]: unknown;
-}
-
-export interface RunRecord {
-  id: string;
-  status: JobStatus;
-  progress: number;
-  computation?: { kind: string; [k: string]: unknown };
-  kind?: string;
-  networkId?: string | null;
-  networkName?: string | null;
-  network?: Record<string, unknown> | null;
-  result?: Record<string, unknown> | null;
-  error?: string | { code?: string; message?: string } | null;
-  computeSeconds?: number | null;
-  estimate?: Estimate | null;
-  createdAt?: string;
-  startedAt?: string | null;
-  finishedAt?: string | null;
-  createdBy?: string | { id?: string; name?: string; email?: string } | null;
-}
-
-export interface SweepAxis {
-  parameter: string;
-  values?: number[];
-  from?: number;
-  to?: number;
-  points?: number;
-}
-
-export interface SweepRecord extends Omit<RunRecord, "result"> {
-  axes: SweepAxis[];
-  ensemble?: { samples: number } | null;
-  pointCount?: number;
-  pointsDone?: number;
-  result?: unknown;
-  points?: unknown[];
-}
-
-export interface ListPage<T> {
-  items: T[];
-  nextCursor?: string | null;
-  total?: number;
-}
-
-/** Lists come back as `{ items, nextCursor }` (or `{ data }` / a bare array); normalise. */
-export function asList<T>(data: unknown, key?: string): ListPage<T> {
-  if (Array.isArray(data)) return { items: data as T[] };
-  const d = (data ?? {}) as Record<string, unknown>;
-  const items = (d.items ?? d.data ?? (key ? d[key] : undefined) ?? []) as T[];
-  return { items: Array.isArray(items) ? items : [], nextCursor: ((d.nextCursor ?? d.nextBefore) as string | null | undefined) ?? null, total: d.total as number | undefined };
-}
-
-export function personName(p: RunRecord["createdBy"]): string {
-  if (!p) return "–";
-  if (typeof p === "string") return p;
-  return p.name || p.email || p.id || "–";
-}
-
-export function errorText(e: RunRecord["error"]): string | null {
-  if (!e) return null;
-  return typeof e === "string" ? e : e.message ?? e.code ?? "failed";
+/** The message of a job's stored error. */
+export function errorText(e: JobError | null | undefined): string | null {
+  return e ? e.message || e.code || "failed" : null;
 }

@@ -5,7 +5,7 @@
  */
 // The engine's browser-safe entry (no Node built-ins, no native addon, no compute code); the
 // engine's index would bring the kernel backend and node:crypto into the browser bundle.
-import { computationSchema, estimateCost, networkSchema, SWEEPABLE_PARAMETERS, type ComputeInput } from "@/engine/browser";
+import { computationSchema, estimateCost, networkSchema, SWEEPABLE_PARAMETERS, type Computation, type Network } from "@/engine/browser";
 
 export type Issues = Record<string, string>;
 
@@ -18,15 +18,15 @@ function collect(error: { issues: { path: PropertyKey[]; message: string }[] }, 
   return out;
 }
 
-export function validateNetwork(network: unknown): { ok: true; data: Record<string, unknown> } | { ok: false; issues: Issues } {
+export function validateNetwork(network: unknown): { ok: true; data: Network } | { ok: false; issues: Issues } {
   const r = networkSchema.safeParse(network);
-  if (r.success) return { ok: true, data: r.data as unknown as Record<string, unknown> };
+  if (r.success) return { ok: true, data: r.data };
   return { ok: false, issues: collect(r.error) };
 }
 
-export function validateComputation(computation: unknown): { ok: true; data: Record<string, unknown> } | { ok: false; issues: Issues } {
+export function validateComputation(computation: unknown): { ok: true; data: Computation } | { ok: false; issues: Issues } {
   const r = computationSchema.safeParse(computation);
-  if (r.success) return { ok: true, data: r.data as unknown as Record<string, unknown> };
+  if (r.success) return { ok: true, data: r.data };
   return { ok: false, issues: collect(r.error) };
 }
 
@@ -39,7 +39,7 @@ export function estimateInput(input: { network: unknown; computation: unknown })
   const c = computationSchema.safeParse(input.computation);
   if (!n.success || !c.success) return null;
   try {
-    return estimateCost({ network: n.data, computation: c.data } as ComputeInput).computeSeconds;
+    return estimateCost({ network: n.data, computation: c.data }).computeSeconds;
   } catch {
     return null;
   }

@@ -3,6 +3,7 @@
 import { useAuth, useClerk } from "@clerk/nextjs";
 import Link from "next/link";
 import { useState } from "react";
+import { api } from "@/lib/api";
 import { FormMessage } from "./formParts";
 
 interface Preview {
@@ -29,16 +30,7 @@ export function AcceptInvitation({ token, preview }: { token: string; preview: P
     setBusy(true);
     setError(null);
     try {
-      const res = await fetch("/api/v1/workspace/invitations/accept", {
-        method: "POST",
-        headers: { "content-type": "application/json" },
-        body: JSON.stringify({ token }),
-      });
-      const body = await res.json();
-      if (!res.ok) {
-        setError(body?.error?.message ?? `The invitation could not be accepted (${res.status}).`);
-        return;
-      }
+      const body = await api("POST /api/v1/workspace/invitations/accept", { json: { token } });
       await clerk.setActive({ organization: body.workspace.clerkOrgId });
       window.location.assign("/networks");
     } catch (err) {

@@ -4,48 +4,10 @@ import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { useSearchParams } from "next/navigation";
 import { useState } from "react";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
-import { apiFetch } from "@/lib/api";
+import { api } from "@/lib/api";
+import type { BillingOverview, InvoiceView } from "@/shared/api";
 import { formatComputeSeconds, formatUsd } from "./CostEstimate";
-import { UsageByDayChart, type DayUsage } from "./UsageByDayChart";
-
-interface Overview {
-  workspace: { id: string; name: string; kind: string };
-  plan: "free" | "lab";
-  planLabel: string;
-  planState: "active" | "grace" | "suspended";
-  effectivePlan: "free" | "lab";
-  graceEndsAt: string | null;
-  seats: number;
-  members: number;
-  seatPriceUsdPerMonth: number;
-  computePriceUsdPerHour: number;
-  spendCapUsd: number | null;
-  period: string;
-  usedComputeSeconds: number;
-  includedComputeSeconds: number;
-  spendUsd: number;
-  hasPaymentAccount: boolean;
-  hasSubscription: boolean;
-  meterEvents: { pending: number; sent: number; failed: number; lastError: string | null };
-  canManageBilling: boolean;
-}
-interface Usage {
-  period: string;
-  computeSeconds: number;
-  costUsd: number;
-  members: { userId: string | null; name: string; email: string | null; role: string | null; runs: number; computeSeconds: number; costUsd: number }[];
-  days: DayUsage[];
-}
-interface InvoiceView {
-  id: string;
-  number: string | null;
-  status: string | null;
-  totalUsd: number;
-  periodStart: string;
-  periodEnd: string;
-  createdAt: string;
-  url: string | null;
-}
+import { UsageByDayChart } from "./UsageByDayChart";
 
 const keys = { overview: ["billing"] as const, usage: ["usage"] as const, invoices: ["billing", "invoices"] as const };
 const day = (iso: string) => iso.slice(0, 10);
@@ -56,24 +18,24 @@ export function BillingPage() {
   const returnedFromCheckout = params.get("checkout") === "success";
   const overview = useQuery({
     queryKey: keys.overview,
-    queryFn: () => apiFetch<Overview>("/api/v1/billing"),
+    queryFn: () => api("GET /api/v1/billing"),
     // Back from Checkout before the payment service's confirmation arrived: look again shortly.
     refetchInterval: (q) => (returnedFromCheckout && q.state.data && !q.state.data.hasSubscription ? 1500 : false),
   });
-  const usage = useQuery({ queryKey: keys.usage, queryFn: () => apiFetch<Usage>("/api/v1/usage") });
+  const usage = useQuery({ queryKey: keys.usage, queryFn: () => api("GET /api/v1/usage") });
   const canManage = overview.data?.canManageBilling ?? false;
-  const invoices = useQuery({ queryKey: keys.invoices, queryFn: () => apiFetch<{ invoices: InvoiceView[]; upcoming: InvoiceView | null }>("/api/v1/billing/invoices"), enabled: canManage && Boolean(overview.data?.hasPaymentAccount) });
+  const invoices = useQuery({ queryKey: keys.invoices, queryFn: () => api("GET /api/v1/billing/invoices"), enabled: canManage && Boolean(overview.data?.hasPaymentAccount) });
   const refresh = () => void client.invalidateQueries({ queryKey: ["billing"] });
 
   const upgrade = useMutation({
-    mutationFn: () => apiFetch<{ url: string }>("/api/v1/billing/checkout", { method: "POST" }),
+    mutationFn: () => api("POST /api/v1/billing/checkout"),
     onSuccess: (r) => window.location.assign(r.url),
   });
   const portal = useMutation({
-    mutationFn: () => apiFetch<{ url: string }>("/api/v1/billing/portal", { method: "POST" }),
+    mutationFn: () => api("POST /api/v1/billing/portal"),
     onSuccess: (r) => window.location.assign(r.url),
   });
-  const syncSeats = useMutation({ mutationFn: () => apiFetch("/api/v1/billing/seats/sync", { method: "POST" }), onSuccess: refresh });
+  const syncSeats = useMutation({ mutationFn: () => api("POST /api/v1/billing/seats/sync"), onSuccess: refresh });
 
   if (overview.isPending) return <Skeleton lines={6} />;
   if (overview.error) return <ErrorNote error={overview.error} title="Billing could not be loaded" />;
@@ -231,10 +193,10 @@ export function BillingPage() {
   );
 }
 
-function SpendCap({ o, canManage, onSaved }: { o: Overview; canManage: boolean; onSaved: () => void }) {
+function SpendCap({ o, canManage, onSaved }: { o: BillingOverview; canManage: boolean; onSaved: () => void }) {
   const [value, setValue] = useState(o.spendCapUsd === null ? "" : String(o.spendCapUsd));
   const save = useMutation({
-    mutationFn: () => apiFetch("/api/v1/billing/spend-cap", { method: "PUT", json: { spendCapUsd: value.trim() === "" ? null : Number(value) } }),
+    mutationFn: () => api("PUT /api/v1/billing/spend-cap", { json: { spendCapUsd: value.trim() === "" ? null : Number(value) } }),
     onSuccess: onSaved,
   });
   const share = o.spendCapUsd ? Math.min(1, o.spendUsd / o.spendCapUsd) : 0;

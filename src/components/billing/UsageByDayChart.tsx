@@ -4,12 +4,8 @@ import * as d3 from "d3";
 import { useMemo, useRef } from "react";
 import { ChartFrame } from "@/components/charts/ChartFrame";
 import { useChartBox } from "@/components/charts/useWidth";
+import type { DayUsage } from "@/shared/api";
 
-export interface DayUsage {
-  date: string;
-  userId: string | null;
-  computeSeconds: number;
-}
 
 /** Compute-seconds per day of the period, stacked by member (d3 stack and scales, drawn as SVG). */
 export function UsageByDayChart({ period, days, names }: { period: string; days: DayUsage[]; names: Map<string, string> }) {

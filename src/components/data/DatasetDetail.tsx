@@ -2,17 +2,16 @@
 
 import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
-import { apiFetch } from "@/lib/api";
+import { api } from "@/lib/api";
 import { XYChart } from "@/components/charts/XYChart";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import { FitForm } from "./FitForm";
 import { PeriodPanel } from "./PeriodPanel";
 import { SyntheticMark } from "./SyntheticMark";
-import type { DatasetRecord, FitRecord } from "./types";
 
 export function DatasetDetail({ id }: { id: string }) {
-  const q = useQuery({ queryKey: ["dataset", id], queryFn: () => apiFetch<DatasetRecord>(`/api/v1/datasets/${id}`) });
-  const fitsQ = useQuery({ queryKey: ["fits", { datasetId: id }], queryFn: () => apiFetch<{ items: FitRecord[] }>(`/api/v1/fits?datasetId=${id}`) });
+  const q = useQuery({ queryKey: ["dataset", id], queryFn: () => api("GET /api/v1/datasets/{id}", { params: { id } }) });
+  const fitsQ = useQuery({ queryKey: ["fits", { datasetId: id }], queryFn: () => api("GET /api/v1/fits", { query: { datasetId: id } }) });
   if (q.isPending) return <Skeleton lines={6} />;
   if (q.error) return <ErrorNote error={q.error} title="Dataset not available" />;
   const d = q.data;

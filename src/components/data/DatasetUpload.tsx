@@ -3,7 +3,7 @@
 import { useQueryClient } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
 import { useMemo, useState, type DragEvent } from "react";
-import { ApiClientError } from "@/lib/api";
+import { api, ApiClientError } from "@/lib/api";
 import { qk } from "@/lib/queryKeys";
 import { XYChart } from "@/components/charts/XYChart";
 import { Field } from "@/components/ui/Field";
@@ -89,12 +89,7 @@ export function DatasetUpload() {
     if (mapping.sigmaColumn) form.set("sigmaColumn", mapping.sigmaColumn);
     if (mapping.temperatureColumn) form.set("temperatureColumn", mapping.temperatureColumn);
     try {
-      const res = await fetch("/api/v1/datasets", { method: "POST", body: form, credentials: "same-origin" });
-      const body = await res.json().catch(() => null);
-      if (!res.ok) {
-        const err = body?.error;
-        throw new ApiClientError(res.status, err?.code ?? `http_${res.status}`, err?.message ?? `Upload failed (HTTP ${res.status}).`, err?.details);
-      }
+      const body = await api("POST /api/v1/datasets", { form });
       await queryClient.invalidateQueries({ queryKey: qk.datasets });
       router.push(`/datasets/${body.id}`);
     } catch (e) {

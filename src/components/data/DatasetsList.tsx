@@ -2,15 +2,14 @@
 
 import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
-import { apiFetch } from "@/lib/api";
+import { api } from "@/lib/api";
 import { qk } from "@/lib/queryKeys";
 import { Empty, ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import { sig } from "./format";
 import { SyntheticMark } from "./SyntheticMark";
-import type { DatasetSummary } from "./types";
 
 export function DatasetsList() {
-  const q = useQuery({ queryKey: qk.datasets, queryFn: () => apiFetch<{ items: DatasetSummary[] }>("/api/v1/datasets") });
+  const q = useQuery({ queryKey: qk.datasets, queryFn: () => api("GET /api/v1/datasets") });
   return (
     <>
       <PageHeader

@@ -3,7 +3,7 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
-import { ApiClientError, apiFetch } from "@/lib/api";
+import { ApiClientError, api } from "@/lib/api";
 import { qk } from "@/lib/queryKeys";
 import { LK07_COMPUTATION, LK07_FIT_START, LK07_NAME, LK07_NETWORK } from "@/shared/lk07";
 import { FIT_PARAMETERS } from "@/shared/fit-parameters";
@@ -30,7 +30,7 @@ export function FitForm({ datasetId, datasetName }: { datasetId: string; dataset
   const [localError, setLocalError] = useState<string | null>(null);
 
   const m = useMutation({
-    mutationFn: (body: unknown) => apiFetch<{ id: string; estimate: { computeSeconds: number; costUsd: number } }>("/api/v1/fits", { method: "POST", json: body }),
+    mutationFn: (body: unknown) => api("POST /api/v1/fits", { json: body }),
     onSuccess: async (r) => {
       await queryClient.invalidateQueries({ queryKey: qk.fits });
       router.push(`/fits/${r.id}`);

@@ -2,12 +2,12 @@
 
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import Link from "next/link";
-import { apiFetch } from "@/lib/api";
+import { api } from "@/lib/api";
 import { XYChart } from "@/components/charts/XYChart";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import { sig, withStderr } from "./format";
 import { SyntheticMark } from "./SyntheticMark";
-import type { DatasetRecord, FitRecord } from "./types";
+import type { FitDetail } from "@/shared/api";
 
 const finished = (s?: string) => s === "succeeded" || s === "failed" || s === "cancelled";
 
@@ -16,13 +16,13 @@ export function FitReport({ id }: { id: string }) {
   const queryClient = useQueryClient();
   const q = useQuery({
     queryKey: ["fit", id],
-    queryFn: () => apiFetch<FitRecord>(`/api/v1/fits/${id}`),
+    queryFn: () => api("GET /api/v1/fits/{id}", { params: { id } }),
     refetchInterval: (query) => (finished(query.state.data?.status) ? false : 1000),
   });
   const datasetId = q.data?.datasetId;
-  const dq = useQuery({ queryKey: ["dataset", datasetId], queryFn: () => apiFetch<DatasetRecord>(`/api/v1/datasets/${datasetId}`), enabled: !!datasetId });
+  const dq = useQuery({ queryKey: ["dataset", datasetId], queryFn: () => api("GET /api/v1/datasets/{id}", { params: { id: datasetId! } }), enabled: !!datasetId });
   const cancel = useMutation({
-    mutationFn: () => apiFetch<FitRecord>(`/api/v1/fits/${id}/cancel`, { method: "POST" }),
+    mutationFn: () => api("POST /api/v1/fits/{id}/cancel", { params: { id } }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: ["fit", id] }),
   });
   if (q.isPending) return <Skeleton lines={6} />;

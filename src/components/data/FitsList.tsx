@@ -2,14 +2,13 @@
 
 import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
-import { apiFetch } from "@/lib/api";
+import { api } from "@/lib/api";
 import { qk } from "@/lib/queryKeys";
 import { Empty, ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import { withStderr } from "./format";
-import type { FitRecord } from "./types";
 
 export function FitsList() {
-  const q = useQuery({ queryKey: qk.fits, queryFn: () => apiFetch<{ items: FitRecord[] }>("/api/v1/fits"), refetchInterval: 3000 });
+  const q = useQuery({ queryKey: qk.fits, queryFn: () => api("GET /api/v1/fits"), refetchInterval: 3000 });
   return (
     <>
       <PageHeader kicker="measured data" title="Fits">

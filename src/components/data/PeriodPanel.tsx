@@ -2,16 +2,15 @@
 
 import { useMutation } from "@tanstack/react-query";
 import { FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM } from "@/engine/browser";
-import { apiFetch } from "@/lib/api";
+import { api } from "@/lib/api";
 import { sigText } from "@/lib/units";
 import { XYChart } from "@/components/charts/XYChart";
 import { ErrorNote } from "@/components/ui/Page";
 import { sig } from "./format";
-import type { PeriodResult } from "./types";
 
 /** Period analysis: spectrum with its peak, and the period read as area, moiré period and twist angle. */
 export function PeriodPanel({ datasetId }: { datasetId: string }) {
-  const m = useMutation({ mutationFn: () => apiFetch<PeriodResult>(`/api/v1/datasets/${datasetId}/period`, { method: "POST", json: {} }) });
+  const m = useMutation({ mutationFn: () => api("POST /api/v1/datasets/{id}/period", { params: { id: datasetId }, json: {} }) });
   const r = m.data;
   return (
     <section className="space-y-4" aria-labelledby="period-title">

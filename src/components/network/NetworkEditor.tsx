@@ -3,7 +3,8 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
 import { useDeferredValue, useEffect, useMemo, useState } from "react";
-import { apiFetch, ApiClientError, type NetworkRecord } from "@/lib/api";
+import { api, ApiClientError } from "@/lib/api";
+import type { NetworkView } from "@/shared/api";
 import { validateNetwork, type Issues } from "@/lib/engineClient";
 import { qk } from "@/lib/queryKeys";
 import { checkTriple } from "@/lib/ternary";
@@ -17,7 +18,7 @@ import { NetworkDrawing } from "./NetworkDrawing";
 import { TernaryDiagram } from "./TernaryDiagram";
 
 interface Props {
-  initial?: NetworkRecord;
+  initial?: NetworkView;
   canEdit: boolean;
 }
 
@@ -66,8 +67,8 @@ export function NetworkEditor({ initial, canEdit }: Props) {
   const save = useMutation({
     mutationFn: async () => {
       const body = { name: name.trim(), network: validation.ok ? validation.data : draft };
-      if (initial?.id) return apiFetch<NetworkRecord>(`/api/v1/networks/${initial.id}`, { method: "PUT", json: body });
-      return apiFetch<NetworkRecord>("/api/v1/networks", { method: "POST", json: body });
+      if (initial?.id) return api("PUT /api/v1/networks/{id}", { params: { id: initial.id }, json: body });
+      return api("POST /api/v1/networks", { json: body });
     },
     onSuccess: async (saved) => {
       await client.invalidateQueries({ queryKey: ["networks"] });

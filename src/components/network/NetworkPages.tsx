@@ -3,7 +3,7 @@
 import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { apiFetch, ApiClientError, type NetworkRecord } from "@/lib/api";
+import { api, ApiClientError } from "@/lib/api";
 import { qk } from "@/lib/queryKeys";
 import { when } from "@/lib/units";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
@@ -26,7 +26,7 @@ export function NewNetwork() {
 
 export function NetworkDetail({ id }: { id: string }) {
   const me = useMe();
-  const q = useQuery({ queryKey: qk.network(id), queryFn: () => apiFetch<NetworkRecord>(`/api/v1/networks/${id}`) });
+  const q = useQuery({ queryKey: qk.network(id), queryFn: () => api("GET /api/v1/networks/{id}", { params: { id } }) });
   if (q.error instanceof ApiClientError && q.error.status === 404) notFound();
   if (q.error) return <ErrorNote error={q.error} title="Could not load this network" />;
   if (!q.data) return <Skeleton lines={6} />;

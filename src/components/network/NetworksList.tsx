@@ -2,15 +2,15 @@
 
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
-import type { NetworkRecord } from "@/lib/api";
+import type { NetworkView } from "@/shared/api";
 import { useMemberNames } from "@/components/shell/useMemberNames";
 import { num, when } from "@/lib/units";
 import { PageHeader } from "@/components/ui/Page";
 import { canCreate, useMe } from "@/components/shell/useMe";
 import { DataTable } from "@/components/tables/DataTable";
-import { linkLengthNm } from "./draft";
+import { linkLengthNm } from "@/engine/browser";
 
-const columnsFor = (who: (id: unknown) => string): ColumnDef<NetworkRecord, any>[] => [
+const columnsFor = (who: (id: string | null) => string): ColumnDef<NetworkView, any>[] => [
   {
     id: "name",
     header: "Name",
@@ -25,10 +25,10 @@ const columnsFor = (who: (id: unknown) => string): ColumnDef<NetworkRecord, any>
     id: "lattice",
     header: "Lattice",
     cell: ({ row }) => {
-      const n = row.original.network as Record<string, any>;
+      const n = row.original.network;
       return (
         <span className="font-mono text-caption">
-          {n.lattice} {n.size?.columns} × {n.size?.rows} · {n.transverse}
+          {n.lattice} {n.size.columns} × {n.size.rows} · {n.transverse}
         </span>
       );
     },
@@ -37,13 +37,13 @@ const columnsFor = (who: (id: unknown) => string): ColumnDef<NetworkRecord, any>
     id: "scale",
     header: "Link length",
     cell: ({ row }) => {
-      const l = linkLengthNm(row.original.network as Record<string, any>);
-      return <span className="tk-num">{l ? `${num(l, 4)} nm` : "–"}</span>;
+      const l = linkLengthNm(row.original.network);
+      return <span className="tk-num">{Number.isFinite(l) ? `${num(l, 4)} nm` : "–"}</span>;
     },
   },
-  { id: "version", header: "Version", cell: ({ row }) => <span className="tk-num">v{row.original.version ?? 1}</span> },
+  { id: "version", header: "Version", cell: ({ row }) => <span className="tk-num">v{row.original.version}</span> },
   { id: "createdBy", header: "By", cell: ({ row }) => who(row.original.createdBy) },
-  { id: "createdAt", header: "Created", accessorFn: (r) => r.createdAt ?? "", cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
+  { id: "createdAt", header: "Created", accessorFn: (r) => r.createdAt, cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
 ];
 
 export function NetworksList() {
@@ -65,7 +65,7 @@ export function NetworksList() {
       >
         Saved network descriptions. Each edit is kept as a new version, and every run points at the version it used.
       </PageHeader>
-      <DataTable<NetworkRecord> path="/api/v1/networks" listKey="networks" columns={columns} label="networks" empty="No networks yet. Create one to see it drawn." />
+      <DataTable route="GET /api/v1/networks" listKey="networks" columns={columns} label="networks" empty="No networks yet. Create one to see it drawn." />
     </>
   );
 }

@@ -8,6 +8,7 @@ import { SEQUENTIAL_STOPS } from "@/components/charts/palette";
 import { NetworkDrawing } from "@/components/network/NetworkDrawing";
 import { shapeOf, linkLengthNm } from "@/components/network/draft";
 import { download, exportCsv, exportPng, exportSvg } from "@/lib/exportFigure";
+import type { LdosResult, Network } from "@/engine/browser";
 
 const scale = d3.interpolateRgbBasis(SEQUENTIAL_STOPS);
 
@@ -15,13 +16,10 @@ const scale = d3.interpolateRgbBasis(SEQUENTIAL_STOPS);
  * The local density of states on every link, drawn on the links of the closed sample the engine
  * used (their positions come with the result), with a colour legend.
  */
-export function LdosMap({ result, network, runId }: { result: Record<string, any>; network?: Record<string, any>; runId: string }) {
-  const values: number[] = useMemo(() => {
-    const v = result.ldosPerMeV?.total ?? result.ldosPerMeV ?? [];
-    return Array.isArray(v) ? v.map(Number) : [];
-  }, [result]);
+export function LdosMap({ result, network, runId }: { result: LdosResult; network?: Network; runId: string }) {
+  const values = result.ldosPerMeV.total;
   const l = network ? linkLengthNm(network) : undefined;
-  const links = result.links as { fromXNm: number[]; fromYNm: number[]; toXNm: number[]; toYNm: number[]; edge?: number[] } | undefined;
+  const links = result.links;
   const custom = useMemo(() => (links ? geometryFromSegments({ fromX: links.fromXNm, fromY: links.fromYNm, toX: links.toXNm, toY: links.toYNm, edge: links.edge }, l ?? 1) : undefined), [links, l]);
   const shape = useMemo(() => shapeOf(network ?? {}, "K"), [network]);
   const [lo, hi] = useMemo(() => {

@@ -1,7 +1,7 @@
 "use client";
 
 import { useEffect, useState } from "react";
-import type { JobStatus } from "@/lib/api";
+import type { JobStatus } from "@/shared/api";
 import { elapsed } from "@/lib/units";
 import { StatusBadge } from "@/components/ui/Status";
 

@@ -3,7 +3,8 @@
 import { useMutation } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
 import { useMemo, useState } from "react";
-import { apiFetch, ApiClientError, type NetworkRecord, type RunRecord } from "@/lib/api";
+import { api, ApiClientError } from "@/lib/api";
+import type { NetworkView } from "@/shared/api";
 import { estimateInput, validateComputation } from "@/lib/engineClient";
 import { Field, NumberInput, Select } from "@/components/ui/Field";
 import { useMe } from "@/components/shell/useMe";
@@ -11,7 +12,7 @@ import { buildComputation, defaultsFor, FIELDS, isShown, KINDS, type Computation
 import { CostLine } from "./CostLine";
 
 /** Form for one run of any computation on a saved network; shows the estimate before submit. */
-export function RunForm({ network, canSubmit }: { network: NetworkRecord; canSubmit: boolean }) {
+export function RunForm({ network, canSubmit }: { network: NetworkView; canSubmit: boolean }) {
   const router = useRouter();
   const me = useMe();
   const [kind, setKind] = useState<ComputationKind>("conductance");
@@ -22,7 +23,7 @@ export function RunForm({ network, canSubmit }: { network: NetworkRecord; canSub
   const issues = check.ok ? {} : check.issues;
   const seconds = useMemo(() => (check.ok ? estimateInput({ network: network.network, computation }) : null), [check.ok, network.network, computation]);
   const submit = useMutation({
-    mutationFn: () => apiFetch<RunRecord>("/api/v1/runs", { method: "POST", json: { networkId: network.id, computation } }),
+    mutationFn: () => api("POST /api/v1/runs", { json: { networkId: network.id, computation } }),
     onSuccess: (run) => router.push(`/runs/${run.id}`),
     onError: (e) => setServerError(e instanceof ApiClientError ? e.message : String(e)),
   });

@@ -1,25 +1,34 @@
 "use client";
 
 import { useMemo } from "react";
-import { CONDUCTANCE_QUANTUM_S } from "@/engine/browser";
+import type { ComputeInput, ComputeResult, ConductanceResult as Conductance, DosResult as Dos, LocalizationResult as Localization, SpectrumResult as Spectrum } from "@/engine/browser";
+import type { RunDetail } from "@/shared/api";
 import { num, withUnit } from "@/lib/units";
 import { BandChart } from "@/components/charts/BandChart";
 import { Histogram } from "@/components/charts/Histogram";
 import { XYChart } from "@/components/charts/XYChart";
 import { LdosMap } from "./LdosMap";
 
-type R = Record<string, any>;
-const isNum = (x: unknown): x is number => typeof x === "number" && Number.isFinite(x);
-const arr = (x: unknown): number[] => (Array.isArray(x) ? x.filter(isNum) : []);
+/** An engine result (every engine result names its kind; a fit's companion row does not). */
+export const isEngineResult = (r: RunDetail["result"]): r is ComputeResult => r !== null && "kind" in r;
+const isEngineInput = (i: RunDetail["input"]): i is ComputeInput => "network" in i && "computation" in i && !("fitId" in i);
 
-/** The result of a run, drawn by kind; every figure has axes in physical units and exports. */
-export function RunResult({ kind, result, input, runId }: { kind: string; result: R; input?: R; runId: string }) {
-  if (kind === "conductance") return <ConductanceResult r={result} />;
-  if (kind === "spectrum") return <SpectrumResult r={result} />;
-  if (kind === "dos") return <DosResult r={result} />;
-  if (kind === "ldos") return <LdosMap result={result} network={input?.network} runId={runId} />;
-  if (kind === "localization") return <LocalizationResult r={result} />;
-  return <pre className="tk-card overflow-auto font-mono text-caption">{JSON.stringify(result, null, 2)}</pre>;
+/** The result of a run, drawn by kind (the engine's result types); every figure has axes in physical units and exports. */
+export function RunResult({ run }: { run: Pick<RunDetail, "id" | "input" | "result"> }) {
+  const r = run.result;
+  if (!isEngineResult(r)) return <pre className="tk-card overflow-auto font-mono text-caption">{JSON.stringify(r, null, 2)}</pre>;
+  switch (r.kind) {
+    case "conductance":
+      return <ConductanceResult r={r} />;
+    case "spectrum":
+      return <SpectrumResult r={r} />;
+    case "dos":
+      return <DosResult r={r} />;
+    case "ldos":
+      return <LdosMap result={r} network={isEngineInput(run.input) ? run.input.network : undefined} runId={run.id} />;
+    case "localization":
+      return <LocalizationResult r={r} />;
+  }
 }
 
 function Figure({ label, value, sub }: { label: string; value: string; sub?: string }) {
@@ -32,57 +41,51 @@ function Figure({ label, value, sub }: { label: string; value: string; sub?: str
   );
 }
 
-function ConductanceResult({ r }: { r: R }) {
-  const g = r.conductance ?? {};
+function ConductanceResult({ r }: { r: Conductance }) {
+  const g = r.conductance;
   const ens = r.ensemble;
-  const eig = useMemo(() => {
-    const t = r.transmissionEigenvalues;
-    if (Array.isArray(t)) return t.flat(3).filter(isNum);
-    if (t && typeof t === "object") return Object.values(t).flat(3).filter(isNum) as number[];
-    return [] as number[];
-  }, [r.transmissionEigenvalues]);
-  const siemens = isNum(r.siemens) ? r.siemens : isNum(r.siemens?.total) ? r.siemens.total : isNum(g.total) ? g.total * CONDUCTANCE_QUANTUM_S : null;
-  const ohms = isNum(r.ohms) ? r.ohms : isNum(r.ohms?.total) ? r.ohms.total : null;
+  const eig = useMemo(() => [...r.transmissionEigenvalues.valleyK, ...(r.transmissionEigenvalues.valleyKPrime ?? [])], [r.transmissionEigenvalues]);
   const histo = ens?.histogram;
+  const centers = histo ? histo.counts.map((_, i) => (histo.binEdges[i] + histo.binEdges[i + 1]) / 2) : [];
   return (
     <div className="space-y-6">
       <dl className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4" data-testid="conductance-figures">
-        <Figure label="Total conductance G" value={withUnit(g.total, "e²/h")} sub={siemens !== null ? `${num(siemens)} S` : undefined} />
-        <Figure label="Resistance" value={withUnit(ohms, "Ω")} sub="1 / G, with contacts" />
+        <Figure label="Total conductance G" value={withUnit(g.total, "e²/h")} sub={`${num(r.siemens)} S`} />
+        <Figure label="Resistance" value={withUnit(r.ohms, "Ω")} sub="1 / G, with contacts" />
         <Figure label="Valley K, per spin" value={withUnit(g.valleyK, "e²/h")} sub={g.valleyKPrime !== null && g.valleyKPrime !== undefined ? `valley K′: ${num(g.valleyKPrime)} e²/h` : "one valley"} />
-        <Figure label="Fano factor F" value={num(isNum(r.fano) ? r.fano : r.fano?.total)} sub={`${num(r.channels?.total ?? r.channels?.left ?? r.channels)} lead channels`} />
+        <Figure label="Fano factor F" value={num(r.fano)} sub={`${num(r.channels.total)} lead channels`} />
       </dl>
       {ens ? (
         <dl className="grid gap-3 sm:grid-cols-3">
-          <Figure label={`Ensemble mean (${ens.samples} seeds)`} value={withUnit(ens.mean?.total, "e²/h")} sub={`standard error ${num(ens.stderr?.total)} e²/h`} />
-          <Figure label="Ensemble standard deviation" value={withUnit(ens.std?.total, "e²/h")} />
-          <Figure label="Current conservation error" value={num(r.checks?.currentConservationError)} sub="|R + T − N|, should be ≤ 1e−10" />
+          <Figure label={`Ensemble mean (${ens.samples} seeds)`} value={withUnit(ens.mean.total, "e²/h")} sub={`standard error ${num(ens.stderr.total)} e²/h`} />
+          <Figure label="Ensemble standard deviation" value={withUnit(ens.std.total, "e²/h")} />
+          <Figure label="Current conservation error" value={num(r.checks.currentConservationError)} sub="|R + T − N|, should be ≤ 1e−10" />
         </dl>
       ) : (
-        <p className="text-caption text-fg-faint">Current conservation error |R + T − N| = {num(r.checks?.currentConservationError)} (should be ≤ 1e−10).</p>
+        <p className="text-caption text-fg-faint">Current conservation error |R + T − N| = {num(r.checks.currentConservationError)} (should be ≤ 1e−10).</p>
       )}
       {r.thermal ? (
         <p className="text-caption text-fg-faint" data-testid="thermal-accuracy">
           Thermal average: {r.thermal.energiesPerSample} energies per sample, estimated relative error {num(r.thermal.estimatedRelativeError)} (tolerance {num(r.thermal.relativeTolerance)}).
         </p>
       ) : null}
-      {Array.isArray(r.warnings) && r.warnings.length > 0 ? (
+      {r.warnings.length > 0 ? (
         <ul role="alert" className="tk-card space-y-1 text-caption" data-testid="result-warnings">
-          {r.warnings.map((w: string, i: number) => (
+          {r.warnings.map((w, i) => (
             <li key={i}>Warning: {w}</li>
           ))}
         </ul>
       ) : null}
       <div className="grid gap-6 xl:grid-cols-2">
         {eig.length > 0 ? <Histogram title="Transmission eigenvalues" name="transmission-eigenvalues" values={eig} xLabel="Transmission eigenvalue T (dimensionless)" bins={20} /> : null}
-        {histo && Array.isArray(histo.counts) ? (
+        {histo ? (
           <XYChart
             title="Ensemble distribution of G"
             name="ensemble-histogram"
             xLabel="Conductance G (e²/h)"
             yLabel="Seeds"
             xUnit="e²/h"
-            series={[{ name: "count", x: arr(histo.centers ?? histo.binCenters ?? histo.edges?.slice(0, -1)), y: arr(histo.counts), points: true }]}
+            series={[{ name: "count", x: centers, y: histo.counts, points: true }]}
           />
         ) : null}
       </div>
@@ -97,11 +100,11 @@ function pathDistance(k: number[][]): number[] {
   return d;
 }
 
-function SpectrumResult({ r }: { r: R }) {
-  const energies: number[][] = Array.isArray(r.energiesMeV) ? r.energiesMeV : [];
-  const k: number[][] = r.kPointsPerNm ?? r.kPoints ?? r.path?.kPointsPerNm ?? [];
-  const distance: number[] = r.path?.distancePerNm ?? (k.length === energies.length && k.length > 0 ? pathDistance(k) : energies.map((_, i) => i));
-  const labels: { index: number; label: string }[] = r.path?.labels ?? r.pathLabels ?? [];
+function SpectrumResult({ r }: { r: Spectrum }) {
+  const energies = r.energiesMeV;
+  const k = r.kPointsPerNm;
+  const distance = k.length === energies.length && k.length > 0 ? pathDistance(k) : energies.map((_, i) => i);
+  const labels = r.pathLabels ?? [];
   const greek = (x: string) => (x === "Gamma" ? "Γ" : x);
   const ticks = labels.length ? labels.map((l) => ({ at: distance[l.index] ?? 0, label: greek(l.label) })) : [{ at: distance[0] ?? 0, label: "start" }, { at: distance[distance.length - 1] ?? 1, label: "end" }];
   return (
@@ -110,20 +113,15 @@ function SpectrumResult({ r }: { r: R }) {
         Energy period 2πħv/l = <span className="font-mono">{withUnit(r.energyPeriodMeV, "meV")}</span>; energies are reduced into one period. {energies.length} k points.
       </p>
       <BandChart energies={energies} distance={distance} ticks={ticks} periodMeV={r.energyPeriodMeV} />
-      {Array.isArray(r.valleyKPrimeEnergiesMeV) ? <p className="text-caption text-fg-faint">Valley K′ energies are in the result JSON (valleyKPrimeEnergiesMeV); the plot shows valley K.</p> : null}
+      {r.valleyKPrimeEnergiesMeV ? <p className="text-caption text-fg-faint">Valley K′ energies are in the result JSON (valleyKPrimeEnergiesMeV); the plot shows valley K.</p> : null}
     </div>
   );
 }
 
-function DosResult({ r }: { r: R }) {
-  const e = arr(r.energiesMeV ?? r.energyMeV ?? r.energies);
-  const pick = (v: unknown) => (Array.isArray(v) ? arr(v) : v && typeof v === "object" ? arr((v as R).total) : []);
-  const perCell = pick(r.dosPerMeVPerCell ?? r.dosPerCellPerMeV);
-  const perArea = pick(r.dosPerMeVPerNm2 ?? r.dosPerNm2PerMeV);
-  const n = arr(r.carrierDensityPerCm2 ?? r.carrierDensity?.perCm2 ?? r.carrierDensityCm2);
-  const nNm = arr(r.carrierDensityPerNm2 ?? r.carrierDensity?.perNm2);
-  const density = n.length ? { y: n, label: "Carrier density n (cm⁻²)", unit: "cm⁻²" } : { y: nNm, label: "Carrier density n (nm⁻²)", unit: "nm⁻²" };
-  const dos = perCell.length ? { y: perCell, label: "DOS (states / meV / moiré cell)", unit: "1/meV/cell" } : { y: perArea, label: "DOS (states / meV / nm²)", unit: "1/meV/nm²" };
+function DosResult({ r }: { r: Dos }) {
+  const e = r.energiesMeV;
+  const density = { y: r.carrierDensityPerCm2, label: "Carrier density n (cm⁻²)", unit: "cm⁻²" };
+  const dos = { y: r.dosPerMeVPerCell.total, label: "DOS (states / meV / moiré cell)", unit: "1/meV/cell" };
   return (
     <div className="grid gap-6 xl:grid-cols-2">
       <XYChart
@@ -134,22 +132,22 @@ function DosResult({ r }: { r: R }) {
         yLabel={dos.label}
         yUnit={dos.unit}
         series={[{ name: "DOS", x: e, y: dos.y }]}
-        csv={{ header: ["energyMeV", dos.unit === "1/meV/cell" ? "dosPerCellPerMeV" : "dosPerNm2PerMeV", density.unit === "cm⁻²" ? "carrierDensityPerCm2" : "carrierDensityPerNm2"], rows: e.map((x, i) => [x, dos.y[i], density.y[i]]), comments: ["Density of states and carrier density (model prediction)"] }}
+        csv={{ header: ["energyMeV", "dosPerCellPerMeV", "carrierDensityPerCm2"], rows: e.map((x, i) => [x, dos.y[i], density.y[i]]), comments: ["Density of states and carrier density (model prediction)"] }}
       />
       {density.y.length ? <XYChart title="Carrier density" name="carrier-density" xLabel="Energy E (meV)" xUnit="meV" yLabel={density.label} yUnit={density.unit} series={[{ name: "n", x: e, y: density.y, color: "warm" }]} /> : null}
     </div>
   );
 }
 
-function LocalizationResult({ r }: { r: R }) {
-  const L = arr(r.lengthsNm);
-  const mK = arr(r.meanLnT?.valleyK);
-  const seK = arr(r.stderrLnT?.valleyK);
-  const mKp = arr(r.meanLnT?.valleyKPrime);
-  const xi = r.localizationLength?.valleyK as { nm: number; inLinkLengths: number; stderrNm: number | null } | null;
-  const lambda = r.lambda?.valleyK;
-  const series = [{ name: "valley K", x: L, y: mK, err: seK.length ? seK : undefined }];
-  if (mKp.length) series.push({ name: "valley K′", x: L, y: mKp, err: arr(r.stderrLnT?.valleyKPrime), color: "warm" } as never);
+function LocalizationResult({ r }: { r: Localization }) {
+  const L = r.lengthsNm;
+  const mK = r.meanLnT.valleyK;
+  const seK = r.stderrLnT.valleyK;
+  const mKp = r.meanLnT.valleyKPrime;
+  const xi = r.localizationLength.valleyK;
+  const lambda = r.lambda.valleyK;
+  const series: { name: string; x: number[]; y: number[]; err?: number[]; color?: "warm" }[] = [{ name: "valley K", x: L, y: mK, err: seK.length ? seK : undefined }];
+  if (mKp?.length) series.push({ name: "valley K′", x: L, y: mKp, err: r.stderrLnT.valleyKPrime ?? undefined, color: "warm" });
   return (
     <div className="space-y-6">
       <dl className="grid gap-3 sm:grid-cols-3">

@@ -3,7 +3,7 @@
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { apiFetch, ApiClientError, errorText, type RunRecord } from "@/lib/api";
+import { api, ApiClientError, errorText } from "@/lib/api";
 import { qk } from "@/lib/queryKeys";
 import { computeSeconds, when } from "@/lib/units";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
@@ -22,19 +22,18 @@ export function RunView({ id }: { id: string }) {
   const client = useQueryClient();
   const q = useQuery({
     queryKey: qk.run(id),
-    queryFn: () => apiFetch<RunRecord>(`/api/v1/runs/${id}`),
+    queryFn: () => api("GET /api/v1/runs/{id}", { params: { id } }),
     refetchInterval: (query) => (query.state.data && !LIVE.has(query.state.data.status) ? false : 1000),
   });
   const cancel = useMutation({
-    mutationFn: () => apiFetch<RunRecord>(`/api/v1/runs/${id}/cancel`, { method: "POST" }),
+    mutationFn: () => api("POST /api/v1/runs/{id}/cancel", { params: { id } }),
     onSuccess: () => client.invalidateQueries({ queryKey: qk.run(id) }),
   });
   if (q.error instanceof ApiClientError && q.error.status === 404) notFound();
   if (q.error) return <ErrorNote error={q.error} title="Could not load this run" />;
   if (!q.data) return <Skeleton lines={5} />;
   const run = q.data;
-  const kind = run.kind ?? run.computation?.kind ?? ((run as { input?: { computation?: { kind?: string } } }).input?.computation?.kind as string) ?? "conductance";
-  const label = KINDS.find((k) => k.kind === kind)?.label ?? kind;
+  const label = KINDS.find((k) => k.kind === run.kind)?.label ?? run.kind;
   const live = LIVE.has(run.status);
   const err = errorText(run.error);
   return (
@@ -62,8 +61,8 @@ export function RunView({ id }: { id: string }) {
           </>
         }
       >
-        Submitted {when(run.createdAt)} by {who(run.createdBy)} · estimated {computeSeconds(run.estimate?.computeSeconds)}
-        {run.computeSeconds !== null && run.computeSeconds !== undefined ? ` · used ${computeSeconds(run.computeSeconds)}` : ""}
+        Submitted {when(run.createdAt)} by {who(run.createdBy)} · estimated {computeSeconds(run.estimate.computeSeconds)}
+        {run.computeSeconds !== null ? ` · used ${computeSeconds(run.computeSeconds)}` : ""}
       </PageHeader>
       <div className="max-w-3xl">
         <Progress status={run.status} progress={run.progress} startedAt={run.startedAt} createdAt={run.createdAt} finishedAt={run.finishedAt} label="Run progress" />
@@ -76,7 +75,7 @@ export function RunView({ id }: { id: string }) {
       ) : null}
       {run.status === "succeeded" && run.result ? (
         <div className="mt-6">
-          <RunResult kind={kind} result={run.result} input={(run as { input?: Record<string, unknown> }).input} runId={run.id} />
+          <RunResult run={run} />
         </div>
       ) : null}
     </>

@@ -3,7 +3,7 @@
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
 import { useSearchParams } from "next/navigation";
-import { type RunRecord } from "@/lib/api";
+import { JOB_STATUSES, type RunSummary } from "@/shared/api";
 import { computeSeconds, when } from "@/lib/units";
 import { StatusBadge } from "@/components/ui/Status";
 import { PageHeader } from "@/components/ui/Page";
@@ -12,14 +12,14 @@ import { useMemberNames } from "@/components/shell/useMemberNames";
 import { useNetworkNames } from "@/components/network/useNetworkNames";
 import { KINDS } from "./computations";
 
-const STATUS_OPTIONS = ["queued", "running", "succeeded", "failed", "cancelled"].map((s) => ({ value: s, label: s[0].toUpperCase() + s.slice(1) }));
+const STATUS_OPTIONS = JOB_STATUSES.map((s) => ({ value: s, label: s[0].toUpperCase() + s.slice(1) }));
 
 export function RunsList() {
   const params = useSearchParams();
   const networkId = params.get("networkId") ?? undefined;
   const names = useNetworkNames();
   const who = useMemberNames();
-  const columns: ColumnDef<RunRecord, any>[] = [
+  const columns: ColumnDef<RunSummary, any>[] = [
     {
       id: "status",
       header: "Status",
@@ -34,7 +34,7 @@ export function RunsList() {
     {
       id: "kind",
       header: "Computation",
-      accessorFn: (r) => r.kind ?? "",
+      accessorFn: (r) => r.kind,
       cell: ({ row }) => (
         <Link href={`/runs/${row.original.id}`} className="font-medium text-accent hover:underline">
           {KINDS.find((k) => k.kind === row.original.kind)?.label ?? row.original.kind}
@@ -44,19 +44,19 @@ export function RunsList() {
     {
       id: "network",
       header: "Network",
-      cell: ({ row }) => (row.original.networkId ? <Link href={`/networks/${row.original.networkId}`} className="hover:underline">{names.get(row.original.networkId) ?? "network"}{(row.original as { networkVersion?: number }).networkVersion ? ` v${(row.original as { networkVersion?: number }).networkVersion}` : ""}</Link> : <span className="text-fg-faint">inline</span>),
+      cell: ({ row }) => (row.original.networkId ? <Link href={`/networks/${row.original.networkId}`} className="hover:underline">{names.get(row.original.networkId) ?? "network"}{row.original.networkVersion ? ` v${row.original.networkVersion}` : ""}</Link> : <span className="text-fg-faint">inline</span>),
     },
     { id: "createdBy", header: "Who", cell: ({ row }) => who(row.original.createdBy) },
-    { id: "cost", header: "Compute", accessorFn: (r) => r.computeSeconds ?? r.estimate?.computeSeconds ?? 0, cell: ({ row }) => <span className="tk-num">{row.original.computeSeconds !== null && row.original.computeSeconds !== undefined ? computeSeconds(row.original.computeSeconds) : `est. ${computeSeconds(row.original.estimate?.computeSeconds)}`}</span> },
-    { id: "createdAt", header: "Created", accessorFn: (r) => r.createdAt ?? "", cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
+    { id: "cost", header: "Compute", accessorFn: (r) => r.computeSeconds ?? r.estimate.computeSeconds, cell: ({ row }) => <span className="tk-num">{row.original.computeSeconds !== null ? computeSeconds(row.original.computeSeconds) : `est. ${computeSeconds(row.original.estimate.computeSeconds)}`}</span> },
+    { id: "createdAt", header: "Created", accessorFn: (r) => r.createdAt, cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
   ];
   return (
     <>
       <PageHeader kicker="workspace" title="Runs">
         Single computations, newest first. Start one from a network&apos;s page.
       </PageHeader>
-      <DataTable<RunRecord>
-        path="/api/v1/runs"
+      <DataTable
+        route="GET /api/v1/runs"
         listKey="runs"
         columns={columns}
         fixed={{ networkId }}

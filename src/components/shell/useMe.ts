@@ -1,11 +1,11 @@
 "use client";
 
 import { useQuery } from "@tanstack/react-query";
-import { apiFetch } from "@/lib/api";
+import { api } from "@/lib/api";
 import { qk } from "@/lib/queryKeys";
 import { can, type Role } from "@/shared/permissions";
 import type { PlanId } from "@/shared/plans";
-import type { WorkspaceDescription } from "@/shared/workspace";
+import type { WorkspaceDescription } from "@/shared/api";
 
 export type { Role } from "@/shared/permissions";
 
@@ -22,7 +22,7 @@ export interface Me {
 export function useMe() {
   return useQuery({
     queryKey: qk.me,
-    queryFn: async (): Promise<Me> => normaliseMe(await apiFetch<WorkspaceDescription>("/api/v1/workspace")),
+    queryFn: async (): Promise<Me> => normaliseMe(await api("GET /api/v1/workspace")),
     staleTime: 60_000,
   });
 }

@@ -3,7 +3,8 @@
 import { useMutation } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
 import { useMemo, useState } from "react";
-import { apiFetch, ApiClientError, type NetworkRecord, type SweepAxis, type SweepRecord } from "@/lib/api";
+import { api, ApiClientError } from "@/lib/api";
+import type { NetworkView, SweepAxisRequest } from "@/shared/api";
 import { estimateInput, validateComputation } from "@/lib/engineClient";
 import { axisLabel, PARAMETER_UNITS } from "@/lib/units";
 import { PLANS } from "@/shared/plans";
@@ -34,7 +35,7 @@ export function parseValues(text: string): number[] | string {
   return out;
 }
 
-export function axisFromDraft(a: AxisDraft): { axis: SweepAxis; count: number } | { error: string; field: keyof AxisDraft } {
+export function axisFromDraft(a: AxisDraft): { axis: SweepAxisRequest; count: number } | { error: string; field: keyof AxisDraft } {
   if (a.mode === "values") {
     const v = parseValues(a.values);
     if (typeof v === "string") return { error: v, field: "values" };
@@ -50,11 +51,11 @@ export function axisFromDraft(a: AxisDraft): { axis: SweepAxis; count: number } 
 }
 
 /** A sweep over one or two parameters, values or ranges, with the point count and the estimate. */
-export function SweepBuilder({ network, canSubmit }: { network: NetworkRecord; canSubmit: boolean }) {
+export function SweepBuilder({ network, canSubmit }: { network: NetworkView; canSubmit: boolean }) {
   const router = useRouter();
   const me = useMe();
   const plan = me.data?.workspace?.plan ?? "free";
-  const lattice = (network.network as { lattice?: string }).lattice === "square" ? "square" : "triangular";
+  const lattice = network.network.lattice;
   const [kind, setKind] = useState<ComputationKind>("conductance");
   const [values, setValues] = useState<FormValues>(() => defaultsFor("conductance"));
   const params = sweepParametersFor(kind, lattice);
@@ -77,8 +78,7 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkRecord; c
 
   const submit = useMutation({
     mutationFn: () =>
-      apiFetch<SweepRecord>("/api/v1/sweeps", {
-        method: "POST",
+      api("POST /api/v1/sweeps", {
         json: {
           networkId: network.id,
           computation,

@@ -4,7 +4,7 @@ import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { useMemo, useState } from "react";
-import { apiFetch, ApiClientError, type JobStatus } from "@/lib/api";
+import { api, ApiClientError } from "@/lib/api";
 import { qk } from "@/lib/queryKeys";
 import { axisLabel, computeSeconds, PARAMETER_UNITS, when } from "@/lib/units";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
@@ -14,27 +14,6 @@ import { useMemberNames } from "@/components/shell/useMemberNames";
 import { HeatMap } from "@/components/charts/HeatMap";
 import { XYChart } from "@/components/charts/XYChart";
 import { quantityLabel, preferredQuantity, errorQuantityFor } from "./quantities";
-
-interface SweepDetail {
-  id: string;
-  name?: string | null;
-  status: JobStatus;
-  progress: number;
-  pointCount: number;
-  axes: { parameter: string; values: number[] }[];
-  ensemble?: { samples: number } | null;
-  networkId?: string | null;
-  networkVersion?: number | null;
-  estimate?: { computeSeconds: number; costUsd?: number };
-  computeSeconds?: number | null;
-  createdBy?: string | null;
-  createdAt?: string;
-  startedAt?: string | null;
-  finishedAt?: string | null;
-  counts?: Record<JobStatus, number>;
-  grid: { shape: number[]; parameters: string[]; quantities: Record<string, (number | null)[]> };
-  input?: { computation?: { kind?: string } };
-}
 
 const LIVE = new Set(["queued", "running"]);
 const KIND_LABEL: Record<string, string> = { conductance: "Conductance", dos: "Density of states", ldos: "Local density of states", localization: "Localization length", spectrum: "Band structure" };
@@ -46,11 +25,11 @@ export function SweepView({ id }: { id: string }) {
   const client = useQueryClient();
   const q = useQuery({
     queryKey: qk.sweep(id),
-    queryFn: () => apiFetch<SweepDetail>(`/api/v1/sweeps/${id}`),
+    queryFn: () => api("GET /api/v1/sweeps/{id}", { params: { id } }),
     refetchInterval: (query) => (query.state.data && !LIVE.has(query.state.data.status) ? false : 1000),
   });
   const cancel = useMutation({
-    mutationFn: () => apiFetch(`/api/v1/sweeps/${id}/cancel`, { method: "POST" }),
+    mutationFn: () => api("POST /api/v1/sweeps/{id}/cancel", { params: { id } }),
     onSuccess: () => client.invalidateQueries({ queryKey: qk.sweep(id) }),
   });
   const [chosen, setChosen] = useState<string | null>(null);

@@ -2,7 +2,7 @@
 
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
-import { type SweepRecord } from "@/lib/api";
+import { JOB_STATUSES, type SweepSummary } from "@/shared/api";
 import { axisLabel, computeSeconds, when } from "@/lib/units";
 import { StatusBadge } from "@/components/ui/Status";
 import { PageHeader } from "@/components/ui/Page";
@@ -10,12 +10,12 @@ import { DataTable } from "@/components/tables/DataTable";
 import { useMemberNames } from "@/components/shell/useMemberNames";
 import { useNetworkNames } from "@/components/network/useNetworkNames";
 
-const STATUS_OPTIONS = ["queued", "running", "succeeded", "failed", "cancelled"].map((s) => ({ value: s, label: s[0].toUpperCase() + s.slice(1) }));
+const STATUS_OPTIONS = JOB_STATUSES.map((s) => ({ value: s, label: s[0].toUpperCase() + s.slice(1) }));
 
 export function SweepsList() {
   const names = useNetworkNames();
   const who = useMemberNames();
-  const columns: ColumnDef<SweepRecord, any>[] = [
+  const columns: ColumnDef<SweepSummary, any>[] = [
     {
       id: "status",
       header: "Status",
@@ -23,7 +23,7 @@ export function SweepsList() {
       cell: ({ row }) => (
         <span className="inline-flex items-center gap-2">
           <StatusBadge status={row.original.status} />
-          <span className="tk-num text-caption text-fg-faint">{Math.round((row.original.progress ?? 0) * 100)}%</span>
+          <span className="tk-num text-caption text-fg-faint">{Math.round(row.original.progress * 100)}%</span>
         </span>
       ),
     },
@@ -32,23 +32,23 @@ export function SweepsList() {
       header: "Sweep",
       cell: ({ row }) => (
         <Link href={`/sweeps/${row.original.id}`} className="font-medium text-accent hover:underline">
-          {(row.original as { name?: string }).name || row.original.axes.map((a) => axisLabel(a.parameter)).join(" × ")}
+          {row.original.name || row.original.axes.map((a) => axisLabel(a.parameter)).join(" × ")}
         </Link>
       ),
     },
-    { id: "points", header: "Points", accessorFn: (r) => r.pointCount ?? 0, cell: ({ row }) => <span className="tk-num">{row.original.pointCount}{row.original.ensemble ? ` × ${row.original.ensemble.samples}` : ""}</span> },
+    { id: "points", header: "Points", accessorFn: (r) => r.pointCount, cell: ({ row }) => <span className="tk-num">{row.original.pointCount}{row.original.ensemble ? ` × ${row.original.ensemble.samples}` : ""}</span> },
     { id: "network", header: "Network", cell: ({ row }) => (row.original.networkId ? <Link className="hover:underline" href={`/networks/${row.original.networkId}`}>{names.get(row.original.networkId) ?? "network"}</Link> : <span className="text-fg-faint">inline</span>) },
     { id: "createdBy", header: "Who", cell: ({ row }) => who(row.original.createdBy) },
-    { id: "cost", header: "Compute", accessorFn: (r) => r.computeSeconds ?? r.estimate?.computeSeconds ?? 0, cell: ({ row }) => <span className="tk-num">{computeSeconds(row.original.computeSeconds ?? row.original.estimate?.computeSeconds)}</span> },
-    { id: "createdAt", header: "Created", accessorFn: (r) => r.createdAt ?? "", cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
+    { id: "cost", header: "Compute", accessorFn: (r) => r.computeSeconds, cell: ({ row }) => <span className="tk-num">{computeSeconds(row.original.computeSeconds)}</span> },
+    { id: "createdAt", header: "Created", accessorFn: (r) => r.createdAt, cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
   ];
   return (
     <>
       <PageHeader kicker="workspace" title="Sweeps">
         Grids of runs over one or two parameters, each point optionally an ensemble of disorder seeds. Build one from a network&apos;s page.
       </PageHeader>
-      <DataTable<SweepRecord>
-        path="/api/v1/sweeps"
+      <DataTable
+        route="GET /api/v1/sweeps"
         listKey="sweeps"
         columns={columns}
         filters={[{ id: "status", label: "Status", options: STATUS_OPTIONS }]}

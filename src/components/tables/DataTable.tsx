@@ -3,7 +3,8 @@
 import { useQuery } from "@tanstack/react-query";
 import { flexRender, getCoreRowModel, getSortedRowModel, useReactTable, type ColumnDef, type SortingState } from "@tanstack/react-table";
 import { useState, type ReactNode } from "react";
-import { apiFetch, asList, qs } from "@/lib/api";
+import { api } from "@/lib/api";
+import type { ApiResponse, ApiRoute } from "@/shared/api";
 import { ErrorNote, Skeleton } from "@/components/ui/Page";
 
 export interface FilterDef {
@@ -12,11 +13,17 @@ export interface FilterDef {
   options: { value: string; label: string }[];
 }
 
-interface Props<T> {
-  /** API path of the list, e.g. /api/v1/runs. */
-  path: string;
-  listKey: string;
-  columns: ColumnDef<T, any>[];
+/** The list endpoints: their answer holds the items under a key and the next page's position. */
+type ListRoute = "GET /api/v1/runs" | "GET /api/v1/sweeps" | "GET /api/v1/networks" | "GET /api/v1/fits" | "GET /api/v1/datasets";
+type ListKey<R extends ListRoute> = { [K in keyof ApiResponse<R>]: ApiResponse<R>[K] extends unknown[] ? K : never }[keyof ApiResponse<R>];
+export type ListItem<R extends ListRoute, K extends ListKey<R> = ListKey<R>> = ApiResponse<R>[K] extends (infer T)[] ? T : never;
+
+interface Props<R extends ListRoute, K extends ListKey<R>> {
+  /** The list endpoint, e.g. "GET /api/v1/runs". */
+  route: R;
+  /** Where the answer holds the items (e.g. "runs"). */
+  listKey: K;
+  columns: ColumnDef<ListItem<R, K>, any>[];
   filters?: FilterDef[];
   /** Fixed query parameters (e.g. networkId). */
   fixed?: Record<string, string | undefined>;
@@ -31,7 +38,7 @@ interface Props<T> {
  * A list read page by page from the API (cursor pagination), with sort and filters passed to the
  * server as query parameters, drawn with TanStack Table.
  */
-export function DataTable<T>({ path, listKey, columns, filters = [], fixed = {}, pageSize = 20, cursorParam = "cursor", empty, label }: Props<T>) {
+export function DataTable<R extends ListRoute & ApiRoute, K extends ListKey<R>>({ route, listKey, columns, filters = [], fixed = {}, pageSize = 20, cursorParam = "cursor", empty, label }: Props<R, K>) {
   const [sorting, setSorting] = useState<SortingState>([]);
   const [filterValues, setFilterValues] = useState<Record<string, string>>({});
   const [cursors, setCursors] = useState<(string | null)[]>([null]);
@@ -40,7 +47,11 @@ export function DataTable<T>({ path, listKey, columns, filters = [], fixed = {},
   const params = { ...fixed, ...filterValues, limit: pageSize, [cursorParam]: cursor ?? undefined };
   const q = useQuery({
     queryKey: [listKey, params],
-    queryFn: async () => asList<T>(await apiFetch<unknown>(`${path}${qs(params)}`), listKey),
+    queryFn: async () => {
+      const page = await api(route, { query: params });
+      const next = page as { nextCursor?: string | null; nextBefore?: string | null };
+      return { items: page[listKey] as ListItem<R, K>[], nextCursor: (cursorParam === "before" ? next.nextBefore : next.nextCursor) ?? null };
+    },
     placeholderData: (prev) => prev,
     refetchInterval: 5_000,
   });

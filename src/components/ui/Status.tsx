@@ -1,4 +1,4 @@
-import type { JobStatus } from "@/lib/api";
+import type { JobStatus } from "@/shared/api";
 
 const LOOK: Record<JobStatus, { label: string; cls: string; mark: string }> = {
   queued: { label: "Queued", cls: "bg-surface-sunk text-fg-soft", mark: "○" },

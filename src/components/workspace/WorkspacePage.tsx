@@ -1,30 +1,14 @@
 "use client";
 
 import { useQuery } from "@tanstack/react-query";
-import { apiFetch, personName } from "@/lib/api";
-import { qk } from "@/lib/queryKeys";
 import { when } from "@/lib/units";
 import { PageHeader, ErrorNote, Skeleton } from "@/components/ui/Page";
 import { useMe } from "@/components/shell/useMe";
-
-interface Member {
-  userId: string;
-  name: string;
-  email: string;
-  role: string;
-  roleLabel: string;
-  joinedAt: string;
-}
+import { membersQuery } from "@/components/shell/useMemberNames";
 
 export function WorkspacePage() {
   const me = useMe();
-  const members = useQuery({
-    queryKey: qk.members,
-    queryFn: async () => {
-      const d = await apiFetch<unknown>("/api/v1/workspace/members");
-      return (Array.isArray(d) ? d : ((d as { members?: Member[]; items?: Member[] }).members ?? (d as { items?: Member[] }).items ?? [])) as Member[];
-    },
-  });
+  const members = useQuery(membersQuery);
   return (
     <>
       <PageHeader kicker="workspace" title={me.data?.workspace?.name ?? "Workspace"}>
@@ -44,10 +28,10 @@ export function WorkspacePage() {
               </tr>
             </thead>
             <tbody>
-              {members.data.map((m) => (
+              {members.data.members.map((m) => (
                 <tr key={m.userId} className="border-b border-line last:border-0">
                   <td className="px-3 py-2">
-                    {m.name || personName(m.email)} <span className="text-caption text-fg-faint">{m.email}</span>
+                    {m.name || m.email} <span className="text-caption text-fg-faint">{m.email}</span>
                   </td>
                   <td className="px-3 py-2">{m.roleLabel}</td>
                   <td className="px-3 py-2 tk-num text-caption">{when(m.joinedAt)}</td>

@@ -11,6 +11,8 @@ import { ApiError } from "@/server/http/errors";
 import { ROLE_LABELS, ROLES, tokenRolesFor, type Role } from "@/shared/permissions";
 import { requirePermission, type Caller } from "./index";
 import { displayPrefix, hashToken, newTokenSecret } from "./tokens";
+import type { TokenView } from "@/shared/api";
+export type { TokenView };
 
 export const createTokenInput = z
   .object({
@@ -19,17 +21,6 @@ export const createTokenInput = z
   })
   .strict();
 
-export interface TokenView {
-  id: string;
-  name: string;
-  role: Role;
-  roleLabel: string;
-  /** First characters of the secret, to recognise it; not usable. */
-  prefix: string;
-  createdAt: string;
-  lastUsedAt: string | null;
-  revokedAt: string | null;
-}
 
 const columns = {
   id: apiTokens.id,

@@ -10,6 +10,8 @@ import { budgetState } from "./budget";
 import { outboxSummary } from "./meter-sender";
 import { getStripe, stripePrices, stripeToApiError } from "./stripe";
 import { seatQuantity } from "./webhooks";
+import type { BillingOverview, CheckoutStart, InvoiceList, InvoiceView } from "@/shared/api";
+export type { CheckoutStart, InvoiceView };
 
 /**
  * Plan, seats, spend cap and invoices of the caller's workspace. Stripe is the payment system;
@@ -44,11 +46,6 @@ async function ensureCustomer(ws: typeof workspaces.$inferSelect): Promise<strin
   return back?.id ?? customerId;
 }
 
-export interface CheckoutStart {
-  url: string;
-  sessionId: string;
-  seats: number;
-}
 
 /** Upgrade to Lab: a Checkout Session with one seat per current member, plus metered compute. */
 export async function startCheckout(caller: Caller): Promise<CheckoutStart> {
@@ -159,18 +156,6 @@ export async function setSpendCap(caller: Caller, spendCapUsd: number | null): P
   return { spendCapUsd };
 }
 
-export interface InvoiceView {
-  id: string;
-  number: string | null;
-  status: string | null;
-  totalUsd: number;
-  amountDueUsd: number;
-  currency: string;
-  periodStart: string;
-  periodEnd: string;
-  createdAt: string;
-  url: string | null;
-}
 
 const invoiceView = (i: { id?: string; number: string | null; status: string | null; total: number; amount_due: number; currency: string; period_start: number; period_end: number; created: number; hosted_invoice_url?: string | null }): InvoiceView => ({
   id: i.id ?? "upcoming",
@@ -186,7 +171,7 @@ const invoiceView = (i: { id?: string; number: string | null; status: string | n
 });
 
 /** Invoices from Stripe, newest first, and the preview of the next one. */
-export async function listInvoices(caller: Caller): Promise<{ invoices: InvoiceView[]; upcoming: InvoiceView | null }> {
+export async function listInvoices(caller: Caller): Promise<InvoiceList> {
   requirePermission(caller, "billing.manage");
   const ws = await workspaceOf(caller.workspaceId);
   if (!ws.stripeCustomerId) return { invoices: [], upcoming: null };
@@ -205,7 +190,7 @@ export async function listInvoices(caller: Caller): Promise<{ invoices: InvoiceV
 }
 
 /** Everything the Billing page shows at the top. */
-export async function billingOverview(caller: Caller) {
+export async function billingOverview(caller: Caller): Promise<BillingOverview> {
   requirePermission(caller, "usage.view");
   const ws = await workspaceOf(caller.workspaceId);
   const [budget, members, outbox, grace] = await Promise.all([

@@ -5,36 +5,9 @@ import { requirePermission, type Caller } from "@/server/auth";
 import { getDb } from "@/server/db";
 import { ApiError } from "@/server/http/errors";
 import { billingPeriod, budgetState } from "./budget";
+import type { DayUsage, MemberUsage, UsageReport } from "@/shared/api";
+export type { DayUsage, MemberUsage, UsageReport };
 
-/**
- * `GET /api/v1/usage`: compute use of the caller's workspace in one billing period (this one by
- * default), per member and per day, from the usage ledger (the system of record).
- */
-export interface MemberUsage {
-  userId: string | null;
-  name: string;
-  email: string | null;
-  role: string | null;
-  runs: number;
-  computeSeconds: number;
-  costUsd: number;
-}
-export interface DayUsage {
-  /** YYYY-MM-DD (UTC). */
-  date: string;
-  userId: string | null;
-  computeSeconds: number;
-}
-export interface UsageReport {
-  period: string;
-  plan: PlanId;
-  computeSeconds: number;
-  costUsd: number;
-  includedComputeSeconds: number;
-  spendCapUsd: number | null;
-  members: MemberUsage[];
-  days: DayUsage[];
-}
 
 export function parsePeriod(value: string | null): string {
   if (value === null || value === "") return billingPeriod();

@@ -9,38 +9,11 @@
  * constant a. The constants and the twist/period conversion are the engine's (src/engine/constants.ts).
  */
 import { FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM, twistFromPeriodDegrees } from "@/engine/constants";
+import type { PeriodAnalysis, PeriodOptions, PeriodReading } from "@/shared/api";
+export type { PeriodAnalysis, PeriodOptions, PeriodReading };
 
-export interface PeriodOptions {
-  /** Degree of the polynomial background removed before the transform (0-8). */
-  backgroundDegree?: number;
-  /** Zero-padding factor over the next power of two of the resampled length (1-64). */
-  zeroPadFactor?: number;
-  /** Ignore frequencies below this many oscillations across the field window (default 1.5). */
-  minCyclesInWindow?: number;
-}
 
-export interface PeriodReading {
-  assumption: string;
-  areaNm2: number;
-  periodNm: number;
-  twistDegrees: number | null;
-}
 
-export interface PeriodAnalysis {
-  peak: { frequencyPerTesla: number; amplitude: number; prominence: number };
-  periodTesla: number;
-  fluxQuantumWeber: number;
-  areaNm2: number;
-  /** The reading used by default: one flux quantum h/e through one triangle of the network. */
-  perTriangle: PeriodReading;
-  /** Alternative reading: one flux quantum per moire unit cell (two triangles). */
-  perUnitCell: PeriodReading;
-  spectrum: { frequencyPerTesla: number[]; amplitude: number[] };
-  background: number[];
-  oscillation: number[];
-  settings: Required<PeriodOptions> & { uniformPoints: number; fftLength: number; resampled: boolean; window: "hann" };
-  fieldRangeTesla: [number, number];
-}
 
 export class PeriodAnalysisError extends Error {
   constructor(message: string, readonly field?: string) {

@@ -14,6 +14,7 @@ import { ApiError, zodToApiError } from "@/server/http/errors";
 import { DATASET_MAX_BYTES, DatasetCsvError, parseDatasetCsv, type ColumnMapping, type ParsedDataset } from "@/shared/csv";
 import { X_UNITS, Y_UNITS } from "@/shared/units";
 import { analysePeriod, PeriodAnalysisError } from "./period";
+import type { DatasetDetail, DatasetPeriod, DatasetPoints, DatasetSummary } from "@/shared/api";
 
 export const uploadFields = z.object({
   name: z.string().trim().min(1, "give the dataset a name").max(200, "at most 200 characters"),
@@ -26,12 +27,6 @@ export const uploadFields = z.object({
   description: z.string().max(2000, "at most 2000 characters").optional(),
 });
 
-export interface DatasetPoints {
-  x: number[];
-  y: number[];
-  sigma: number[] | null;
-  temperatureK: number[] | null;
-}
 
 type Row = typeof datasets.$inferSelect;
 
@@ -39,7 +34,7 @@ export function sha256Hex(text: string): string {
   return createHash("sha256").update(text, "utf8").digest("hex");
 }
 
-export function datasetSummary(d: Row) {
+export function datasetSummary(d: Row): DatasetSummary {
   const p = d.points as DatasetPoints;
   return {
     id: d.id,
@@ -61,8 +56,8 @@ export function datasetSummary(d: Row) {
   };
 }
 
-export function datasetView(d: Row) {
-  return { ...datasetSummary(d), points: d.points as DatasetPoints };
+export function datasetView(d: Row): DatasetDetail {
+  return { ...datasetSummary(d), points: d.points };
 }
 
 /** CSV problems become 422 with every issue (row, column, code, message) in details. */
@@ -196,7 +191,7 @@ export const periodOptions = z
   .strict();
 
 /** `POST /api/v1/datasets/{id}/period` */
-export async function periodOfDataset(caller: Caller, id: string, body: unknown) {
+export async function periodOfDataset(caller: Caller, id: string, body: unknown): Promise<DatasetPeriod> {
   const d = await loadDataset(caller, id);
   const parsed = periodOptions.safeParse(body ?? {});
   if (!parsed.success) throw zodToApiError(parsed.error);

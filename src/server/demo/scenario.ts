@@ -2,6 +2,7 @@
  * The demo scenario of product.md: invented people and a fictional lab. Shared by the database
  * seed (scripts/seed.ts) and the sign-in stand-in (fakes/clerk), so both know the same people.
  */
+import type { NetworkDefinition } from "@/engine/browser";
 import type { Role } from "@/shared/permissions";
 
 export interface DemoPerson {
@@ -42,7 +43,7 @@ export const DEMO_LAB = {
 };
 
 /** Saved networks of the demo lab (engine schema v1). */
-export const DEMO_NETWORKS: { name: string; definition: Record<string, unknown> }[] = [
+export const DEMO_NETWORKS: { name: string; definition: NetworkDefinition }[] = [
   {
     name: "Clean 0.11° triangular network",
     definition: {

@@ -16,6 +16,7 @@ import {
   parseNetwork,
   SWEEPABLE_PARAMETERS,
   type ComputeInput,
+  type Network,
 } from "@/engine";
 import { ApiError, registerErrorMapper } from "@/server/http/errors";
 
@@ -59,17 +60,14 @@ export function parseNetworkDefinition(json: unknown) {
   return parseNetwork(json);
 }
 
-/** Computation kind as stored on the run (conductance, spectrum, dos, ldos, localization). */
-export function kindOf(input: ComputeInput): string {
-  const c = input.computation as unknown as Record<string, unknown>;
-  const kind = c.kind ?? c.type ?? c.quantity;
-  return typeof kind === "string" ? kind : "conductance";
+/** Computation kind as stored on the run: the schema's discriminator (conductance, spectrum, dos, ldos, localization). */
+export function kindOf(input: ComputeInput): ComputeInput["computation"]["kind"] {
+  return input.computation.kind;
 }
 
 /** Cells along the network's sides (columns and rows), for the plan's largest-network rule. */
-export function networkSize(network: unknown): { columns: number; rows: number } {
-  const size = ((network as Record<string, unknown>)?.size ?? {}) as Record<string, unknown>;
-  return { columns: Number(size.columns ?? 0), rows: Number(size.rows ?? 0) };
+export function networkSize(network: Network): { columns: number; rows: number } {
+  return { columns: network.size.columns, rows: network.size.rows };
 }
 
 /** Estimated compute-seconds of one input (the engine's cost model). */

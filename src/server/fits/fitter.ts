@@ -16,13 +16,8 @@
  */
 import { levenbergMarquardt } from "ml-levenberg-marquardt";
 import { Matrix, pseudoInverse } from "ml-matrix";
-
-export interface FitParameterSpec {
-  parameter: string;
-  initial: number;
-  min: number;
-  max: number;
-}
+import type { FitParameterResult, FitParameterSpec, FitResult } from "@/shared/api";
+export type { FitParameterResult, FitParameterSpec, FitResult };
 
 export interface FitData {
   x: number[];
@@ -54,35 +49,6 @@ export interface FitIterationInfo {
   values: Record<string, number>;
   /** Estimated fraction of the whole fit done, 0-1. */
   progress: number;
-}
-
-export interface FitParameterResult {
-  parameter: string;
-  value: number;
-  stderr: number | null;
-  initial: number;
-  min: number;
-  max: number;
-  /** The best value sits on a bound (its stderr then means little). */
-  atBound: boolean;
-}
-
-export interface FitResult {
-  parameters: FitParameterResult[];
-  chi2: number;
-  dof: number;
-  chi2PerDof: number;
-  /** Whether chi2 used the dataset's sigma column (else unit weights, chi2 in y units squared). */
-  weighted: boolean;
-  correlation: number[][];
-  covariance: number[][];
-  curve: { x: number[]; y: number[] };
-  residuals: number[];
-  iterations: number;
-  evaluations: number;
-  converged: boolean;
-  starts: { start: number; initial: Record<string, number>; chi2: number; iterations: number }[];
-  warnings: string[];
 }
 
 export class FitCancelled extends Error {

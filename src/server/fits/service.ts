@@ -6,6 +6,7 @@ import "@/server/server-only";
 import { and, desc, eq, lt, sql } from "drizzle-orm";
 import { z } from "zod";
 import { computeCostUsd } from "@/shared/plans";
+import type { FitCreated, FitDetail, FitExport, FitList, FitSettings } from "@/shared/api";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
 import { assertWithinBudget } from "@/server/billing/budget";
@@ -15,7 +16,6 @@ import { datasets, fits } from "@/server/db/schema";
 import { ApiError, zodToApiError } from "@/server/http/errors";
 import { enqueueAfterCommit } from "@/server/jobs";
 import { resolveSubmission } from "@/server/runs/service";
-import type { DatasetPoints } from "@/server/datasets/service";
 import { ENGINE_VERSION, engine, inputHash, secondsPerEvaluation } from "./engine";
 import { FitInputError, validateSpecs } from "./fitter";
 import { checkFitSpecs, expectedEvaluations, SWEEP_FOR_QUANTITY } from "./model";
@@ -46,7 +46,7 @@ type FitRow = typeof fits.$inferSelect;
 
 const uuidRe = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
-export async function createFit(caller: Caller, raw: unknown) {
+export async function createFit(caller: Caller, raw: unknown): Promise<FitCreated> {
   requirePermission(caller, "work.create");
   const parsed = fitBody.safeParse(raw);
   if (!parsed.success) throw zodToApiError(parsed.error);
@@ -82,7 +82,7 @@ export async function createFit(caller: Caller, raw: unknown) {
     networkVersion: body.networkVersion,
     computation,
   });
-  const points = dataset.points as DatasetPoints;
+  const points = dataset.points;
   try {
     validateSpecs(body.fit, points.x.length);
     checkFitSpecs(body.fit);
@@ -113,7 +113,7 @@ export async function createFit(caller: Caller, raw: unknown) {
   assertJobComputeWithinPlan(caller.plan, estimatedComputeSeconds, `The fit (${evaluations * points.x.length} engine evaluations)`);
   await assertWithinBudget(caller.workspaceId, estimatedComputeSeconds);
 
-  const stored = { ...(input as object), sweepParameter: body.sweepParameter, fit: body.fit, options: body.options ?? {} };
+  const stored: FitSettings = { ...input, sweepParameter: body.sweepParameter, fit: body.fit, options: body.options ?? {} };
   const [row] = await db
     .insert(fits)
     .values({
@@ -137,8 +137,7 @@ export async function createFit(caller: Caller, raw: unknown) {
 
 const round = (x: number, d: number) => Math.round(x * 10 ** d) / 10 ** d;
 
-export function fitView(f: FitRow, datasetName?: string) {
-  const input = f.input as Record<string, unknown>;
+export function fitView(f: FitRow, datasetName?: string): Omit<FitDetail, "datasetSynthetic"> {
   return {
     id: f.id,
     datasetId: f.datasetId,
@@ -148,7 +147,7 @@ export function fitView(f: FitRow, datasetName?: string) {
     lastIteration: f.lastIteration,
     result: f.result,
     error: f.error,
-    settings: { network: input.network, computation: input.computation, sweepParameter: input.sweepParameter, fit: input.fit, options: input.options },
+    settings: { network: f.input.network, computation: f.input.computation, sweepParameter: f.input.sweepParameter, fit: f.input.fit, options: f.input.options },
     estimatedComputeSeconds: f.estimatedComputeSeconds,
     computeSeconds: f.computeSeconds,
     engineVersion: f.engineVersion,
@@ -172,12 +171,12 @@ async function loadFit(caller: Caller, id: string) {
   return row;
 }
 
-export async function getFit(caller: Caller, id: string) {
+export async function getFit(caller: Caller, id: string): Promise<FitDetail> {
   const r = await loadFit(caller, id);
   return { ...fitView(r.fit, r.datasetName), datasetSynthetic: r.synthetic };
 }
 
-export async function listFits(caller: Caller, query: URLSearchParams) {
+export async function listFits(caller: Caller, query: URLSearchParams): Promise<FitList> {
   requirePermission(caller, "results.view");
   const limit = Math.max(1, Math.min(200, Number(query.get("limit") ?? 50) || 50));
   const before = query.get("before");
@@ -194,13 +193,12 @@ export async function listFits(caller: Caller, query: URLSearchParams) {
     .limit(limit + 1);
   const items = rows.slice(0, limit).map((r) => {
     const v = fitView(r.fit, r.datasetName);
-    const result = v.result as { parameters?: unknown; chi2PerDof?: number } | null;
-    return { ...v, result: result ? { parameters: result.parameters, chi2PerDof: result.chi2PerDof } : null };
+    return { ...v, result: v.result ? { parameters: v.result.parameters, chi2PerDof: v.result.chi2PerDof } : null };
   });
   return { items, nextBefore: rows.length > limit ? items[items.length - 1].createdAt : null };
 }
 
-export async function cancelFit(caller: Caller, id: string) {
+export async function cancelFit(caller: Caller, id: string): Promise<FitDetail> {
   const r = await loadFit(caller, id);
   requirePermission(caller, "work.create");
   if (r.fit.createdBy !== caller.userId && caller.role !== "owner") {
@@ -215,7 +213,7 @@ export async function cancelFit(caller: Caller, id: string) {
 }
 
 /** The export: every setting, the engine version, the data hash, the result. */
-export async function exportFit(caller: Caller, id: string) {
+export async function exportFit(caller: Caller, id: string): Promise<FitExport> {
   const r = await loadFit(caller, id);
   const [d] = await getDb().select().from(datasets).where(and(eq(datasets.id, r.fit.datasetId), eq(datasets.workspaceId, caller.workspaceId)));
   const v = fitView(r.fit, r.datasetName);

@@ -14,6 +14,8 @@ import { networks, networkVersions, runs, sweeps } from "@/server/db/schema";
 import { networkSize, parseNetworkDefinition } from "@/server/engine";
 import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
+import type { Network } from "@/engine/browser";
+import type { NetworkView } from "@/shared/api";
 
 const nameSchema = z.string().trim().min(1, "must not be empty").max(200, "at most 200 characters");
 const uuidLike = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
@@ -23,9 +25,9 @@ export const replaceNetworkBody = z.object({ name: nameSchema.optional(), networ
 export const patchNetworkBody = z.object({ name: nameSchema.optional(), network: z.record(z.string(), z.unknown()).optional() }).strict();
 
 /** Validates a network description with the engine's schema; errors name the field under `network`. */
-export function parseNetwork(value: unknown, caller: Caller): Record<string, unknown> {
+export function parseNetwork(value: unknown, caller: Caller): Network {
   if (value === undefined) throw new ApiError("invalid_input", "network: required; send the network description (engine schema).", { field: "network" });
-  const network = parseNetworkDefinition(value) as unknown as Record<string, unknown>;
+  const network = parseNetworkDefinition(value);
   assertNetworkWithinPlan(caller.plan, networkSize(network));
   return network;
 }
@@ -33,7 +35,7 @@ export function parseNetwork(value: unknown, caller: Caller): Record<string, unk
 type NetworkRow = typeof networks.$inferSelect;
 type VersionRow = typeof networkVersions.$inferSelect;
 
-export function networkView(n: NetworkRow, v: VersionRow, inUse?: { runs: number; sweeps: number }) {
+export function networkView(n: NetworkRow, v: VersionRow, inUse?: { runs: number; sweeps: number }): NetworkView {
   return {
     id: n.id,
     name: n.name,
@@ -140,7 +142,7 @@ export async function updateNetwork(caller: Caller, id: string, body: unknown, m
   requirePermission(caller, "work.create");
   const n = await loadNetwork(caller, id);
   let name: string | undefined;
-  let next: Record<string, unknown> | undefined;
+  let next: Network | undefined;
   if (mode === "replace") {
     const parsed = replaceNetworkBody.safeParse(body);
     if (!parsed.success) throw zodToApiError(parsed.error);
@@ -152,7 +154,7 @@ export async function updateNetwork(caller: Caller, id: string, body: unknown, m
     name = parsed.data.name;
     if (parsed.data.network) {
       const current = await loadVersion(n.id, n.currentVersion);
-      next = parseNetwork(deepMerge(current.definition as Record<string, unknown>, parsed.data.network), caller);
+      next = parseNetwork(deepMerge(current.definition as unknown as Record<string, unknown>, parsed.data.network), caller);
     }
   }
   const db = getDb();
@@ -201,7 +203,7 @@ export async function deleteNetwork(caller: Caller, id: string): Promise<void> {
 export async function resolveNetwork(caller: Caller, networkId: string, version?: number) {
   const n = await loadNetwork(caller, networkId);
   const v = await loadVersion(n.id, version ?? n.currentVersion);
-  return { networkVersionId: v.id, definition: v.definition as Record<string, unknown>, name: n.name, version: v.version };
+  return { networkVersionId: v.id, definition: v.definition, name: n.name, version: v.version };
 }
 
 export function isUuid(id: string): boolean {

@@ -6,6 +6,7 @@ import "@/server/server-only";
 import { and, desc, eq, inArray, isNull, sql, type SQL } from "drizzle-orm";
 import { z } from "zod";
 import { computeCostUsd } from "@/shared/plans";
+import type { RunCreated, RunDetail, RunDryRun, RunList, RunSummary } from "@/shared/api";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
 import { assertWithinBudget } from "@/server/billing/budget";
@@ -80,12 +81,12 @@ async function prepareRun(caller: Caller, body: unknown) {
 }
 
 /** Every check of a submission (the budget's too) and the estimate, writing nothing: the cost shown before starting. */
-export async function estimateRun(caller: Caller, body: unknown) {
+export async function estimateRun(caller: Caller, body: unknown): Promise<RunDryRun> {
   const { input, estimated } = await prepareRun(caller, body);
-  return { dryRun: true, kind: kindOf(input), inputHash: inputHash(input), estimate: estimateView(caller.plan, estimated), input };
+  return { dryRun: true as const, kind: kindOf(input), inputHash: inputHash(input), estimate: estimateView(caller.plan, estimated), input };
 }
 
-export async function createRun(caller: Caller, body: unknown) {
+export async function createRun(caller: Caller, body: unknown): Promise<RunCreated> {
   const { input, networkVersionId, estimated } = await prepareRun(caller, body);
   const priority = queuePriority(caller.plan);
   const [row] = await getDb()
@@ -115,7 +116,7 @@ const runColumns = {
 
 type RunJoined = { run: typeof runs.$inferSelect; networkId: string | null; networkVersion: number | null; at: string };
 
-export function runView(r: RunJoined, plan: Caller["plan"], full: boolean) {
+export function runView(r: RunJoined, plan: Caller["plan"]): RunSummary {
   const run = r.run;
   return {
     id: run.id,
@@ -137,8 +138,12 @@ export function runView(r: RunJoined, plan: Caller["plan"], full: boolean) {
     finishedAt: run.finishedAt?.toISOString() ?? null,
     cancelRequestedAt: run.cancelRequestedAt?.toISOString() ?? null,
     error: run.error ?? null,
-    ...(full ? { input: run.input, result: run.result ?? null } : {}),
   };
+}
+
+/** One calculation with its input and result. */
+export function runDetail(r: RunJoined, plan: Caller["plan"]): RunDetail {
+  return { ...runView(r, plan), input: r.run.input, result: r.run.result ?? null };
 }
 
 const listQuery = z.object({
@@ -150,7 +155,7 @@ const listQuery = z.object({
 });
 
 /** Newest first. Without sweepId, sweep points are left out unless includeSweepPoints=true. */
-export async function listRuns(caller: Caller, query: URLSearchParams) {
+export async function listRuns(caller: Caller, query: URLSearchParams): Promise<RunList> {
   requirePermission(caller, "results.view");
   const q = listQuery.safeParse(Object.fromEntries([...query.entries()].filter(([k]) => k !== "limit" && k !== "cursor")));
   if (!q.success) throw zodToApiError(q.error);
@@ -172,7 +177,7 @@ export async function listRuns(caller: Caller, query: URLSearchParams) {
     .limit(limit + 1);
   const page = rows.slice(0, limit);
   const last = page[page.length - 1];
-  return { runs: page.map((r) => runView(r, caller.plan, false)), nextCursor: rows.length > limit && last ? encodeCursor(last.at, last.run.id) : null };
+  return { runs: page.map((r) => runView(r, caller.plan)), nextCursor: rows.length > limit && last ? encodeCursor(last.at, last.run.id) : null };
 }
 
 async function loadRun(caller: Caller, id: string): Promise<RunJoined> {
@@ -186,9 +191,9 @@ async function loadRun(caller: Caller, id: string): Promise<RunJoined> {
   return row;
 }
 
-export async function getRun(caller: Caller, id: string) {
+export async function getRun(caller: Caller, id: string): Promise<RunDetail> {
   requirePermission(caller, "results.view");
-  return runView(await loadRun(caller, id), caller.plan, true);
+  return runDetail(await loadRun(caller, id), caller.plan);
 }
 
 /** The result exactly as the command line prints it for the same input (one line of JSON). */
@@ -205,7 +210,7 @@ export async function runResultJson(caller: Caller, id: string): Promise<string>
  * Cancels a run: a queued one at once; a running one is flagged and its worker stops it within a
  * second, recording the compute-seconds it spent. Finished runs answer 409.
  */
-export async function cancelRun(caller: Caller, id: string) {
+export async function cancelRun(caller: Caller, id: string): Promise<RunDetail> {
   requirePermission(caller, "results.view");
   const r = await loadRun(caller, id);
   if (r.run.createdBy !== caller.userId) requirePermission(caller, "work.manageOthers");

@@ -6,17 +6,12 @@
  */
 import { sql } from "drizzle-orm";
 import type { Db } from "@/server/db";
+import type { SweepCounts } from "@/shared/api";
+export type { SweepCounts };
 
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 type Executor = Db | Tx;
 
-export interface SweepCounts {
-  queued: number;
-  running: number;
-  succeeded: number;
-  failed: number;
-  cancelled: number;
-}
 
 /** Status of a sweep from its points' counts. */
 export function deriveSweepStatus(c: SweepCounts, cancelRequested: boolean): "queued" | "running" | "succeeded" | "failed" | "cancelled" {

@@ -5,6 +5,10 @@
  * every point averages over that many disorder seeds inside its run.
  */
 import { z } from "zod";
+import type { SweepAxis } from "@/shared/api";
+
+/** An axis with every value listed (the contract's SweepAxis). */
+export type ResolvedAxis = SweepAxis;
 
 const parameterName = z
   .string()
@@ -27,10 +31,6 @@ export const ensembleSchema = z.object({ samples: z.number().int().min(1, "must 
 
 export type Axis = z.infer<typeof axisSchema>;
 export type Ensemble = z.infer<typeof ensembleSchema>;
-export interface ResolvedAxis {
-  parameter: string;
-  values: number[];
-}
 
 export function resolveAxis(axis: Axis): ResolvedAxis {
   if ("values" in axis) return { parameter: axis.parameter, values: [...axis.values] };

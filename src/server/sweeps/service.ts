@@ -9,6 +9,7 @@ import "@/server/server-only";
 import { and, asc, desc, eq, sql, type SQL } from "drizzle-orm";
 import { z } from "zod";
 import { computeCostUsd } from "@/shared/plans";
+import type { SweepCreated, SweepDetail, SweepDryRun, SweepGrid, SweepList, SweepSummary } from "@/shared/api";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
 import { assertWithinBudget } from "@/server/billing/budget";
@@ -95,12 +96,12 @@ async function prepareSweep(caller: Caller, body: unknown) {
 }
 
 /** Every check of a sweep (the budget's for the sum of its points) and the estimate, writing nothing. */
-export async function estimateSweep(caller: Caller, body: unknown) {
+export async function estimateSweep(caller: Caller, body: unknown): Promise<SweepDryRun> {
   const { b, axes, pointCount, total } = await prepareSweep(caller, body);
-  return { dryRun: true, pointCount, axes, ensemble: b.ensemble ?? null, estimate: { computeSeconds: round(total, 3), costUsd: round(computeCostUsd(caller.plan, total), 4) } };
+  return { dryRun: true as const, pointCount, axes, ensemble: b.ensemble ?? null, estimate: { computeSeconds: round(total, 3), costUsd: round(computeCostUsd(caller.plan, total), 4) } };
 }
 
-export async function createSweep(caller: Caller, body: unknown) {
+export async function createSweep(caller: Caller, body: unknown): Promise<SweepCreated> {
   const { b, base, networkVersionId, axes, pointCount, points, total } = await prepareSweep(caller, body);
   const priority = queuePriority(caller.plan);
   const kind = kindOf(base);
@@ -193,15 +194,15 @@ async function loadPoints(sweepId: string) {
 
 type SweepRow = typeof sweeps.$inferSelect;
 
-function sweepSummary(s: SweepRow, plan: Caller["plan"], networkId: string | null, networkVersion: number | null) {
+function sweepSummary(s: SweepRow, plan: Caller["plan"], networkId: string | null, networkVersion: number | null): SweepSummary {
   return {
     id: s.id,
     name: s.name,
     status: s.status,
     progress: s.progress,
     pointCount: s.pointCount,
-    axes: s.axes as ResolvedAxis[],
-    ensemble: (s.ensemble as Ensemble | null) ?? null,
+    axes: s.axes,
+    ensemble: s.ensemble ?? null,
     networkId,
     networkVersion,
     estimate: { computeSeconds: round(s.estimatedComputeSeconds, 3), costUsd: round(computeCostUsd(plan, s.estimatedComputeSeconds), 4) },
@@ -216,7 +217,7 @@ function sweepSummary(s: SweepRow, plan: Caller["plan"], networkId: string | nul
 }
 
 /** The sweep with live progress and the result grid (readable while it runs). */
-export async function getSweep(caller: Caller, id: string) {
+export async function getSweep(caller: Caller, id: string): Promise<SweepDetail> {
   requirePermission(caller, "results.view");
   const { sweep, networkId, networkVersion } = await loadSweep(caller, id);
   const pts = await loadPoints(sweep.id);
@@ -258,7 +259,7 @@ export async function getSweep(caller: Caller, id: string) {
  * The result grid: for each scalar quantity, its values in point order (row-major over the axes,
  * the first axis slowest), null where a point has not succeeded (yet).
  */
-function resultGrid(axes: ResolvedAxis[], points: { quantities: Record<string, number> | null }[]) {
+function resultGrid(axes: ResolvedAxis[], points: { quantities: Record<string, number> | null }[]): SweepGrid {
   const names = [...new Set(points.flatMap((p) => Object.keys(p.quantities ?? {})))];
   const quantities: Record<string, (number | null)[]> = {};
   for (const n of names) quantities[n] = points.map((p) => p.quantities?.[n] ?? null);
@@ -267,7 +268,7 @@ function resultGrid(axes: ResolvedAxis[], points: { quantities: Record<string, n
 
 const listQuery = z.object({ status: z.enum(RUN_STATUSES).optional() });
 
-export async function listSweeps(caller: Caller, query: URLSearchParams) {
+export async function listSweeps(caller: Caller, query: URLSearchParams): Promise<SweepList> {
   requirePermission(caller, "results.view");
   const q = listQuery.safeParse({ status: query.get("status") ?? undefined });
   if (!q.success) throw zodToApiError(q.error);
@@ -291,7 +292,7 @@ export async function listSweeps(caller: Caller, query: URLSearchParams) {
 }
 
 /** Cancels a sweep: queued points at once, running points within a second (their worker stops them). */
-export async function cancelSweep(caller: Caller, id: string) {
+export async function cancelSweep(caller: Caller, id: string): Promise<SweepDetail> {
   requirePermission(caller, "results.view");
   const { sweep } = await loadSweep(caller, id);
   if (sweep.createdBy !== caller.userId) requirePermission(caller, "work.manageOthers");

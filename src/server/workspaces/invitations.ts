@@ -18,19 +18,12 @@ import { sendMail } from "@/server/mail";
 import { invitationMail } from "@/server/mail/invitation";
 import { ROLE_LABELS, type Role } from "@/shared/permissions";
 import { requireMemberChange, seatUse, workspaceOf } from "./members";
+import type { InvitationAccepted, InvitationView } from "@/shared/api";
+export type { InvitationView };
 
 const SECRET_PREFIX = "inv_";
 const hashSecret = (s: string) => createHash("sha256").update(s, "utf8").digest("hex");
 
-export interface InvitationView {
-  id: string;
-  email: string;
-  role: Role;
-  roleLabel: string;
-  status: "pending" | "accepted" | "revoked" | "expired";
-  createdAt: string;
-  expiresAt: string;
-}
 
 function statusOf(row: typeof invitations.$inferSelect): InvitationView["status"] {
   if (row.acceptedAt) return "accepted";
@@ -114,7 +107,7 @@ async function findBySecret(secret: string) {
  * The signed-in user accepts: the invitation must be pending and addressed to their e-mail.
  * Returns the Clerk organization id, so the browser can make it the session's active one.
  */
-export async function acceptInvitation(user: { userId: string }, secret: string) {
+export async function acceptInvitation(user: { userId: string }, secret: string): Promise<InvitationAccepted> {
   const db = getDb();
   const row = await findBySecret(secret);
   if (!row) throw new ApiError("not_found", "This invitation link is not valid; ask for a new invitation.", { field: "token" });

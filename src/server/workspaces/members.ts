@@ -13,7 +13,9 @@ import { getDb } from "@/server/db";
 import { invitations, memberships, users, workspaces } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
 import { ACTIONS, ROLE_LABELS, ROLES, rolesAllowed, type Action, type Role } from "@/shared/permissions";
-import type { WorkspaceDescription } from "@/shared/workspace";
+import type { WorkspaceDescription } from "@/shared/api";
+import type { MemberView, SeatUse } from "@/shared/api";
+export type { MemberView };
 
 /** Roles a Billing admin may invite or remove (seats only). */
 export const SEAT_ROLES: readonly Role[] = ["researcher", "viewer"];
@@ -36,14 +38,6 @@ export async function describeWorkspace(caller: Caller): Promise<WorkspaceDescri
   };
 }
 
-export interface MemberView {
-  userId: string;
-  name: string;
-  email: string;
-  role: Role;
-  roleLabel: string;
-  joinedAt: string;
-}
 
 export async function listMembers(caller: Caller): Promise<MemberView[]> {
   requirePermission(caller, "results.view");
@@ -125,7 +119,7 @@ export async function removeMember(caller: Caller, userId: string): Promise<void
 }
 
 /** Members plus open invitations against the plan's member limit (Free: 1; Lab: seats bought). */
-export async function seatUse(workspaceId: string) {
+export async function seatUse(workspaceId: string): Promise<SeatUse> {
   const db = getDb();
   const [ws] = await db.select().from(workspaces).where(eq(workspaces.id, workspaceId));
   const [{ members }] = await db.select({ members: sql<number>`count(*)::int` }).from(memberships).where(eq(memberships.workspaceId, workspaceId));

@@ -1,6 +1,8 @@
 import "../../server-only";
 import { sql } from "drizzle-orm";
 import { index, integer, json, jsonb, pgEnum, pgTable, real, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
+import type { ComputeInput, Network } from "@/engine/browser";
+import type { FitLedgerInput, JobError, RunDetail, SweepAxis, SweepEnsemble } from "@/shared/api";
 import { planName, users, workspaces } from "./accounts";
 
 /** Status of a run or a sweep (issue 4 contract). */
@@ -28,7 +30,7 @@ export const networkVersions = pgTable(
     networkId: uuid("network_id").notNull().references(() => networks.id, { onDelete: "cascade" }),
     version: integer("version").notNull(),
     /** The network description, validated by the engine's zod schema (src/engine). */
-    definition: jsonb("definition").notNull(),
+    definition: jsonb("definition").$type<Network>().notNull(),
     createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
   },
@@ -46,16 +48,16 @@ export const sweeps = pgTable(
     /** A title for lists, e.g. "conductance versus field". */
     name: text("name"),
     /** The base `{ network, computation }` every point starts from. */
-    input: jsonb("input").notNull(),
-    axes: jsonb("axes").notNull(),
-    ensemble: jsonb("ensemble"),
+    input: jsonb("input").$type<ComputeInput>().notNull(),
+    axes: jsonb("axes").$type<SweepAxis[]>().notNull(),
+    ensemble: jsonb("ensemble").$type<SweepEnsemble>(),
     pointCount: integer("point_count").notNull(),
     status: jobStatus("status").notNull().default("queued"),
     progress: real("progress").notNull().default(0),
     estimatedComputeSeconds: real("estimated_compute_seconds").notNull().default(0),
     computeSeconds: real("compute_seconds").notNull().default(0),
     engineVersion: text("engine_version"),
-    error: jsonb("error"),
+    error: jsonb("error").$type<JobError>(),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
     startedAt: timestamp("started_at", { withTimezone: true }),
     finishedAt: timestamp("finished_at", { withTimezone: true }),
@@ -77,12 +79,12 @@ export const runs = pgTable(
     /** Computation kind: conductance, spectrum, dos, ldos, localization. */
     kind: text("kind").notNull(),
     /** The full `{ network, computation }` object, as the command line takes it. */
-    input: jsonb("input").notNull(),
+    input: jsonb("input").$type<ComputeInput | FitLedgerInput>().notNull(),
     status: jobStatus("status").notNull().default("queued"),
     progress: real("progress").notNull().default(0),
     /** Exactly the engine's result (json, not jsonb, so key order is kept as the command line prints it). */
-    result: json("result"),
-    error: jsonb("error"),
+    result: json("result").$type<NonNullable<RunDetail["result"]>>(),
+    error: jsonb("error").$type<JobError>(),
     estimatedComputeSeconds: real("estimated_compute_seconds").notNull().default(0),
     computeSeconds: real("compute_seconds"),
     engineVersion: text("engine_version"),

@@ -1,5 +1,7 @@
 import "../../server-only";
 import { boolean, index, integer, jsonb, pgTable, real, text, timestamp, uuid } from "drizzle-orm/pg-core";
+import type { ColumnMapping } from "@/shared/csv";
+import type { DatasetPoints, DatasetXQuantity, FitIteration, FitResult, FitSettings, JobError } from "@/shared/api";
 import { users, workspaces } from "./accounts";
 import { jobStatus, runs } from "./compute";
 
@@ -23,13 +25,13 @@ export const datasets = pgTable(
     /** sha256 of the original file (hex). */
     dataHash: text("data_hash").notNull(),
     /** { xColumn, xUnit, yColumn, yUnit, sigmaColumn?, temperatureColumn? } as uploaded. */
-    mapping: jsonb("mapping").notNull(),
+    mapping: jsonb("mapping").$type<ColumnMapping>().notNull(),
     /** field | gateVoltage | density */
-    xQuantity: text("x_quantity").notNull(),
+    xQuantity: text("x_quantity").$type<DatasetXQuantity>().notNull(),
     /** Unit of the stored x: T, V or m^-2. y is always conductance in e2/h. */
     xUnit: text("x_unit").notNull(),
     /** { x: number[], y: number[], sigma: number[] | null, temperatureK: number[] | null } */
-    points: jsonb("points").notNull(),
+    points: jsonb("points").$type<DatasetPoints>().notNull(),
     rows: integer("rows").notNull(),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
   },
@@ -50,13 +52,13 @@ export const fits = pgTable(
     datasetId: uuid("dataset_id").notNull().references(() => datasets.id, { onDelete: "restrict" }),
     runId: uuid("run_id").references(() => runs.id, { onDelete: "set null" }),
     /** { network, computation, sweepParameter, fit, options } after validation. */
-    input: jsonb("input").notNull(),
+    input: jsonb("input").$type<FitSettings>().notNull(),
     status: jobStatus("status").notNull().default("queued"),
     progress: real("progress").notNull().default(0),
     /** Latest iteration report { start, iteration, chi2, values }. */
-    lastIteration: jsonb("last_iteration"),
-    result: jsonb("result"),
-    error: jsonb("error"),
+    lastIteration: jsonb("last_iteration").$type<FitIteration>(),
+    result: jsonb("result").$type<FitResult>(),
+    error: jsonb("error").$type<JobError>(),
     estimatedComputeSeconds: real("estimated_compute_seconds").notNull().default(0),
     computeSeconds: real("compute_seconds"),
     engineVersion: text("engine_version"),

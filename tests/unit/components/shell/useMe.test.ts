@@ -4,7 +4,7 @@
 import { describe, expect, it } from "vitest";
 import { canBill, canCreate, canManageOthers, normaliseMe } from "@/components/shell/useMe";
 import { ACTIONS, can, ROLE_LABELS, ROLES, type Role } from "@/shared/permissions";
-import type { WorkspaceDescription } from "@/shared/workspace";
+import type { WorkspaceDescription } from "@/shared/api";
 
 function description(role: Role, name: string): WorkspaceDescription {
   return {

@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { getCaller } from "@/server/auth";
 import { billingOverview } from "@/server/billing/subscriptions";
 import { route } from "@/server/http/errors";
@@ -8,5 +8,5 @@ export const dynamic = "force-dynamic";
 /** GET /api/v1/billing: plan, state (grace), seats and members, spend cap, this period's use (docs/billing.md). */
 export const GET = route(async (req: Request) => {
   const caller = await getCaller(req);
-  return NextResponse.json(await billingOverview(caller));
+  return reply("GET /api/v1/billing", await billingOverview(caller));
 });

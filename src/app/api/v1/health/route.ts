@@ -1,5 +1,5 @@
 import "@/server/server-only";
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { pingDb } from "@/server/db";
 import { pingRedis } from "@/server/queue";
 
@@ -17,7 +17,7 @@ async function check(probe: () => Promise<number>) {
 export async function GET() {
   const [database, queue] = await Promise.all([check(() => pingDb()), check(() => pingRedis())]);
   const ok = database.status === "ok" && queue.status === "ok";
-  return NextResponse.json(
+  return reply("GET /api/v1/health", 
     { status: ok ? "ok" : "degraded", database, queue, time: new Date().toISOString() },
     { status: ok ? 200 : 503, headers: { "cache-control": "no-store" } },
   );

@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { getCaller } from "@/server/auth";
 import { ApiError, readJson, route } from "@/server/http/errors";
 import { createRun, estimateRun, listRuns } from "@/server/runs/service";
@@ -8,16 +8,16 @@ export const dynamic = "force-dynamic";
 /** GET /api/v1/runs?status=&kind=&networkId=&sweepId=&includeSweepPoints=&limit=&cursor= */
 export const GET = route(async (req: Request) => {
   const caller = await getCaller(req);
-  return NextResponse.json(await listRuns(caller, new URL(req.url).searchParams));
+  return reply("GET /api/v1/runs", await listRuns(caller, new URL(req.url).searchParams));
 });
 
 /** POST /api/v1/runs `{ network | networkId, networkVersion?, computation }`: 202 with id, status and estimate; `?dryRun=true` only checks and estimates. */
 export const POST = route(async (req: Request) => {
   const caller = await getCaller(req);
   const body = await readJson(req, 2_000_000);
-  if (isDryRun(req)) return NextResponse.json(await estimateRun(caller, body));
+  if (isDryRun(req)) return reply("POST /api/v1/runs?dryRun=true", await estimateRun(caller, body));
   const created = await createRun(caller, body);
-  return NextResponse.json(created, { status: 202, headers: { location: `/api/v1/runs/${created.id}` } });
+  return reply("POST /api/v1/runs", created, { status: 202, headers: { location: `/api/v1/runs/${created.id}` } });
 });
 
 /** `?dryRun=true`: every check and the estimate, nothing written (200). */

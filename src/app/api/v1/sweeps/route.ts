@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { getCaller } from "@/server/auth";
 import { ApiError, readJson, route } from "@/server/http/errors";
 import { createSweep, estimateSweep, listSweeps } from "@/server/sweeps/service";
@@ -8,16 +8,16 @@ export const dynamic = "force-dynamic";
 /** GET /api/v1/sweeps?status=&limit=&cursor= */
 export const GET = route(async (req: Request) => {
   const caller = await getCaller(req);
-  return NextResponse.json(await listSweeps(caller, new URL(req.url).searchParams));
+  return reply("GET /api/v1/sweeps", await listSweeps(caller, new URL(req.url).searchParams));
 });
 
 /** POST /api/v1/sweeps `{ name?, network | networkId, networkVersion?, computation, axes, ensemble? }`: 202; `?dryRun=true` only checks and estimates. */
 export const POST = route(async (req: Request) => {
   const caller = await getCaller(req);
   const body = await readJson(req, 2_000_000);
-  if (isDryRun(req)) return NextResponse.json(await estimateSweep(caller, body));
+  if (isDryRun(req)) return reply("POST /api/v1/sweeps?dryRun=true", await estimateSweep(caller, body));
   const created = await createSweep(caller, body);
-  return NextResponse.json(created, { status: 202, headers: { location: `/api/v1/sweeps/${created.id}` } });
+  return reply("POST /api/v1/sweeps", created, { status: 202, headers: { location: `/api/v1/sweeps/${created.id}` } });
 });
 
 /** `?dryRun=true`: every check and the estimate, nothing written (200). */

@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { getCaller } from "@/server/auth";
 import { parsePeriod, usageReport } from "@/server/billing/usage";
 import { route } from "@/server/http/errors";
@@ -9,5 +9,5 @@ export const dynamic = "force-dynamic";
 export const GET = route(async (req: Request) => {
   const caller = await getCaller(req);
   const period = parsePeriod(new URL(req.url).searchParams.get("period"));
-  return NextResponse.json(await usageReport(caller, period));
+  return reply("GET /api/v1/usage", await usageReport(caller, period));
 });

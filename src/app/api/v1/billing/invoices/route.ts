@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { getCaller } from "@/server/auth";
 import { listInvoices } from "@/server/billing/subscriptions";
 import { route } from "@/server/http/errors";
@@ -8,5 +8,5 @@ export const dynamic = "force-dynamic";
 /** GET /api/v1/billing/invoices: `{ invoices, upcoming }` from Stripe (amounts in USD). */
 export const GET = route(async (req: Request) => {
   const caller = await getCaller(req);
-  return NextResponse.json(await listInvoices(caller));
+  return reply("GET /api/v1/billing/invoices", await listInvoices(caller));
 });

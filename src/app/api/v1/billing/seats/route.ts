@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { getCaller, requirePermission } from "@/server/auth";
 import { billingOverview } from "@/server/billing/subscriptions";
 import { route } from "@/server/http/errors";
@@ -10,5 +10,5 @@ export const GET = route(async (req: Request) => {
   const caller = await getCaller(req);
   requirePermission(caller, "seats.manage");
   const o = await billingOverview(caller);
-  return NextResponse.json({ seats: o.seats, members: o.members, seatPriceUsdPerMonth: o.seatPriceUsdPerMonth });
+  return reply("GET /api/v1/billing/seats", { seats: o.seats, members: o.members, seatPriceUsdPerMonth: o.seatPriceUsdPerMonth });
 });

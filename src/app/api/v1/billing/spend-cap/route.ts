@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { z } from "zod";
 import { getCaller } from "@/server/auth";
 import { setSpendCap } from "@/server/billing/subscriptions";
@@ -19,5 +19,5 @@ export const PUT = route(async (req: Request) => {
   const caller = await getCaller(req);
   const parsed = Body.safeParse(await readJson(req, 10_000));
   if (!parsed.success) throw zodToApiError(parsed.error);
-  return NextResponse.json(await setSpendCap(caller, parsed.data.spendCapUsd));
+  return reply("PUT /api/v1/billing/spend-cap", await setSpendCap(caller, parsed.data.spendCapUsd));
 });

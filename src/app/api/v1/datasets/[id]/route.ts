@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { getCaller } from "@/server/auth";
 import { route } from "@/server/http/errors";
 import { getDataset } from "@/server/datasets/service";
@@ -11,5 +11,5 @@ type Ctx = { params: Promise<{ id: string }> };
 export const GET = route(async (req: Request, ctx: Ctx) => {
   const caller = await getCaller(req);
   const { id } = await ctx.params;
-  return NextResponse.json(await getDataset(caller, id));
+  return reply("GET /api/v1/datasets/{id}", await getDataset(caller, id));
 });

@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply, noContent } from "@/server/http/reply";
 import { getCaller } from "@/server/auth";
 import { ApiError, readJson, route } from "@/server/http/errors";
 import { deleteNetwork, getNetwork, updateNetwork } from "@/server/networks/service";
@@ -18,21 +18,21 @@ function versionParam(req: Request): number | undefined {
 export const GET = route(async (req: Request, ctx: Ctx) => {
   const caller = await getCaller(req);
   const { id } = await ctx.params;
-  return NextResponse.json(await getNetwork(caller, id, versionParam(req)));
+  return reply("GET /api/v1/networks/{id}", await getNetwork(caller, id, versionParam(req)));
 });
 
 /** PUT /api/v1/networks/{id} `{ name?, network }`: replaces the description as a new version. */
 export const PUT = route(async (req: Request, ctx: Ctx) => {
   const caller = await getCaller(req);
   const { id } = await ctx.params;
-  return NextResponse.json(await updateNetwork(caller, id, await readJson(req, 2_000_000), "replace"));
+  return reply("PUT /api/v1/networks/{id}", await updateNetwork(caller, id, await readJson(req, 2_000_000), "replace"));
 });
 
 /** PATCH /api/v1/networks/{id} `{ name?, network? }`: merges fields into the description (a new version). */
 export const PATCH = route(async (req: Request, ctx: Ctx) => {
   const caller = await getCaller(req);
   const { id } = await ctx.params;
-  return NextResponse.json(await updateNetwork(caller, id, await readJson(req, 2_000_000), "merge"));
+  return reply("PATCH /api/v1/networks/{id}", await updateNetwork(caller, id, await readJson(req, 2_000_000), "merge"));
 });
 
 /** DELETE /api/v1/networks/{id}: 204, or 409 while runs or sweeps use any of its versions. */
@@ -40,5 +40,5 @@ export const DELETE = route(async (req: Request, ctx: Ctx) => {
   const caller = await getCaller(req);
   const { id } = await ctx.params;
   await deleteNetwork(caller, id);
-  return new Response(null, { status: 204 });
+  return noContent("DELETE /api/v1/networks/{id}");
 });

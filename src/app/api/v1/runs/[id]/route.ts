@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { getCaller } from "@/server/auth";
 import { route } from "@/server/http/errors";
 import { getRun } from "@/server/runs/service";
@@ -10,5 +10,5 @@ type Ctx = { params: Promise<{ id: string }> };
 export const GET = route(async (req: Request, ctx: Ctx) => {
   const caller = await getCaller(req);
   const { id } = await ctx.params;
-  return NextResponse.json(await getRun(caller, id), { headers: { "cache-control": "no-store" } });
+  return reply("GET /api/v1/runs/{id}", await getRun(caller, id), { headers: { "cache-control": "no-store" } });
 });

@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { getCaller } from "@/server/auth";
 import { revokeToken } from "@/server/auth/apiTokens";
 import { route } from "@/server/http/errors";
@@ -9,5 +9,5 @@ export const dynamic = "force-dynamic";
 export const DELETE = route(async (req: Request, ctx: { params: Promise<{ id: string }> }) => {
   const caller = await getCaller(req);
   const { id } = await ctx.params;
-  return NextResponse.json({ token: await revokeToken(caller, id) });
+  return reply("DELETE /api/v1/tokens/{id}", { token: await revokeToken(caller, id) });
 });

@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { getCaller } from "@/server/auth";
 import { route } from "@/server/http/errors";
 import { listInvitations } from "@/server/workspaces/invitations";
@@ -8,5 +8,5 @@ export const dynamic = "force-dynamic";
 /** GET /api/v1/workspace/invitations: every invitation of this workspace with its status. */
 export const GET = route(async (req: Request) => {
   const caller = await getCaller(req);
-  return NextResponse.json({ invitations: await listInvitations(caller) });
+  return reply("GET /api/v1/workspace/invitations", { invitations: await listInvitations(caller) });
 });

@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { z } from "zod";
 import { can, getCaller } from "@/server/auth";
 import { ROLES } from "@/shared/permissions";
@@ -13,7 +13,7 @@ export const GET = route(async (req: Request) => {
   const caller = await getCaller(req);
   const members = await listMembers(caller);
   const manages = can(caller.role, "members.seats");
-  return NextResponse.json({
+  return reply("GET /api/v1/workspace/members", {
     members,
     invitations: manages ? (await listInvitations(caller)).filter((i) => i.status === "pending") : undefined,
     seats: manages ? await seatUse(caller.workspaceId) : undefined,
@@ -33,5 +33,5 @@ export const POST = route(async (req: Request) => {
   const parsed = inviteInput.safeParse(await readJson(req, 10_000));
   if (!parsed.success) throw zodToApiError(parsed.error);
   const result = await invite(caller, parsed.data);
-  return NextResponse.json(result, { status: 201 });
+  return reply("POST /api/v1/workspace/members", result, { status: 201 });
 });

@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { getCaller } from "@/server/auth";
 import { readJson, route } from "@/server/http/errors";
 import { periodOfDataset } from "@/server/datasets/service";
@@ -13,5 +13,5 @@ export const POST = route(async (req: Request, ctx: Ctx) => {
   const { id } = await ctx.params;
   const text = req.headers.get("content-length") === "0" ? "" : await req.clone().text();
   const body = text.trim() ? await readJson(req, 10_000) : {};
-  return NextResponse.json(await periodOfDataset(caller, id, body));
+  return reply("POST /api/v1/datasets/{id}/period", await periodOfDataset(caller, id, body));
 });

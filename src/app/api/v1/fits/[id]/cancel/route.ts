@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { getCaller } from "@/server/auth";
 import { route } from "@/server/http/errors";
 import { cancelFit } from "@/server/fits/service";
@@ -9,5 +9,5 @@ type Ctx = { params: Promise<{ id: string }> };
 /** POST /api/v1/fits/{id}/cancel: a queued fit is cancelled at once, a running one at its next model evaluation. */
 export const POST = route(async (req: Request, ctx: Ctx) => {
   const caller = await getCaller(req);
-  return NextResponse.json(await cancelFit(caller, (await ctx.params).id));
+  return reply("POST /api/v1/fits/{id}/cancel", await cancelFit(caller, (await ctx.params).id));
 });

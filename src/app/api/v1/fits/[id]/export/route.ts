@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { getCaller } from "@/server/auth";
 import { route } from "@/server/http/errors";
 import { exportFit } from "@/server/fits/service";
@@ -10,5 +10,5 @@ type Ctx = { params: Promise<{ id: string }> };
 export const GET = route(async (req: Request, ctx: Ctx) => {
   const caller = await getCaller(req);
   const { id } = await ctx.params;
-  return NextResponse.json(await exportFit(caller, id), { headers: { "content-disposition": `attachment; filename="fit-${id.slice(0, 8)}-report.json"` } });
+  return reply("GET /api/v1/fits/{id}/export", await exportFit(caller, id), { headers: { "content-disposition": `attachment; filename="fit-${id.slice(0, 8)}-report.json"` } });
 });

@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { getCaller } from "@/server/auth";
 import { route } from "@/server/http/errors";
 import { cancelRun } from "@/server/runs/service";
@@ -10,5 +10,5 @@ type Ctx = { params: Promise<{ id: string }> };
 export const POST = route(async (req: Request, ctx: Ctx) => {
   const caller = await getCaller(req);
   const { id } = await ctx.params;
-  return NextResponse.json(await cancelRun(caller, id), { status: 202 });
+  return reply("POST /api/v1/runs/{id}/cancel", await cancelRun(caller, id), { status: 202 });
 });

@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { z } from "zod";
 import { getCaller } from "@/server/auth";
 import { ApiError, route } from "@/server/http/errors";
@@ -11,5 +11,5 @@ export const DELETE = route(async (req: Request, ctx: { params: Promise<{ id: st
   const caller = await getCaller(req);
   const { id } = await ctx.params;
   if (!z.string().uuid().safeParse(id).success) throw new ApiError("not_found", `No invitation with id ${id} in this workspace.`);
-  return NextResponse.json({ invitation: await revokeInvitation(caller, id) });
+  return reply("DELETE /api/v1/workspace/invitations/{id}", { invitation: await revokeInvitation(caller, id) });
 });

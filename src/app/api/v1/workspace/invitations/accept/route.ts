@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply } from "@/server/http/reply";
 import { z } from "zod";
 import { getCaller } from "@/server/auth";
 import { readJson, route, zodToApiError } from "@/server/http/errors";
@@ -13,5 +13,5 @@ export const POST = route(async (req: Request) => {
   const caller = await getCaller(req);
   const parsed = input.safeParse(await readJson(req, 10_000));
   if (!parsed.success) throw zodToApiError(parsed.error);
-  return NextResponse.json(await acceptInvitation(caller, parsed.data.token));
+  return reply("POST /api/v1/workspace/invitations/accept", await acceptInvitation(caller, parsed.data.token));
 });

@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { reply, noContent } from "@/server/http/reply";
 import { z } from "zod";
 import { getCaller } from "@/server/auth";
 import { ROLES } from "@/shared/permissions";
@@ -21,7 +21,7 @@ export const PATCH = route(async (req: Request, ctx: { params: Promise<{ userId:
   const id = memberId((await ctx.params).userId);
   const parsed = roleInput.safeParse(await readJson(req, 10_000));
   if (!parsed.success) throw zodToApiError(parsed.error);
-  return NextResponse.json({ member: await changeRole(caller, id, parsed.data.role) });
+  return reply("PATCH /api/v1/workspace/members/{userId}", { member: await changeRole(caller, id, parsed.data.role) });
 });
 
 /** DELETE /api/v1/workspace/members/{userId}: remove a member (their API tokens stop working). */
@@ -29,5 +29,5 @@ export const DELETE = route(async (req: Request, ctx: { params: Promise<{ userId
   const caller = await getCaller(req);
   const id = memberId((await ctx.params).userId);
   await removeMember(caller, id);
-  return new Response(null, { status: 204 });
+  return noContent("DELETE /api/v1/workspace/members/{userId}");
 });

@@ -1,0 +1,106 @@
+/** Billing and usage (`/api/v1/billing`, `/api/v1/usage`). Money in US dollars, time in compute-seconds. */
+import type { PlanId } from "../plans";
+
+/** GET /api/v1/billing: everything the Billing page shows at the top. */
+export interface BillingOverview {
+  workspace: { id: string; name: string; kind: "personal" | "lab" };
+  plan: PlanId;
+  planLabel: string;
+  planState: "active" | "grace" | "suspended";
+  /** Limits that apply now (Free limits while suspended). */
+  effectivePlan: PlanId;
+  graceEndsAt: string | null;
+  seats: number;
+  members: number;
+  seatPriceUsdPerMonth: number;
+  computePriceUsdPerHour: number;
+  spendCapUsd: number | null;
+  /** Billing period, YYYY-MM (UTC). */
+  period: string;
+  usedComputeSeconds: number;
+  includedComputeSeconds: number;
+  spendUsd: number;
+  hasPaymentAccount: boolean;
+  hasSubscription: boolean;
+  /** Usage records waiting for, sent to or refused by the payment service. */
+  meterEvents: { pending: number; sent: number; failed: number; lastError: string | null };
+  canManageBilling: boolean;
+}
+
+/** GET /api/v1/billing/seats. */
+export interface SeatsView {
+  seats: number;
+  members: number;
+  seatPriceUsdPerMonth: number;
+}
+
+/** POST /api/v1/billing/seats/sync. */
+export interface SeatsSynced {
+  seats: number;
+  members: number;
+}
+
+/** POST /api/v1/billing/checkout (201): where to pay. */
+export interface CheckoutStart {
+  url: string;
+  sessionId: string;
+  seats: number;
+}
+
+/** POST /api/v1/billing/portal (201). */
+export interface PortalLink {
+  url: string;
+}
+
+/** PUT /api/v1/billing/spend-cap. */
+export interface SpendCapView {
+  spendCapUsd: number | null;
+}
+
+export interface InvoiceView {
+  id: string;
+  number: string | null;
+  status: string | null;
+  totalUsd: number;
+  amountDueUsd: number;
+  currency: string;
+  periodStart: string;
+  periodEnd: string;
+  createdAt: string;
+  url: string | null;
+}
+
+/** GET /api/v1/billing/invoices: newest first, and the preview of the next one. */
+export interface InvoiceList {
+  invoices: InvoiceView[];
+  upcoming: InvoiceView | null;
+}
+
+export interface MemberUsage {
+  userId: string | null;
+  name: string;
+  email: string | null;
+  role: string | null;
+  runs: number;
+  computeSeconds: number;
+  costUsd: number;
+}
+
+export interface DayUsage {
+  /** YYYY-MM-DD (UTC). */
+  date: string;
+  userId: string | null;
+  computeSeconds: number;
+}
+
+/** GET /api/v1/usage?period=YYYY-MM: compute use per member and per day, from the usage ledger. */
+export interface UsageReport {
+  period: string;
+  plan: PlanId;
+  computeSeconds: number;
+  costUsd: number;
+  includedComputeSeconds: number;
+  spendCapUsd: number | null;
+  members: MemberUsage[];
+  days: DayUsage[];
+}
