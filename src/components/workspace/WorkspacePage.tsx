@@ -5,6 +5,7 @@ import { apiFetch, personName } from "@/lib/api";
 import { qk } from "@/lib/queryKeys";
 import { when } from "@/lib/units";
 import { PageHeader, ErrorNote, Skeleton } from "@/components/ui/Page";
+import { CardTable } from "@/components/ui/Table";
 import { useMe } from "@/components/shell/useMe";
 
 interface Member {
@@ -34,28 +35,17 @@ export function WorkspacePage() {
       {members.error ? <ErrorNote error={members.error} /> : null}
       {!members.data && !members.error ? <Skeleton /> : null}
       {members.data ? (
-        <div className="overflow-x-auto rounded-card border border-line bg-surface">
-          <table className="w-full text-left text-body" aria-label="Members">
-            <thead className="border-b border-line bg-surface-sunk text-caption uppercase tracking-wide text-fg-faint">
-              <tr>
-                <th scope="col" className="px-3 py-2 font-medium">Member</th>
-                <th scope="col" className="px-3 py-2 font-medium">Role</th>
-                <th scope="col" className="px-3 py-2 font-medium">Joined</th>
-              </tr>
-            </thead>
-            <tbody>
-              {members.data.map((m) => (
-                <tr key={m.userId} className="border-b border-line last:border-0">
-                  <td className="px-3 py-2">
-                    {m.name || personName(m.email)} <span className="text-caption text-fg-faint">{m.email}</span>
-                  </td>
-                  <td className="px-3 py-2">{m.roleLabel}</td>
-                  <td className="px-3 py-2 tk-num text-caption">{when(m.joinedAt)}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
+        <CardTable label="Members" columns={["Member", "Role", "Joined"]}>
+          {members.data.map((m) => (
+            <tr key={m.userId} className="border-b border-line last:border-0">
+              <td className="px-3 py-2">
+                {m.name || personName(m.email)} <span className="text-caption text-fg-faint">{m.email}</span>
+              </td>
+              <td className="px-3 py-2">{m.roleLabel}</td>
+              <td className="px-3 py-2 tk-num text-caption">{when(m.joinedAt)}</td>
+            </tr>
+          ))}
+        </CardTable>
       ) : null}
     </>
   );
