@@ -50,26 +50,15 @@ export function networkGeometry(shape: NetworkShape): NetworkGeometry {
 }
 
 function triangular({ columns: C, rows: Rn, transverse, valley }: NetworkShape): NetworkGeometry {
-  const nodeCount = C * Rn;
-  const nodes = new Float32Array(2 * nodeCount);
   const xOf = (i: number, m: number) => i + (m & 1) * 0.5;
   const yOf = (m: number) => m * S3;
-  for (let m = 0; m < Rn; m++)
-    for (let i = 0; i < C; i++) {
-      const k = m * C + i;
-      nodes[2 * k] = xOf(i, m);
-      nodes[2 * k + 1] = yOf(m);
-    }
-  const linkCount = 3 * nodeCount;
-  const links = new Float32Array(4 * linkCount);
-  const linkKind = new Uint8Array(linkCount);
+  const nodes = gridNodes(C, Rn, xOf, yOf);
+  const out = linkWriter(3 * C * Rn, valley);
   const dirs: [number, number][] = [
     [1, 0],
     [-0.5, S3],
     [-0.5, -S3],
   ];
-  const rev = valley === "K'";
-  let n = 0;
   const xMax = C - 1 + (Rn > 1 ? 0.5 : 0);
   for (let m = 0; m < Rn; m++)
     for (let i = 0; i < C; i++) {
@@ -97,57 +86,16 @@ function triangular({ columns: C, rows: Rn, transverse, valley }: NetworkShape):
           x1 = x0 + dx * 0.5;
           y1 = y0 + dy * 0.5;
         }
-        const o = 4 * n;
-        if (rev) {
-          links[o] = x1;
-          links[o + 1] = y1;
-          links[o + 2] = x0;
-          links[o + 3] = y0;
-        } else {
-          links[o] = x0;
-          links[o + 1] = y0;
-          links[o + 2] = x1;
-          links[o + 3] = y1;
-        }
-        linkKind[n] = kind;
-        n++;
+        out.put(x0, y0, x1, y1, kind);
       }
     }
-  return {
-    nodeCount,
-    nodes,
-    linkCount: n,
-    links,
-    linkKind,
-    bounds: { xMin: 0, xMax, yMin: 0, yMax: (Rn - 1) * S3 },
-    leads: { leftX: -0.6, rightX: xMax + 0.6 },
-  };
+  return geometry(nodes, out, xMax, (Rn - 1) * S3);
 }
 
 function square({ columns: C, rows: Rn, valley }: NetworkShape): NetworkGeometry {
-  const nodeCount = C * Rn;
-  const nodes = new Float32Array(2 * nodeCount);
-  for (let m = 0; m < Rn; m++)
-    for (let i = 0; i < C; i++) {
-      const k = m * C + i;
-      nodes[2 * k] = i;
-      nodes[2 * k + 1] = m;
-    }
-  const linkCount = 2 * nodeCount;
-  const links = new Float32Array(4 * linkCount);
-  const linkKind = new Uint8Array(linkCount);
-  const rev = valley === "K'";
-  let n = 0;
-  const put = (x0: number, y0: number, x1: number, y1: number, kind: number) => {
-    const o = 4 * n;
-    if (rev) [x0, y0, x1, y1] = [x1, y1, x0, y0];
-    links[o] = x0;
-    links[o + 1] = y0;
-    links[o + 2] = x1;
-    links[o + 3] = y1;
-    linkKind[n] = kind;
-    n++;
-  };
+  const nodes = gridNodes(C, Rn, (i) => i, (m) => m);
+  const out = linkWriter(2 * C * Rn, valley);
+  const put = out.put;
   for (let m = 0; m < Rn; m++)
     for (let i = 0; i < C; i++) {
       // Horizontal link leaving node (i, m).
@@ -161,14 +109,50 @@ function square({ columns: C, rows: Rn, valley }: NetworkShape): NetworkGeometry
       if (yt < 0 || yt >= Rn) put(i, m, i, m + vy * 0.45, 2);
       else put(i, m, i, yt, 0);
     }
+  return geometry(nodes, out, C - 1, Rn - 1);
+}
+
+/** x, y of the nodes of a columns x rows grid, row by row. */
+function gridNodes(C: number, Rn: number, xOf: (i: number, m: number) => number, yOf: (m: number) => number): Float32Array {
+  const nodes = new Float32Array(2 * C * Rn);
+  for (let m = 0; m < Rn; m++)
+    for (let i = 0; i < C; i++) {
+      const k = m * C + i;
+      nodes[2 * k] = xOf(i, m);
+      nodes[2 * k + 1] = yOf(m);
+    }
+  return nodes;
+}
+
+/** Links written one after the other, tail to head in the chosen valley (K' reverses every link). */
+function linkWriter(capacity: number, valley: NetworkShape["valley"]) {
+  const links = new Float32Array(4 * capacity);
+  const linkKind = new Uint8Array(capacity);
+  const rev = valley === "K'";
+  let n = 0;
+  const put = (x0: number, y0: number, x1: number, y1: number, kind: number) => {
+    const o = 4 * n;
+    if (rev) [x0, y0, x1, y1] = [x1, y1, x0, y0];
+    links[o] = x0;
+    links[o + 1] = y0;
+    links[o + 2] = x1;
+    links[o + 3] = y1;
+    linkKind[n] = kind;
+    n++;
+  };
+  return { links, linkKind, put, count: () => n };
+}
+
+/** The geometry of a lattice sample whose nodes span [0, xMax] x [0, yMax], leads just outside. */
+function geometry(nodes: Float32Array, out: ReturnType<typeof linkWriter>, xMax: number, yMax: number): NetworkGeometry {
   return {
-    nodeCount,
+    nodeCount: nodes.length / 2,
     nodes,
-    linkCount: n,
-    links,
-    linkKind,
-    bounds: { xMin: 0, xMax: C - 1, yMin: 0, yMax: Rn - 1 },
-    leads: { leftX: -0.6, rightX: C - 1 + 0.6 },
+    linkCount: out.count(),
+    links: out.links,
+    linkKind: out.linkKind,
+    bounds: { xMin: 0, xMax, yMin: 0, yMax },
+    leads: { leftX: -0.6, rightX: xMax + 0.6 },
   };
 }
 

@@ -4,19 +4,12 @@
  * network and the computation at every field). How the curve was made (the true parameters, the
  * field range, the noise) is in src/server/demo/lk07.ts, beside the CSV and its generator.
  */
+import { triangularNetwork } from "./networks";
+
 export const LK07_NAME = "LK-07 magnetoconductance (synthetic)";
 
 /** The network the curve was made with (engine schema v1); small, so fits are quick. */
-export const LK07_NETWORK = {
-  lattice: "triangular",
-  size: { columns: 4, rows: 4 },
-  transverse: "periodic",
-  twistDegrees: 0.11,
-  modeVelocityMps: 1.0e6,
-  channelsPerLink: 1,
-  degeneracy: { spin: 2, valley: 2 },
-  node: { forward: 0.55, left: 0.225, right: 0.225, branch: 1, phaseRad: 0 },
-} as const;
+export const LK07_NETWORK = triangularNetwork({ columns: 4, rows: 4 }, { forward: 0.55, left: 0.225, right: 0.225 });
 
 export const LK07_COMPUTATION = { kind: "conductance", energyMeV: 1.7, fieldTesla: 0, temperatureK: 1.5, temperaturePoints: 6, contactOhms: 600 } as const;
 

@@ -4,7 +4,7 @@ import { useSignIn } from "@clerk/nextjs/legacy";
 import Link from "next/link";
 import { useSearchParams } from "next/navigation";
 import { useState, type FormEvent } from "react";
-import { AuthButton, AuthInput, FormMessage, clerkErrorFields, safeRedirect } from "./formParts";
+import { AuthButton, AuthInput, FormMessage, attemptSession, safeRedirect } from "./formParts";
 
 /** E-mail + password sign-in on Clerk's SignIn resource (a custom flow; no prebuilt UI). */
 export function SignInForm() {
@@ -23,21 +23,7 @@ export function SignInForm() {
     if (!password) next.password = "Enter your password.";
     setErrors(next);
     if (Object.keys(next).length || !isLoaded) return;
-    setBusy(true);
-    try {
-      const attempt = await signIn.create({ identifier: email.trim(), password });
-      if (attempt.status !== "complete" || !attempt.createdSessionId) {
-        setErrors({ form: "This account needs a sign-in step Triskel does not offer yet; contact support." });
-        return;
-      }
-      await setActive({ session: attempt.createdSessionId });
-      window.location.assign(redirect);
-    } catch (err) {
-      const { field, message } = clerkErrorFields(err);
-      setErrors(field ? { [field]: message } : { form: message });
-    } finally {
-      setBusy(false);
-    }
+    await attemptSession(() => signIn.create({ identifier: email.trim(), password }), { setActive, redirect, incomplete: "This account needs a sign-in step Triskel does not offer yet; contact support.", setErrors, setBusy });
   }
 
   return (

@@ -4,7 +4,7 @@ import { useSignUp } from "@clerk/nextjs/legacy";
 import Link from "next/link";
 import { useSearchParams } from "next/navigation";
 import { useState, type FormEvent } from "react";
-import { AuthButton, AuthInput, FormMessage, clerkErrorFields, safeRedirect } from "./formParts";
+import { AuthButton, AuthInput, FormMessage, attemptSession, safeRedirect } from "./formParts";
 
 /** Account creation on Clerk's SignUp resource (custom flow): name, e-mail, password. */
 export function SignUpForm() {
@@ -25,22 +25,13 @@ export function SignUpForm() {
     if (password.length < 8) next.password = "Use at least 8 characters.";
     setErrors(next);
     if (Object.keys(next).length || !isLoaded) return;
-    setBusy(true);
-    try {
-      const [firstName, ...rest] = name.trim().split(/\s+/);
-      const attempt = await signUp.create({ emailAddress: email.trim(), password, firstName, lastName: rest.join(" ") });
-      if (attempt.status !== "complete" || !attempt.createdSessionId) {
-        setErrors({ form: "Your account needs a verification step Triskel does not offer yet; contact support." });
-        return;
-      }
-      await setActive({ session: attempt.createdSessionId });
-      window.location.assign(redirect);
-    } catch (err) {
-      const { field, message } = clerkErrorFields(err);
-      setErrors(field ? { [field]: message } : { form: message });
-    } finally {
-      setBusy(false);
-    }
+    await attemptSession(
+      () => {
+        const [firstName, ...rest] = name.trim().split(/\s+/);
+        return signUp.create({ emailAddress: email.trim(), password, firstName, lastName: rest.join(" ") });
+      },
+      { setActive, redirect, incomplete: "Your account needs a verification step Triskel does not offer yet; contact support.", setErrors, setBusy },
+    );
   }
 
   return (

@@ -57,6 +57,44 @@ export function clerkErrorFields(err: unknown): { field?: string; message: strin
   return { field, message: first.longMessage || first.message || "Something went wrong; try again." };
 }
 
+/** What a Clerk sign-in or sign-up attempt reports back. */
+interface Attempt {
+  status: string | null;
+  createdSessionId: string | null;
+}
+
+/**
+ * Runs a sign-in or sign-up attempt once the form's own checks passed: a complete attempt becomes
+ * the active session and the browser goes on to `redirect`; an attempt that wants a further step
+ * shows `incomplete`; a refusal shows Clerk's message on its field, or on the whole form.
+ */
+export async function attemptSession(
+  start: () => Promise<Attempt>,
+  { setActive, redirect, incomplete, setErrors, setBusy }: {
+    setActive: (params: { session: string }) => Promise<unknown>;
+    redirect: string;
+    incomplete: string;
+    setErrors: (errors: Record<string, string>) => void;
+    setBusy: (busy: boolean) => void;
+  },
+): Promise<void> {
+  setBusy(true);
+  try {
+    const attempt = await start();
+    if (attempt.status !== "complete" || !attempt.createdSessionId) {
+      setErrors({ form: incomplete });
+      return;
+    }
+    await setActive({ session: attempt.createdSessionId });
+    window.location.assign(redirect);
+  } catch (err) {
+    const { field, message } = clerkErrorFields(err);
+    setErrors(field ? { [field]: message } : { form: message });
+  } finally {
+    setBusy(false);
+  }
+}
+
 /** Only same-site paths are followed after sign-in (no open redirects). */
 export function safeRedirect(target: string | null | undefined, fallback = "/networks"): string {
   if (!target || !target.startsWith("/") || target.startsWith("//")) return fallback;

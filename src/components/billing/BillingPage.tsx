@@ -2,7 +2,7 @@
 
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { useSearchParams } from "next/navigation";
-import { useState } from "react";
+import { useState, type ReactNode } from "react";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import { api } from "@/lib/api";
 import type { BillingOverview, InvoiceView } from "@/shared/api";
@@ -121,28 +121,17 @@ export function BillingPage() {
         </div>
         {usage.isPending ? <Skeleton /> : usage.error ? <ErrorNote error={usage.error} /> : (
           <>
-            <table className="w-full text-body" data-testid="usage-members">
-              <thead>
-                <tr className="border-b border-line text-left text-caption text-fg-faint">
-                  <th className="py-1.5 font-medium">Member</th>
-                  <th className="py-1.5 font-medium">Role</th>
-                  <th className="py-1.5 text-right font-medium">Runs</th>
-                  <th className="py-1.5 text-right font-medium">Compute-seconds</th>
-                  <th className="py-1.5 text-right font-medium">Cost</th>
+            <FigureTable testId="usage-members" columns={["Member", "Role"]} numberColumns={["Runs", "Compute-seconds", "Cost"]}>
+              {usage.data.members.map((m) => (
+                <tr key={m.userId ?? "former"} className="border-b border-line/60">
+                  <td className="py-1.5">{m.name || m.email}</td>
+                  <td className="py-1.5 text-fg-soft">{m.role?.replace("_", " ") ?? "–"}</td>
+                  <td className="py-1.5 text-right tk-num">{m.runs}</td>
+                  <td className="py-1.5 text-right tk-num">{m.computeSeconds.toFixed(1)}</td>
+                  <td className="py-1.5 text-right tk-num">{formatUsd(m.costUsd)}</td>
                 </tr>
-              </thead>
-              <tbody>
-                {usage.data.members.map((m) => (
-                  <tr key={m.userId ?? "former"} className="border-b border-line/60">
-                    <td className="py-1.5">{m.name || m.email}</td>
-                    <td className="py-1.5 text-fg-soft">{m.role?.replace("_", " ") ?? "–"}</td>
-                    <td className="py-1.5 text-right tk-num">{m.runs}</td>
-                    <td className="py-1.5 text-right tk-num">{m.computeSeconds.toFixed(1)}</td>
-                    <td className="py-1.5 text-right tk-num">{formatUsd(m.costUsd)}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
+              ))}
+            </FigureTable>
             <UsageByDayChart period={usage.data.period} days={usage.data.days} names={names} />
           </>
         )}
@@ -158,38 +147,47 @@ export function BillingPage() {
         <section className="tk-card space-y-3 p-4" aria-labelledby="inv-h">
           <h2 id="inv-h" className="text-body font-semibold">Invoices</h2>
           {invoices.isPending ? <Skeleton /> : invoices.error ? <ErrorNote error={invoices.error} /> : (
-            <table className="w-full text-body" data-testid="invoices">
-              <thead>
-                <tr className="border-b border-line text-left text-caption text-fg-faint">
-                  <th className="py-1.5 font-medium">Invoice</th>
-                  <th className="py-1.5 font-medium">Period</th>
-                  <th className="py-1.5 font-medium">Status</th>
-                  <th className="py-1.5 text-right font-medium">Total</th>
+            <FigureTable testId="invoices" columns={["Invoice", "Period", "Status"]} numberColumns={["Total"]}>
+              {invoices.data.upcoming ? (
+                <tr className="border-b border-line/60 text-fg-soft">
+                  <td className="py-1.5">Next (estimate so far)</td>
+                  <td className="py-1.5">{day(invoices.data.upcoming.periodStart)} – {day(invoices.data.upcoming.periodEnd)}</td>
+                  <td className="py-1.5">upcoming</td>
+                  <td className="py-1.5 text-right tk-num">{formatUsd(invoices.data.upcoming.totalUsd)}</td>
                 </tr>
-              </thead>
-              <tbody>
-                {invoices.data.upcoming ? (
-                  <tr className="border-b border-line/60 text-fg-soft">
-                    <td className="py-1.5">Next (estimate so far)</td>
-                    <td className="py-1.5">{day(invoices.data.upcoming.periodStart)} – {day(invoices.data.upcoming.periodEnd)}</td>
-                    <td className="py-1.5">upcoming</td>
-                    <td className="py-1.5 text-right tk-num">{formatUsd(invoices.data.upcoming.totalUsd)}</td>
-                  </tr>
-                ) : null}
-                {invoices.data.invoices.map((i) => (
-                  <tr key={i.id} className="border-b border-line/60">
-                    <td className="py-1.5">{i.url ? <a className="underline" href={i.url}>{i.number ?? i.id}</a> : (i.number ?? i.id)}</td>
-                    <td className="py-1.5">{day(i.periodStart)} – {day(i.periodEnd)}</td>
-                    <td className="py-1.5">{i.status}</td>
-                    <td className="py-1.5 text-right tk-num">{formatUsd(i.totalUsd)}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
+              ) : null}
+              {invoices.data.invoices.map((i) => (
+                <tr key={i.id} className="border-b border-line/60">
+                  <td className="py-1.5">{i.url ? <a className="underline" href={i.url}>{i.number ?? i.id}</a> : (i.number ?? i.id)}</td>
+                  <td className="py-1.5">{day(i.periodStart)} – {day(i.periodEnd)}</td>
+                  <td className="py-1.5">{i.status}</td>
+                  <td className="py-1.5 text-right tk-num">{formatUsd(i.totalUsd)}</td>
+                </tr>
+              ))}
+            </FigureTable>
           )}
         </section>
       ) : null}
     </div>
+  );
+}
+
+/** A compact table of figures: text columns, then right-aligned number columns; the rows are the children. */
+function FigureTable({ testId, columns, numberColumns, children }: { testId: string; columns: string[]; numberColumns: string[]; children: ReactNode }) {
+  return (
+    <table className="w-full text-body" data-testid={testId}>
+      <thead>
+        <tr className="border-b border-line text-left text-caption text-fg-faint">
+          {columns.map((c) => (
+            <th key={c} className="py-1.5 font-medium">{c}</th>
+          ))}
+          {numberColumns.map((c) => (
+            <th key={c} className="py-1.5 text-right font-medium">{c}</th>
+          ))}
+        </tr>
+      </thead>
+      <tbody>{children}</tbody>
+    </table>
   );
 }
 

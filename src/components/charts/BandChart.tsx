@@ -1,30 +1,19 @@
 "use client";
 
 import * as d3 from "d3";
-import { useEffect, useRef, useState } from "react";
 import { num } from "@/lib/units";
-import { ChartFrame } from "./ChartFrame";
-import { drawAxes, MARGIN } from "./axes";
-import { useChartBox } from "./useWidth";
+import { drawAxes } from "./axes";
+import { D3Chart, useD3Chart } from "./D3Chart";
 
 /**
  * Band structure along a path: energies (meV, reduced into one period) at each k point, drawn as
  * dots per band index, with the high-symmetry points as ticks.
  */
 export function BandChart({ energies, distance, ticks, periodMeV, height = 340 }: { energies: number[][]; distance: number[]; ticks: { at: number; label: string }[]; periodMeV?: number; height?: number }) {
-  const { ref, width, palette } = useChartBox();
-  const svgRef = useRef<SVGSVGElement>(null);
-  const [readout, setReadout] = useState<string | null>(null);
-  useEffect(() => {
-    if (!palette || !svgRef.current) return;
-    const svg = d3.select(svgRef.current);
-    svg.selectAll("*").remove();
-    const innerW = width - MARGIN.left - MARGIN.right;
-    const innerH = height - MARGIN.top - MARGIN.bottom;
+  const chart = useD3Chart(height, ({ g, innerW, innerH, palette, setReadout }) => {
     const x = d3.scaleLinear().domain(d3.extent(distance) as [number, number]).range([0, innerW]);
     const flat = energies.flat();
     const y = d3.scaleLinear().domain(periodMeV ? [0, periodMeV] : (d3.extent(flat) as [number, number])).nice().range([innerH, 0]);
-    const g = svg.append("g").attr("transform", `translate(${MARGIN.left},${MARGIN.top})`);
     const xAxis = d3.axisBottom(x).tickValues(ticks.map((t) => t.at)).tickFormat((_, i) => ticks[i]?.label ?? "");
     drawAxes(g, x, y, innerW, innerH, "Wave vector along the path (nm⁻¹)", "Energy (meV)", palette, xAxis as d3.Axis<d3.NumberValue>);
     g.append("g")
@@ -60,13 +49,9 @@ export function BandChart({ energies, distance, ticks, periodMeV, height = 340 }
         const near = d3.least(energies[i] ?? [], (v) => Math.abs(v - e));
         setReadout(`k-path point ${i + 1} of ${distance.length} · E = ${num(near ?? NaN)} meV`);
       });
-  }, [palette, width, height, energies, distance, ticks, periodMeV]);
+  }, [energies, distance, ticks, periodMeV]);
   const csv = { header: ["pathIndex", "pathDistancePerNm", ...Array.from({ length: d3.max(energies, (e) => e.length) ?? 0 }, (_, b) => `band${b}EnergyMeV`)], rows: energies.map((e, i) => [i, distance[i], ...e]), comments: ["Band structure along a path (energies reduced into one period)"] };
   return (
-    <ChartFrame title="Band structure" name="band-structure" svgRef={svgRef} csv={csv} readout={readout}>
-      <div ref={ref}>
-        <svg ref={svgRef} width={width} height={height} role="img" aria-label="Band structure: energy against wave vector along the path" />
-      </div>
-    </ChartFrame>
+    <D3Chart chart={chart} title="Band structure" name="band-structure" label="Band structure: energy against wave vector along the path" height={height} csv={csv} />
   );
 }

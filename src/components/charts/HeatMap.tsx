@@ -1,31 +1,22 @@
 "use client";
 
 import * as d3 from "d3";
-import { useEffect, useRef, useState } from "react";
 import { num } from "@/lib/units";
-import { ChartFrame, type CsvData } from "./ChartFrame";
+import type { CsvData } from "./ChartFrame";
 import { drawAxes } from "./axes";
-import { useChartBox } from "./useWidth";
+import { D3Chart, useD3Chart, type Margin } from "./D3Chart";
 import { SEQUENTIAL_STOPS } from "./palette";
 
 const tkSequential = d3.interpolateRgbBasis(SEQUENTIAL_STOPS);
 
-const M = { top: 14, right: 86, bottom: 44, left: 62 };
+const M: Margin = { top: 14, right: 86, bottom: 44, left: 62 };
 
 /**
  * Two-axis sweep as a heat map: rows are the first axis (y), columns the second (x); points not
  * computed yet are plain grey. A colour bar shows the scale of the quantity.
  */
 export function HeatMap({ title, name, xValues, yValues, values, xLabel, yLabel, zLabel, zUnit = "", csv, height = 360 }: { title: string; name: string; xValues: number[]; yValues: number[]; values: (number | null)[]; xLabel: string; yLabel: string; zLabel: string; zUnit?: string; csv?: CsvData; height?: number }) {
-  const { ref, width, palette } = useChartBox();
-  const svgRef = useRef<SVGSVGElement>(null);
-  const [readout, setReadout] = useState<string | null>(null);
-  useEffect(() => {
-    if (!palette || !svgRef.current) return;
-    const svg = d3.select(svgRef.current);
-    svg.selectAll("*").remove();
-    const innerW = width - M.left - M.right;
-    const innerH = height - M.top - M.bottom;
+  const chart = useD3Chart(height, ({ svg, g, width, innerW, innerH, palette, setReadout }) => {
     const nx = xValues.length;
     const ny = yValues.length;
     // Cell edges halfway between grid values (uniform or not).
@@ -43,7 +34,6 @@ export function HeatMap({ title, name, xValues, yValues, values, xLabel, yLabel,
     const finite = values.filter((v): v is number => v !== null && Number.isFinite(v));
     const zExt = (finite.length ? d3.extent(finite) : [0, 1]) as [number, number];
     const z = d3.scaleSequential(tkSequential).domain(zExt[0] === zExt[1] ? [zExt[0] - 1, zExt[0] + 1] : zExt);
-    const g = svg.append("g").attr("transform", `translate(${M.left},${M.top})`);
     const cells: { i: number; j: number; v: number | null }[] = [];
     for (let i = 0; i < ny; i++) for (let j = 0; j < nx; j++) cells.push({ i, j, v: values[i * nx + j] ?? null });
     g.append("g")
@@ -72,19 +62,16 @@ export function HeatMap({ title, name, xValues, yValues, values, xLabel, yLabel,
     za.selectAll("path, line").attr("stroke", palette.faint);
     za.selectAll("text").attr("fill", palette.fg).attr("font-size", 10);
     bar.append("text").attr("transform", `translate(62,${barH / 2}) rotate(90)`).attr("text-anchor", "middle").attr("font-size", 11).attr("fill", palette.fg).text(zUnit ? `${zLabel} (${zUnit})` : zLabel);
-  }, [palette, width, height, xValues, yValues, values, xLabel, yLabel, zLabel, zUnit, name]);
+  }, [xValues, yValues, values, xLabel, yLabel, zLabel, zUnit, name], M);
   return (
-    <ChartFrame
+    <D3Chart
+      chart={chart}
       title={title}
       name={name}
-      svgRef={svgRef}
+      label={`${title}: ${zLabel} over ${yLabel} and ${xLabel}`}
+      height={height}
       csv={csv}
-      readout={readout}
-      extra={values.some((v) => v === null) ? <span className="flex items-center gap-1.5 text-caption text-fg-faint"><span aria-hidden className="inline-block h-3 w-3 rounded-sm" style={{ background: palette?.grid }} />not computed yet</span> : null}
-    >
-      <div ref={ref}>
-        <svg ref={svgRef} width={width} height={height} role="img" aria-label={`${title}: ${zLabel} over ${yLabel} and ${xLabel}`} />
-      </div>
-    </ChartFrame>
+      extra={values.some((v) => v === null) ? <span className="flex items-center gap-1.5 text-caption text-fg-faint"><span aria-hidden className="inline-block h-3 w-3 rounded-sm" style={{ background: chart.palette?.grid }} />not computed yet</span> : null}
+    />
   );
 }

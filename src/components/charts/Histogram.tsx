@@ -1,27 +1,16 @@
 "use client";
 
 import * as d3 from "d3";
-import { useEffect, useRef, useState } from "react";
 import { num } from "@/lib/units";
-import { ChartFrame } from "./ChartFrame";
-import { drawAxes, MARGIN } from "./axes";
-import { useChartBox } from "./useWidth";
+import { drawAxes } from "./axes";
+import { D3Chart, useD3Chart } from "./D3Chart";
 
 /** Histogram of values in [0, 1] by default (transmission eigenvalues), count on the y axis. */
 export function Histogram({ title, name, values, xLabel, bins = 20, domain = [0, 1], height = 260 }: { title: string; name: string; values: number[]; xLabel: string; bins?: number; domain?: [number, number]; height?: number }) {
-  const { ref, width, palette } = useChartBox();
-  const svgRef = useRef<SVGSVGElement>(null);
-  const [readout, setReadout] = useState<string | null>(null);
   const binned = d3.bin().domain(domain).thresholds(d3.range(bins + 1).map((i) => domain[0] + ((domain[1] - domain[0]) * i) / bins).slice(1, -1))(values);
-  useEffect(() => {
-    if (!palette || !svgRef.current) return;
-    const svg = d3.select(svgRef.current);
-    svg.selectAll("*").remove();
-    const innerW = width - MARGIN.left - MARGIN.right;
-    const innerH = height - MARGIN.top - MARGIN.bottom;
+  const chart = useD3Chart(height, ({ g, innerW, innerH, palette, setReadout }) => {
     const x = d3.scaleLinear().domain(domain).range([0, innerW]);
     const y = d3.scaleLinear().domain([0, d3.max(binned, (b) => b.length) || 1]).nice().range([innerH, 0]);
-    const g = svg.append("g").attr("transform", `translate(${MARGIN.left},${MARGIN.top})`);
     drawAxes(g, x, y, innerW, innerH, xLabel, "Count", palette);
     g.append("g")
       .attr("data-layer", "bars")
@@ -34,13 +23,9 @@ export function Histogram({ title, name, values, xLabel, bins = 20, domain = [0,
       .attr("height", (b) => innerH - y(b.length))
       .attr("fill", palette.link)
       .on("mouseenter", (_, b) => setReadout(`${num(b.x0!)} – ${num(b.x1!)}: ${b.length} eigenvalue${b.length === 1 ? "" : "s"}`));
-  }, [palette, width, height, values, bins, xLabel]); // eslint-disable-line react-hooks/exhaustive-deps
+  }, [values, bins, xLabel]);
   const csv = { header: ["binFrom", "binTo", "count"], rows: binned.map((b) => [b.x0!, b.x1!, b.length]), comments: [`${title}`, `${values.length} values`] };
   return (
-    <ChartFrame title={title} name={name} svgRef={svgRef} csv={csv} readout={readout}>
-      <div ref={ref}>
-        <svg ref={svgRef} width={width} height={height} role="img" aria-label={`${title}: histogram of ${values.length} values`} />
-      </div>
-    </ChartFrame>
+    <D3Chart chart={chart} title={title} name={name} label={`${title}: histogram of ${values.length} values`} height={height} csv={csv} />
   );
 }

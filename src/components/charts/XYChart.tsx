@@ -1,11 +1,10 @@
 "use client";
 
 import * as d3 from "d3";
-import { useEffect, useRef, useState } from "react";
 import { num } from "@/lib/units";
-import { ChartFrame, type CsvData } from "./ChartFrame";
-import { drawAxes, MARGIN } from "./axes";
-import { useChartBox } from "./useWidth";
+import type { CsvData } from "./ChartFrame";
+import { drawAxes } from "./axes";
+import { D3Chart, useD3Chart } from "./D3Chart";
 
 export interface Series {
   name: string;
@@ -33,15 +32,7 @@ interface Props {
 
 /** Lines (with an optional error band) of y against x, with a hover read-out of the nearest point. */
 export function XYChart({ title, name, xLabel, yLabel, xUnit = "", yUnit = "", series, height = 300, csv, xDomain }: Props) {
-  const { ref, width, palette } = useChartBox();
-  const svgRef = useRef<SVGSVGElement>(null);
-  const [readout, setReadout] = useState<string | null>(null);
-  useEffect(() => {
-    if (!palette || !svgRef.current) return;
-    const svg = d3.select(svgRef.current);
-    svg.selectAll("*").remove();
-    const innerW = width - MARGIN.left - MARGIN.right;
-    const innerH = height - MARGIN.top - MARGIN.bottom;
+  const chart = useD3Chart(height, ({ g, innerW, innerH, palette, setReadout }) => {
     const all = series.flatMap((s) => s.x.map((x, i) => ({ x, y: s.y[i], e: s.err?.[i] ?? 0 }))).filter((d) => d.y !== null && Number.isFinite(d.y)) as { x: number; y: number; e: number }[];
     const xs = series.flatMap((s) => s.x);
     const xExt = xDomain ?? (d3.extent(xs) as [number, number]);
@@ -49,7 +40,6 @@ export function XYChart({ title, name, xLabel, yLabel, xUnit = "", yUnit = "", s
     const lo = d3.min(all, (d) => d.y - d.e) ?? 0;
     const hi = d3.max(all, (d) => d.y + d.e) ?? 1;
     const y = d3.scaleLinear().domain(lo === hi ? [lo - 1, hi + 1] : [lo, hi]).nice().range([innerH, 0]);
-    const g = svg.append("g").attr("transform", `translate(${MARGIN.left},${MARGIN.top})`);
     drawAxes(g, x, y, innerW, innerH, xLabel, yLabel, palette);
     series.forEach((s) => {
       const color = palette[s.color ?? "link"];
@@ -123,12 +113,8 @@ export function XYChart({ title, name, xLabel, yLabel, xUnit = "", yUnit = "", s
       .on("mouseleave", () => {
         cross.attr("visibility", "hidden");
       });
-  }, [palette, width, height, series, xLabel, yLabel, xUnit, yUnit, xDomain]);
+  }, [series, xLabel, yLabel, xUnit, yUnit, xDomain]);
   return (
-    <ChartFrame title={title} name={name} svgRef={svgRef} csv={csv} readout={readout}>
-      <div ref={ref}>
-        <svg ref={svgRef} width={width} height={height} role="img" aria-label={`${title}: ${yLabel} against ${xLabel}`} />
-      </div>
-    </ChartFrame>
+    <D3Chart chart={chart} title={title} name={name} label={`${title}: ${yLabel} against ${xLabel}`} height={height} csv={csv} />
   );
 }

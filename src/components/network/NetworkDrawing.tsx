@@ -1,9 +1,10 @@
 "use client";
 
 import * as d3 from "d3";
-import { useEffect, useMemo, useRef, useState } from "react";
+import { useEffect, useMemo, useRef } from "react";
 import { linkCountOf, networkGeometry, type NetworkGeometry, type NetworkShape } from "@/lib/lattice";
-import { readPalette, type Palette } from "@/components/charts/palette";
+import type { Palette } from "@/components/charts/palette";
+import { usePalette, useWidth } from "@/components/charts/useWidth";
 
 /** Past this many links the drawing switches from SVG elements to one canvas. */
 export const SVG_LINK_LIMIT = 3000;
@@ -35,26 +36,8 @@ interface Props {
 export function NetworkDrawing({ shape, linkNm, height = 420, linkValues, label, custom }: Props) {
   const links = custom ? custom.linkCount : linkCountOf(shape);
   const mode = links > SVG_LINK_LIMIT ? "canvas" : "svg";
-  const wrapRef = useRef<HTMLDivElement>(null);
-  const [width, setWidth] = useState(640);
-  const [palette, setPalette] = useState<Palette | null>(null);
-
-  useEffect(() => {
-    const el = wrapRef.current;
-    if (!el) return;
-    const ro = new ResizeObserver(([entry]) => setWidth(Math.max(240, Math.floor(entry.contentRect.width))));
-    ro.observe(el);
-    const onTheme = () => setPalette(readPalette());
-    onTheme();
-    window.addEventListener("triskel-theme", onTheme);
-    const mq = window.matchMedia("(prefers-color-scheme: dark)");
-    mq.addEventListener("change", onTheme);
-    return () => {
-      ro.disconnect();
-      window.removeEventListener("triskel-theme", onTheme);
-      mq.removeEventListener("change", onTheme);
-    };
-  }, []);
+  const { ref: wrapRef, width } = useWidth(640, 240);
+  const palette = usePalette(true);
 
   const description = `${shape.lattice} network, ${shape.columns} × ${shape.rows} nodes, ${links.toLocaleString("en")} links, valley ${shape.valley}, ${shape.transverse} transverse boundary, leads on the left and right`;
   return (

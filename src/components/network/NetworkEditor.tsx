@@ -109,10 +109,7 @@ export function NetworkEditor({ initial, canEdit }: Props) {
               <Select
                 id="lattice"
                 value={draft.lattice ?? "triangular"}
-                options={[
-                  { value: "triangular", label: "Triangular" },
-                  { value: "square", label: "Square" },
-                ]}
+                options={LATTICE_OPTIONS}
                 onChange={(v) => setDraft((d) => ({ ...defaultNetwork(v as "triangular" | "square"), size: d.size }))}
               />
             </Field>
@@ -120,10 +117,7 @@ export function NetworkEditor({ initial, canEdit }: Props) {
               <Select
                 id="transverse"
                 value={draft.transverse ?? "periodic"}
-                options={[
-                  { value: "periodic", label: "Periodic" },
-                  { value: "open", label: "Open" },
-                ]}
+                options={TRANSVERSE_OPTIONS}
                 onChange={(v) => set("transverse", v)}
               />
             </Field>
@@ -190,13 +184,13 @@ export function NetworkEditor({ initial, canEdit }: Props) {
               <NumberInput id="modeVelocityMps" value={draft.modeVelocityMps} onChange={(v) => set("modeVelocityMps", v)} error={err("modeVelocityMps")} />
             </Field>
             <Field id="channelsPerLink" label="Channels per link" error={err("channelsPerLink")}>
-              <Select id="channelsPerLink" value={draft.channelsPerLink ?? 1} options={[{ value: 1, label: "1" }, { value: 2, label: "2" }]} onChange={(v) => set("channelsPerLink", v)} />
+              <Select id="channelsPerLink" value={draft.channelsPerLink ?? 1} options={ONE_OR_TWO} onChange={(v) => set("channelsPerLink", v)} />
             </Field>
             <Field id="degeneracy.spin" label="Spin degeneracy" error={err("degeneracy.spin")}>
-              <Select id="degeneracy.spin" value={draft.degeneracy?.spin ?? (triangular ? 2 : 1)} options={[{ value: 1, label: "1" }, { value: 2, label: "2" }]} onChange={(v) => set("degeneracy.spin", v)} />
+              <Select id="degeneracy.spin" value={draft.degeneracy?.spin ?? (triangular ? 2 : 1)} options={ONE_OR_TWO} onChange={(v) => set("degeneracy.spin", v)} />
             </Field>
             <Field id="degeneracy.valley" label="Valley degeneracy" error={err("degeneracy.valley")}>
-              <Select id="degeneracy.valley" value={draft.degeneracy?.valley ?? (triangular ? 2 : 1)} options={[{ value: 1, label: "1" }, { value: 2, label: "2" }]} onChange={(v) => set("degeneracy.valley", v)} />
+              <Select id="degeneracy.valley" value={draft.degeneracy?.valley ?? (triangular ? 2 : 1)} options={ONE_OR_TWO} onChange={(v) => set("degeneracy.valley", v)} />
             </Field>
           </div>
         </fieldset>
@@ -337,6 +331,20 @@ export function NetworkEditor({ initial, canEdit }: Props) {
     </div>
   );
 }
+
+const LATTICE_OPTIONS = [
+  { value: "triangular", label: "Triangular" },
+  { value: "square", label: "Square" },
+];
+const TRANSVERSE_OPTIONS = [
+  { value: "periodic", label: "Periodic" },
+  { value: "open", label: "Open" },
+];
+/** Channels per link, spin and valley degeneracy. */
+const ONE_OR_TWO = [
+  { value: 1, label: "1" },
+  { value: 2, label: "2" },
+];
 
 const KNOWN_FIELDS = new Set([
   "lattice",

@@ -1,32 +1,13 @@
 /** Editing state of a network description (engine schema v1) and helpers around it. */
 import type { NetworkShape } from "@/lib/lattice";
 import { periodFromTwistNm } from "@/engine/browser";
+import { squareNetwork, triangularNetwork } from "@/shared/networks";
 
 export type NetworkDraft = Record<string, any>;
 
 export function defaultNetwork(lattice: "triangular" | "square" = "triangular"): NetworkDraft {
-  if (lattice === "square") {
-    return {
-      lattice: "square",
-      size: { columns: 16, rows: 16 },
-      transverse: "periodic",
-      periodNm: 100,
-      modeVelocityMps: 1.0e6,
-      channelsPerLink: 1,
-      degeneracy: { spin: 1, valley: 1 },
-      node: { turning: 0.5 },
-    };
-  }
-  return {
-    lattice: "triangular",
-    size: { columns: 12, rows: 8 },
-    transverse: "periodic",
-    twistDegrees: 0.11,
-    modeVelocityMps: 1.0e6,
-    channelsPerLink: 1,
-    degeneracy: { spin: 2, valley: 2 },
-    node: { forward: 0.5, left: 0.25, right: 0.25, branch: 1, phaseRad: 0 },
-  };
+  if (lattice === "square") return squareNetwork({ columns: 16, rows: 16 }, 0.5);
+  return triangularNetwork({ columns: 12, rows: 8 }, { forward: 0.5, left: 0.25, right: 0.25 });
 }
 
 /** Whole numbers in 1..400 for the drawing, whatever is typed (the form shows the error). */

@@ -1,16 +1,14 @@
 "use client";
 
-import { useMutation } from "@tanstack/react-query";
-import { useRouter } from "next/navigation";
-import { useMemo, useState } from "react";
-import { api, ApiClientError } from "@/lib/api";
+import { useState } from "react";
+import { api } from "@/lib/api";
 import type { NetworkView, SweepAxisRequest } from "@/shared/api";
-import { estimateInput, validateComputation } from "@/lib/engineClient";
 import { axisLabel, PARAMETER_UNITS } from "@/lib/units";
 import { PLANS } from "@/shared/plans";
 import { Field, NumberInput, Select } from "@/components/ui/Field";
 import { useMe } from "@/components/shell/useMe";
-import { buildComputation, defaultsFor, FIELDS, isShown, KINDS, type ComputationKind, type FormValues } from "@/components/runs/computations";
+import { ComputationFields, ServerError, useComputationDraft, useStartJob } from "@/components/runs/ComputationForm";
+import { KINDS } from "@/components/runs/computations";
 import { CostLine } from "@/components/runs/CostLine";
 import { sweepParametersFor } from "./parameters";
 
@@ -52,32 +50,27 @@ export function axisFromDraft(a: AxisDraft): { axis: SweepAxisRequest; count: nu
 
 /** A sweep over one or two parameters, values or ranges, with the point count and the estimate. */
 export function SweepBuilder({ network, canSubmit }: { network: NetworkView; canSubmit: boolean }) {
-  const router = useRouter();
   const me = useMe();
   const plan = me.data?.workspace?.plan ?? "free";
   const lattice = network.network.lattice;
-  const [kind, setKind] = useState<ComputationKind>("conductance");
-  const [values, setValues] = useState<FormValues>(() => defaultsFor("conductance"));
+  const draft = useComputationDraft(network);
+  const { kind, computation, check, seconds: perPoint } = draft;
   const params = sweepParametersFor(kind, lattice);
   const [axes, setAxes] = useState<AxisDraft[]>([{ parameter: "fieldTesla", mode: "range", from: 0, to: 1, points: 11, values: "" }]);
   const [samples, setSamples] = useState<number | string>("");
-  const [serverError, setServerError] = useState<string | null>(null);
 
-  const computation = useMemo(() => buildComputation(kind, values), [kind, values]);
-  const check = useMemo(() => validateComputation(computation), [computation]);
   const parsed = axes.map(axisFromDraft);
   const axisOk = parsed.every((p) => "axis" in p);
   const duplicate = axes.length === 2 && axes[0].parameter === axes[1].parameter;
   const pointCount = parsed.reduce((n, p) => n * ("count" in p ? p.count : 0), 1);
   const ensembleN = samples === "" ? 1 : Number(samples);
   const ensembleError = samples !== "" && (!Number.isInteger(ensembleN) || ensembleN < 1) ? "ensemble size must be a whole number, at least 1 (blank: one sample)" : undefined;
-  const perPoint = useMemo(() => (check.ok ? estimateInput({ network: network.network, computation }) : null), [check.ok, network.network, computation]);
   const limit = PLANS[plan].maxSweepPoints;
   const overLimit = pointCount > limit;
   const ok = check.ok && axisOk && !duplicate && !ensembleError && pointCount > 0;
 
-  const submit = useMutation({
-    mutationFn: () =>
+  const { submit, serverError, onSubmit } = useStartJob(
+    () =>
       api("POST /api/v1/sweeps", {
         json: {
           networkId: network.id,
@@ -86,21 +79,12 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
           ...(samples !== "" ? { ensemble: { samples: ensembleN } } : {}),
         },
       }),
-    onSuccess: (s) => router.push(`/sweeps/${s.id}`),
-    onError: (e) => setServerError(e instanceof ApiClientError ? e.message : String(e)),
-  });
+    (s) => `/sweeps/${s.id}`,
+  );
 
   const setAxis = (i: number, patch: Partial<AxisDraft>) => setAxes((list) => list.map((a, k) => (k === i ? { ...a, ...patch } : a)));
   return (
-    <form
-      aria-label="Build a sweep"
-      className="tk-card space-y-4"
-      onSubmit={(e) => {
-        e.preventDefault();
-        setServerError(null);
-        if (ok) submit.mutate();
-      }}
-    >
+    <form aria-label="Build a sweep" className="tk-card space-y-4" onSubmit={onSubmit(ok)}>
       <div className="grid gap-3 sm:grid-cols-3">
         <Field id="sweep.kind" label="Computation at each point">
           <Select
@@ -108,8 +92,7 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
             value={kind}
             options={KINDS.filter((k) => k.kind !== "spectrum").map((k) => ({ value: k.kind, label: k.label }))}
             onChange={(v) => {
-              setKind(v);
-              setValues(defaultsFor(v));
+              draft.chooseKind(v);
               const allowed = sweepParametersFor(v, lattice);
               setAxes((list) => list.map((a) => (allowed.includes(a.parameter) ? a : { ...a, parameter: allowed[0] })));
             }}
@@ -122,21 +105,7 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
       <details className="rounded-field border border-line p-3">
         <summary className="cursor-pointer text-caption font-medium text-fg-soft">Fixed values of the other parameters</summary>
         <div className="mt-3 grid gap-3 sm:grid-cols-2 lg:grid-cols-3">
-          {FIELDS[kind]
-            .filter((f) => isShown(f, values))
-            .map((f) => {
-              const id = `sweep.base.${f.path}`;
-              const error = check.ok ? undefined : check.issues[f.path];
-              return (
-                <Field key={f.path} id={id} label={f.label} unit={f.unit} error={error}>
-                  {f.options ? (
-                    <Select id={id} value={String(values[f.path] ?? f.default ?? "")} options={f.options} onChange={(v) => setValues((s) => ({ ...s, [f.path]: v }))} />
-                  ) : (
-                    <NumberInput id={id} integer={f.integer} value={values[f.path]} error={error} onChange={(v) => setValues((s) => ({ ...s, [f.path]: v }))} />
-                  )}
-                </Field>
-              );
-            })}
+          <ComputationFields draft={draft} idPrefix="sweep.base." errorOf={(path) => (check.ok ? undefined : check.issues[path])} />
         </div>
       </details>
       {axes.map((a, i) => {
@@ -205,11 +174,7 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
         <span className={overLimit ? "text-danger" : "text-fg-faint"}> · the {PLANS[plan].label} plan allows up to {limit.toLocaleString("en")} points per sweep</span>
       </p>
       <CostLine seconds={perPoint === null || !axisOk ? null : perPoint * pointCount * (ensembleError ? 1 : ensembleN)} plan={plan} points={pointCount} jobSeconds={perPoint === null ? null : perPoint * (ensembleError ? 1 : ensembleN)} />
-      {serverError ? (
-        <p role="alert" className="rounded-field bg-danger-soft p-2 text-caption text-danger">
-          {serverError}
-        </p>
-      ) : null}
+      <ServerError message={serverError} />
       {canSubmit ? (
         <button type="submit" className="tk-btn" disabled={!ok || submit.isPending}>
           {submit.isPending ? "Submitting…" : `Start sweep of ${axisOk ? pointCount : "–"} points`}

@@ -3,6 +3,7 @@
 import { useQuery } from "@tanstack/react-query";
 import { when } from "@/lib/units";
 import { PageHeader, ErrorNote, Skeleton } from "@/components/ui/Page";
+import { CardTable } from "@/components/ui/Table";
 import { useMe } from "@/components/shell/useMe";
 import { membersQuery } from "@/components/shell/useMemberNames";
 
@@ -18,28 +19,17 @@ export function WorkspacePage() {
       {members.error ? <ErrorNote error={members.error} /> : null}
       {!members.data && !members.error ? <Skeleton /> : null}
       {members.data ? (
-        <div className="overflow-x-auto rounded-card border border-line bg-surface">
-          <table className="w-full text-left text-body" aria-label="Members">
-            <thead className="border-b border-line bg-surface-sunk text-caption uppercase tracking-wide text-fg-faint">
-              <tr>
-                <th scope="col" className="px-3 py-2 font-medium">Member</th>
-                <th scope="col" className="px-3 py-2 font-medium">Role</th>
-                <th scope="col" className="px-3 py-2 font-medium">Joined</th>
-              </tr>
-            </thead>
-            <tbody>
-              {members.data.members.map((m) => (
-                <tr key={m.userId} className="border-b border-line last:border-0">
-                  <td className="px-3 py-2">
-                    {m.name || m.email} <span className="text-caption text-fg-faint">{m.email}</span>
-                  </td>
-                  <td className="px-3 py-2">{m.roleLabel}</td>
-                  <td className="px-3 py-2 tk-num text-caption">{when(m.joinedAt)}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
+        <CardTable label="Members" columns={["Member", "Role", "Joined"]}>
+          {members.data.members.map((m) => (
+            <tr key={m.userId} className="border-b border-line last:border-0">
+              <td className="px-3 py-2">
+                {m.name || m.email} <span className="text-caption text-fg-faint">{m.email}</span>
+              </td>
+              <td className="px-3 py-2">{m.roleLabel}</td>
+              <td className="px-3 py-2 tk-num text-caption">{when(m.joinedAt)}</td>
+            </tr>
+          ))}
+        </CardTable>
       ) : null}
     </>
   );

@@ -20,19 +20,11 @@ import { isMainThread } from "node:worker_threads";
 import { SingularMatrixError } from "../errors";
 import type { ComplexKernels } from "../linalg/kernels";
 
-/** The functions exported by build/Release/triskel_kernels.node (src/kernels.cc). */
-export interface NativeAddon {
-  matmul(a: Float64Array, b: Float64Array, m: number, k: number, n: number): Float64Array;
-  gemmAccumulate(
-    m: number, n: number, k: number,
-    a: Float64Array, aOffset: number, lda: number,
-    b: Float64Array, bOffset: number, ldb: number,
-    c: Float64Array, cOffset: number, ldc: number,
-  ): void;
-  solve(a: Float64Array, b: Float64Array, n: number, nrhs: number): Float64Array;
-  inverse(a: Float64Array, n: number): Float64Array;
-  eigHermitian(a: Float64Array, n: number, wantVectors: boolean): { values: Float64Array; vectors: Float64Array | null };
-  eigGeneral(a: Float64Array, n: number): Float64Array;
+/**
+ * The functions exported by build/Release/triskel_kernels.node (src/kernels.cc): the kernels of
+ * ComplexKernels, with the same signatures, and a few about OpenBLAS itself.
+ */
+export interface NativeAddon extends Omit<ComplexKernels, "name"> {
   coreName(): string;
   config(): string;
   getThreads(): number;

@@ -3,6 +3,7 @@
  * seed (scripts/seed.ts) and the sign-in stand-in (fakes/clerk), so both know the same people.
  */
 import type { NetworkDefinition } from "@/engine/browser";
+import { squareNetwork, triangularNetwork } from "@/shared/networks";
 import type { Role } from "@/shared/permissions";
 
 export interface DemoPerson {
@@ -44,45 +45,16 @@ export const DEMO_LAB = {
 
 /** Saved networks of the demo lab (engine schema v1). */
 export const DEMO_NETWORKS: { name: string; definition: NetworkDefinition }[] = [
-  {
-    name: "Clean 0.11° triangular network",
-    definition: {
-      lattice: "triangular",
-      size: { columns: 24, rows: 24 },
-      transverse: "periodic",
-      twistDegrees: 0.11,
-      modeVelocityMps: 1.0e6,
-      channelsPerLink: 1,
-      degeneracy: { spin: 2, valley: 2 },
-      node: { forward: 0.6, left: 0.2, right: 0.2, branch: 1, phaseRad: 0 },
-    },
-  },
+  { name: "Clean 0.11° triangular network", definition: triangularNetwork({ columns: 24, rows: 24 }, { forward: 0.6, left: 0.2, right: 0.2 }) },
   {
     name: "Disordered 0.11° triangular network",
-    definition: {
-      lattice: "triangular",
-      size: { columns: 24, rows: 24 },
+    definition: triangularNetwork({ columns: 24, rows: 24 }, { forward: 0.6, left: 0.2, right: 0.2 }, {
       transverse: "open",
-      twistDegrees: 0.11,
-      modeVelocityMps: 1.0e6,
-      channelsPerLink: 1,
-      degeneracy: { spin: 2, valley: 2 },
-      node: { forward: 0.6, left: 0.2, right: 0.2, branch: 1, phaseRad: 0 },
       disorder: { linkPhaseWidthRad: 6.283185307179586, forwardSpread: 0.05, seed: 7 },
-    },
+    }),
   },
   {
     name: "Square network at the critical point",
-    definition: {
-      lattice: "square",
-      size: { columns: 32, rows: 32 },
-      transverse: "periodic",
-      periodNm: 100,
-      modeVelocityMps: 1.0e6,
-      channelsPerLink: 1,
-      degeneracy: { spin: 1, valley: 1 },
-      node: { turning: 0.5 },
-      disorder: { linkPhaseWidthRad: 6.283185307179586, seed: 11 },
-    },
+    definition: squareNetwork({ columns: 32, rows: 32 }, 0.5, { disorder: { linkPhaseWidthRad: 6.283185307179586, seed: 11 } }),
   },
 ];

@@ -3,6 +3,7 @@ import Link from "next/link";
 import katex from "katex";
 import "katex/dist/katex.min.css";
 import { Mark } from "@/components/shell/Mark";
+import { CardTable } from "@/components/ui/Table";
 import { PLANS } from "@/shared/plans";
 import { CONDUCTANCE_QUANTUM_S, FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM, periodFromTwistNm, RESISTANCE_QUANTUM_OHM } from "@/engine/constants";
 import { sigLatex } from "@/lib/units";
@@ -110,31 +111,17 @@ const COMPUTATIONS: { kind: string; title: string; params: Param[]; gives: strin
 
 function ParamTable({ rows, caption }: { rows: Param[]; caption: string }) {
   return (
-    <div className="my-4 overflow-x-auto rounded-card border border-line bg-surface">
-      <table className="w-full text-left text-body">
-        <caption className="sr-only">{caption}</caption>
-        <thead className="border-b border-line bg-surface-sunk text-caption uppercase tracking-wide text-fg-faint">
-          <tr>
-            <th scope="col" className="px-3 py-2 font-medium">Field</th>
-            <th scope="col" className="px-3 py-2 font-medium">Unit</th>
-            <th scope="col" className="px-3 py-2 font-medium">Range</th>
-            <th scope="col" className="px-3 py-2 font-medium">Default</th>
-            <th scope="col" className="px-3 py-2 font-medium">Meaning</th>
-          </tr>
-        </thead>
-        <tbody>
-          {rows.map((p) => (
-            <tr key={p.name} className="border-b border-line align-top last:border-0">
-              <td className="whitespace-nowrap px-3 py-2 font-mono text-caption">{p.name}</td>
-              <td className="px-3 py-2 text-caption">{p.unit}</td>
-              <td className="px-3 py-2 text-caption">{p.range}</td>
-              <td className="px-3 py-2 text-caption">{p.dflt}</td>
-              <td className="px-3 py-2 text-caption text-fg-soft">{p.meaning}</td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
-    </div>
+    <CardTable className="my-4" caption={caption} columns={["Field", "Unit", "Range", "Default", "Meaning"]}>
+      {rows.map((p) => (
+        <tr key={p.name} className="border-b border-line align-top last:border-0">
+          <td className="whitespace-nowrap px-3 py-2 font-mono text-caption">{p.name}</td>
+          <td className="px-3 py-2 text-caption">{p.unit}</td>
+          <td className="px-3 py-2 text-caption">{p.range}</td>
+          <td className="px-3 py-2 text-caption">{p.dflt}</td>
+          <td className="px-3 py-2 text-caption text-fg-soft">{p.meaning}</td>
+        </tr>
+      ))}
+    </CardTable>
   );
 }
 

@@ -86,6 +86,19 @@ cd* Z(double* p) { return reinterpret_cast<cd*>(p); }
   throw Napi::Error::New(env, what + ": LAPACK error " + std::to_string(info));
 }
 
+// LAPACK's workspace protocol for routines with one complex work array: ask for its size
+// (lwork = -1; a failed query throws, naming `query`), allocate at least `minimum`, call again.
+// Returns the status of the real call, for the caller to read.
+template <typename Routine>
+lapack_int WithWork(const Napi::Env& env, const std::string& query, lapack_int minimum, Routine routine) {
+  cd size;
+  lapack_int st = routine(&size, -1);
+  if (st != 0) ThrowLapack(env, query, st);
+  lapack_int lwork = std::max<lapack_int>(static_cast<lapack_int>(size.real()), minimum);
+  std::vector<cd> work(lwork);
+  return routine(work.data(), lwork);
+}
+
 // LU of the n x n column-major buffer in place; throws on a (numerically) zero pivot.
 void Factor(const Napi::Env& env, cd* lu, lapack_int n, lapack_int* ipiv, const std::string& what) {
   lapack_int info = LAPACKE_zgetrf_work(LAPACK_COL_MAJOR, n, n, lu, n, ipiv);
@@ -179,12 +192,9 @@ Napi::Value Inverse(const Napi::CallbackInfo& info) {
   std::memcpy(out.Data(), a.data, sizeof(double) * 2 * n * n);
   std::vector<lapack_int> ipiv(n);
   Factor(env, w, static_cast<lapack_int>(n), ipiv.data(), "inverse");
-  cd query;
-  lapack_int info2 = LAPACKE_zgetri_work(LAPACK_COL_MAJOR, n, w, n, ipiv.data(), &query, -1);
-  if (info2 != 0) ThrowLapack(env, "inverse (zgetri query)", info2);
-  lapack_int lwork = std::max<lapack_int>(static_cast<lapack_int>(query.real()), static_cast<lapack_int>(n));
-  std::vector<cd> work(lwork);
-  info2 = LAPACKE_zgetri_work(LAPACK_COL_MAJOR, n, w, n, ipiv.data(), work.data(), lwork);
+  lapack_int info2 = WithWork(env, "inverse (zgetri query)", static_cast<lapack_int>(n), [&](cd* work, lapack_int lwork) {
+    return LAPACKE_zgetri_work(LAPACK_COL_MAJOR, n, w, n, ipiv.data(), work, lwork);
+  });
   if (info2 > 0) ThrowSingular(env, "inverse");
   if (info2 < 0) ThrowLapack(env, "inverse (zgetri)", info2);
   return out;
@@ -247,14 +257,11 @@ Napi::Value EigGeneral(const Napi::CallbackInfo& info) {
   if (n == 0) return out;
   std::vector<cd> h(Z(a.data), Z(a.data) + n * n);  // A^T: same eigenvalues
   std::vector<double> rwork(2 * n);
-  cd wq, dummy;
-  lapack_int st = LAPACKE_zgeev_work(LAPACK_COL_MAJOR, 'N', 'N', n, h.data(), n, Z(out.Data()), &dummy, 1, &dummy, 1, &wq, -1,
-                                     rwork.data());
-  if (st != 0) ThrowLapack(env, "eigGeneral (zgeev query)", st);
-  lapack_int lwork = std::max<lapack_int>(static_cast<lapack_int>(wq.real()), static_cast<lapack_int>(2 * n));
-  std::vector<cd> work(lwork);
-  st = LAPACKE_zgeev_work(LAPACK_COL_MAJOR, 'N', 'N', n, h.data(), n, Z(out.Data()), &dummy, 1, &dummy, 1, work.data(), lwork,
-                          rwork.data());
+  cd dummy;
+  lapack_int st = WithWork(env, "eigGeneral (zgeev query)", static_cast<lapack_int>(2 * n), [&](cd* work, lapack_int lwork) {
+    return LAPACKE_zgeev_work(LAPACK_COL_MAJOR, 'N', 'N', n, h.data(), n, Z(out.Data()), &dummy, 1, &dummy, 1, work, lwork,
+                              rwork.data());
+  });
   if (st > 0) throw Napi::Error::New(env, "eigGeneral: no convergence");
   if (st < 0) ThrowLapack(env, "eigGeneral (zgeev)", st);
   return out;
