@@ -1,31 +1,31 @@
-// ESLint flat config: typescript-eslint's recommended rules everywhere, React's hook rules for the
-// web code, and Next's recommended + core-web-vitals rules for the pages and components.
+// ESLint flat config: ESLint's and typescript-eslint's recommended rules everywhere, React's hook
+// rules for the web code, and Next's recommended + core-web-vitals rules for the pages and components.
 // `npm run lint` (and scripts/test.sh) runs it with --max-warnings 0.
 import js from "@eslint/js";
+import { defineConfig, globalIgnores } from "eslint/config";
 import nextPlugin from "@next/eslint-plugin-next";
 import reactHooks from "eslint-plugin-react-hooks";
 import globals from "globals";
 import tseslint from "typescript-eslint";
 
-export default tseslint.config(
+export default defineConfig(
+  // Installed, built or generated: never linted.
+  globalIgnores([
+    "node_modules/",
+    ".next/",
+    ".next-*/",
+    ".data/",
+    "coverage/",
+    "drizzle/",
+    "public/",
+    "src/engine/native/build/",
+    "tests/e2e/screenshots/",
+    "next-env.d.ts",
+  ]),
+  js.configs.recommended,
+  // Also turns off the core rules TypeScript already checks (no-undef, ...) in .ts/.tsx files only.
+  ...tseslint.configs.recommended,
   {
-    // Installed, built or generated: never linted.
-    ignores: [
-      "node_modules/",
-      ".next/",
-      ".next-*/",
-      ".data/",
-      "coverage/",
-      "drizzle/",
-      "public/",
-      "src/engine/native/build/",
-      "tests/e2e/screenshots/",
-      "next-env.d.ts",
-    ],
-  },
-  {
-    files: ["**/*.{ts,tsx,mts,cts,js,mjs,cjs}"],
-    extends: [js.configs.recommended, ...tseslint.configs.recommended],
     languageOptions: {
       ecmaVersion: 2023,
       sourceType: "module",
