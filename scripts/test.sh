@@ -1,7 +1,7 @@
 #!/usr/bin/env bash
 # `npm test`: the same set-up as `npm start` on its own ports with a fresh database and a Redis
-# without persistence, a type check of the whole tree, then every test (unit, integration,
-# browser), then stop everything.
+# without persistence, a type check, lint and format check of the whole tree, then every test
+# (unit, integration, browser), then stop everything.
 # TRISKEL_PORT_BASE picks the ports (default 41000), so several test runs can coexist.
 # Extra arguments go to vitest (for example `npm test -- --project unit`).
 source "$(dirname "$0")/lib.sh"
@@ -34,6 +34,10 @@ build_web
 # next build checks src/ only; this checks the whole tree (src, worker, scripts, tests, fakes).
 log "type-checking the whole tree (tsc --noEmit)"
 node_modules/.bin/tsc --noEmit -p tsconfig.json || die "type errors (tsc --noEmit above)"
+log "linting (eslint)"
+node_modules/.bin/eslint --max-warnings 0 . || die "lint errors (eslint above)"
+log "checking the formatting (prettier --check)"
+node_modules/.bin/prettier --check --log-level warn . || die "files not formatted (listed above; npm run format fixes them)"
 start_service web next start -H 127.0.0.1 -p "$WEB_PORT"
 start_service worker node_modules/.bin/tsx worker/main.ts
 wait_http "$APP_URL/api/v1/health" web

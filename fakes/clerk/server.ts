@@ -107,7 +107,7 @@ interface Ctx {
   res: ServerResponse;
   url: URL;
   method: string;
-  body: Record<string, any>;
+  body: Record<string, unknown>;
   cookies: Record<string, string>;
   setCookies: string[];
 }
@@ -121,7 +121,7 @@ function parseCookies(header: string | undefined): Record<string, string> {
   return out;
 }
 
-async function readBody(req: IncomingMessage): Promise<Record<string, any>> {
+async function readBody(req: IncomingMessage): Promise<Record<string, unknown>> {
   const chunks: Buffer[] = [];
   for await (const c of req) chunks.push(c as Buffer);
   const text = Buffer.concat(chunks).toString("utf8");
@@ -367,10 +367,10 @@ async function backend(ctx: Ctx, parts: string[]): Promise<boolean> {
       return true;
     }
     if (parts.length === 1 && method === "POST") {
-      const email = String((body.email_address?.[0] ?? body.email_address) || "");
+      const email = String((Array.isArray(body.email_address) ? body.email_address[0] : body.email_address) || "");
       if (!email) return clerkError(ctx, 422, "form_param_missing", "email_address is required", "email_address"), true;
       if (store.userByEmail(email)) return clerkError(ctx, 422, "form_identifier_exists", "That e-mail address is taken.", "email_address"), true;
-      const u = store.createUser({ email, password: body.password ?? null, firstName: body.first_name ?? "", lastName: body.last_name ?? "" });
+      const u = store.createUser({ email, password: body.password == null ? null : String(body.password), firstName: String(body.first_name ?? ""), lastName: String(body.last_name ?? "") });
       emitLater("user.created", userJson(store, u));
       send(ctx, 200, userJson(store, u));
       return true;
@@ -386,7 +386,7 @@ async function backend(ctx: Ctx, parts: string[]): Promise<boolean> {
       const t = Date.now();
       const name = String(body.name ?? "").trim();
       if (!name) return clerkError(ctx, 422, "form_param_missing", "name is required", "name"), true;
-      const o = { id: newId("org"), name, slug: String(body.slug ?? name.toLowerCase().replace(/[^a-z0-9]+/g, "-")), createdBy: body.created_by ?? null, createdAt: t, updatedAt: t };
+      const o = { id: newId("org"), name, slug: String(body.slug ?? name.toLowerCase().replace(/[^a-z0-9]+/g, "-")), createdBy: body.created_by == null ? null : String(body.created_by), createdAt: t, updatedAt: t };
       store.state.orgs.push(o);
       if (o.createdBy && store.user(o.createdBy)) store.state.memberships.push({ id: newId("orgmem"), orgId: o.id, userId: o.createdBy, role: "org:owner", createdAt: t, updatedAt: t });
       store.save();

@@ -4,6 +4,7 @@
 import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
 import { screenshot, url, useBrowser } from "../support/browser";
+import type { Json } from "../support/json";
 import { api } from "../support/services";
 import { signInThroughForm, waitForMail } from "../support/session";
 
@@ -12,7 +13,7 @@ const browser = useBrowser();
 const unique = (tag: string) => `${tag}-${Date.now()}-${Math.floor(Math.random() * 1e6)}@e2e.example`;
 
 /** GET /api/v1/workspace from inside the page (its cookies, its session). */
-async function whoAmI(page: Page): Promise<{ status: number; body: any }> {
+async function whoAmI(page: Page): Promise<{ status: number; body: Json }> {
   return page.evaluate(async () => {
     const res = await fetch("/api/v1/workspace");
     return { status: res.status, body: await res.json() };

@@ -7,6 +7,7 @@ import { join, relative } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import postgres from "postgres";
 import { appUrl, databaseUrl, demoTokens, failOnRateLimit, type DemoTokenKey } from "../support/services";
+import type { Json } from "../support/json";
 import { CALLERS, fitBody, SMALL_RUN, TABLE, type CallerKey, type Entry, type Expect, type Fixtures } from "./authz-table";
 
 const API_DIR = join(import.meta.dirname, "..", "..", "src", "app", "api");
@@ -53,7 +54,7 @@ async function call(who: CallerKey, method: string, path: string, body?: unknown
   return failOnRateLimit(res, `${who} ${method} ${path}`);
 }
 
-async function ok<T = any>(res: Response, what: string): Promise<T> {
+async function ok<T = Json>(res: Response, what: string): Promise<T> {
   const text = await res.text();
   if (res.status >= 300) throw new Error(`${what}: ${res.status} ${text.slice(0, 300)}`);
   return JSON.parse(text) as T;

@@ -46,10 +46,12 @@ async function expectRefused(what: string, path: string, init: RequestInit) {
   // A 429 would otherwise count as a proper refusal (4xx with a message): it fails the test instead.
   const res = failOnRateLimit(await fetch(new URL(path, appUrl()), { ...init, headers }), `${what} ${path}`);
   const text = await res.text();
-  let body: any = null;
+  let body: { error?: { message?: unknown; code?: unknown } } | null = null;
   try {
     body = JSON.parse(text);
-  } catch {}
+  } catch {
+    // not JSON: body stays null and the check below fails
+  }
   const ok = res.status >= 400 && res.status < 500 && typeof body?.error?.message === "string" && body.error.message.length > 0 && typeof body?.error?.code === "string";
   if (!ok) wrong++;
   if (!ok) failures.push(`${what} ${path} -> ${res.status} ${text.slice(0, 200)}`);
@@ -87,9 +89,9 @@ function leafPaths(o: unknown, prefix: string[] = []): string[][] {
   if (Array.isArray(o)) return o.flatMap((v, i) => leafPaths(v, [...prefix, String(i)]));
   return Object.entries(o).flatMap(([k, v]) => leafPaths(v, [...prefix, k]));
 }
-function setAt(o: any, path: string[], value: unknown) {
+function setAt(o: Record<string, unknown>, path: string[], value: unknown) {
   let cur = o;
-  for (const k of path.slice(0, -1)) cur = cur[k];
+  for (const k of path.slice(0, -1)) cur = cur[k] as Record<string, unknown>;
   cur[path[path.length - 1]] = value;
 }
 function deep(depth: number): string {

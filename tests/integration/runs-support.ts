@@ -6,6 +6,7 @@ import { dirname, join } from "node:path";
 import { promisify } from "node:util";
 import postgres from "postgres";
 import { api, databaseUrl, type DemoTokenKey } from "../support/services";
+import type { Json } from "../support/json";
 
 export const sql = postgres(databaseUrl(), { max: 3, onnotice: () => {} });
 
@@ -22,7 +23,7 @@ export function smallNetwork(columns = 6, rows = 6): Record<string, unknown> {
   };
 }
 
-export async function json<T = any>(res: Response): Promise<T> {
+export async function json<T = Json>(res: Response): Promise<T> {
   const text = await res.text();
   try {
     return JSON.parse(text) as T;

@@ -12,14 +12,18 @@ declare module "autocannon" {
     timeouts: number;
     non2xx: number;
   }
+  /** One connection; which request it last sent is read from its iterator. */
+  interface Client {
+    requestIterator?: { currentRequestIndex?: number };
+  }
   interface Instance {
-    on(event: "response", fn: (client: unknown, statusCode: number, bytes: number, responseTime: number) => void): void;
+    on(event: "response", fn: (client: Client, statusCode: number, bytes: number, responseTime: number) => void): void;
     on(event: "done", fn: (result: Result) => void): void;
     on(event: "error", fn: (err: Error) => void): void;
   }
   function autocannon(opts: { url: string; connections: number; duration: number; timeout: number; requests: Request[] }): Instance;
   namespace autocannon {
-    export type { Request, Result };
+    export type { Client, Request, Result };
   }
   export default autocannon;
 }

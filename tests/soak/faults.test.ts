@@ -5,6 +5,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { killWorker, startWorker } from "../integration/runs-support";
 import { api } from "../support/services";
+import type { Json } from "../support/json";
 import { billingOnce, call, createLabWorkspace, ctl, health, record, sleep, SMALL_RUN, sql, stripeFake, until, type SoakWorkspace } from "./support";
 
 let w: SoakWorkspace;
@@ -45,10 +46,12 @@ async function recovered(since: number, timeoutMs = 90_000) {
 async function inviteToDemoLab(email: string) {
   const res = await api("/api/v1/workspace/members", { method: "POST", as: "owner", json: { email, role: "viewer" }, signal: AbortSignal.timeout(60_000) });
   const text = await res.text();
-  let body: any = text;
+  let body: Json = text;
   try {
     body = JSON.parse(text);
-  } catch {}
+  } catch {
+    // not JSON: the body is the text
+  }
   return { status: res.status, body };
 }
 
@@ -87,8 +90,8 @@ describe("fault drills", () => {
     const before = await submitRuns(3, 0);
     const downAt = Date.now();
     await ctl("redis-stop");
-    let h: { status: number; body: any } = { status: 0, body: null };
-    let during: { status: number; body: any };
+    let h: { status: number; body: Json } = { status: 0, body: null };
+    let during: { status: number; body: Json };
     try {
       h = await until("health to report the queue down", async () => {
         const x = await health();
@@ -120,7 +123,7 @@ describe("fault drills", () => {
     const before = await submitRuns(3, 20);
     const downAt = Date.now();
     await ctl("pg-stop");
-    let h: { status: number; body: any } = { status: 0, body: null };
+    let h: { status: number; body: Json } = { status: 0, body: null };
     let read: Awaited<ReturnType<typeof call>> | undefined;
     let write: Awaited<ReturnType<typeof call>> | undefined;
     try {

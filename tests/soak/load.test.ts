@@ -39,7 +39,7 @@ describe("load", () => {
     const statuses: Record<string, number> = {};
     let accepted = 0;
     const instance = autocannon({ url: url.origin, connections: CONNECTIONS, duration: SECONDS, timeout: 30, requests });
-    instance.on("response", (client: any, statusCode: number, _bytes: number, responseTime: number) => {
+    instance.on("response", (client: autocannon.Client, statusCode: number, _bytes: number, responseTime: number) => {
       statuses[statusCode] = (statuses[statusCode] ?? 0) + 1;
       // The request just answered (no pipelining: the client moves to its next request after this event).
       const idx = client.requestIterator?.currentRequestIndex ?? 0;

@@ -8,6 +8,7 @@ import { promisify } from "node:util";
 import postgres from "postgres";
 import { displayPrefix, hashToken, newTokenSecret } from "@/server/auth/tokens";
 import { appUrl, databaseUrl, failOnRateLimit } from "../support/services";
+import type { Json } from "../support/json";
 
 export const sql = postgres(databaseUrl(), { max: 3, onnotice: () => {}, connect_timeout: 5 });
 export const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -62,10 +63,12 @@ export async function call(w: SoakWorkspace, as: keyof SoakWorkspace["tokens"], 
   });
   failOnRateLimit(res, `${as} ${method} ${path}`);
   const text = await res.text();
-  let body: any = text;
+  let body: Json = text;
   try {
     body = JSON.parse(text);
-  } catch {}
+  } catch {
+    // not JSON: the body is the text
+  }
   return { status: res.status, body, headers: res.headers };
 }
 
@@ -90,7 +93,7 @@ export async function ctl(action: "pg-stop" | "pg-start" | "redis-stop" | "redis
   await run("bash", ["scripts/soak.sh", "ctl", action], { env: process.env, timeout: 90_000 });
 }
 
-export async function health(): Promise<{ status: number; body: any }> {
+export async function health(): Promise<{ status: number; body: Json }> {
   try {
     const res = await fetch(new URL("/api/v1/health", appUrl()), { signal: AbortSignal.timeout(10_000) });
     return { status: res.status, body: await res.json() };
