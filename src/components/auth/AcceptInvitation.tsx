@@ -32,6 +32,8 @@ export function AcceptInvitation({ token, preview }: { token: string; preview: P
     try {
       const body = await api("POST /api/v1/workspace/invitations/accept", { json: { token } });
       await clerk.setActive({ organization: body.workspace.clerkOrgId });
+      // A full page load, so every server component reads the newly active workspace from the session.
+      // eslint-disable-next-line @next/next/no-location-assign-relative-destination -- router.push would keep the old workspace's server state
       window.location.assign("/networks");
     } catch (err) {
       setError(err instanceof Error ? err.message : "The invitation could not be accepted; try again.");

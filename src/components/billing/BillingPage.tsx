@@ -5,7 +5,7 @@ import { useSearchParams } from "next/navigation";
 import { useState, type ReactNode } from "react";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import { api } from "@/lib/api";
-import type { BillingOverview, InvoiceView } from "@/shared/api";
+import type { BillingOverview } from "@/shared/api";
 import { formatComputeSeconds, formatUsd } from "./CostEstimate";
 import { UsageByDayChart } from "./UsageByDayChart";
 

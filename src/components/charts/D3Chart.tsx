@@ -45,6 +45,9 @@ export type D3ChartState = ReturnType<typeof useD3Chart>;
 
 /** A chart of useD3Chart in its frame: title, export buttons, the sized SVG and the read-out. */
 export function D3Chart({ chart, title, name, label, height, csv, extra }: { chart: D3ChartState; title: string; name: string; label: string; height: number; csv?: CsvData; extra?: ReactNode }) {
+  // The refs of useD3Chart go to ref attributes and to the frame's export buttons (read on click,
+  // never during render); the hook rules cannot see that through the chart object.
+  /* eslint-disable react-hooks/refs */
   return (
     <ChartFrame title={title} name={name} svgRef={chart.svgRef} csv={csv} readout={chart.readout} extra={extra}>
       <div ref={chart.ref}>
@@ -52,4 +55,5 @@ export function D3Chart({ chart, title, name, label, height, csv, extra }: { cha
       </div>
     </ChartFrame>
   );
+  /* eslint-enable react-hooks/refs */
 }

@@ -58,7 +58,7 @@ export function HeatMap({ title, name, xValues, yValues, values, xLabel, yLabel,
     d3.range(0, 1.01, 0.1).forEach((t) => grad.append("stop").attr("offset", t).attr("stop-color", tkSequential(t)));
     bar.append("rect").attr("width", 14).attr("height", barH).attr("fill", `url(#${id})`);
     const zs = d3.scaleLinear().domain(z.domain()).range([barH, 0]);
-    const za = bar.append("g").attr("transform", "translate(14,0)").call(d3.axisRight(zs).ticks(5) as any);
+    const za = bar.append("g").attr("transform", "translate(14,0)").call(d3.axisRight(zs).ticks(5));
     za.selectAll("path, line").attr("stroke", palette.faint);
     za.selectAll("text").attr("fill", palette.fg).attr("font-size", 10);
     bar.append("text").attr("transform", `translate(62,${barH / 2}) rotate(90)`).attr("text-anchor", "middle").attr("font-size", 11).attr("fill", palette.fg).text(zUnit ? `${zLabel} (${zUnit})` : zLabel);

@@ -15,8 +15,8 @@ export function drawAxes(
   p: Palette,
   xAxis?: d3.Axis<d3.NumberValue>,
 ) {
-  const ax = g.append("g").attr("transform", `translate(0,${innerH})`).attr("data-axis", "x").call((xAxis ?? d3.axisBottom(x).ticks(Math.max(3, Math.floor(innerW / 80)))) as any);
-  const ay = g.append("g").attr("data-axis", "y").call(d3.axisLeft(y).ticks(Math.max(3, Math.floor(innerH / 50))) as any);
+  const ax = g.append("g").attr("transform", `translate(0,${innerH})`).attr("data-axis", "x").call(xAxis ?? d3.axisBottom(x).ticks(Math.max(3, Math.floor(innerW / 80))));
+  const ay = g.append("g").attr("data-axis", "y").call(d3.axisLeft(y).ticks(Math.max(3, Math.floor(innerH / 50))));
   for (const a of [ax, ay]) {
     a.selectAll("path, line").attr("stroke", p.faint);
     a.selectAll("text").attr("fill", p.fg).attr("font-size", 11).attr("font-family", "var(--font-mono), monospace");

@@ -7,7 +7,6 @@ import { XYChart } from "@/components/charts/XYChart";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import { sig, withStderr } from "./format";
 import { SyntheticMark } from "./SyntheticMark";
-import type { FitDetail } from "@/shared/api";
 
 const finished = (s?: string) => s === "succeeded" || s === "failed" || s === "cancelled";
 

@@ -2,7 +2,7 @@
 
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
-import { useDeferredValue, useEffect, useMemo, useState } from "react";
+import { useDeferredValue, useMemo, useState, useSyncExternalStore } from "react";
 import { api, ApiClientError } from "@/lib/api";
 import type { NetworkView } from "@/shared/api";
 import { validateNetwork, type Issues } from "@/lib/engineClient";
@@ -26,6 +26,9 @@ interface Props {
  * The network form and its live drawing. Every keystroke re-validates with the engine's schema
  * (the one the API uses) and redraws; messages sit under the field they concern.
  */
+/** True on the client, false in the server's HTML: nothing to subscribe to. */
+const noSubscription = () => () => {};
+
 export function NetworkEditor({ initial, canEdit }: Props) {
   const router = useRouter();
   const client = useQueryClient();
@@ -38,8 +41,7 @@ export function NetworkEditor({ initial, canEdit }: Props) {
 
   const me = useMe();
   // Plan-dependent text only after mount, so the server's HTML and the first client render agree.
-  const [mounted, setMounted] = useState(false);
-  useEffect(() => setMounted(true), []);
+  const mounted = useSyncExternalStore(noSubscription, () => true, () => false);
   const planId = mounted ? me.data?.workspace?.plan : undefined;
   const plan = PLANS[planId ?? "free"];
   const overPlan = (v: unknown) => (planId && typeof v === "number" && v > plan.maxCellsPerSide ? `the ${plan.label} plan allows up to ${plan.maxCellsPerSide} cells per side; the drawing still shows it, but runs will be refused` : undefined);

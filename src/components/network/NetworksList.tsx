@@ -10,7 +10,7 @@ import { canCreate, useMe } from "@/components/shell/useMe";
 import { DataTable } from "@/components/tables/DataTable";
 import { linkLengthNm } from "@/engine/browser";
 
-const columnsFor = (who: (id: string | null) => string): ColumnDef<NetworkView, any>[] => [
+const columnsFor = (who: (id: string | null) => string): ColumnDef<NetworkView, unknown>[] => [
   {
     id: "name",
     header: "Name",

@@ -3,6 +3,11 @@ import type { NetworkShape } from "@/lib/lattice";
 import { periodFromTwistNm } from "@/engine/browser";
 import { squareNetwork, triangularNetwork } from "@/shared/networks";
 
+/**
+ * What the editor holds while the user types: any shape until the engine's schema accepts it
+ * (validateNetwork), so the editor reads fields the way the form left them.
+ */
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- a half-typed network has no type yet; the engine's schema checks it before use
 export type NetworkDraft = Record<string, any>;
 
 export function defaultNetwork(lattice: "triangular" | "square" = "triangular"): NetworkDraft {

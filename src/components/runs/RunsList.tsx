@@ -19,7 +19,7 @@ export function RunsList() {
   const networkId = params.get("networkId") ?? undefined;
   const names = useNetworkNames();
   const who = useMemberNames();
-  const columns: ColumnDef<RunSummary, any>[] = [
+  const columns: ColumnDef<RunSummary, unknown>[] = [
     {
       id: "status",
       header: "Status",

@@ -86,14 +86,15 @@ export function isShown(f: FieldSpec, values: FormValues): boolean {
 
 /** Builds the computation object from the form: blank optional fields are left out. */
 export function buildComputation(kind: ComputationKind, values: FormValues): Record<string, unknown> {
-  const out: Record<string, any> = { kind };
+  type Tree = { [key: string]: unknown };
+  const out: Tree = { kind };
   for (const f of FIELDS[kind]) {
     if (!isShown(f, values)) continue;
     const v = values[f.path];
     if (v === undefined || v === "") continue;
     const keys = f.path.split(".");
     let cur = out;
-    for (let i = 0; i < keys.length - 1; i++) cur = cur[keys[i]] ??= {};
+    for (let i = 0; i < keys.length - 1; i++) cur = (cur[keys[i]] ??= {}) as Tree;
     cur[keys[keys.length - 1]] = f.options ? v : typeof v === "number" ? v : Number.isFinite(Number(v)) && String(v).trim() !== "" ? Number(v) : v;
   }
   return out;

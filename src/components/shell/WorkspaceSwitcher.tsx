@@ -51,6 +51,8 @@ function OrganizationSelect({ currentName }: { currentName: string }) {
         try {
           await orgs.setActive?.({ organization: e.target.value === PERSONAL ? null : e.target.value });
           await client.invalidateQueries();
+          // A full page load, so every server component reads the newly active workspace from the session.
+          // eslint-disable-next-line @next/next/no-location-assign-relative-destination -- router.push would keep the old workspace's server state
           window.location.assign("/networks");
         } finally {
           setBusy(false);

@@ -15,7 +15,7 @@ const STATUS_OPTIONS = JOB_STATUSES.map((s) => ({ value: s, label: s[0].toUpperC
 export function SweepsList() {
   const names = useNetworkNames();
   const who = useMemberNames();
-  const columns: ColumnDef<SweepSummary, any>[] = [
+  const columns: ColumnDef<SweepSummary, unknown>[] = [
     {
       id: "status",
       header: "Status",

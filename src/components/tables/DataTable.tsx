@@ -23,7 +23,7 @@ interface Props<R extends ListRoute, K extends ListKey<R>> {
   route: R;
   /** Where the answer holds the items (e.g. "runs"). */
   listKey: K;
-  columns: ColumnDef<ListItem<R, K>, any>[];
+  columns: ColumnDef<ListItem<R, K>, unknown>[];
   filters?: FilterDef[];
   /** Fixed query parameters (e.g. networkId). */
   fixed?: Record<string, string | undefined>;
@@ -55,6 +55,8 @@ export function DataTable<R extends ListRoute & ApiRoute, K extends ListKey<R>>(
     placeholderData: (prev) => prev,
     refetchInterval: 5_000,
   });
+  // TanStack Table's hook returns new functions every render; nothing here is memoized by a compiler.
+  // eslint-disable-next-line react-hooks/incompatible-library -- the app does not use the React Compiler
   const table = useReactTable({
     data: q.data?.items ?? [],
     columns,

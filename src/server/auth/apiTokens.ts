@@ -8,7 +8,7 @@ import { z } from "zod";
 import { getDb } from "@/server/db";
 import { apiTokens } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
-import { ROLE_LABELS, ROLES, tokenRolesFor, type Role } from "@/shared/permissions";
+import { ROLE_LABELS, ROLES, tokenRolesFor } from "@/shared/permissions";
 import { requirePermission, type Caller } from "./index";
 import { displayPrefix, hashToken, newTokenSecret } from "./tokens";
 import type { TokenView } from "@/shared/api";

@@ -60,12 +60,25 @@ interface ClerkEmail {
   id: string;
   email_address: string;
 }
+/** The fields of the user, organization and membership events that the mirror reads. */
+interface ClerkEventData {
+  id?: string;
+  first_name?: string | null;
+  last_name?: string | null;
+  email_addresses?: ClerkEmail[];
+  primary_email_address_id?: string | null;
+  name?: string;
+  slug?: string | null;
+  role?: string;
+  organization?: { id?: string; name?: string; slug?: string | null };
+  public_user_data?: { user_id?: string; identifier?: string; first_name?: string | null; last_name?: string | null };
+}
 interface ClerkEvent {
   type: string;
-  data: Record<string, any>;
+  data: ClerkEventData;
 }
 
-function primaryEmail(data: Record<string, any>): string | undefined {
+function primaryEmail(data: ClerkEventData): string | undefined {
   const emails = (data.email_addresses ?? []) as ClerkEmail[];
   return (emails.find((e) => e.id === data.primary_email_address_id) ?? emails[0])?.email_address;
 }
@@ -77,7 +90,7 @@ export async function applyClerkEvent(evt: ClerkEvent): Promise<"applied" | "ign
     case "user.created":
     case "user.updated": {
       const email = primaryEmail(d);
-      if (!email) return "ignored";
+      if (!email || !d.id) return "ignored";
       const user = await upsertUser({ clerkUserId: d.id, email, name: nameOf(d.first_name, d.last_name) });
       await ensurePersonalWorkspace(user);
       return "applied";
@@ -93,14 +106,15 @@ export async function applyClerkEvent(evt: ClerkEvent): Promise<"applied" | "ign
     }
     case "organization.created":
     case "organization.updated":
-      await upsertOrgWorkspace({ clerkOrgId: d.id, name: d.name, slug: d.slug ?? "" });
+      if (!d.id) return "ignored";
+      await upsertOrgWorkspace({ clerkOrgId: d.id, name: d.name ?? "", slug: d.slug ?? "" });
       return "applied";
     case "organizationMembership.created":
     case "organizationMembership.updated": {
       const org = d.organization;
       const pud = d.public_user_data ?? {};
       if (!org?.id || !pud.user_id) return "ignored";
-      const ws = await upsertOrgWorkspace({ clerkOrgId: org.id, name: org.name, slug: org.slug ?? "" });
+      const ws = await upsertOrgWorkspace({ clerkOrgId: org.id, name: org.name ?? "", slug: org.slug ?? "" });
       let user = await userByClerkId(pud.user_id);
       if (!user && pud.identifier) {
         user = await upsertUser({ clerkUserId: pud.user_id, email: pud.identifier, name: nameOf(pud.first_name, pud.last_name) });

@@ -1,6 +1,6 @@
 import "@/server/server-only";
 import { sql } from "drizzle-orm";
-import { computeCostUsd, type PlanId } from "@/shared/plans";
+import { computeCostUsd } from "@/shared/plans";
 import { requirePermission, type Caller } from "@/server/auth";
 import { getDb } from "@/server/db";
 import { ApiError } from "@/server/http/errors";

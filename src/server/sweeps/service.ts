@@ -23,7 +23,7 @@ import { isUuid } from "@/server/networks/service";
 import { enqueueAfterCommit } from "@/server/jobs";
 import { RUN_STATUSES, resolveSubmission } from "@/server/runs/service";
 import { deriveSweepStatus, refreshSweep, type SweepCounts } from "@/server/runs/sweep-progress";
-import { axesSchema, ensembleSchema, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, unitOf, type Ensemble, type ResolvedAxis } from "./axes";
+import { axesSchema, ensembleSchema, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, unitOf, type ResolvedAxis } from "./axes";
 
 export const sweepBody = z
   .object({
