@@ -39,7 +39,9 @@ const BUDGET_S = quick ? 0.15 : 0.4; // per measurement
 /** Best time per call (s) over batches filling the budget. */
 function timeIt(f: () => void, budget = BUDGET_S): number {
   f();
-  let best = Infinity, spent = 0, reps = 1;
+  let best = Infinity,
+    spent = 0,
+    reps = 1;
   while (spent < budget || best === Infinity) {
     const t0 = performance.now();
     for (let i = 0; i < reps; i++) f();
@@ -54,7 +56,10 @@ function timeIt(f: () => void, budget = BUDGET_S): number {
 function random(n: number, seed: number): Float64Array {
   let s = seed >>> 0;
   const out = new Float64Array(2 * n);
-  for (let i = 0; i < out.length; i++) { s = (Math.imul(s, 1664525) + 1013904223) >>> 0; out[i] = s / 4294967296 - 0.5; }
+  for (let i = 0; i < out.length; i++) {
+    s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+    out[i] = s / 4294967296 - 0.5;
+  }
   return out;
 }
 
@@ -62,7 +67,12 @@ function random(n: number, seed: number): Float64Array {
 function blocks(n: number, seed: number) {
   const scale = (x: Float64Array, f: number) => x.map((v) => v * f);
   const f = 1 / Math.sqrt(n);
-  return { r: scale(random(n * n, seed), f), tp: scale(random(n * n, seed + 1), f), t: scale(random(n * n, seed + 2), f), rp: scale(random(n * n, seed + 3), f) };
+  return {
+    r: scale(random(n * n, seed), f),
+    tp: scale(random(n * n, seed + 1), f),
+    t: scale(random(n * n, seed + 2), f),
+    rp: scale(random(n * n, seed + 3), f),
+  };
 }
 
 function identityMinus(x: Float64Array, n: number): Float64Array {
@@ -134,7 +144,10 @@ function numpyRun(env: Record<string, string | undefined>): { core: string; nump
   const childEnv: Record<string, string> = {};
   for (const [k, v] of Object.entries({ ...process.env, ...env })) if (v !== undefined) childEnv[k] = v;
   const r = spawnSync(python, ["-c", PY, JSON.stringify(SIZES), String(BUDGET_S)], { env: childEnv as NodeJS.ProcessEnv, encoding: "utf8", timeout: 300_000 });
-  if (r.status !== 0) { console.log(`numpy run failed: ${(r.stderr || String(r.error)).split("\n").slice(-2).join(" ")}`); return null; }
+  if (r.status !== 0) {
+    console.log(`numpy run failed: ${(r.stderr || String(r.error)).split("\n").slice(-2).join(" ")}`);
+    return null;
+  }
   return JSON.parse(r.stdout);
 }
 
@@ -142,8 +155,15 @@ const fmt = (s: number) => (s >= 0.1 ? `${s.toFixed(3)} s` : s >= 1e-3 ? `${(s *
 const gf = (flops: number, s: number) => `${(flops / s / 1e9).toFixed(1)}`;
 
 console.log(`# Triskel kernel backends, ${new Date().toISOString()}`);
-console.log(`native: OpenBLAS core ${loaded.info.coreName} (OPENBLAS_CORETYPE=${loaded.info.coreType ?? "unset"}, ${loaded.info.coreTypeSource}), ${loaded.addon.getThreads()} thread(s), malloc tuning ${loaded.info.mallocTuned ? "on" : "off"}; ${loaded.info.config}`);
-console.log(`machine: ${os.cpus()[0]?.model ?? "?"}, ${os.cpus().length} cores, load average ${os.loadavg().map((x) => x.toFixed(1)).join(" ")}`);
+console.log(
+  `native: OpenBLAS core ${loaded.info.coreName} (OPENBLAS_CORETYPE=${loaded.info.coreType ?? "unset"}, ${loaded.info.coreTypeSource}), ${loaded.addon.getThreads()} thread(s), malloc tuning ${loaded.info.mallocTuned ? "on" : "off"}; ${loaded.info.config}`,
+);
+console.log(
+  `machine: ${os.cpus()[0]?.model ?? "?"}, ${os.cpus().length} cores, load average ${os
+    .loadavg()
+    .map((x) => x.toFixed(1))
+    .join(" ")}`,
+);
 
 // Native and numpy measured in alternating rounds (best of the rounds on each side), so that a
 // change of load on a shared machine does not favour one side; TypeScript once.
@@ -157,9 +177,14 @@ const keepBest = (into: Times, n: number, t: { gemm: number; star: number }) => 
 };
 for (let round = 0; round < ROUNDS; round++) {
   for (const n of SIZES) {
-    const a = random(n * n, 1), b = random(n * n, 2);
-    const s1 = blocks(n, 10), s2 = blocks(n, 20);
-    for (const [name, k] of [["openblas", native], ["ts", tsKernels]] as const) {
+    const a = random(n * n, 1),
+      b = random(n * n, 2);
+    const s1 = blocks(n, 10),
+      s2 = blocks(n, 20);
+    for (const [name, k] of [
+      ["openblas", native],
+      ["ts", tsKernels],
+    ] as const) {
       if (name === "ts" && round > 0) continue;
       const slow = name === "ts";
       keepBest(timings[name], n, {
@@ -171,26 +196,33 @@ for (let round = 0; round < ROUNDS; round++) {
   const r = numpyRun({ OPENBLAS_NUM_THREADS: threads, OPENBLAS_CORETYPE: loaded.info.coreType ?? undefined, OPENBLAS_L2_SIZE: undefined });
   if (r) {
     if (!npTuned) npTuned = r;
-    else for (const n of SIZES) {
-      const cur = npTuned[String(n)] as { gemm: number; star: number }, nxt = r[String(n)] as { gemm: number; star: number };
-      npTuned[String(n)] = { gemm: Math.min(cur.gemm, nxt.gemm), star: Math.min(cur.star, nxt.star) };
-    }
+    else
+      for (const n of SIZES) {
+        const cur = npTuned[String(n)] as { gemm: number; star: number },
+          nxt = r[String(n)] as { gemm: number; star: number };
+        npTuned[String(n)] = { gemm: Math.min(cur.gemm, nxt.gemm), star: Math.min(cur.star, nxt.star) };
+      }
   }
 }
 const npPlain = numpyRun({ OPENBLAS_NUM_THREADS: threads, OPENBLAS_CORETYPE: undefined, OPENBLAS_L2_SIZE: undefined });
 const npLabel = (r: typeof npTuned) => (r ? `numpy ${r.numpy} (core ${r.core})` : "numpy n/a");
-console.log(`numpy: ${npLabel(npTuned)} with OPENBLAS_CORETYPE=${loaded.info.coreType ?? "unset"}; ${npLabel(npPlain)} with neither OPENBLAS_CORETYPE nor OPENBLAS_L2_SIZE`);
+console.log(
+  `numpy: ${npLabel(npTuned)} with OPENBLAS_CORETYPE=${loaded.info.coreType ?? "unset"}; ${npLabel(npPlain)} with neither OPENBLAS_CORETYPE nor OPENBLAS_L2_SIZE`,
+);
 console.log("");
 console.log("| op | N | ts | openblas | numpy (same core) | numpy (no env) | openblas / numpy | openblas GFLOP/s | numpy GFLOP/s |");
 console.log("| --- | --- | --- | --- | --- | --- | --- | --- | --- |");
 for (const op of ["gemm", "star"] as const) {
   for (const n of SIZES) {
     const flops = op === "gemm" ? 8 * n ** 3 : starFlops(n);
-    const t = timings.ts[n][op], o = timings.openblas[n][op];
+    const t = timings.ts[n][op],
+      o = timings.openblas[n][op];
     const nt = npTuned ? (npTuned[String(n)] as { gemm: number; star: number })[op] : NaN;
     const np0 = npPlain ? (npPlain[String(n)] as { gemm: number; star: number })[op] : NaN;
     const ref = Math.min(nt, Number.isNaN(np0) ? Infinity : np0);
-    console.log(`| ${op === "gemm" ? "zgemm" : "star product"} | ${n} | ${fmt(t)} | ${fmt(o)} | ${Number.isNaN(nt) ? "n/a" : fmt(nt)} | ${Number.isNaN(np0) ? "n/a" : fmt(np0)} | ${Number.isFinite(ref) ? (o / ref).toFixed(2) : "n/a"} | ${gf(flops, o)} | ${Number.isFinite(ref) ? gf(flops, ref) : "n/a"} |`);
+    console.log(
+      `| ${op === "gemm" ? "zgemm" : "star product"} | ${n} | ${fmt(t)} | ${fmt(o)} | ${Number.isNaN(nt) ? "n/a" : fmt(nt)} | ${Number.isNaN(np0) ? "n/a" : fmt(np0)} | ${Number.isFinite(ref) ? (o / ref).toFixed(2) : "n/a"} | ${gf(flops, o)} | ${Number.isFinite(ref) ? gf(flops, ref) : "n/a"} |`,
+    );
   }
 }
 
@@ -204,14 +236,24 @@ const input = parseComputeInput({
 });
 console.log("");
 const results: Record<string, { seconds: number; total: number }> = {};
-for (const [name, k] of [["openblas", native], ["ts", tsKernels]] as const) {
+for (const [name, k] of [
+  ["openblas", native],
+  ["ts", tsKernels],
+] as const) {
   if (quick && name === "ts") continue;
   setKernels(k);
   const t0 = performance.now();
   const r = compute(input) as unknown as { conductance: { total: number } };
   results[name] = { seconds: (performance.now() - t0) / 1000, total: r.conductance.total };
 }
-const line = Object.entries(results).map(([k, v]) => `${k} ${v.seconds.toFixed(2)} s (G = ${v.total.toPrecision(12)} e2/h)`).join("; ");
+const line = Object.entries(results)
+  .map(([k, v]) => `${k} ${v.seconds.toFixed(2)} s (G = ${v.total.toPrecision(12)} e2/h)`)
+  .join("; ");
 const ratio = results.ts ? `; ts / openblas = ${(results.ts.seconds / results.openblas.seconds).toFixed(1)}x` : "";
-console.log(`load average ${os.loadavg().map((x) => x.toFixed(1)).join(" ")}`);
+console.log(
+  `load average ${os
+    .loadavg()
+    .map((x) => x.toFixed(1))
+    .join(" ")}`,
+);
 console.log(`W = ${W} triangular conductance (${W} x ${W} nodes, both valleys): ${line}${ratio}`);

@@ -41,7 +41,11 @@ function findNodeGyp() {
   if (process.env.npm_execpath) candidates.push(fromNpm(process.env.npm_execpath));
   const npmBin = which("npm");
   if (npmBin) {
-    try { candidates.push(fromNpm(realpathSync(npmBin))); } catch { /* broken link */ }
+    try {
+      candidates.push(fromNpm(realpathSync(npmBin)));
+    } catch {
+      /* broken link */
+    }
     candidates.push(path.join(path.dirname(npmBin), "..", "lib", "node_modules", "npm", "node_modules", "node-gyp", "bin", "node-gyp.js"));
   }
   const prefix = path.dirname(path.dirname(process.execPath));
@@ -84,7 +88,9 @@ function findLibrary(name) {
 
 function newestSource() {
   let newest = 0;
-  const visit = (file) => { newest = Math.max(newest, statSync(file).mtimeMs); };
+  const visit = (file) => {
+    newest = Math.max(newest, statSync(file).mtimeMs);
+  };
   visit(path.join(nativeDir, "binding.gyp"));
   for (const f of readdirSync(path.join(nativeDir, "src"))) visit(path.join(nativeDir, "src", f));
   return newest;
@@ -124,7 +130,8 @@ const build = spawnSync(process.execPath, [gyp, "rebuild", `--nodedir=${nodedir}
 });
 if (build.status !== 0 || !existsSync(addon)) {
   const lines = `${build.stderr ?? ""}\n${build.stdout ?? ""}`.split("\n").map((l) => l.trim());
-  const cause = lines.find((l) => /error/i.test(l) && !/^gyp (ERR!|info) (stack|cwd|node|not ok|command|System)/.test(l)) ?? build.error?.message ?? `exit ${build.status}`;
+  const cause =
+    lines.find((l) => /error/i.test(l) && !/^gyp (ERR!|info) (stack|cwd|node|not ok|command|System)/.test(l)) ?? build.error?.message ?? `exit ${build.status}`;
   done(`build failed (${cause.slice(0, 200)}); the engine uses its TypeScript kernels`);
 }
 

@@ -56,7 +56,13 @@ const importCache = new Map<string, ImportEdge[]>();
 export function importsOf(file: string): ImportEdge[] {
   const cached = importCache.get(file);
   if (cached) return cached;
-  const source = ts.createSourceFile(file, readFileSync(file, "utf8"), ts.ScriptTarget.Latest, true, file.endsWith(".tsx") ? ts.ScriptKind.TSX : ts.ScriptKind.TS);
+  const source = ts.createSourceFile(
+    file,
+    readFileSync(file, "utf8"),
+    ts.ScriptTarget.Latest,
+    true,
+    file.endsWith(".tsx") ? ts.ScriptKind.TSX : ts.ScriptKind.TS,
+  );
   const edges: ImportEdge[] = [];
   const add = (specifier: string, typeOnly: boolean) => {
     const resolved = isLocal(specifier) ? resolveSpecifier(file, specifier) : null;
@@ -83,7 +89,11 @@ export function importsOf(file: string): ImportEdge[] {
         typeOnly = elements.length > 0 && elements.every((e) => e.isTypeOnly);
       }
       add(node.moduleSpecifier.text, typeOnly);
-    } else if (ts.isImportEqualsDeclaration(node) && ts.isExternalModuleReference(node.moduleReference) && ts.isStringLiteral(node.moduleReference.expression)) {
+    } else if (
+      ts.isImportEqualsDeclaration(node) &&
+      ts.isExternalModuleReference(node.moduleReference) &&
+      ts.isStringLiteral(node.moduleReference.expression)
+    ) {
       add(node.moduleReference.expression.text, node.isTypeOnly);
     } else if (ts.isCallExpression(node) && node.arguments.length >= 1 && ts.isStringLiteralLike(node.arguments[0])) {
       const callee = node.expression;
@@ -102,10 +112,48 @@ export function importsOf(file: string): ImportEdge[] {
 
 /** Node's built-in modules, with or without the "node:" prefix (subpaths such as "fs/promises" included). */
 const NODE_BUILTINS = new Set([
-  "assert", "async_hooks", "buffer", "child_process", "cluster", "console", "constants", "crypto", "dgram",
-  "diagnostics_channel", "dns", "domain", "events", "fs", "http", "http2", "https", "inspector", "module", "net",
-  "os", "path", "perf_hooks", "process", "punycode", "querystring", "readline", "repl", "stream", "string_decoder",
-  "sys", "timers", "tls", "trace_events", "tty", "url", "util", "v8", "vm", "wasi", "worker_threads", "zlib",
+  "assert",
+  "async_hooks",
+  "buffer",
+  "child_process",
+  "cluster",
+  "console",
+  "constants",
+  "crypto",
+  "dgram",
+  "diagnostics_channel",
+  "dns",
+  "domain",
+  "events",
+  "fs",
+  "http",
+  "http2",
+  "https",
+  "inspector",
+  "module",
+  "net",
+  "os",
+  "path",
+  "perf_hooks",
+  "process",
+  "punycode",
+  "querystring",
+  "readline",
+  "repl",
+  "stream",
+  "string_decoder",
+  "sys",
+  "timers",
+  "tls",
+  "trace_events",
+  "tty",
+  "url",
+  "util",
+  "v8",
+  "vm",
+  "wasi",
+  "worker_threads",
+  "zlib",
 ]);
 
 export function isNodeBuiltin(specifier: string): boolean {
@@ -229,20 +277,31 @@ export function folderGraph(dir: string, options: { runtimeOnly?: boolean } = {}
 /** Strongly connected components with more than one folder (Tarjan), each sorted, largest first. */
 export function folderCycles(graph: Map<string, Map<string, FolderEdge>>): string[][] {
   let index = 0;
-  const indices = new Map<string, number>(), low = new Map<string, number>();
-  const stack: string[] = [], onStack = new Set<string>();
+  const indices = new Map<string, number>(),
+    low = new Map<string, number>();
+  const stack: string[] = [],
+    onStack = new Set<string>();
   const out: string[][] = [];
   const connect = (v: string) => {
-    indices.set(v, index); low.set(v, index); index++;
-    stack.push(v); onStack.add(v);
+    indices.set(v, index);
+    low.set(v, index);
+    index++;
+    stack.push(v);
+    onStack.add(v);
     for (const w of graph.get(v)?.keys() ?? []) {
-      if (!indices.has(w)) { connect(w); low.set(v, Math.min(low.get(v)!, low.get(w)!)); }
-      else if (onStack.has(w)) low.set(v, Math.min(low.get(v)!, indices.get(w)!));
+      if (!indices.has(w)) {
+        connect(w);
+        low.set(v, Math.min(low.get(v)!, low.get(w)!));
+      } else if (onStack.has(w)) low.set(v, Math.min(low.get(v)!, indices.get(w)!));
     }
     if (low.get(v) === indices.get(v)) {
       const component: string[] = [];
       let w: string;
-      do { w = stack.pop()!; onStack.delete(w); component.push(w); } while (w !== v);
+      do {
+        w = stack.pop()!;
+        onStack.delete(w);
+        component.push(w);
+      } while (w !== v);
       if (component.length > 1) out.push(component.sort());
     }
   };
@@ -279,7 +338,8 @@ export const SERVER_ONLY_MARKER = path.join(ROOT, "src/server/server-only.ts");
 const SERVER_PACKAGE = /^(postgres|drizzle-orm\/postgres-js|bullmq|ioredis|stripe|nodemailer|@clerk\/nextjs\/server|@clerk\/backend)(\/.*)?$/;
 /** Packages no browser or shared module may import: the above, the query builder, the server's
  * rate limiter and thread pool, and the npm marker package "server-only". */
-const BROWSER_FORBIDDEN_PACKAGE = /^(postgres|drizzle-orm|bullmq|ioredis|stripe|nodemailer|@clerk\/nextjs\/server|@clerk\/backend|rate-limiter-flexible|piscina|server-only)(\/.*)?$/;
+const BROWSER_FORBIDDEN_PACKAGE =
+  /^(postgres|drizzle-orm|bullmq|ioredis|stripe|nodemailer|@clerk\/nextjs\/server|@clerk\/backend|rate-limiter-flexible|piscina|server-only)(\/.*)?$/;
 
 export interface LayerProblem {
   /** The module that imports it (repository-relative). */
@@ -308,7 +368,8 @@ export function browserLayerProblems(roots: string[]): LayerProblem[] {
       done.add(mod.file);
       const report = (specifier: string, reason: string) => problems.push({ file: relative(mod.file), specifier, reason, chain: mod.via.map(relative) });
       for (const edge of importsOf(mod.file)) {
-        if (edge.resolved && isServer(edge.resolved)) report(edge.specifier, `server code (${relative(edge.resolved)})${edge.typeOnly ? ", type-only: move the type to src/shared" : ""}`);
+        if (edge.resolved && isServer(edge.resolved))
+          report(edge.specifier, `server code (${relative(edge.resolved)})${edge.typeOnly ? ", type-only: move the type to src/shared" : ""}`);
         else if (edge.typeOnly) continue;
         else if (isNodeBuiltin(edge.specifier)) report(edge.specifier, "a Node built-in");
         else if (BROWSER_FORBIDDEN_PACKAGE.test(edge.specifier)) report(edge.specifier, "a package of the database, the queue or a hosted service");
@@ -343,8 +404,10 @@ export function sharedLayerProblems(): LayerProblem[] {
  * src/server/queue and src/env.ts itself always must. Empty: it need not.
  */
 export function serverResourceImports(file: string): string[] {
-  const own = file.startsWith(path.join(ROOT, "src/server/db") + path.sep) || file.startsWith(path.join(ROOT, "src/server/queue") + path.sep) || file === ENV_FILE;
-  const isResource = (f: string) => f.startsWith(path.join(ROOT, "src/server/db") + path.sep) || f.startsWith(path.join(ROOT, "src/server/queue") + path.sep) || f === ENV_FILE;
+  const own =
+    file.startsWith(path.join(ROOT, "src/server/db") + path.sep) || file.startsWith(path.join(ROOT, "src/server/queue") + path.sep) || file === ENV_FILE;
+  const isResource = (f: string) =>
+    f.startsWith(path.join(ROOT, "src/server/db") + path.sep) || f.startsWith(path.join(ROOT, "src/server/queue") + path.sep) || f === ENV_FILE;
   const why = importsOf(file)
     .filter((e) => !e.typeOnly && ((e.resolved !== null && isResource(e.resolved)) || SERVER_PACKAGE.test(e.specifier)))
     .map((e) => e.specifier);
@@ -383,7 +446,8 @@ if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.me
     for (const p of problems) console.log(`${p.file} imports ${p.specifier}: ${p.reason} (${p.chain.join(" -> ")})`);
     const missing = missingServerOnlyMarkers();
     for (const m of missing) console.log(`${m.file} touches ${m.because.join(", ")} but does not import "@/server/server-only"`);
-    if (problems.length === 0 && missing.length === 0) console.log("browser code and src/shared reach no server code; every module that touches the database, the queue or secrets is marked server-only");
+    if (problems.length === 0 && missing.length === 0)
+      console.log("browser code and src/shared reach no server code; every module that touches the database, the queue or secrets is marked server-only");
     process.exit(problems.length === 0 && missing.length === 0 ? 0 : 1);
   } else {
     console.error("usage: tsx scripts/import-graph.ts server-cycles | browser-entry | layers");

@@ -40,7 +40,10 @@ const tokens: Record<string, string> = tokensFile && existsSync(tokensFile) ? JS
 async function ensureToken(key: string, workspaceId: string, userId: string, role: Role) {
   const secret = tokens[key];
   if (secret) {
-    const [row] = await db.select({ id: apiTokens.id }).from(apiTokens).where(eq(apiTokens.tokenHash, hashToken(secret)));
+    const [row] = await db
+      .select({ id: apiTokens.id })
+      .from(apiTokens)
+      .where(eq(apiTokens.tokenHash, hashToken(secret)));
     if (row) return;
   }
   const fresh = newTokenSecret();
@@ -79,7 +82,10 @@ await ensureToken("student", personal.get("student")!.id, student.id, "owner");
 
 const researcher = people.get("researcher")!;
 for (const n of DEMO_NETWORKS) {
-  const [existing] = await db.select().from(networks).where(and(eq(networks.workspaceId, lab.id), eq(networks.name, n.name)));
+  const [existing] = await db
+    .select()
+    .from(networks)
+    .where(and(eq(networks.workspaceId, lab.id), eq(networks.name, n.name)));
   if (existing) continue;
   await db.transaction(async (tx) => {
     const [net] = await tx.insert(networks).values({ workspaceId: lab.id, name: n.name, createdBy: researcher.id }).returning();
@@ -94,5 +100,7 @@ if (tokensFile) {
   mkdirSync(dirname(tokensFile), { recursive: true });
   writeFileSync(tokensFile, JSON.stringify(tokens, null, 2) + "\n", { mode: 0o600 });
 }
-console.log(`[seed] demo scenario ready: ${DEMO_PEOPLE.length} people, workspace "${DEMO_LAB.name}", ${DEMO_NETWORKS.length} networks${tokensFile ? `; tokens in ${tokensFile}` : ""}`);
+console.log(
+  `[seed] demo scenario ready: ${DEMO_PEOPLE.length} people, workspace "${DEMO_LAB.name}", ${DEMO_NETWORKS.length} networks${tokensFile ? `; tokens in ${tokensFile}` : ""}`,
+);
 await closeDb();

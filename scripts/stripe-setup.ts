@@ -57,7 +57,13 @@ await ensureProduct(STRIPE_OBJECTS.seatProductId, "Triskel Lab seat", "One payin
 await ensureProduct(STRIPE_OBJECTS.computeProductId, "Triskel compute", "Compute-seconds spent by workers on runs, metered.");
 const seat = await ensurePrice(
   STRIPE_OBJECTS.seatPriceLookupKey,
-  { product: STRIPE_OBJECTS.seatProductId, currency: "usd", unit_amount: seatCents, recurring: { interval: "month", usage_type: "licensed" }, nickname: "Lab seat, monthly" },
+  {
+    product: STRIPE_OBJECTS.seatProductId,
+    currency: "usd",
+    unit_amount: seatCents,
+    recurring: { interval: "month", usage_type: "licensed" },
+    nickname: "Lab seat, monthly",
+  },
   (p) => p.unit_amount === seatCents && p.recurring?.interval === "month",
 );
 const compute = await ensurePrice(
@@ -71,4 +77,6 @@ const compute = await ensurePrice(
   },
   (p) => p.recurring?.meter === meter.id && Number(String(p.unit_amount_decimal)) === Number(computeCentsPerSecond),
 );
-console.log(`[stripe-setup] meter ${meter.id} (${meter.event_name}), seat price ${seat.id} (${seatCents} cents/month), compute price ${compute.id} (${computeCentsPerSecond} cents/compute-second)`);
+console.log(
+  `[stripe-setup] meter ${meter.id} (${meter.event_name}), seat price ${seat.id} (${seatCents} cents/month), compute price ${compute.id} (${computeCentsPerSecond} cents/compute-second)`,
+);

@@ -23,7 +23,10 @@ export const envSchema = z.object({
   /** Public base URL of the web app, used in e-mails and redirects. */
   APP_URL: url("http://127.0.0.1:3000").default("http://127.0.0.1:3000"),
   /** BullMQ key prefix, so several instances can share one Redis. */
-  QUEUE_PREFIX: z.string().regex(/^[a-z0-9:_-]+$/i, "letters, digits, ':', '_' and '-' only").default("triskel"),
+  QUEUE_PREFIX: z
+    .string()
+    .regex(/^[a-z0-9:_-]+$/i, "letters, digits, ':', '_' and '-' only")
+    .default("triskel"),
   /** Engine runs in parallel per worker process (threads in the pool). */
   WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(2),
   LOG_LEVEL: z.enum(["debug", "info", "warn", "error"]).default("info"),
@@ -32,18 +35,36 @@ export const envSchema = z.object({
   RATE_LIMIT_WRITES_PER_MINUTE: z.coerce.number().int().min(1).default(120),
   // --- accounts (docs/accounts.md): Clerk through @clerk/nextjs, which reads its own CLERK_* and
   // NEXT_PUBLIC_CLERK_* variables; scripts/env.d/clerk.sh points them at the local stand-in.
-  CLERK_SECRET_KEY: z.string().regex(/^sk_(test|live)_/, "must be a Clerk secret key (sk_test_... or sk_live_...)").optional(),
-  NEXT_PUBLIC_CLERK_PUBLISHABLE_KEY: z.string().regex(/^pk_(test|live)_/, "must be a Clerk publishable key (pk_test_... or pk_live_...)").optional(),
+  CLERK_SECRET_KEY: z
+    .string()
+    .regex(/^sk_(test|live)_/, "must be a Clerk secret key (sk_test_... or sk_live_...)")
+    .optional(),
+  NEXT_PUBLIC_CLERK_PUBLISHABLE_KEY: z
+    .string()
+    .regex(/^pk_(test|live)_/, "must be a Clerk publishable key (pk_test_... or pk_live_...)")
+    .optional(),
   /** Signing secret of the Clerk webhook endpoint /api/webhooks/clerk (Standard Webhooks). */
-  CLERK_WEBHOOK_SECRET: z.string().regex(/^whsec_[A-Za-z0-9+/=_-]+$/, "must be a webhook signing secret (whsec_...)").optional(),
+  CLERK_WEBHOOK_SECRET: z
+    .string()
+    .regex(/^whsec_[A-Za-z0-9+/=_-]+$/, "must be a webhook signing secret (whsec_...)")
+    .optional(),
   // --- mail (docs/accounts.md): nodemailer over SMTP; locally the maildev stand-in.
-  SMTP_URL: z.string().regex(/^smtps?:\/\//, "must start with smtp:// or smtps://").default("smtp://127.0.0.1:1025"),
+  SMTP_URL: z
+    .string()
+    .regex(/^smtps?:\/\//, "must start with smtp:// or smtps://")
+    .default("smtp://127.0.0.1:1025"),
   MAIL_FROM: z.string().min(3, "must be a sender such as `Triskel <no-reply@example.org>`").default("Triskel <no-reply@triskel.local>"),
   /** Days an invitation link stays valid. */
   INVITATION_TTL_DAYS: z.coerce.number().int().min(1).max(90).default(7),
   // --- billing (docs/billing.md): Stripe through its SDK; the local stand-in sets all of these.
-  STRIPE_SECRET_KEY: z.string().regex(/^(sk|rk)_(test|live)_/, "must be a Stripe secret key (sk_test_... or sk_live_...)").optional(),
-  STRIPE_WEBHOOK_SECRET: z.string().regex(/^whsec_/, "must be a webhook signing secret (whsec_...)").optional(),
+  STRIPE_SECRET_KEY: z
+    .string()
+    .regex(/^(sk|rk)_(test|live)_/, "must be a Stripe secret key (sk_test_... or sk_live_...)")
+    .optional(),
+  STRIPE_WEBHOOK_SECRET: z
+    .string()
+    .regex(/^whsec_/, "must be a webhook signing secret (whsec_...)")
+    .optional(),
   /** Only for the local stand-in: where the SDK sends requests (default: api.stripe.com over https). */
   STRIPE_API_HOST: z.string().optional(),
   STRIPE_API_PORT: z.coerce.number().int().min(1).max(65535).optional(),
@@ -77,7 +98,8 @@ export function parseEnv(source: Record<string, string | undefined>): Env {
     const lines = parsed.error.issues.map((issue) => {
       const name = issue.path.join(".");
       const value = source[name];
-      const problem = value === undefined || value === "" ? "is missing" : `is invalid (${JSON.stringify(value.length > 60 ? value.slice(0, 60) + "…" : value)})`;
+      const problem =
+        value === undefined || value === "" ? "is missing" : `is invalid (${JSON.stringify(value.length > 60 ? value.slice(0, 60) + "…" : value)})`;
       return `environment variable ${name} ${problem}: ${issue.message}`;
     });
     throw new EnvError(lines.join("\n"));

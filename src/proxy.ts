@@ -5,15 +5,7 @@ import "@/server/server-only";
 import { clerkMiddleware, createRouteMatcher } from "@clerk/nextjs/server";
 import { NextResponse, type NextFetchEvent, type NextRequest } from "next/server";
 
-const isPublicPage = createRouteMatcher([
-  "/",
-  "/pricing(.*)",
-  "/manual(.*)",
-  "/sign-in(.*)",
-  "/sign-up(.*)",
-  "/sign-out(.*)",
-  "/accept-invitation(.*)",
-]);
+const isPublicPage = createRouteMatcher(["/", "/pricing(.*)", "/manual(.*)", "/sign-in(.*)", "/sign-up(.*)", "/sign-out(.*)", "/accept-invitation(.*)"]);
 const isApi = createRouteMatcher(["/api/(.*)"]);
 
 const withClerk = clerkMiddleware(async (auth, req) => {

@@ -30,7 +30,8 @@ export function startBillingLoop(options: { intervalMs?: number; workspaceId?: s
       if (billingConfigured()) {
         await step("meter sender", async () => {
           const r = await sendDueMeterEvents({ workspaceId: options.workspaceId });
-          if (r.sent || r.failed || r.retrying) console.log(`[billing] meter events: ${r.sent} sent, ${r.alreadyRecorded} already recorded, ${r.retrying} retrying, ${r.failed} failed`);
+          if (r.sent || r.failed || r.retrying)
+            console.log(`[billing] meter events: ${r.sent} sent, ${r.alreadyRecorded} already recorded, ${r.retrying} retrying, ${r.failed} failed`);
         });
       }
       if (!options.workspaceId) {

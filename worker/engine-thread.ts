@@ -14,7 +14,14 @@ export interface EngineTask {
 
 export type EngineOutcome =
   | { outcome: "succeeded"; resultJson: string; cpuSeconds: number; cpuSource: CpuSource; engineVersion: string; inputHash: string }
-  | { outcome: "cancelled" | "failed"; error: { code: string; message: string; field?: string }; cpuSeconds: number; cpuSource: CpuSource; engineVersion: string; inputHash: string | null };
+  | {
+      outcome: "cancelled" | "failed";
+      error: { code: string; message: string; field?: string };
+      cpuSeconds: number;
+      cpuSource: CpuSource;
+      engineVersion: string;
+      inputHash: string | null;
+    };
 
 const clock = cpuClock();
 

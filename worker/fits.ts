@@ -58,11 +58,19 @@ export function startFitsWorker(connection: Redis, prefix: string): Worker {
     return { status: out.outcome, computeSeconds: out.cpuSeconds, cpuSource: out.cpuSource, written };
   }
 
-  const worker = new Worker(QUEUES.fits, processFit, { connection: connection as ConnectionOptions, prefix, concurrency: 1, lockDuration: 60_000, maxStalledCount: 3 });
+  const worker = new Worker(QUEUES.fits, processFit, {
+    connection: connection as ConnectionOptions,
+    prefix,
+    concurrency: 1,
+    lockDuration: 60_000,
+    maxStalledCount: 3,
+  });
   worker.on("failed", (job, err) => {
     if (!job) return;
     if (job.attemptsMade >= (job.opts.attempts ?? 1) || /stalled more than/i.test(err.message)) {
-      markFitFailed(rowIdOf(JOB_KINDS.fit, job), err.message).catch((e) => console.error(`[fits] could not mark fit ${job.id} failed: ${(e as Error).message}`));
+      markFitFailed(rowIdOf(JOB_KINDS.fit, job), err.message).catch((e) =>
+        console.error(`[fits] could not mark fit ${job.id} failed: ${(e as Error).message}`),
+      );
     }
   });
   worker.on("closed", () => void pool.destroy());

@@ -35,7 +35,9 @@ runsWorker.on("failed", (job, err) => {
   if (!job) return;
   const attempts = job.opts.attempts ?? 1;
   if (job.attemptsMade >= attempts || /stalled more than/i.test(err.message)) {
-    markRunFailed(rowIdOf(JOB_KINDS.run, job), err.message).catch((e) => console.error(`[worker] could not mark run ${job.id} failed: ${(e as Error).message}`));
+    markRunFailed(rowIdOf(JOB_KINDS.run, job), err.message).catch((e) =>
+      console.error(`[worker] could not mark run ${job.id} failed: ${(e as Error).message}`),
+    );
   }
 });
 

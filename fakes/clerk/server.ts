@@ -215,12 +215,12 @@ async function frontend(ctx: Ctx, parts: string[]): Promise<boolean> {
   if (route === "client/sign_ins" && method === "POST") {
     const c = currentClient(ctx, true)!;
     const identifier = String(body.identifier ?? body.email_address ?? "").trim();
-    if (!identifier) return clerkError(ctx, 422, "form_param_missing", "Enter your e-mail address.", "identifier"), true;
+    if (!identifier) return (clerkError(ctx, 422, "form_param_missing", "Enter your e-mail address.", "identifier"), true);
     const user = store.userByEmail(identifier);
-    if (!user) return clerkError(ctx, 422, "form_identifier_not_found", "No account has that e-mail address.", "identifier"), true;
+    if (!user) return (clerkError(ctx, 422, "form_identifier_not_found", "No account has that e-mail address.", "identifier"), true);
     c.signIn = { id: newId("sia"), identifier, userId: user.id, status: "needs_first_factor", createdSessionId: null };
     if (body.password !== undefined) {
-      if (body.password !== user.password) return clerkError(ctx, 422, "form_password_incorrect", "Password is incorrect.", "password"), true;
+      if (body.password !== user.password) return (clerkError(ctx, 422, "form_password_incorrect", "Password is incorrect.", "password"), true);
       completeSignIn(ctx, c, user.id);
     }
     store.save();
@@ -230,11 +230,11 @@ async function frontend(ctx: Ctx, parts: string[]): Promise<boolean> {
   const siMatch = route.match(/^client\/sign_ins\/([^/]+)(?:\/(attempt_first_factor|prepare_first_factor))?$/);
   if (siMatch) {
     const c = currentClient(ctx, false);
-    if (!c?.signIn || c.signIn.id !== siMatch[1]) return clerkError(ctx, 404, "resource_not_found", "No such sign-in attempt."), true;
+    if (!c?.signIn || c.signIn.id !== siMatch[1]) return (clerkError(ctx, 404, "resource_not_found", "No such sign-in attempt."), true);
     if (siMatch[2] === "attempt_first_factor") {
       const user = c.signIn.userId ? store.user(c.signIn.userId) : undefined;
       if (!user || body.strategy !== "password" || body.password !== user.password)
-        return clerkError(ctx, 422, "form_password_incorrect", "Password is incorrect.", "password"), true;
+        return (clerkError(ctx, 422, "form_password_incorrect", "Password is incorrect.", "password"), true);
       completeSignIn(ctx, c, user.id);
     }
     fapi(ctx, signInJson(store, c), c);
@@ -245,15 +245,28 @@ async function frontend(ctx: Ctx, parts: string[]): Promise<boolean> {
   const suMatch = route.match(/^client\/sign_ups(?:\/([^/]+))?(?:\/(prepare_verification|attempt_verification))?$/);
   if (suMatch && (method === "POST" || method === "PATCH")) {
     const c = currentClient(ctx, true)!;
-    if (!suMatch[1] || !c.signUp) c.signUp = { id: newId("sua"), email: null, firstName: null, lastName: null, password: null, status: "missing_requirements", createdUserId: null, createdSessionId: null };
+    if (!suMatch[1] || !c.signUp)
+      c.signUp = {
+        id: newId("sua"),
+        email: null,
+        firstName: null,
+        lastName: null,
+        password: null,
+        status: "missing_requirements",
+        createdUserId: null,
+        createdSessionId: null,
+      };
     const su = c.signUp;
     if (body.email_address !== undefined) su.email = String(body.email_address).trim().toLowerCase();
     if (body.first_name !== undefined) su.firstName = String(body.first_name);
     if (body.last_name !== undefined) su.lastName = String(body.last_name);
     if (body.password !== undefined) su.password = String(body.password);
-    if (su.email && !/^[^@\s]+@[^@\s]+\.[^@\s]+$/.test(su.email)) return clerkError(ctx, 422, "form_param_format_invalid", "Enter a valid e-mail address.", "email_address"), true;
-    if (su.email && store.userByEmail(su.email)) return clerkError(ctx, 422, "form_identifier_exists", "That e-mail address is taken; sign in instead.", "email_address"), true;
-    if (su.password !== null && su.password.length < 8) return clerkError(ctx, 422, "form_password_length_too_short", "Passwords must be 8 characters or more.", "password"), true;
+    if (su.email && !/^[^@\s]+@[^@\s]+\.[^@\s]+$/.test(su.email))
+      return (clerkError(ctx, 422, "form_param_format_invalid", "Enter a valid e-mail address.", "email_address"), true);
+    if (su.email && store.userByEmail(su.email))
+      return (clerkError(ctx, 422, "form_identifier_exists", "That e-mail address is taken; sign in instead.", "email_address"), true);
+    if (su.password !== null && su.password.length < 8)
+      return (clerkError(ctx, 422, "form_password_length_too_short", "Passwords must be 8 characters or more.", "password"), true);
     if (su.email && su.password && su.status !== "complete") {
       const user = store.createUser({ email: su.email, password: su.password, firstName: su.firstName ?? "", lastName: su.lastName ?? "" });
       const s = store.startSession(c, user.id);
@@ -274,13 +287,14 @@ async function frontend(ctx: Ctx, parts: string[]): Promise<boolean> {
     const s = sMatch[1] ? store.session(sMatch[1]) : undefined;
     if (!c || !s || s.clientId !== c.id || s.status !== "active") {
       if (c) setSessionCookies(ctx, { ...c, lastActiveSessionId: null });
-      return clerkError(ctx, 401, "authentication_invalid", "Session is not active; sign in again."), true;
+      return (clerkError(ctx, 401, "authentication_invalid", "Session is not active; sign in again."), true);
     }
     const action = sMatch[2];
     if (action === "touch" || (!action && method === "POST")) {
       if ("active_organization_id" in body) {
         const orgId = body.active_organization_id ? String(body.active_organization_id) : null;
-        if (orgId && !store.membership(orgId, s.userId)) return clerkError(ctx, 403, "not_a_member_in_organization", "You are not a member of that organization."), true;
+        if (orgId && !store.membership(orgId, s.userId))
+          return (clerkError(ctx, 403, "not_a_member_in_organization", "You are not a member of that organization."), true);
         s.lastActiveOrgId = orgId;
       }
       s.updatedAt = Date.now();
@@ -331,8 +345,8 @@ async function frontend(ctx: Ctx, parts: string[]): Promise<boolean> {
   if (parts[0] === "me") {
     const c = currentClient(ctx, false);
     const s = c?.lastActiveSessionId ? store.session(c.lastActiveSessionId) : undefined;
-    if (!c || !s || s.status !== "active") return clerkError(ctx, 401, "authentication_invalid", "Sign in first."), true;
-    if (route === "me") return fapi(ctx, userJson(store, store.user(s.userId)!), c), true;
+    if (!c || !s || s.status !== "active") return (clerkError(ctx, 401, "authentication_invalid", "Sign in first."), true);
+    if (route === "me") return (fapi(ctx, userJson(store, store.user(s.userId)!), c), true);
     if (route === "me/organization_memberships") {
       const data = store.membershipsOfUser(s.userId).map((m) => membershipJson(store, m));
       fapi(ctx, { data, total_count: data.length }, c);
@@ -355,54 +369,85 @@ function paged<T>(ctx: Ctx, items: T[]) {
 
 async function backend(ctx: Ctx, parts: string[]): Promise<boolean> {
   const { method, body } = ctx;
-  if (parts[0] === "jwks") return send(ctx, 200, { keys: [jwk] }), true;
+  if (parts[0] === "jwks") return (send(ctx, 200, { keys: [jwk] }), true);
   const auth = ctx.req.headers.authorization ?? "";
-  if (!auth.startsWith("Bearer sk_")) return clerkError(ctx, 401, "authentication_invalid", "Send the secret key as `Authorization: Bearer sk_...`."), true;
+  if (!auth.startsWith("Bearer sk_")) return (clerkError(ctx, 401, "authentication_invalid", "Send the secret key as `Authorization: Bearer sk_...`."), true);
 
   if (parts[0] === "users") {
     if (parts.length === 1 && method === "GET") {
       const emails = ctx.url.searchParams.getAll("email_address").map((e) => e.toLowerCase());
       const users = store.state.users.filter((u) => !emails.length || emails.includes(u.email.toLowerCase()));
-      send(ctx, 200, users.map((u) => userJson(store, u)));
+      send(
+        ctx,
+        200,
+        users.map((u) => userJson(store, u)),
+      );
       return true;
     }
     if (parts.length === 1 && method === "POST") {
       const email = String((Array.isArray(body.email_address) ? body.email_address[0] : body.email_address) || "");
-      if (!email) return clerkError(ctx, 422, "form_param_missing", "email_address is required", "email_address"), true;
-      if (store.userByEmail(email)) return clerkError(ctx, 422, "form_identifier_exists", "That e-mail address is taken.", "email_address"), true;
-      const u = store.createUser({ email, password: body.password == null ? null : String(body.password), firstName: String(body.first_name ?? ""), lastName: String(body.last_name ?? "") });
+      if (!email) return (clerkError(ctx, 422, "form_param_missing", "email_address is required", "email_address"), true);
+      if (store.userByEmail(email)) return (clerkError(ctx, 422, "form_identifier_exists", "That e-mail address is taken.", "email_address"), true);
+      const u = store.createUser({
+        email,
+        password: body.password == null ? null : String(body.password),
+        firstName: String(body.first_name ?? ""),
+        lastName: String(body.last_name ?? ""),
+      });
       emitLater("user.created", userJson(store, u));
       send(ctx, 200, userJson(store, u));
       return true;
     }
     const u = store.user(parts[1]);
-    if (!u) return clerkError(ctx, 404, "resource_not_found", "No such user."), true;
-    if (parts.length === 2 && method === "GET") return send(ctx, 200, userJson(store, u)), true;
-    if (parts[2] === "organization_memberships") return paged(ctx, store.membershipsOfUser(u.id).map((m) => membershipJson(store, m))), true;
+    if (!u) return (clerkError(ctx, 404, "resource_not_found", "No such user."), true);
+    if (parts.length === 2 && method === "GET") return (send(ctx, 200, userJson(store, u)), true);
+    if (parts[2] === "organization_memberships")
+      return (
+        paged(
+          ctx,
+          store.membershipsOfUser(u.id).map((m) => membershipJson(store, m)),
+        ),
+        true
+      );
   }
 
   if (parts[0] === "organizations") {
     if (parts.length === 1 && method === "POST") {
       const t = Date.now();
       const name = String(body.name ?? "").trim();
-      if (!name) return clerkError(ctx, 422, "form_param_missing", "name is required", "name"), true;
-      const o = { id: newId("org"), name, slug: String(body.slug ?? name.toLowerCase().replace(/[^a-z0-9]+/g, "-")), createdBy: body.created_by == null ? null : String(body.created_by), createdAt: t, updatedAt: t };
+      if (!name) return (clerkError(ctx, 422, "form_param_missing", "name is required", "name"), true);
+      const o = {
+        id: newId("org"),
+        name,
+        slug: String(body.slug ?? name.toLowerCase().replace(/[^a-z0-9]+/g, "-")),
+        createdBy: body.created_by == null ? null : String(body.created_by),
+        createdAt: t,
+        updatedAt: t,
+      };
       store.state.orgs.push(o);
-      if (o.createdBy && store.user(o.createdBy)) store.state.memberships.push({ id: newId("orgmem"), orgId: o.id, userId: o.createdBy, role: "org:owner", createdAt: t, updatedAt: t });
+      if (o.createdBy && store.user(o.createdBy))
+        store.state.memberships.push({ id: newId("orgmem"), orgId: o.id, userId: o.createdBy, role: "org:owner", createdAt: t, updatedAt: t });
       store.save();
       emitLater("organization.created", orgJson(store, o));
       send(ctx, 200, orgJson(store, o));
       return true;
     }
     const o = store.org(parts[1]) ?? store.state.orgs.find((x) => x.slug === parts[1]);
-    if (!o) return clerkError(ctx, 404, "resource_not_found", "No such organization."), true;
-    if (parts.length === 2 && method === "GET") return send(ctx, 200, orgJson(store, o)), true;
+    if (!o) return (clerkError(ctx, 404, "resource_not_found", "No such organization."), true);
+    if (parts.length === 2 && method === "GET") return (send(ctx, 200, orgJson(store, o)), true);
     if (parts[2] === "memberships") {
-      if (parts.length === 3 && method === "GET") return paged(ctx, store.membershipsOfOrg(o.id).map((m) => membershipJson(store, m))), true;
+      if (parts.length === 3 && method === "GET")
+        return (
+          paged(
+            ctx,
+            store.membershipsOfOrg(o.id).map((m) => membershipJson(store, m)),
+          ),
+          true
+        );
       if (parts.length === 3 && method === "POST") {
         const userId = String(body.user_id ?? "");
-        if (!store.user(userId)) return clerkError(ctx, 404, "resource_not_found", "No such user.", "user_id"), true;
-        if (store.membership(o.id, userId)) return clerkError(ctx, 422, "already_a_member_in_organization", "Already a member.", "user_id"), true;
+        if (!store.user(userId)) return (clerkError(ctx, 404, "resource_not_found", "No such user.", "user_id"), true);
+        if (store.membership(o.id, userId)) return (clerkError(ctx, 422, "already_a_member_in_organization", "Already a member.", "user_id"), true);
         const t = Date.now();
         const m = { id: newId("orgmem"), orgId: o.id, userId, role: String(body.role ?? "org:viewer"), createdAt: t, updatedAt: t };
         store.state.memberships.push(m);
@@ -412,7 +457,7 @@ async function backend(ctx: Ctx, parts: string[]): Promise<boolean> {
         return true;
       }
       const m = store.membership(o.id, parts[3]);
-      if (!m) return clerkError(ctx, 404, "resource_not_found", "No such membership."), true;
+      if (!m) return (clerkError(ctx, 404, "resource_not_found", "No such membership."), true);
       if (method === "PATCH") {
         m.role = String(body.role ?? m.role);
         m.updatedAt = Date.now();
@@ -437,14 +482,14 @@ async function backend(ctx: Ctx, parts: string[]): Promise<boolean> {
 
 // ---------------------------------------------------------------- test helpers
 async function helpers(ctx: Ctx, parts: string[]): Promise<boolean> {
-  if (parts[0] === "health") return send(ctx, 200, { ok: true, users: store.state.users.length }), true;
+  if (parts[0] === "health") return (send(ctx, 200, { ok: true, users: store.state.users.length }), true);
   if (parts[0] === "session" && ctx.method === "POST") {
     const user = store.userByEmail(String(ctx.body.email ?? ""));
-    if (!user || user.password !== ctx.body.password) return clerkError(ctx, 422, "form_password_incorrect", "Unknown e-mail or wrong password."), true;
+    if (!user || user.password !== ctx.body.password) return (clerkError(ctx, 422, "form_password_incorrect", "Unknown e-mail or wrong password."), true);
     const c = store.newClient();
     const s = store.startSession(c, user.id);
     if (ctx.body.organizationId) {
-      if (!store.membership(String(ctx.body.organizationId), user.id)) return clerkError(ctx, 403, "not_a_member_in_organization", "Not a member."), true;
+      if (!store.membership(String(ctx.body.organizationId), user.id)) return (clerkError(ctx, 403, "not_a_member_in_organization", "Not a member."), true);
       s.lastActiveOrgId = String(ctx.body.organizationId);
       store.save();
     }

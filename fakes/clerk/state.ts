@@ -129,8 +129,7 @@ export class Store {
     const base = seeded();
     for (const u of base.users) if (!this.state.users.some((x) => x.id === u.id)) this.state.users.push(u);
     for (const o of base.orgs) if (!this.state.orgs.some((x) => x.id === o.id)) this.state.orgs.push(o);
-    for (const m of base.memberships)
-      if (!this.state.memberships.some((x) => x.orgId === m.orgId && x.userId === m.userId)) this.state.memberships.push(m);
+    for (const m of base.memberships) if (!this.state.memberships.some((x) => x.orgId === m.orgId && x.userId === m.userId)) this.state.memberships.push(m);
   }
 
   save() {

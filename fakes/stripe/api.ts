@@ -47,7 +47,10 @@ function metadataOf(v: unknown): Record<string, string> {
 function arrayOf(v: unknown): unknown[] {
   if (v === undefined) return [];
   if (Array.isArray(v)) return v;
-  if (typeof v === "object" && v !== null) return Object.keys(v).sort((a, b) => Number(a) - Number(b)).map((k) => (v as Record<string, unknown>)[k]);
+  if (typeof v === "object" && v !== null)
+    return Object.keys(v)
+      .sort((a, b) => Number(a) - Number(b))
+      .map((k) => (v as Record<string, unknown>)[k]);
   return [v];
 }
 
@@ -99,7 +102,11 @@ export class FakeApi {
   }
   listCustomers(p: Params) {
     const email = str(p.email);
-    return list([...this.store.customers.values()].filter((c) => !email || c.email === email), "/v1/customers", p);
+    return list(
+      [...this.store.customers.values()].filter((c) => !email || c.email === email),
+      "/v1/customers",
+      p,
+    );
   }
 
   // ---- products and prices
@@ -129,7 +136,11 @@ export class FakeApi {
     return prod;
   }
   listProducts(p: Params) {
-    return list([...this.store.products.values()].filter((x) => p.active === undefined || String(x.active) === p.active), "/v1/products", p);
+    return list(
+      [...this.store.products.values()].filter((x) => p.active === undefined || String(x.active) === p.active),
+      "/v1/products",
+      p,
+    );
   }
   createPrice(p: Params): FakePrice {
     const product = req(p, "product");
@@ -140,17 +151,21 @@ export class FakeApi {
     let recurring: FakePrice["recurring"] = null;
     if (rec) {
       const interval = req(rec, "interval") as "month";
-      if (!["day", "week", "month", "year"].includes(interval)) throw badParam("recurring[interval]", `Invalid recurring[interval]: must be one of day, week, month, or year`);
+      if (!["day", "week", "month", "year"].includes(interval))
+        throw badParam("recurring[interval]", `Invalid recurring[interval]: must be one of day, week, month, or year`);
       const usageType = (str(rec.usage_type) ?? "licensed") as "licensed" | "metered";
       const meter = str(rec.meter) ?? null;
-      if (usageType === "metered" && !meter) throw badParam("recurring[meter]", "A metered price must be attached to a billing meter (recurring[meter]).", "parameter_missing");
+      if (usageType === "metered" && !meter)
+        throw badParam("recurring[meter]", "A metered price must be attached to a billing meter (recurring[meter]).", "parameter_missing");
       if (meter && !this.store.meters.has(meter)) throw missing("billing meter", meter, "recurring[meter]");
       recurring = { interval, interval_count: int(rec, "interval_count", 1)!, usage_type: usageType, meter };
     }
     const unitAmount = int(p, "unit_amount");
     const unitDecimal = str(p.unit_amount_decimal);
-    if (unitAmount === undefined && unitDecimal === undefined) throw badParam("unit_amount", "Missing required param: unit_amount or unit_amount_decimal.", "parameter_missing");
-    if (unitDecimal !== undefined && !/^\d+(\.\d{1,12})?$/.test(unitDecimal)) throw badParam("unit_amount_decimal", "Invalid decimal: at most 12 decimal places");
+    if (unitAmount === undefined && unitDecimal === undefined)
+      throw badParam("unit_amount", "Missing required param: unit_amount or unit_amount_decimal.", "parameter_missing");
+    if (unitDecimal !== undefined && !/^\d+(\.\d{1,12})?$/.test(unitDecimal))
+      throw badParam("unit_amount_decimal", "Invalid decimal: at most 12 decimal places");
     if (lookupKey) {
       const holder = [...this.store.prices.values()].find((x) => x.lookup_key === lookupKey);
       if (holder) {
@@ -187,7 +202,10 @@ export class FakeApi {
     const keys = arrayOf(p.lookup_keys).map(String);
     const product = str(p.product);
     const items = [...this.store.prices.values()].filter(
-      (x) => (keys.length === 0 || (x.lookup_key !== null && keys.includes(x.lookup_key))) && (!product || x.product === product) && (p.active === undefined || String(x.active) === p.active),
+      (x) =>
+        (keys.length === 0 || (x.lookup_key !== null && keys.includes(x.lookup_key))) &&
+        (!product || x.product === product) &&
+        (p.active === undefined || String(x.active) === p.active),
     );
     return list(items, "/v1/prices", p);
   }
@@ -201,7 +219,8 @@ export class FakeApi {
     const agg = p.default_aggregation as Params | undefined;
     const formula = agg ? req(agg, "formula") : undefined;
     if (!formula) throw badParam("default_aggregation[formula]", "Missing required param: default_aggregation[formula].", "parameter_missing");
-    if (!["sum", "count", "last"].includes(formula)) throw badParam("default_aggregation[formula]", "Invalid default_aggregation[formula]: must be one of sum, count or last");
+    if (!["sum", "count", "last"].includes(formula))
+      throw badParam("default_aggregation[formula]", "Invalid default_aggregation[formula]: must be one of sum, count or last");
     const t = nowSeconds();
     const m: FakeMeter = {
       id: newId("mtr"),
@@ -225,7 +244,11 @@ export class FakeApi {
     return m;
   }
   listMeters(p: Params) {
-    return list([...this.store.meters.values()].filter((m) => !p.status || m.status === p.status), "/v1/billing/meters", p);
+    return list(
+      [...this.store.meters.values()].filter((m) => !p.status || m.status === p.status),
+      "/v1/billing/meters",
+      p,
+    );
   }
   createMeterEvent(p: Params) {
     const eventName = req(p, "event_name");
@@ -238,7 +261,8 @@ export class FakeApi {
     if (!customer) throw badParam(`payload[${customerKey}]`, `Missing required param: payload[${customerKey}].`, "parameter_missing");
     this.customer(customer);
     const value = str(payload[valueKey]);
-    if (value === undefined || !/^\d+(\.\d+)?$/.test(value)) throw badParam(`payload[${valueKey}]`, `payload[${valueKey}] must be a non-negative number, as a string.`);
+    if (value === undefined || !/^\d+(\.\d+)?$/.test(value))
+      throw badParam(`payload[${valueKey}]`, `payload[${valueKey}] must be a non-negative number, as a string.`);
     const now = nowSeconds();
     const timestamp = int(p, "timestamp", now)!;
     if (timestamp < now - 35 * 86400) throw badParam("timestamp", "Timestamp must be within the past 35 calendar days.", "timestamp_too_far_in_past");
@@ -247,7 +271,15 @@ export class FakeApi {
     if (this.store.meterIdentifiers.has(identifier)) {
       throw badParam("identifier", `An event already exists with identifier ${identifier}.`, "resource_already_exists");
     }
-    const ev = { object: "billing.meter_event" as const, created: now, event_name: eventName, identifier, livemode: false, payload: { ...(payload as Record<string, string>) }, timestamp };
+    const ev = {
+      object: "billing.meter_event" as const,
+      created: now,
+      event_name: eventName,
+      identifier,
+      livemode: false,
+      payload: { ...(payload as Record<string, string>) },
+      timestamp,
+    };
     this.store.meterIdentifiers.add(identifier);
     this.store.meterEvents.push(ev);
     return ev;
@@ -263,11 +295,21 @@ export class FakeApi {
     const events = this.eventsFor(meter, customer, start, end);
     const sum = events.reduce((a, e) => a + Number(e.payload[meter.value_settings.event_payload_key]), 0);
     const value = meter.default_aggregation.formula === "count" ? events.length : sum;
-    const summary = { id: newId("mtrusg"), object: "billing.meter_event_summary" as const, aggregated_value: value, start_time: start, end_time: end, livemode: false, meter: meter.id };
+    const summary = {
+      id: newId("mtrusg"),
+      object: "billing.meter_event_summary" as const,
+      aggregated_value: value,
+      start_time: start,
+      end_time: end,
+      livemode: false,
+      meter: meter.id,
+    };
     return { object: "list" as const, data: [summary], has_more: false, url: `/v1/billing/meters/${meter.id}/event_summaries` };
   }
   eventsFor(meter: FakeMeter, customer: string, start: number, end: number) {
-    return this.store.meterEvents.filter((e) => e.event_name === meter.event_name && e.payload[meter.customer_mapping.event_payload_key] === customer && e.timestamp >= start && e.timestamp < end);
+    return this.store.meterEvents.filter(
+      (e) => e.event_name === meter.event_name && e.payload[meter.customer_mapping.event_payload_key] === customer && e.timestamp >= start && e.timestamp < end,
+    );
   }
 
   // ---- checkout and portal
@@ -281,8 +323,10 @@ export class FakeApi {
       if (!price) throw badParam(`line_items[${i}][price]`, `Missing required param: line_items[${i}][price].`, "parameter_missing");
       const pr = this.price(price);
       const quantity = int(li, "quantity");
-      if (pr.recurring?.usage_type === "metered" && quantity !== undefined) throw badParam(`line_items[${i}][quantity]`, "Quantity should not be specified where usage_type is `metered`.");
-      if (pr.recurring?.usage_type !== "metered" && (quantity === undefined || quantity < 1)) throw badParam(`line_items[${i}][quantity]`, "Quantity is required for a licensed price and must be at least 1.");
+      if (pr.recurring?.usage_type === "metered" && quantity !== undefined)
+        throw badParam(`line_items[${i}][quantity]`, "Quantity should not be specified where usage_type is `metered`.");
+      if (pr.recurring?.usage_type !== "metered" && (quantity === undefined || quantity < 1))
+        throw badParam(`line_items[${i}][quantity]`, "Quantity is required for a licensed price and must be at least 1.");
       return { price, quantity };
     });
     if (items.length === 0) throw badParam("line_items", "Missing required param: line_items.", "parameter_missing");
@@ -365,14 +409,32 @@ export class FakeApi {
     const customer = req(p, "customer");
     this.customer(customer);
     const id = newId("bps");
-    const s = { id, object: "billing_portal.session" as const, created: nowSeconds(), customer, return_url: str(p.return_url) ?? null, url: `${this.publicUrl}/portal/${id}`, livemode: false };
+    const s = {
+      id,
+      object: "billing_portal.session" as const,
+      created: nowSeconds(),
+      customer,
+      return_url: str(p.return_url) ?? null,
+      url: `${this.publicUrl}/portal/${id}`,
+      livemode: false,
+    };
     this.store.portalSessions.set(id, s);
     return s;
   }
 
   // ---- subscriptions
   newItem(sub: FakeSubscription, priceId: string, quantity: number | undefined, start: number, end: number): FakeSubscriptionItem {
-    return { id: newId("si"), object: "subscription_item", created: start, current_period_start: start, current_period_end: end, metadata: {}, quantity, subscription: sub.id, price: this.price(priceId) };
+    return {
+      id: newId("si"),
+      object: "subscription_item",
+      created: start,
+      current_period_start: start,
+      current_period_end: end,
+      metadata: {},
+      quantity,
+      subscription: sub.id,
+      price: this.price(priceId),
+    };
   }
   subscription(id: string): FakeSubscription {
     const s = this.store.subscriptions.get(id);
@@ -381,7 +443,11 @@ export class FakeApi {
   }
   listSubscriptions(p: Params) {
     const customer = str(p.customer);
-    return list([...this.store.subscriptions.values()].filter((s) => !customer || s.customer === customer), "/v1/subscriptions", p);
+    return list(
+      [...this.store.subscriptions.values()].filter((s) => !customer || s.customer === customer),
+      "/v1/subscriptions",
+      p,
+    );
   }
   updateSubscription(id: string, p: Params): FakeSubscription {
     const sub = this.subscription(id);
@@ -401,7 +467,8 @@ export class FakeApi {
           return;
         }
         if (quantity !== undefined) {
-          if (item.price.recurring?.usage_type === "metered") throw badParam(`items[${i}][quantity]`, "Quantity should not be specified where usage_type is `metered`.");
+          if (item.price.recurring?.usage_type === "metered")
+            throw badParam(`items[${i}][quantity]`, "Quantity should not be specified where usage_type is `metered`.");
           if (quantity < 0) throw badParam(`items[${i}][quantity]`, "Invalid positive integer");
           item.quantity = quantity;
         }
@@ -409,7 +476,9 @@ export class FakeApi {
         const price = str(it.price);
         if (!price) throw badParam(`items[${i}][price]`, "Missing required param: items[][price] or items[][id].", "parameter_missing");
         const first = sub.items.data[0];
-        sub.items.data.push(this.newItem(sub, price, quantity, first?.current_period_start ?? nowSeconds(), first?.current_period_end ?? addMonth(nowSeconds())));
+        sub.items.data.push(
+          this.newItem(sub, price, quantity, first?.current_period_start ?? nowSeconds(), first?.current_period_end ?? addMonth(nowSeconds())),
+        );
       }
     });
     if (p.metadata !== undefined) {
@@ -435,7 +504,13 @@ export class FakeApi {
   }
 
   // ---- invoices
-  invoiceFor(sub: FakeSubscription, start: number, end: number, reason: FakeInvoice["billing_reason"], opts: { licensedOnly?: boolean; preview?: boolean } = {}): FakeInvoice {
+  invoiceFor(
+    sub: FakeSubscription,
+    start: number,
+    end: number,
+    reason: FakeInvoice["billing_reason"],
+    opts: { licensedOnly?: boolean; preview?: boolean } = {},
+  ): FakeInvoice {
     const lines: FakeInvoiceLine[] = [];
     for (const item of sub.items.data) {
       const price = item.price;
@@ -459,7 +534,11 @@ export class FakeApi {
         livemode: false,
         metadata: {},
         period: { start, end },
-        pricing: { type: "price_details", price_details: { price: price.id, product: price.product as string }, unit_amount_decimal: price.unit_amount_decimal },
+        pricing: {
+          type: "price_details",
+          price_details: { price: price.id, product: price.product as string },
+          unit_amount_decimal: price.unit_amount_decimal,
+        },
       });
     }
     const total = lines.reduce((a, l) => a + l.amount, 0);
@@ -523,7 +602,10 @@ export class FakeApi {
     const subscription = str(p.subscription);
     const status = str(p.status);
     const items = [...this.store.invoices.values()].filter(
-      (i) => (!customer || i.customer === customer) && (!subscription || i.parent?.subscription_details.subscription === subscription) && (!status || i.status === status),
+      (i) =>
+        (!customer || i.customer === customer) &&
+        (!subscription || i.parent?.subscription_details.subscription === subscription) &&
+        (!status || i.status === status),
     );
     return list(items, "/v1/invoices", p);
   }

@@ -50,7 +50,10 @@ export function portalPage(s: FakePortalSession, store: Store): string {
   const invoices = [...store.invoices.values()].filter((i) => i.customer === customer).sort((a, b) => b.created - a.created);
   const items = active
     ? active.items.data
-        .map((it) => `<tr><td>${esc(store.products.get(it.price.product as string)?.name)}</td><td class="n">${it.quantity ?? "metered"}</td><td class="n">until ${day(it.current_period_end)}</td></tr>`)
+        .map(
+          (it) =>
+            `<tr><td>${esc(store.products.get(it.price.product as string)?.name)}</td><td class="n">${it.quantity ?? "metered"}</td><td class="n">until ${day(it.current_period_end)}</td></tr>`,
+        )
         .join("")
     : "";
   const failing = store.failingCustomers.has(customer);
@@ -74,5 +77,8 @@ ${s.return_url ? `<p style="margin-top:1.2rem"><a href="${esc(s.return_url)}" da
 export function invoicePage(i: FakeInvoice, store: Store): string {
   void store;
   const rows = i.lines.data.map((l) => `<tr><td>${esc(l.description)}</td><td class="n">${money(l.amount, l.currency)}</td></tr>`).join("");
-  return layout(`Invoice ${i.number ?? ""}`, `<h1>Invoice ${esc(i.number)}</h1><p>${day(i.period_start)} – ${day(i.period_end)} · ${esc(i.status)}</p><table>${rows}<tr><th>Total</th><th class="n">${money(i.total, i.currency)}</th></tr></table>`);
+  return layout(
+    `Invoice ${i.number ?? ""}`,
+    `<h1>Invoice ${esc(i.number)}</h1><p>${day(i.period_start)} – ${day(i.period_end)} · ${esc(i.status)}</p><table>${rows}<tr><th>Total</th><th class="n">${money(i.total, i.currency)}</th></tr></table>`,
+  );
 }

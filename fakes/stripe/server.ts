@@ -75,7 +75,16 @@ export function createFakeStripe(opts: FakeOptions) {
     };
     store.events.push(ev);
     if (opts.webhookUrl) {
-      const d: Delivery = { id: newId("whd"), eventId: ev.id, type, attempts: 0, status: "pending", lastResponseStatus: null, lastError: null, deliveredAt: null };
+      const d: Delivery = {
+        id: newId("whd"),
+        eventId: ev.id,
+        type,
+        attempts: 0,
+        status: "pending",
+        lastResponseStatus: null,
+        lastError: null,
+        deliveredAt: null,
+      };
       store.deliveries.push(d);
       const owner = store;
       // In order, one at a time, as an endpoint sees them; retried with backoff a few times.
@@ -90,7 +99,11 @@ export function createFakeStripe(opts: FakeOptions) {
     try {
       const res = await fetch(opts.webhookUrl!, {
         method: "POST",
-        headers: { "content-type": "application/json; charset=utf-8", "stripe-signature": signPayload(opts.webhookSecret, payload), "user-agent": "Stripe/1.0 (+local stand-in)" },
+        headers: {
+          "content-type": "application/json; charset=utf-8",
+          "stripe-signature": signPayload(opts.webhookSecret, payload),
+          "user-agent": "Stripe/1.0 (+local stand-in)",
+        },
         body: payload,
         signal: AbortSignal.timeout(15_000),
       });
@@ -165,7 +178,11 @@ export function createFakeStripe(opts: FakeOptions) {
       if (!ev) throw new FakeError(404, "invalid_request_error", `No such event: '${m![1]}'`, "resource_missing", "id");
       return ev;
     }
-    throw new FakeError(404, "invalid_request_error", `Unrecognized request URL (${method}: ${path}). This local stand-in implements only the endpoints Triskel uses.`);
+    throw new FakeError(
+      404,
+      "invalid_request_error",
+      `Unrecognized request URL (${method}: ${path}). This local stand-in implements only the endpoints Triskel uses.`,
+    );
   }
 
   function sendJson(res: http.ServerResponse, status: number, body: unknown, extra: Record<string, string> = {}) {
@@ -173,7 +190,9 @@ export function createFakeStripe(opts: FakeOptions) {
     res.end(JSON.stringify(body));
   }
   function sendError(res: http.ServerResponse, err: FakeError) {
-    sendJson(res, err.status, { error: { type: err.type, message: err.message, ...(err.code ? { code: err.code } : {}), ...(err.param ? { param: err.param } : {}) } });
+    sendJson(res, err.status, {
+      error: { type: err.type, message: err.message, ...(err.code ? { code: err.code } : {}), ...(err.param ? { param: err.param } : {}) },
+    });
   }
   function sendHtml(res: http.ServerResponse, status: number, html: string) {
     res.writeHead(status, { "content-type": "text/html; charset=utf-8" });
@@ -198,7 +217,14 @@ export function createFakeStripe(opts: FakeOptions) {
       const prior = store.idempotency.get(idemKey);
       if (prior) {
         if (prior.method !== method || prior.path !== url.pathname || prior.body !== fingerprint) {
-          return sendError(res, new FakeError(400, "idempotency_error", `Keys for idempotent requests can only be used with the same parameters they were first used with. Try using a key other than '${idemKey}' if you meant to execute a different request.`));
+          return sendError(
+            res,
+            new FakeError(
+              400,
+              "idempotency_error",
+              `Keys for idempotent requests can only be used with the same parameters they were first used with. Try using a key other than '${idemKey}' if you meant to execute a different request.`,
+            ),
+          );
         }
         return sendJson(res, prior.status, prior.response, { "idempotent-replayed": "true", "idempotency-key": idemKey });
       }

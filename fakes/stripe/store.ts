@@ -15,7 +15,8 @@ export class FakeError extends Error {
   }
 }
 
-export const missing = (what: string, id: string, param = "id") => new FakeError(404, "invalid_request_error", `No such ${what}: '${id}'`, "resource_missing", param);
+export const missing = (what: string, id: string, param = "id") =>
+  new FakeError(404, "invalid_request_error", `No such ${what}: '${id}'`, "resource_missing", param);
 export const badParam = (param: string, message: string, code = "parameter_invalid") => new FakeError(400, "invalid_request_error", message, code, param);
 
 export function newId(prefix: string): string {
@@ -34,8 +35,26 @@ export function addMonth(epochSeconds: number): number {
 }
 
 export type FakeCustomer = Pick<Stripe.Customer, "id" | "object" | "created" | "email" | "name" | "metadata" | "livemode" | "description">;
-export type FakeProduct = Pick<Stripe.Product, "id" | "object" | "active" | "created" | "updated" | "name" | "description" | "metadata" | "livemode" | "type" | "unit_label">;
-export type FakePrice = Pick<Stripe.Price, "id" | "object" | "active" | "created" | "currency" | "lookup_key" | "metadata" | "nickname" | "product" | "type" | "unit_amount" | "billing_scheme" | "livemode"> & {
+export type FakeProduct = Pick<
+  Stripe.Product,
+  "id" | "object" | "active" | "created" | "updated" | "name" | "description" | "metadata" | "livemode" | "type" | "unit_label"
+>;
+export type FakePrice = Pick<
+  Stripe.Price,
+  | "id"
+  | "object"
+  | "active"
+  | "created"
+  | "currency"
+  | "lookup_key"
+  | "metadata"
+  | "nickname"
+  | "product"
+  | "type"
+  | "unit_amount"
+  | "billing_scheme"
+  | "livemode"
+> & {
   /** On the wire a decimal is a string; the SDK turns it into its Decimal type. */
   unit_amount_decimal: string | null;
   recurring: Pick<Stripe.Price.Recurring, "interval" | "interval_count" | "meter" | "usage_type"> | null;
@@ -46,20 +65,79 @@ export type FakeMeter = Pick<Stripe.Billing.Meter, "id" | "object" | "created" |
   value_settings: Pick<Stripe.Billing.Meter.ValueSettings, "event_payload_key">;
 };
 export type FakeMeterEvent = Pick<Stripe.Billing.MeterEvent, "object" | "created" | "event_name" | "identifier" | "livemode" | "payload" | "timestamp">;
-export type FakeSubscriptionItem = Pick<Stripe.SubscriptionItem, "id" | "object" | "created" | "current_period_start" | "current_period_end" | "metadata" | "quantity" | "subscription"> & { price: FakePrice };
+export type FakeSubscriptionItem = Pick<
+  Stripe.SubscriptionItem,
+  "id" | "object" | "created" | "current_period_start" | "current_period_end" | "metadata" | "quantity" | "subscription"
+> & { price: FakePrice };
 export type FakeList<T> = { object: "list"; data: T[]; has_more: boolean; url: string };
-export type FakeSubscription = Pick<Stripe.Subscription, "id" | "object" | "created" | "currency" | "customer" | "metadata" | "status" | "start_date" | "cancel_at_period_end" | "canceled_at" | "ended_at" | "livemode" | "latest_invoice" | "collection_method"> & {
+export type FakeSubscription = Pick<
+  Stripe.Subscription,
+  | "id"
+  | "object"
+  | "created"
+  | "currency"
+  | "customer"
+  | "metadata"
+  | "status"
+  | "start_date"
+  | "cancel_at_period_end"
+  | "canceled_at"
+  | "ended_at"
+  | "livemode"
+  | "latest_invoice"
+  | "collection_method"
+> & {
   items: FakeList<FakeSubscriptionItem>;
 };
 export type FakeInvoiceLine = Pick<Stripe.InvoiceLineItem, "id" | "object" | "amount" | "currency" | "description" | "quantity" | "livemode" | "metadata"> & {
   period: { start: number; end: number };
   pricing: { type: "price_details"; price_details: { price: string; product: string }; unit_amount_decimal: string | null };
 };
-export type FakeInvoice = Pick<Stripe.Invoice, "id" | "object" | "created" | "currency" | "customer" | "status" | "amount_due" | "amount_paid" | "amount_remaining" | "subtotal" | "total" | "period_start" | "period_end" | "number" | "hosted_invoice_url" | "livemode" | "attempt_count" | "attempted" | "billing_reason" | "collection_method" | "metadata"> & {
+export type FakeInvoice = Pick<
+  Stripe.Invoice,
+  | "id"
+  | "object"
+  | "created"
+  | "currency"
+  | "customer"
+  | "status"
+  | "amount_due"
+  | "amount_paid"
+  | "amount_remaining"
+  | "subtotal"
+  | "total"
+  | "period_start"
+  | "period_end"
+  | "number"
+  | "hosted_invoice_url"
+  | "livemode"
+  | "attempt_count"
+  | "attempted"
+  | "billing_reason"
+  | "collection_method"
+  | "metadata"
+> & {
   lines: FakeList<FakeInvoiceLine>;
   parent: { type: "subscription_details"; subscription_details: { subscription: string; metadata: Record<string, string> } } | null;
 };
-export type FakeCheckoutSession = Pick<Stripe.Checkout.Session, "id" | "object" | "created" | "customer" | "mode" | "status" | "payment_status" | "success_url" | "cancel_url" | "url" | "client_reference_id" | "metadata" | "livemode" | "expires_at" | "currency"> & {
+export type FakeCheckoutSession = Pick<
+  Stripe.Checkout.Session,
+  | "id"
+  | "object"
+  | "created"
+  | "customer"
+  | "mode"
+  | "status"
+  | "payment_status"
+  | "success_url"
+  | "cancel_url"
+  | "url"
+  | "client_reference_id"
+  | "metadata"
+  | "livemode"
+  | "expires_at"
+  | "currency"
+> & {
   subscription: string | null;
   line_items_input: { price: string; quantity?: number }[];
   subscription_metadata: Record<string, string>;

@@ -13,7 +13,7 @@ export interface SeedContext {
 
 const extensions: { name: string; seed: (ctx: SeedContext) => Promise<void> }[] = [
   { name: "dataset LK-07 (synthetic)", seed: seedDataset },
-  { name: "sweep \"Conductance versus field\" (computed by the engine)", seed: seedSweep },
+  { name: 'sweep "Conductance versus field" (computed by the engine)', seed: seedSweep },
 ];
 
 export async function runSeedExtensions(ctx: SeedContext): Promise<void> {

@@ -13,7 +13,10 @@ const NETWORK_NAME = "Clean 0.11° triangular network";
 const FIELDS_TESLA = Array.from({ length: 21 }, (_, i) => Math.round(i * 0.01 * 1e6) / 1e6);
 
 export async function seed({ db, lab, people }: SeedContext): Promise<void> {
-  const [existing] = await db.select({ id: sweeps.id }).from(sweeps).where(and(eq(sweeps.workspaceId, lab.id), eq(sweeps.name, DEMO_SWEEP_NAME)));
+  const [existing] = await db
+    .select({ id: sweeps.id })
+    .from(sweeps)
+    .where(and(eq(sweeps.workspaceId, lab.id), eq(sweeps.name, DEMO_SWEEP_NAME)));
   if (existing) return;
   const [net] = await db
     .select({ versionId: networkVersions.id, definition: networkVersions.definition })
@@ -82,7 +85,14 @@ export async function seed({ db, lab, people }: SeedContext): Promise<void> {
       )
       .returning({ id: runs.id, computeSeconds: runs.computeSeconds });
     await tx.insert(usageLedger).values(
-      rows.map((r) => ({ workspaceId: lab.id, userId: researcher.id, runId: r.id, computeSeconds: r.computeSeconds ?? 0, plan: lab.plan, period: billingPeriod() })),
+      rows.map((r) => ({
+        workspaceId: lab.id,
+        userId: researcher.id,
+        runId: r.id,
+        computeSeconds: r.computeSeconds ?? 0,
+        plan: lab.plan,
+        period: billingPeriod(),
+      })),
     );
   });
 }

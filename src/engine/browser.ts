@@ -9,11 +9,26 @@
  * kernels. See src/engine/README.md.
  */
 export {
-  networkSchema, computationSchema, computeInputSchema,
-  conductanceComputationSchema, spectrumComputationSchema, dosComputationSchema, ldosComputationSchema, localizationComputationSchema,
-  parseComputeInput, parseNetwork, linkLengthNm,
-  type Network, type NetworkDefinition, type Computation, type ComputeInput,
-  type ConductanceComputation, type SpectrumComputation, type DosComputation, type LdosComputation, type LocalizationComputation,
+  networkSchema,
+  computationSchema,
+  computeInputSchema,
+  conductanceComputationSchema,
+  spectrumComputationSchema,
+  dosComputationSchema,
+  ldosComputationSchema,
+  localizationComputationSchema,
+  parseComputeInput,
+  parseNetwork,
+  linkLengthNm,
+  type Network,
+  type NetworkDefinition,
+  type Computation,
+  type ComputeInput,
+  type ConductanceComputation,
+  type SpectrumComputation,
+  type DosComputation,
+  type LdosComputation,
+  type LocalizationComputation,
 } from "./schema";
 export { EngineInputError, EngineLimitError, EngineCancelledError, SingularMatrixError, type EngineIssue } from "./errors";
 export { estimateCost, checkResourceLimits, type CostEstimate } from "./cost";
@@ -21,8 +36,14 @@ export { COST_CONSTANTS } from "./cost-constants";
 export { applyParameter, SWEEPABLE_PARAMETERS, type SweepableParameter } from "./parameters";
 export * as constants from "./constants";
 export {
-  CONDUCTANCE_QUANTUM_S, RESISTANCE_QUANTUM_OHM, FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM, ELEMENTARY_CHARGE_C, PLANCK_JS,
-  periodFromTwistNm, twistFromPeriodDegrees,
+  CONDUCTANCE_QUANTUM_S,
+  RESISTANCE_QUANTUM_OHM,
+  FLUX_QUANTUM_WB,
+  GRAPHENE_LATTICE_NM,
+  ELEMENTARY_CHARGE_C,
+  PLANCK_JS,
+  periodFromTwistNm,
+  twistFromPeriodDegrees,
 } from "./constants";
 // Types only (erased at compile time, so the compute code stays out of the browser bundle).
 export type { ComputeResult } from "./compute";

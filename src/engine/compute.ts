@@ -12,11 +12,7 @@ import { computeLocalization, type LocalizationResult } from "./compute/localiza
 
 type WithHeader<T> = { engineVersion: string; inputHash: string } & T;
 export type ComputeResult =
-  | WithHeader<ConductanceResult>
-  | WithHeader<SpectrumResult>
-  | WithHeader<DosResult>
-  | WithHeader<LdosResult>
-  | WithHeader<LocalizationResult>;
+  WithHeader<ConductanceResult> | WithHeader<SpectrumResult> | WithHeader<DosResult> | WithHeader<LdosResult> | WithHeader<LocalizationResult>;
 
 /**
  * Run one computation (synchronous, pure). Refuses up front a computation over the memory limit
@@ -27,10 +23,15 @@ export function compute(input: ComputeInput, options: ComputeOptions = {}): Comp
   const header = { engineVersion: engineVersion(), inputHash: inputHash(input) };
   const { network, computation } = input;
   switch (computation.kind) {
-    case "conductance": return { ...header, ...computeConductance(network, computation, options) };
-    case "spectrum": return { ...header, ...computeSpectrum(network, computation, options) };
-    case "dos": return { ...header, ...computeDos(network, computation, options) };
-    case "ldos": return { ...header, ...computeLdos(network, computation, options) };
-    case "localization": return { ...header, ...computeLocalization(network, computation, options) };
+    case "conductance":
+      return { ...header, ...computeConductance(network, computation, options) };
+    case "spectrum":
+      return { ...header, ...computeSpectrum(network, computation, options) };
+    case "dos":
+      return { ...header, ...computeDos(network, computation, options) };
+    case "ldos":
+      return { ...header, ...computeLdos(network, computation, options) };
+    case "localization":
+      return { ...header, ...computeLocalization(network, computation, options) };
   }
 }

@@ -92,51 +92,98 @@ export function simulateSweep(
   opts: { order?: Int32Array[]; trackDeterminant?: boolean; parts?: boolean; figures?: Record<CostBackend, KernelFigures> } = {},
 ): SweepProfile {
   const figures = opts.figures ?? KERNEL_FIGURES;
-  const F = figures[backend], T = figures.ts;
+  const F = figures[backend],
+    T = figures.ts;
   const order = opts.order ?? g.schedule;
   const absorbed = new Uint8Array(g.nodeCount);
-  let nr = 0, nc = 0, work = 0, maxR = 0, maxC = 0, onBackend = 0, onTs = 0, totalSlots = 0, scalar = 0, small = 0, partSeconds = 0, parts = 0;
+  let nr = 0,
+    nc = 0,
+    work = 0,
+    maxR = 0,
+    maxC = 0,
+    onBackend = 0,
+    onTs = 0,
+    totalSlots = 0,
+    scalar = 0,
+    small = 0,
+    partSeconds = 0,
+    parts = 0;
   const big = backend !== "ts";
   for (let t = 0; t < order.length; t++) {
     const group = order[t];
-    let p = 0, q = 0, nx = 0, ny = 0, slots = 0;
+    let p = 0,
+      q = 0,
+      nx = 0,
+      ny = 0,
+      slots = 0;
     for (const m of group) {
       for (let s = g.slotOffset[m]; s < g.slotOffset[m] + g.slotCount[m]; s++) {
         slots++;
         const from = g.chFromNode[g.inChannel[s]];
-        if (from >= 0 && absorbed[from]) p++; else nx++;
-        const out = g.outChannel[s], to = g.chToNode[out];
-        if (to >= 0 && absorbed[to]) q++; else if (g.chKind[out] !== skipKind) ny++;
+        if (from >= 0 && absorbed[from]) p++;
+        else nx++;
+        const out = g.outChannel[s],
+          to = g.chToNode[out];
+        if (to >= 0 && absorbed[to]) q++;
+        else if (g.chKind[out] !== skipKind) ny++;
       }
     }
     totalSlots += slots;
     if (q > 0 && p > 0 && nc > 0) {
-      const bigProduct = big && nc > K.absorberBigProductColumns, bigUpdate = big && nr * nc > K.absorberBigUpdateEntries;
-      const fm = bigProduct ? F : T, fu = bigUpdate ? F : T;
+      const bigProduct = big && nc > K.absorberBigProductColumns,
+        bigUpdate = big && nr * nc > K.absorberBigUpdateEntries;
+      const fm = bigProduct ? F : T,
+        fu = bigUpdate ? F : T;
       const product = fm.matmulCallSeconds + q * p * nc * fm.matmulMulAddSeconds;
       const update = fu.gemmCallSeconds + nr * nc * (fu.gemmEntrySeconds + q * fu.gemmMulAddSeconds);
-      if (bigProduct) onBackend += product; else onTs += product;
-      if (bigUpdate) onBackend += update; else onTs += update;
+      if (bigProduct) onBackend += product;
+      else onTs += product;
+      if (bigUpdate) onBackend += update;
+      else onTs += update;
     }
     scalar += nx * nr * q + ny * p * (nc + nx) + 2 * q * nr;
     small += q * q * (q + 2 * p + nx) + p * q * nx + (opts.trackDeterminant ? q * q * q : 0);
     work += q * nr * nc + q * p * nc + ny * p * nc + nr * q * nx + 4 * q * q * (p + nx);
-    maxR = Math.max(maxR, nr + ny); maxC = Math.max(maxC, nc + nx);
-    nr += ny - p; nc += nx - q;
+    maxR = Math.max(maxR, nr + ny);
+    maxC = Math.max(maxC, nc + nx);
+    nr += ny - p;
+    nc += nx - q;
     for (const m of group) absorbed[m] = 1;
     if (opts.parts && t + 1 < order.length && g.nodeX[group[0]] !== g.nodeX[order[t + 1][0]]) {
       // compute/ldos.ts at a partition: S_A and S_B read entry by entry, then for both orders
       // (1 - X Y)^-1 with X Y an n x m x n product (a full-size product: the gemm figures)
       parts++;
-      partSeconds += 2 * nr * nc * K.entryReadSeconds
-        + 2 * F.gemmCallSeconds + (nr * nr + nc * nc) * F.gemmEntrySeconds + (nr * nc * nr + nc * nr * nc) * F.gemmMulAddSeconds
-        + 2 * F.inverseCallSeconds + (nr ** 3 + nc ** 3) * F.inverseCubeSeconds;
+      partSeconds +=
+        2 * nr * nc * K.entryReadSeconds +
+        2 * F.gemmCallSeconds +
+        (nr * nr + nc * nc) * F.gemmEntrySeconds +
+        (nr * nc * nr + nc * nr * nc) * F.gemmMulAddSeconds +
+        2 * F.inverseCallSeconds +
+        (nr ** 3 + nc ** 3) * F.inverseCubeSeconds;
     }
   }
   const kernelSeconds = onBackend * F.absorberKernelFactor + onTs * T.absorberKernelFactor;
-  const seconds = kernelSeconds + order.length * K.absorberGroupSeconds + totalSlots * K.absorberSlotSeconds
-    + scalar * K.absorberScalarSeconds + small * K.absorberSmallSeconds;
-  return { work, seconds, kernelSeconds, nativeCallSeconds: onBackend, tsCallSeconds: onTs, groups: order.length, slots: totalSlots, scalarMulAdds: scalar, smallMulAdds: small, maxRows: maxR, maxCols: maxC, partSeconds, parts };
+  const seconds =
+    kernelSeconds +
+    order.length * K.absorberGroupSeconds +
+    totalSlots * K.absorberSlotSeconds +
+    scalar * K.absorberScalarSeconds +
+    small * K.absorberSmallSeconds;
+  return {
+    work,
+    seconds,
+    kernelSeconds,
+    nativeCallSeconds: onBackend,
+    tsCallSeconds: onTs,
+    groups: order.length,
+    slots: totalSlots,
+    scalarMulAdds: scalar,
+    smallMulAdds: small,
+    maxRows: maxR,
+    maxCols: maxC,
+    partSeconds,
+    parts,
+  };
 }
 
 interface SweepCost {
@@ -161,10 +208,19 @@ function extrapolate(a: SweepProfile, b: SweepProfile | null, small: number, sma
   if (!b) return a;
   const x = (u: number, v: number) => u + ((u - v) / (small - smaller)) * (C - small);
   return {
-    work: x(a.work, b.work), seconds: x(a.seconds, b.seconds), kernelSeconds: x(a.kernelSeconds, b.kernelSeconds),
-    nativeCallSeconds: x(a.nativeCallSeconds, b.nativeCallSeconds), tsCallSeconds: x(a.tsCallSeconds, b.tsCallSeconds),
-    groups: x(a.groups, b.groups), slots: x(a.slots, b.slots), scalarMulAdds: x(a.scalarMulAdds, b.scalarMulAdds), smallMulAdds: x(a.smallMulAdds, b.smallMulAdds),
-    maxRows: a.maxRows, maxCols: a.maxCols, partSeconds: x(a.partSeconds, b.partSeconds), parts: x(a.parts, b.parts),
+    work: x(a.work, b.work),
+    seconds: x(a.seconds, b.seconds),
+    kernelSeconds: x(a.kernelSeconds, b.kernelSeconds),
+    nativeCallSeconds: x(a.nativeCallSeconds, b.nativeCallSeconds),
+    tsCallSeconds: x(a.tsCallSeconds, b.tsCallSeconds),
+    groups: x(a.groups, b.groups),
+    slots: x(a.slots, b.slots),
+    scalarMulAdds: x(a.scalarMulAdds, b.scalarMulAdds),
+    smallMulAdds: x(a.smallMulAdds, b.smallMulAdds),
+    maxRows: a.maxRows,
+    maxCols: a.maxCols,
+    partSeconds: x(a.partSeconds, b.partSeconds),
+    parts: x(a.parts, b.parts),
   };
 }
 
@@ -173,7 +229,8 @@ function sweepCost(net: Network, kind: SweepKind, backend: CostBackend): SweepCo
   const mode = kind === "closed" || kind === "ldos" ? "ring" : "leads";
   const C = net.size.columns;
   // a closed square sample needs an even number of columns (compute/closed.ts)
-  const small = Math.min(C, 6), smaller = Math.min(C, mode === "ring" && net.lattice === "square" ? 4 : 3);
+  const small = Math.min(C, 6),
+    smaller = Math.min(C, mode === "ring" && net.lattice === "square" ? 4 : 3);
   const pieces = [buildSample(net, { mode, fluxPerPlaquette: 0, sample: 0, columns: small })];
   if (C > small) pieces.push(buildSample(net, { mode, fluxPerPlaquette: 0, sample: 0, columns: smaller }));
   const gA = pieces[0];
@@ -181,18 +238,28 @@ function sweepCost(net: Network, kind: SweepKind, backend: CostBackend): SweepCo
   const mem = simulateSweep(gA, -1, backend);
   const profiles = pieces.map((gK) => {
     const gKp = reverseGraph(gK);
-    if (kind === "localization") { buildSchedule(gK, undefined, "columns"); buildSchedule(gKp, undefined, "columns"); }
+    if (kind === "localization") {
+      buildSchedule(gK, undefined, "columns");
+      buildSchedule(gKp, undefined, "columns");
+    }
     switch (kind) {
       case "conductance":
         return { k: simulateSweep(gK, -1, backend), kp: simulateSweep(gKp, CH_LEFT_OUT, backend), bk: null, bkp: null };
       case "localization":
         return { k: simulateSweep(gK, CH_LEFT_OUT, backend), kp: simulateSweep(gKp, CH_LEFT_OUT, backend), bk: null, bkp: null };
       case "closed":
-        return { k: simulateSweep(gK, -1, backend, { trackDeterminant: true }), kp: simulateSweep(gKp, -1, backend, { trackDeterminant: true }), bk: null, bkp: null };
+        return {
+          k: simulateSweep(gK, -1, backend, { trackDeterminant: true }),
+          kp: simulateSweep(gKp, -1, backend, { trackDeterminant: true }),
+          bk: null,
+          bkp: null,
+        };
       case "ldos":
         return {
-          k: simulateSweep(gK, -1, backend, { parts: true }), kp: simulateSweep(gKp, -1, backend, { parts: true }),
-          bk: simulateSweep(gK, -1, backend, { order: gK.schedule.slice().reverse() }), bkp: simulateSweep(gKp, -1, backend, { order: gKp.schedule.slice().reverse() }),
+          k: simulateSweep(gK, -1, backend, { parts: true }),
+          kp: simulateSweep(gKp, -1, backend, { parts: true }),
+          bk: simulateSweep(gK, -1, backend, { order: gK.schedule.slice().reverse() }),
+          bkp: simulateSweep(gKp, -1, backend, { order: gKp.schedule.slice().reverse() }),
         };
     }
   });
@@ -201,8 +268,10 @@ function sweepCost(net: Network, kind: SweepKind, backend: CostBackend): SweepCo
     const a = f(pa);
     return a ? extrapolate(a, pb ? f(pb) : null, small, smaller, C) : null;
   };
-  const perColumnChannels = gA.channelCount / small, perColumnNodes = gA.nodeCount / small;
-  let leads = 0, slots = 0;
+  const perColumnChannels = gA.channelCount / small,
+    perColumnNodes = gA.nodeCount / small;
+  let leads = 0,
+    slots = 0;
   for (let c = 0; c < gA.channelCount; c++) if (gA.chKind[c] === CH_LEFT_IN) leads++;
   for (let m = 0; m < gA.nodeCount; m++) slots += gA.slotCount[m];
   return {
@@ -226,16 +295,21 @@ function sweepCost(net: Network, kind: SweepKind, backend: CostBackend): SweepCo
  */
 export function classicalDecayRate(g: NetworkGraph, maxSteps = 20000): number {
   const n = g.channelCount;
-  let p = new Float64Array(n), np = new Float64Array(n);
+  let p = new Float64Array(n),
+    np = new Float64Array(n);
   for (let c = 0; c < n; c++) if (g.chKind[c] === CH_LINK) p[c] = 1;
   const w = new Float64Array(g.matrices.length / 2);
   for (let i = 0; i < w.length; i++) w[i] = g.matrices[2 * i] ** 2 + g.matrices[2 * i + 1] ** 2;
-  let logMass = 0, prevLog = 0, prevRate = Infinity;
+  let logMass = 0,
+    prevLog = 0,
+    prevRate = Infinity;
   const every = 25;
   for (let step = 1; step <= maxSteps; step++) {
     np.fill(0);
     for (let m = 0; m < g.nodeCount; m++) {
-      const k = g.slotCount[m], so = g.slotOffset[m], mo = g.matrixOffset[m];
+      const k = g.slotCount[m],
+        so = g.slotOffset[m],
+        mo = g.matrixOffset[m];
       for (let o = 0; o < k; o++) {
         const out = g.outChannel[so + o];
         if (g.chKind[out] !== CH_LINK) continue;
@@ -274,12 +348,14 @@ export function estimatedResonanceWidth(net: Network): number {
   const key = JSON.stringify(net);
   const known = widthMemo.get(key);
   if (known !== undefined) return known;
-  const C = net.size.columns, R = Math.min(net.size.rows, 16);
+  const C = net.size.columns,
+    R = Math.min(net.size.rows, 16);
   const rate = (columns: number) => classicalDecayRate(buildSample(net, { mode: "leads", fluxPerPlaquette: 0, sample: 0, columns, rows: R }));
   let r: number;
   if (C <= 16) r = rate(C);
   else {
-    const r16 = rate(16), r8 = rate(8);
+    const r16 = rate(16),
+      r8 = rate(8);
     const rho = Math.sqrt(r8 / r16);
     const d = rho > 1.0001 ? Math.min(8, Math.max(0, (16 - 8 * rho) / (rho - 1))) : 0;
     r = r16 * ((16 + d) / (C + d)) ** 2;
@@ -332,7 +408,12 @@ export function estimateCost(input: ComputeInput, options: CostOptions = {}): Co
     breakdown.push({ item, count, workUnits: count * workUnits, seconds: count * secondsEach });
   };
   const graphs = (s: SweepCost, samples: number, extraSchedules = 0) => {
-    add("sample graphs with schedules (per sample)", samples, s.nodes, s.nodes * (K.graphNodeSeconds + (valleys - 1) * K.reverseNodeSeconds + extraSchedules * valleys * K.scheduleNodeSeconds));
+    add(
+      "sample graphs with schedules (per sample)",
+      samples,
+      s.nodes,
+      s.nodes * (K.graphNodeSeconds + (valleys - 1) * K.reverseNodeSeconds + extraSchedules * valleys * K.scheduleNodeSeconds),
+    );
   };
   switch (c.kind) {
     case "conductance": {
@@ -345,7 +426,7 @@ export function estimateCost(input: ComputeInput, options: CostOptions = {}): Co
       add("slice composition, valley K with reflection (one energy)", samples * points, s.sweepK.work, s.sweepK.seconds);
       if (valleys === 2) add("slice composition, valley K' transmission only (one energy)", samples * points, s.sweepKp.work, s.sweepKp.seconds);
       // link phases and lead lists per channel; t, the R + T = N check and t^H t per evaluation
-      const perEval = s.channels * K.evaluationChannelSeconds + (4 * nIn * nIn) * K.entryReadSeconds + (nIn ** 3 / 2) * K.scalarSeconds;
+      const perEval = s.channels * K.evaluationChannelSeconds + 4 * nIn * nIn * K.entryReadSeconds + (nIn ** 3 / 2) * K.scalarSeconds;
       add("per-evaluation bookkeeping (channels, t, t^H t)", samples * points * valleys, nIn ** 3 / 2, perEval);
       add("transmission eigenvalues (first sample)", valleys, nIn ** 3, F.eigHermitianCallSeconds + nIn ** 3 * F.eigHermitianCubeSeconds);
       if (width !== undefined) add("narrowest-resonance search (per sample)", samples, s.nodes, resonanceSeconds(s, width));
@@ -360,7 +441,12 @@ export function estimateCost(input: ComputeInput, options: CostOptions = {}): Co
       if (valleys === 2) add("slice composition, transmission only (valley K', one sample)", samples, s.sweepKp.work, s.sweepKp.seconds);
       // T read after every column: every row against every injected channel
       const nIn = s.leadChannels;
-      add("T read at every column", samples * valleys, net.size.columns * s.sweepK.maxRows * nIn, net.size.columns * s.sweepK.maxRows * nIn * K.entryReadSeconds);
+      add(
+        "T read at every column",
+        samples * valleys,
+        net.size.columns * s.sweepK.maxRows * nIn,
+        net.size.columns * s.sweepK.maxRows * nIn * K.entryReadSeconds,
+      );
       peak += 2 * s.peakMatrixBytes + 2 * s.graphBytes;
       break;
     }
@@ -369,11 +455,23 @@ export function estimateCost(input: ComputeInput, options: CostOptions = {}): Co
       if (c.source === "sample") {
         const s = sweepCost(net, "closed", backend);
         graphs(s, 1);
-        add("closed-network determinant sweeps, valley K (4 per energy)", 4 * points, s.sweepK.work, s.sweepK.seconds + s.channels * K.evaluationChannelSeconds);
-        if (valleys === 2) add("closed-network determinant sweeps, valley K' (4 per energy)", 4 * points, s.sweepKp.work, s.sweepKp.seconds + s.channels * K.evaluationChannelSeconds);
+        add(
+          "closed-network determinant sweeps, valley K (4 per energy)",
+          4 * points,
+          s.sweepK.work,
+          s.sweepK.seconds + s.channels * K.evaluationChannelSeconds,
+        );
+        if (valleys === 2)
+          add(
+            "closed-network determinant sweeps, valley K' (4 per energy)",
+            4 * points,
+            s.sweepKp.work,
+            s.sweepKp.seconds + s.channels * K.evaluationChannelSeconds,
+          );
         peak += 2 * s.peakMatrixBytes + 2 * s.graphBytes + 64 * 1024;
       } else {
-        const n = blochSize(net, c.flux.denominator, c.flux.numerator), nm = blochSize(net, c.flux.denominator);
+        const n = blochSize(net, c.flux.denominator, c.flux.numerator),
+          nm = blochSize(net, c.flux.denominator);
         const kpts = c.kMesh * c.kMesh;
         add("Bloch eigenproblems (U(k) built, eigenphases)", kpts * valleys, n ** 3, blochSeconds(F, n));
         add("broadened sum and sum-rule check (per k point)", kpts * valleys, n * points, n * (points * K.blochPhaseEnergySeconds + K.blochPhaseCheckSeconds));
@@ -382,7 +480,8 @@ export function estimateCost(input: ComputeInput, options: CostOptions = {}): Co
       break;
     }
     case "spectrum": {
-      const n = blochSize(net, c.flux.denominator, c.flux.numerator), nm = blochSize(net, c.flux.denominator);
+      const n = blochSize(net, c.flux.denominator, c.flux.numerator),
+        nm = blochSize(net, c.flux.denominator);
       const kpts = c.kPointsPerNm ? c.kPointsPerNm.length : 3 * c.pathPointsPerSegment + 1;
       add("Bloch eigenproblems (U(k) built, eigenphases)", kpts * valleys, n ** 3, blochSeconds(F, n));
       peak += 16 * 6 * nm * nm + 8 * kpts * nm;
@@ -391,11 +490,19 @@ export function estimateCost(input: ComputeInput, options: CostOptions = {}): Co
     case "ldos": {
       const s = sweepCost(net, "ldos", backend);
       graphs(s, 1);
-      const sweeps = [[s.sweepK, s.backK as SweepProfile], [s.sweepKp, s.backKp as SweepProfile]].slice(0, valleys);
+      const sweeps = [
+        [s.sweepK, s.backK as SweepProfile],
+        [s.sweepKp, s.backKp as SweepProfile],
+      ].slice(0, valleys);
       sweeps.forEach(([fwd, back], v) => {
         const name = v === 0 ? "K" : "K'";
         // backward sweep twice (checkpoints, then each segment again), forward sweep once
-        add(`closed-network sweeps, valley ${name} (forward once, backward twice)`, 1, fwd.work + 2 * back.work, fwd.seconds + 2 * back.seconds + 3 * s.channels * K.evaluationChannelSeconds);
+        add(
+          `closed-network sweeps, valley ${name} (forward once, backward twice)`,
+          1,
+          fwd.work + 2 * back.work,
+          fwd.seconds + 2 * back.seconds + 3 * s.channels * K.evaluationChannelSeconds,
+        );
         add(`per-partition resolvent blocks, valley ${name}`, fwd.parts, 0, fwd.parts > 0 ? fwd.partSeconds / fwd.parts : 0);
         // checkpoint copies (channel maps of the whole graph): one per partition, three per segment
         add(`checkpoint copies, valley ${name}`, fwd.parts + 3 * Math.sqrt(fwd.parts), s.channels, s.channels * K.cloneChannelSeconds);
@@ -403,7 +510,8 @@ export function estimateCost(input: ComputeInput, options: CostOptions = {}): Co
       const cuts = 2 * net.size.columns;
       const stored = Math.ceil(Math.sqrt(cuts)) * 2 + 2;
       // checkpoints are compact copies; two working matrices; the per-cut products and inverse
-      peak += stored * s.compactMatrixBytes + 2 * s.peakMatrixBytes + 4 * s.compactMatrixBytes + 2 * s.graphBytes + 8 * 8 * 3 * net.size.columns * net.size.rows;
+      peak +=
+        stored * s.compactMatrixBytes + 2 * s.peakMatrixBytes + 4 * s.compactMatrixBytes + 2 * s.graphBytes + 8 * 8 * 3 * net.size.columns * net.size.rows;
       break;
     }
   }

@@ -28,12 +28,7 @@ export class EngineLimitError extends Error {
   readonly limitBytes: number;
   readonly estimatedComputeSeconds?: number;
   readonly limitComputeSeconds?: number;
-  constructor(
-    reason: string,
-    estimatedPeakMemoryBytes: number,
-    limitBytes: number,
-    time?: { estimatedComputeSeconds: number; limitComputeSeconds: number },
-  ) {
+  constructor(reason: string, estimatedPeakMemoryBytes: number, limitBytes: number, time?: { estimatedComputeSeconds: number; limitComputeSeconds: number }) {
     super(reason);
     this.name = "EngineLimitError";
     this.reason = reason;

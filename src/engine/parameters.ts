@@ -13,19 +13,71 @@ export interface SweepableParameter {
 }
 
 export const SWEEPABLE_PARAMETERS: readonly SweepableParameter[] = [
-  { name: "energyMeV", unit: "meV", description: "Fermi energy", bounds: { min: -1e5, max: 1e5 }, appliesTo: "computation", kinds: ["conductance", "ldos", "localization"] },
-  { name: "fieldTesla", unit: "T", description: "perpendicular magnetic field", bounds: { min: -1000, max: 1000 }, appliesTo: "computation", kinds: ["conductance", "ldos", "localization", "dos"] },
-  { name: "temperatureK", unit: "K", description: "temperature of the thermal average", bounds: { min: 0, max: 1000 }, appliesTo: "computation", kinds: ["conductance"] },
-  { name: "contactOhms", unit: "ohm", description: "series contact resistance", bounds: { min: 0, max: 1e9 }, appliesTo: "computation", kinds: ["conductance"] },
+  {
+    name: "energyMeV",
+    unit: "meV",
+    description: "Fermi energy",
+    bounds: { min: -1e5, max: 1e5 },
+    appliesTo: "computation",
+    kinds: ["conductance", "ldos", "localization"],
+  },
+  {
+    name: "fieldTesla",
+    unit: "T",
+    description: "perpendicular magnetic field",
+    bounds: { min: -1000, max: 1000 },
+    appliesTo: "computation",
+    kinds: ["conductance", "ldos", "localization", "dos"],
+  },
+  {
+    name: "temperatureK",
+    unit: "K",
+    description: "temperature of the thermal average",
+    bounds: { min: 0, max: 1000 },
+    appliesTo: "computation",
+    kinds: ["conductance"],
+  },
+  {
+    name: "contactOhms",
+    unit: "ohm",
+    description: "series contact resistance",
+    bounds: { min: 0, max: 1e9 },
+    appliesTo: "computation",
+    kinds: ["conductance"],
+  },
   { name: "periodNm", unit: "nm", description: "link length (moire period)", bounds: { min: 1, max: 100000 }, appliesTo: "network" },
   { name: "twistDegrees", unit: "degree", description: "twist angle (sets the period)", bounds: { min: 0.01, max: 5 }, appliesTo: "network" },
   { name: "modeVelocityMps", unit: "m/s", description: "velocity of the link modes", bounds: { min: 1e3, max: 1e7 }, appliesTo: "network" },
-  { name: "node.forward", unit: "1", description: "forward probability (left and right rescaled, ratio kept)", bounds: { min: 0, max: 1 }, appliesTo: "network" },
-  { name: "node.left", unit: "1", description: "left-turn probability (forward kept, right = 1 - forward - left)", bounds: { min: 0, max: 1 }, appliesTo: "network" },
-  { name: "node.right", unit: "1", description: "right-turn probability (forward kept, left = 1 - forward - right)", bounds: { min: 0, max: 1 }, appliesTo: "network" },
+  {
+    name: "node.forward",
+    unit: "1",
+    description: "forward probability (left and right rescaled, ratio kept)",
+    bounds: { min: 0, max: 1 },
+    appliesTo: "network",
+  },
+  {
+    name: "node.left",
+    unit: "1",
+    description: "left-turn probability (forward kept, right = 1 - forward - left)",
+    bounds: { min: 0, max: 1 },
+    appliesTo: "network",
+  },
+  {
+    name: "node.right",
+    unit: "1",
+    description: "right-turn probability (forward kept, left = 1 - forward - right)",
+    bounds: { min: 0, max: 1 },
+    appliesTo: "network",
+  },
   { name: "node.phaseRad", unit: "rad", description: "overall node phase", bounds: { min: -100, max: 100 }, appliesTo: "network" },
   { name: "node.turning", unit: "1", description: "square network: probability to turn right", bounds: { min: 0, max: 1 }, appliesTo: "network" },
-  { name: "disorder.linkPhaseWidthRad", unit: "rad", description: "width of the random link phases", bounds: { min: 0, max: 2 * Math.PI }, appliesTo: "network" },
+  {
+    name: "disorder.linkPhaseWidthRad",
+    unit: "rad",
+    description: "width of the random link phases",
+    bounds: { min: 0, max: 2 * Math.PI },
+    appliesTo: "network",
+  },
   { name: "disorder.forwardSpread", unit: "1", description: "spread of the node forward probability", bounds: { min: 0, max: 1 }, appliesTo: "network" },
   { name: "disorder.seed", unit: "1", description: "disorder seed (rounded to an integer)", bounds: { min: 0, max: 4294967295 }, appliesTo: "network" },
   { name: "size.columns", unit: "1", description: "sample length in columns (rounded)", bounds: { min: 1, max: 2000 }, appliesTo: "network" },
@@ -39,15 +91,23 @@ export function applyParameter(input: ComputeInput, parameter: string, value: nu
   const spec = SWEEPABLE_PARAMETERS.find((p) => p.name === parameter);
   if (!spec) throw new EngineInputError("parameter", `unknown parameter ${JSON.stringify(parameter)}; allowed: ${NAMES.join(", ")}`);
   if (!Number.isFinite(value)) throw new EngineInputError(parameter, `value must be a finite number, got ${value}`);
-  const raw = JSON.parse(JSON.stringify(input)) as { network: Record<string, unknown> & { node: Record<string, number>; disorder: Record<string, number>; size: Record<string, number> }; computation: Record<string, unknown> };
+  const raw = JSON.parse(JSON.stringify(input)) as {
+    network: Record<string, unknown> & { node: Record<string, number>; disorder: Record<string, number>; size: Record<string, number> };
+    computation: Record<string, unknown>;
+  };
   const net = raw.network;
   if (spec.appliesTo === "computation") {
     const kind = String(raw.computation.kind);
-    if (spec.kinds && !spec.kinds.includes(kind)) throw new EngineInputError(`computation.${parameter}`, `${parameter} does not apply to a ${kind} computation; it applies to ${spec.kinds.join(", ")}`);
+    if (spec.kinds && !spec.kinds.includes(kind))
+      throw new EngineInputError(`computation.${parameter}`, `${parameter} does not apply to a ${kind} computation; it applies to ${spec.kinds.join(", ")}`);
     raw.computation[parameter] = value;
-  } else if (parameter === "periodNm") { delete net.twistDegrees; net.periodNm = value; }
-  else if (parameter === "twistDegrees") { delete net.periodNm; net.twistDegrees = value; }
-  else if (parameter === "modeVelocityMps") net.modeVelocityMps = value;
+  } else if (parameter === "periodNm") {
+    delete net.twistDegrees;
+    net.periodNm = value;
+  } else if (parameter === "twistDegrees") {
+    delete net.periodNm;
+    net.twistDegrees = value;
+  } else if (parameter === "modeVelocityMps") net.modeVelocityMps = value;
   else if (parameter.startsWith("node.")) {
     const key = parameter.slice(5);
     const node = net.node;
@@ -55,14 +115,24 @@ export function applyParameter(input: ComputeInput, parameter: string, value: nu
       if (!("turning" in node)) throw new EngineInputError("network.node.turning", "node.turning applies to the square lattice only");
       node.turning = value;
     } else {
-      if (!("forward" in node)) throw new EngineInputError(`network.node.${key}`, `node.${key} needs a probability node ({ forward, left, right }); this network has ${"matrix" in node ? "an explicit matrix" : "a square node"}`);
+      if (!("forward" in node))
+        throw new EngineInputError(
+          `network.node.${key}`,
+          `node.${key} needs a probability node ({ forward, left, right }); this network has ${"matrix" in node ? "an explicit matrix" : "a square node"}`,
+        );
       if (key === "forward") {
         const turn = node.left + node.right;
         const t = turn > 0 ? node.left / turn : 0.5;
-        node.forward = value; node.left = (1 - value) * t; node.right = (1 - value) * (1 - t);
-      } else if (key === "left") { node.left = value; node.right = 1 - node.forward - value; }
-      else if (key === "right") { node.right = value; node.left = 1 - node.forward - value; }
-      else if (key === "phaseRad") node.phaseRad = value;
+        node.forward = value;
+        node.left = (1 - value) * t;
+        node.right = (1 - value) * (1 - t);
+      } else if (key === "left") {
+        node.left = value;
+        node.right = 1 - node.forward - value;
+      } else if (key === "right") {
+        node.right = value;
+        node.left = 1 - node.forward - value;
+      } else if (key === "phaseRad") node.phaseRad = value;
     }
   } else if (parameter.startsWith("disorder.")) {
     const key = parameter.slice(9);

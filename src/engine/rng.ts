@@ -2,15 +2,20 @@
 
 export function mix32(a: number, b: number): number {
   let h = (Math.imul(a ^ 0x9e3779b9, 0x85ebca6b) ^ Math.imul(b + 0x7f4a7c15, 0xc2b2ae35)) >>> 0;
-  h ^= h >>> 16; h = Math.imul(h, 0x7feb352d) >>> 0;
-  h ^= h >>> 15; h = Math.imul(h, 0x846ca68b) >>> 0;
+  h ^= h >>> 16;
+  h = Math.imul(h, 0x7feb352d) >>> 0;
+  h ^= h >>> 15;
+  h = Math.imul(h, 0x846ca68b) >>> 0;
   h ^= h >>> 16;
   return h >>> 0;
 }
 
 /** A stream of uniform numbers in [0, 1) from a 32-bit seed. */
 export function randomStream(seed: number): () => number {
-  let a = mix32(seed, 1), b = mix32(seed, 2), c = mix32(seed, 3), d = 1;
+  let a = mix32(seed, 1),
+    b = mix32(seed, 2),
+    c = mix32(seed, 3),
+    d = 1;
   const next = () => {
     const t = (((a + b) | 0) + d) | 0;
     d = (d + 1) | 0;

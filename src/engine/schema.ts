@@ -29,7 +29,10 @@ export const triangularProbabilityNodeSchema = z.strictObject({
   forward: z.number().min(0).max(1).describe("probability to go straight on"),
   left: z.number().min(0).max(1).optional().describe("probability to turn left (+120 degrees); default: half of 1 - forward, or 1 - forward - right"),
   right: z.number().min(0).max(1).optional().describe("probability to turn right (-120 degrees)"),
-  branch: z.union([z.literal(1), z.literal(-1)]).default(1).describe("which of the two mirror unitary solutions (physics.md section 2)"),
+  branch: z
+    .union([z.literal(1), z.literal(-1)])
+    .default(1)
+    .describe("which of the two mirror unitary solutions (physics.md section 2)"),
   phaseRad: z.number().min(-100).max(100).default(0).describe("overall node phase chi (an energy offset)"),
 });
 
@@ -42,7 +45,12 @@ export const squareNodeSchema = z.strictObject({
 });
 
 export const disorderSchema = z.strictObject({
-  linkPhaseWidthRad: z.number().min(0).max(2 * Math.PI).default(0).describe("width w of the uniform random link phase in [-w/2, w/2]"),
+  linkPhaseWidthRad: z
+    .number()
+    .min(0)
+    .max(2 * Math.PI)
+    .default(0)
+    .describe("width w of the uniform random link phase in [-w/2, w/2]"),
   forwardSpread: z.number().min(0).max(1).default(0).describe("width of the uniform spread of the node forward (square: turning) probability"),
   seed: z.int().min(0).max(4294967295).default(1).describe("seed of the disorder generator"),
 });
@@ -83,7 +91,8 @@ export interface Network {
 
 function finishNetwork(n: BaseNetwork, ctx: z.RefinementCtx): Network {
   const issue = (path: (string | number)[], message: string) => ctx.addIssue({ code: "custom", path, message });
-  if (n.periodNm === undefined && n.twistDegrees === undefined) issue(["periodNm"], "give the scale: periodNm (1 to 100000 nm) or twistDegrees (0.01 to 5 degrees)");
+  if (n.periodNm === undefined && n.twistDegrees === undefined)
+    issue(["periodNm"], "give the scale: periodNm (1 to 100000 nm) or twistDegrees (0.01 to 5 degrees)");
   if (n.periodNm !== undefined && n.twistDegrees !== undefined) issue(["twistDegrees"], "give either periodNm or twistDegrees, not both");
   const isTri = n.lattice === "triangular";
   const defaults = isTri ? { spin: 2 as const, valley: 2 as const } : { spin: 1 as const, valley: 1 as const };
@@ -97,25 +106,37 @@ function finishNetwork(n: BaseNetwork, ctx: z.RefinementCtx): Network {
       const dim = 3 * n.channelsPerLink;
       const problem = checkExplicitNodeMatrix((rawNode as MatrixNode).matrix, dim);
       if (problem) issue(["node", "matrix"], problem);
-      if (disorder.forwardSpread > 0) issue(["disorder", "forwardSpread"], "forwardSpread needs a probability node ({ forward, left, right }); with an explicit matrix it must be 0");
+      if (disorder.forwardSpread > 0)
+        issue(["disorder", "forwardSpread"], "forwardSpread needs a probability node ({ forward, left, right }); with an explicit matrix it must be 0");
     } else {
       const p = rawNode as { forward: number; left?: number; right?: number; branch: 1 | -1; phaseRad: number };
-      let left = p.left, right = p.right;
-      if (left === undefined && right === undefined) { left = (1 - p.forward) / 2; right = left; }
-      else if (left === undefined) left = 1 - p.forward - (right as number);
+      let left = p.left,
+        right = p.right;
+      if (left === undefined && right === undefined) {
+        left = (1 - p.forward) / 2;
+        right = left;
+      } else if (left === undefined) left = 1 - p.forward - (right as number);
       else if (right === undefined) right = 1 - p.forward - left;
       const sum = p.forward + (left as number) + (right as number);
       if (Math.abs(sum - 1) > 1e-9 || (left as number) < -1e-12 || (right as number) < -1e-12) {
-        issue(["node", "forward"], `forward + left + right must equal 1 (got ${sum.toPrecision(12)} with left ${(left as number).toPrecision(6)}, right ${(right as number).toPrecision(6)}); each lies in [0, 1]`);
+        issue(
+          ["node", "forward"],
+          `forward + left + right must equal 1 (got ${sum.toPrecision(12)} with left ${(left as number).toPrecision(6)}, right ${(right as number).toPrecision(6)}); each lies in [0, 1]`,
+        );
       } else {
-        left = Math.max(0, left as number); right = Math.max(0, right as number);
+        left = Math.max(0, left as number);
+        right = Math.max(0, right as number);
         const problem = checkTriangularNode(p.forward, left, right);
         if (problem) issue(["node", "forward"], problem);
         else if (disorder.forwardSpread > 0) {
           const range = reachableForwardRange(left, right, p.forward);
-          const lo = p.forward - disorder.forwardSpread / 2, hi = p.forward + disorder.forwardSpread / 2;
+          const lo = p.forward - disorder.forwardSpread / 2,
+            hi = p.forward + disorder.forwardSpread / 2;
           if (lo < range.min - 1e-12 || hi > range.max + 1e-12) {
-            issue(["disorder", "forwardSpread"], `forward +- forwardSpread/2 = [${lo.toFixed(6)}, ${hi.toFixed(6)}] leaves the reachable range [${range.min.toFixed(6)}, ${range.max.toFixed(6)}] for this left:right ratio; allowed forwardSpread <= ${(2 * Math.min(p.forward - range.min, range.max - p.forward)).toFixed(6)}`);
+            issue(
+              ["disorder", "forwardSpread"],
+              `forward +- forwardSpread/2 = [${lo.toFixed(6)}, ${hi.toFixed(6)}] leaves the reachable range [${range.min.toFixed(6)}, ${range.max.toFixed(6)}] for this left:right ratio; allowed forwardSpread <= ${(2 * Math.min(p.forward - range.min, range.max - p.forward)).toFixed(6)}`,
+            );
           }
         }
         node = { forward: p.forward, left, right, branch: p.branch, phaseRad: p.phaseRad };
@@ -125,12 +146,18 @@ function finishNetwork(n: BaseNetwork, ctx: z.RefinementCtx): Network {
     if (!("turning" in rawNode)) issue(["node"], "a square node takes { turning } (probability 0 to 1)");
     else {
       const p = (rawNode as SquareNode).turning;
-      const lo = p - disorder.forwardSpread / 2, hi = p + disorder.forwardSpread / 2;
-      if (lo < -1e-12 || hi > 1 + 1e-12) issue(["disorder", "forwardSpread"], `turning +- forwardSpread/2 = [${lo}, ${hi}] must stay within [0, 1]; allowed forwardSpread <= ${2 * Math.min(p, 1 - p)}`);
+      const lo = p - disorder.forwardSpread / 2,
+        hi = p + disorder.forwardSpread / 2;
+      if (lo < -1e-12 || hi > 1 + 1e-12)
+        issue(
+          ["disorder", "forwardSpread"],
+          `turning +- forwardSpread/2 = [${lo}, ${hi}] must stay within [0, 1]; allowed forwardSpread <= ${2 * Math.min(p, 1 - p)}`,
+        );
     }
     if (n.channelsPerLink !== 1) issue(["channelsPerLink"], "the square network has one channel per link (channelsPerLink 1)");
   }
-  if (n.transverse === "periodic" && isTri && n.size.rows % 2 !== 0) issue(["size", "rows"], `a periodic (cylinder) triangular sample needs an even number of rows (got ${n.size.rows}); allowed: 2, 4, 6, ...`);
+  if (n.transverse === "periodic" && isTri && n.size.rows % 2 !== 0)
+    issue(["size", "rows"], `a periodic (cylinder) triangular sample needs an even number of rows (got ${n.size.rows}); allowed: 2, 4, 6, ...`);
   const out: Network = {
     version: 1,
     lattice: n.lattice,
@@ -167,7 +194,12 @@ export const conductanceComputationSchema = z.strictObject({
   energyMeV: z.number().min(-1e5).max(1e5).default(0),
   fieldTesla: z.number().min(-1000).max(1000).default(0),
   temperatureK: z.number().min(0).max(1000).default(0),
-  temperaturePoints: z.int().min(2).max(400).optional().describe("a fixed Gauss-Legendre rule of this many points for the thermal average, its error estimated against half as many (default: the adaptive rule)"),
+  temperaturePoints: z
+    .int()
+    .min(2)
+    .max(400)
+    .optional()
+    .describe("a fixed Gauss-Legendre rule of this many points for the thermal average, its error estimated against half as many (default: the adaptive rule)"),
   temperatureTolerance: z.number().min(1e-8).max(0.1).default(1e-4).describe("relative accuracy of the adaptive thermal average"),
   temperatureMaxEnergies: z.int().min(120).max(100000).default(20000).describe("most energies per sample the adaptive thermal average may use"),
   contactOhms: z.number().min(0).max(1e9).default(0),
@@ -178,7 +210,11 @@ export const conductanceComputationSchema = z.strictObject({
 export const spectrumComputationSchema = z.strictObject({
   kind: z.literal("spectrum"),
   flux: fluxSchema.default({ numerator: 0, denominator: 1 }).describe("flux quanta h/e per elementary plaquette (triangle or square)"),
-  kPointsPerNm: z.array(z.tuple([finite("kx"), finite("ky")])).min(1).max(20000).optional(),
+  kPointsPerNm: z
+    .array(z.tuple([finite("kx"), finite("ky")]))
+    .min(1)
+    .max(20000)
+    .optional(),
   pathPointsPerSegment: z.int().min(1).max(2000).default(24),
 });
 
@@ -204,7 +240,12 @@ export const localizationComputationSchema = z.strictObject({
   energyMeV: z.number().min(-1e5).max(1e5).default(0),
   fieldTesla: z.number().min(-1000).max(1000).default(0),
   ensemble: ensembleSchema.default({ samples: 4 }),
-  fitFromColumns: z.int().min(1).max(MAX_COLUMNS).optional().describe("first strip length (in columns) used in the fit of ln T; default max(rows, columns / 4)"),
+  fitFromColumns: z
+    .int()
+    .min(1)
+    .max(MAX_COLUMNS)
+    .optional()
+    .describe("first strip length (in columns) used in the fit of ln T; default max(rows, columns / 4)"),
 });
 
 export const computationSchema = z.discriminatedUnion("kind", [
@@ -223,26 +264,42 @@ export type SpectrumComputation = z.output<typeof spectrumComputationSchema>;
 export type DosComputation = z.output<typeof dosComputationSchema>;
 export type LdosComputation = z.output<typeof ldosComputationSchema>;
 export type LocalizationComputation = z.output<typeof localizationComputationSchema>;
-export interface ComputeInput { network: Network; computation: Computation }
+export interface ComputeInput {
+  network: Network;
+  computation: Computation;
+}
 
 function describeIssue(issue: z.core.$ZodIssue, root: string): EngineIssue {
   const i0 = issue as { keys?: string[] };
   const extra = issue.code === "unrecognized_keys" && i0.keys && i0.keys.length > 0 ? [i0.keys[0]] : [];
   const field = [root, ...issue.path.map(String), ...extra].filter((s) => s !== "").join(".");
-  const i = issue as z.core.$ZodIssue & { minimum?: number | bigint; maximum?: number | bigint; inclusive?: boolean; keys?: string[]; values?: unknown[]; expected?: string };
+  const i = issue as z.core.$ZodIssue & {
+    minimum?: number | bigint;
+    maximum?: number | bigint;
+    inclusive?: boolean;
+    keys?: string[];
+    values?: unknown[];
+    expected?: string;
+  };
   let message = issue.message;
   switch (issue.code) {
     case "too_small":
-      message = `must be ${i.inclusive === false ? ">" : ">="} ${String(i.minimum)} (${issue.message})`; break;
+      message = `must be ${i.inclusive === false ? ">" : ">="} ${String(i.minimum)} (${issue.message})`;
+      break;
     case "too_big":
-      message = `must be ${i.inclusive === false ? "<" : "<="} ${String(i.maximum)} (${issue.message})`; break;
+      message = `must be ${i.inclusive === false ? "<" : "<="} ${String(i.maximum)} (${issue.message})`;
+      break;
     case "unrecognized_keys":
-      message = `unknown field(s) ${(i.keys ?? []).map((k) => JSON.stringify(k)).join(", ")}; unknown fields are not allowed`; break;
+      message = `unknown field(s) ${(i.keys ?? []).map((k) => JSON.stringify(k)).join(", ")}; unknown fields are not allowed`;
+      break;
     case "invalid_value":
-      message = `must be one of ${(i.values ?? []).map((v) => JSON.stringify(v)).join(", ")}`; break;
+      message = `must be one of ${(i.values ?? []).map((v) => JSON.stringify(v)).join(", ")}`;
+      break;
     case "invalid_type":
-      message = `${issue.message}`; break;
-    default: break;
+      message = `${issue.message}`;
+      break;
+    default:
+      break;
   }
   return { field, message };
 }

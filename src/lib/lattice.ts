@@ -70,7 +70,8 @@ function triangular({ columns: C, rows: Rn, transverse, valley }: NetworkShape):
         let y1 = y0 + dy;
         let kind = 0;
         const mt = m + (j === 1 ? 1 : j === 2 ? -1 : 0);
-        if (x1 < -1e-6 || x1 > xMax + 1e-6) kind = 1; // leaves through a lead face
+        if (x1 < -1e-6 || x1 > xMax + 1e-6)
+          kind = 1; // leaves through a lead face
         else if (mt < 0 || mt >= Rn) {
           kind = 2;
           if (transverse === "open") {
@@ -93,7 +94,12 @@ function triangular({ columns: C, rows: Rn, transverse, valley }: NetworkShape):
 }
 
 function square({ columns: C, rows: Rn, valley }: NetworkShape): NetworkGeometry {
-  const nodes = gridNodes(C, Rn, (i) => i, (m) => m);
+  const nodes = gridNodes(
+    C,
+    Rn,
+    (i) => i,
+    (m) => m,
+  );
   const out = linkWriter(2 * C * Rn, valley);
   const put = out.put;
   for (let m = 0; m < Rn; m++)
@@ -164,7 +170,10 @@ export function geometryFromSegments(seg: { fromX: number[]; fromY: number[]; to
   const n = seg.fromX.length;
   const links = new Float32Array(4 * n);
   const linkKind = new Uint8Array(n);
-  let xMin = Infinity, xMax = -Infinity, yMin = Infinity, yMax = -Infinity;
+  let xMin = Infinity,
+    xMax = -Infinity,
+    yMin = Infinity,
+    yMax = -Infinity;
   for (let i = 0; i < n; i++) {
     const v = [seg.fromX[i] / unit, seg.fromY[i] / unit, seg.toX[i] / unit, seg.toY[i] / unit];
     links.set(v, 4 * i);
@@ -175,5 +184,14 @@ export function geometryFromSegments(seg: { fromX: number[]; fromY: number[]; to
     yMax = Math.max(yMax, v[1], v[3]);
   }
   if (n === 0) [xMin, xMax, yMin, yMax] = [0, 1, 0, 1];
-  return { nodeCount: 0, nodes: new Float32Array(0), linkCount: n, links, linkKind, bounds: { xMin, xMax, yMin, yMax }, leads: { leftX: xMin - 0.3, rightX: xMax + 0.3 }, hasLeads: false };
+  return {
+    nodeCount: 0,
+    nodes: new Float32Array(0),
+    linkCount: n,
+    links,
+    linkKind,
+    bounds: { xMin, xMax, yMin, yMax },
+    leads: { leftX: xMin - 0.3, rightX: xMax + 0.3 },
+    hasLeads: false,
+  };
 }

@@ -92,7 +92,14 @@ export function checkTriple(t: Triple): TripleVerdict {
   for (const k of names) {
     const x = t[k];
     if (!Number.isFinite(x) || x < 0 || x > 1) {
-      return { ok: false, reason: "range", field: k, message: `${k} must be a probability between 0 and 1 (got ${Number.isFinite(x) ? x : "no number"}).`, forwardRange: null, suggestion: null };
+      return {
+        ok: false,
+        reason: "range",
+        field: k,
+        message: `${k} must be a probability between 0 and 1 (got ${Number.isFinite(x) ? x : "no number"}).`,
+        forwardRange: null,
+        suggestion: null,
+      };
     }
   }
   const sum = t.forward + t.left + t.right;

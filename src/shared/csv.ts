@@ -119,13 +119,24 @@ export function readCsvTable(text: string): RawTable {
       })),
     );
   }
-  if (records.length === 0) throw new DatasetCsvError([{ code: "empty_file", row: null, column: null, message: "The file has no header and no rows; expected a header line naming the columns, then one line per point." }]);
+  if (records.length === 0)
+    throw new DatasetCsvError([
+      {
+        code: "empty_file",
+        row: null,
+        column: null,
+        message: "The file has no header and no rows; expected a header line naming the columns, then one line per point.",
+      },
+    ]);
   const [head, ...rows] = records;
   return { header: head.cells.map((h) => h.trim()), headerLine: head.line, rows };
 }
 
 /** The column names and the first rows, for the column-mapping step. */
-export function previewCsv(text: string, rows = 8): { columns: string[]; rows: string[][]; totalRows: number; guessedUnits: Record<string, string | undefined> } {
+export function previewCsv(
+  text: string,
+  rows = 8,
+): { columns: string[]; rows: string[][]; totalRows: number; guessedUnits: Record<string, string | undefined> } {
   const t = readCsvTable(text);
   const guessedUnits: Record<string, string | undefined> = {};
   for (const h of t.header) guessedUnits[h] = headerUnit(h);
@@ -145,20 +156,41 @@ type Cell = { ok: true; value: number; unit?: string } | { ok: false; issue: Csv
 
 function readCell(raw: string | undefined, line: number, column: string): Cell {
   const text = (raw ?? "").trim();
-  if (text === "") return { ok: false, issue: { code: "missing_value", row: line, column, message: `Row ${line}, column "${column}": the cell is empty; every point needs a number here.` } };
+  if (text === "")
+    return {
+      ok: false,
+      issue: { code: "missing_value", row: line, column, message: `Row ${line}, column "${column}": the cell is empty; every point needs a number here.` },
+    };
   if (/^[+-]?(nan|inf|infinity)$/i.test(text)) {
     return { ok: false, issue: { code: "not_finite", row: line, column, message: `Row ${line}, column "${column}": "${clip(text)}" is not a finite number.` } };
   }
   const m = NUMBER.exec(text);
   if (!m) {
-    return { ok: false, issue: { code: "non_numeric", row: line, column, message: `Row ${line}, column "${column}": "${clip(text)}" is not a number (expected e.g. 0.125 or 1.5e-3, optionally followed by its unit).` } };
+    return {
+      ok: false,
+      issue: {
+        code: "non_numeric",
+        row: line,
+        column,
+        message: `Row ${line}, column "${column}": "${clip(text)}" is not a number (expected e.g. 0.125 or 1.5e-3, optionally followed by its unit).`,
+      },
+    };
   }
   const value = Number(m[1]);
-  if (!Number.isFinite(value)) return { ok: false, issue: { code: "not_finite", row: line, column, message: `Row ${line}, column "${column}": "${clip(text)}" is out of range.` } };
+  if (!Number.isFinite(value))
+    return { ok: false, issue: { code: "not_finite", row: line, column, message: `Row ${line}, column "${column}": "${clip(text)}" is out of range.` } };
   if (m[2]) {
     const unit = recogniseUnit(m[2]);
     if (!unit) {
-      return { ok: false, issue: { code: "non_numeric", row: line, column, message: `Row ${line}, column "${column}": "${clip(text)}" is not a number (the text after it, "${clip(m[2])}", is not a unit we know).` } };
+      return {
+        ok: false,
+        issue: {
+          code: "non_numeric",
+          row: line,
+          column,
+          message: `Row ${line}, column "${column}": "${clip(text)}" is not a number (the text after it, "${clip(m[2])}", is not a unit we know).`,
+        },
+      };
     }
     return { ok: true, value, unit };
   }
@@ -176,8 +208,14 @@ function findColumn(header: string[], name: string): number {
 
 /** Parses the CSV with its mapping. Throws DatasetCsvError listing (up to 20) problems. */
 export function parseDatasetCsv(text: string, mapping: ColumnMapping): ParsedDataset {
-  if (!isXUnit(mapping.xUnit)) throw new DatasetCsvError([{ code: "unit_mismatch", row: null, column: mapping.xColumn, message: `xUnit "${mapping.xUnit}" is not allowed; use one of T, mT, V, cm^-2.` }]);
-  if (!isYUnit(mapping.yUnit)) throw new DatasetCsvError([{ code: "unit_mismatch", row: null, column: mapping.yColumn, message: `yUnit "${mapping.yUnit}" is not allowed; use one of S, uS, e2/h, ohm, kohm.` }]);
+  if (!isXUnit(mapping.xUnit))
+    throw new DatasetCsvError([
+      { code: "unit_mismatch", row: null, column: mapping.xColumn, message: `xUnit "${mapping.xUnit}" is not allowed; use one of T, mT, V, cm^-2.` },
+    ]);
+  if (!isYUnit(mapping.yUnit))
+    throw new DatasetCsvError([
+      { code: "unit_mismatch", row: null, column: mapping.yColumn, message: `yUnit "${mapping.yUnit}" is not allowed; use one of S, uS, e2/h, ohm, kohm.` },
+    ]);
   const table = readCsvTable(text);
   const issues: CsvIssue[] = [];
   const push = (i: CsvIssue) => {
@@ -195,20 +233,38 @@ export function parseDatasetCsv(text: string, mapping: ColumnMapping): ParsedDat
   for (const w of wanted) {
     const i = findColumn(table.header, w.name);
     if (i < 0) {
-      push({ code: "missing_column", row: table.headerLine, column: w.name, message: `Column "${w.name}" (mapped as ${w.role}) is not in the header on row ${table.headerLine}; the file has: ${table.header.map((h) => `"${h}"`).join(", ") || "no columns"}.` });
+      push({
+        code: "missing_column",
+        row: table.headerLine,
+        column: w.name,
+        message: `Column "${w.name}" (mapped as ${w.role}) is not in the header on row ${table.headerLine}; the file has: ${table.header.map((h) => `"${h}"`).join(", ") || "no columns"}.`,
+      });
       continue;
     }
     const dupes = table.header.filter((h) => h.toLowerCase() === table.header[i].toLowerCase()).length;
-    if (dupes > 1) push({ code: "duplicate_column", row: table.headerLine, column: w.name, message: `Column "${w.name}" appears ${dupes} times in the header on row ${table.headerLine}; rename one so the mapping is unambiguous.` });
+    if (dupes > 1)
+      push({
+        code: "duplicate_column",
+        row: table.headerLine,
+        column: w.name,
+        message: `Column "${w.name}" appears ${dupes} times in the header on row ${table.headerLine}; rename one so the mapping is unambiguous.`,
+      });
     const hu = headerUnit(table.header[i]);
     if (w.unit && hu && hu !== w.unit) {
-      push({ code: "unit_mismatch", row: table.headerLine, column: table.header[i], message: `Column "${table.header[i]}" says ${hu} in its header, but it was mapped with unit ${w.unit}; pick the unit the column is in.` });
+      push({
+        code: "unit_mismatch",
+        row: table.headerLine,
+        column: table.header[i],
+        message: `Column "${table.header[i]}" says ${hu} in its header, but it was mapped with unit ${w.unit}; pick the unit the column is in.`,
+      });
     }
     index[w.role] = i;
   }
   if (issues.length) throw new DatasetCsvError(issues);
   if (table.rows.length > DATASET_MAX_ROWS) {
-    throw new DatasetCsvError([{ code: "too_many_rows", row: null, column: null, message: `The file has ${table.rows.length} rows; at most ${DATASET_MAX_ROWS} are allowed.` }]);
+    throw new DatasetCsvError([
+      { code: "too_many_rows", row: null, column: null, message: `The file has ${table.rows.length} rows; at most ${DATASET_MAX_ROWS} are allowed.` },
+    ]);
   }
 
   const xRaw: number[] = [];
@@ -232,18 +288,33 @@ export function parseDatasetCsv(text: string, mapping: ColumnMapping): ParsedDat
       if (cell.unit) {
         const first = unitSeen[w.role];
         if (first && first.unit !== cell.unit) {
-          push({ code: "mixed_units", row: r.line, column: col, message: `Row ${r.line}, column "${col}": this cell is in ${cell.unit} but row ${first.line} is in ${first.unit}; one column must use one unit.` });
+          push({
+            code: "mixed_units",
+            row: r.line,
+            column: col,
+            message: `Row ${r.line}, column "${col}": this cell is in ${cell.unit} but row ${first.line} is in ${first.unit}; one column must use one unit.`,
+          });
           rowOk = false;
           continue;
         }
         if (!first) unitSeen[w.role] = { unit: cell.unit, line: r.line };
         if (w.unit && cell.unit !== w.unit) {
-          push({ code: "mixed_units", row: r.line, column: col, message: `Row ${r.line}, column "${col}": this cell is in ${cell.unit} but the column was mapped with unit ${w.unit}.` });
+          push({
+            code: "mixed_units",
+            row: r.line,
+            column: col,
+            message: `Row ${r.line}, column "${col}": this cell is in ${cell.unit} but the column was mapped with unit ${w.unit}.`,
+          });
           rowOk = false;
           continue;
         }
         if (w.role === "temperature" && cell.unit) {
-          push({ code: "unit_mismatch", row: r.line, column: col, message: `Row ${r.line}, column "${col}": temperatures are plain numbers in kelvin, without a unit.` });
+          push({
+            code: "unit_mismatch",
+            row: r.line,
+            column: col,
+            message: `Row ${r.line}, column "${col}": temperatures are plain numbers in kelvin, without a unit.`,
+          });
           rowOk = false;
           continue;
         }
@@ -252,15 +323,30 @@ export function parseDatasetCsv(text: string, mapping: ColumnMapping): ParsedDat
     }
     if (!rowOk) continue;
     if (Y_UNIT_INFO[mapping.yUnit].kind === "resistance" && !(values.y! > 0)) {
-      push({ code: "nonpositive_resistance", row: r.line, column: table.header[index.y!], message: `Row ${r.line}, column "${table.header[index.y!]}": a resistance of ${values.y} ${mapping.yUnit} cannot be turned into a conductance; resistances must be positive.` });
+      push({
+        code: "nonpositive_resistance",
+        row: r.line,
+        column: table.header[index.y!],
+        message: `Row ${r.line}, column "${table.header[index.y!]}": a resistance of ${values.y} ${mapping.yUnit} cannot be turned into a conductance; resistances must be positive.`,
+      });
       continue;
     }
     if (values.sigma !== undefined && !(values.sigma > 0)) {
-      push({ code: "nonpositive_sigma", row: r.line, column: table.header[index.sigma!], message: `Row ${r.line}, column "${table.header[index.sigma!]}": an uncertainty must be positive (got ${values.sigma}).` });
+      push({
+        code: "nonpositive_sigma",
+        row: r.line,
+        column: table.header[index.sigma!],
+        message: `Row ${r.line}, column "${table.header[index.sigma!]}": an uncertainty must be positive (got ${values.sigma}).`,
+      });
       continue;
     }
     if (values.temperature !== undefined && !(values.temperature >= 0)) {
-      push({ code: "negative_temperature", row: r.line, column: table.header[index.temperature!], message: `Row ${r.line}, column "${table.header[index.temperature!]}": a temperature in kelvin cannot be negative (got ${values.temperature}).` });
+      push({
+        code: "negative_temperature",
+        row: r.line,
+        column: table.header[index.temperature!],
+        message: `Row ${r.line}, column "${table.header[index.temperature!]}": a temperature in kelvin cannot be negative (got ${values.temperature}).`,
+      });
       continue;
     }
     xRaw.push(values.x!);
@@ -276,14 +362,31 @@ export function parseDatasetCsv(text: string, mapping: ColumnMapping): ParsedDat
   const descending = xRaw.length >= 2 && xRaw[1] < xRaw[0];
   for (let i = 1; i < xRaw.length && !done(); i++) {
     if (xRaw[i] === xRaw[i - 1]) {
-      push({ code: "duplicate_x", row: lineOf[i], column: xCol, message: `Row ${lineOf[i]}, column "${xCol}": x = ${xRaw[i]} repeats row ${lineOf[i - 1]}; each x may appear once (average repeated measurements first).` });
+      push({
+        code: "duplicate_x",
+        row: lineOf[i],
+        column: xCol,
+        message: `Row ${lineOf[i]}, column "${xCol}": x = ${xRaw[i]} repeats row ${lineOf[i - 1]}; each x may appear once (average repeated measurements first).`,
+      });
     } else if (descending ? xRaw[i] > xRaw[i - 1] : xRaw[i] < xRaw[i - 1]) {
-      push({ code: "unsorted_x", row: lineOf[i], column: xCol, message: `Row ${lineOf[i]}, column "${xCol}": x = ${xRaw[i]} comes after ${xRaw[i - 1]} (row ${lineOf[i - 1]}), but the column runs ${descending ? "downwards" : "upwards"}; x must be sorted (one direction, no repeats).` });
+      push({
+        code: "unsorted_x",
+        row: lineOf[i],
+        column: xCol,
+        message: `Row ${lineOf[i]}, column "${xCol}": x = ${xRaw[i]} comes after ${xRaw[i - 1]} (row ${lineOf[i - 1]}), but the column runs ${descending ? "downwards" : "upwards"}; x must be sorted (one direction, no repeats).`,
+      });
     }
   }
   if (issues.length) throw new DatasetCsvError(issues);
   if (xRaw.length < DATASET_MIN_ROWS) {
-    throw new DatasetCsvError([{ code: "too_few_rows", row: null, column: null, message: `The file has ${xRaw.length} data row${xRaw.length === 1 ? "" : "s"}; at least ${DATASET_MIN_ROWS} are needed.` }]);
+    throw new DatasetCsvError([
+      {
+        code: "too_few_rows",
+        row: null,
+        column: null,
+        message: `The file has ${xRaw.length} data row${xRaw.length === 1 ? "" : "s"}; at least ${DATASET_MIN_ROWS} are needed.`,
+      },
+    ]);
   }
 
   const n = xRaw.length;
@@ -300,5 +403,16 @@ export function parseDatasetCsv(text: string, mapping: ColumnMapping): ParsedDat
     if (temperatureK) temperatureK[k] = tRaw[i];
   }
   const info = X_UNIT_INFO[mapping.xUnit];
-  return { xQuantity: info.quantity, xCanonicalUnit: info.canonicalUnit, x, y, sigma, temperatureK, rows: n, xDescending: descending, columns: table.header, mapping };
+  return {
+    xQuantity: info.quantity,
+    xCanonicalUnit: info.canonicalUnit,
+    x,
+    y,
+    sigma,
+    temperatureK,
+    rows: n,
+    xDescending: descending,
+    columns: table.header,
+    mapping,
+  };
 }

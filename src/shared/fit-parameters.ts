@@ -15,4 +15,3 @@ export const FITTABLE = FIT_PARAMETERS.map((p) => p.parameter);
 
 /** Sweep parameters a dataset's x may map to, by what the x axis measures. */
 export const SWEEP_FOR_QUANTITY: Record<string, string[]> = { field: ["fieldTesla"], gateVoltage: [], density: [] };
-

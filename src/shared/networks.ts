@@ -24,7 +24,11 @@ interface Extras {
 }
 
 /** A triangular network at a 0.11° twist with 10⁶ m/s modes, spin and valley counted twice. */
-export function triangularNetwork(size: NetworkSize, node: { forward: number; left: number; right: number }, { transverse = "periodic", disorder }: Extras = {}): NetworkDefinition {
+export function triangularNetwork(
+  size: NetworkSize,
+  node: { forward: number; left: number; right: number },
+  { transverse = "periodic", disorder }: Extras = {},
+): NetworkDefinition {
   return {
     lattice: "triangular",
     size,

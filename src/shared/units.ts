@@ -73,16 +73,16 @@ const SPELLINGS: Record<string, XUnit | YUnit> = {
   s: "S",
   siemens: "S",
   us: "uS",
-  "µs": "uS",
-  "μs": "uS",
+  µs: "uS",
+  μs: "uS",
   "e2/h": "e2/h",
   "e^2/h": "e2/h",
   ohm: "ohm",
   ohms: "ohm",
-  "Ω": "ohm",
+  Ω: "ohm",
   kohm: "kohm",
   kohms: "kohm",
-  "kΩ": "kohm",
+  kΩ: "kohm",
 };
 
 /** Recognises a unit spelling (case-insensitive except for T vs mT vs S, which lower-case fine). */

@@ -18,10 +18,22 @@ beforeAll(async () => {
 async function seriousViolations(p: Page) {
   await p.addScriptTag({ path: axePath });
   const result = (await p.evaluate(async () => {
-    const axe = (window as unknown as { axe: { run: (ctx: Document, opts: object) => Promise<{ violations: { id: string; impact: string; help: string; nodes: { target: string[] }[] }[] }> } }).axe;
+    const axe = (
+      window as unknown as {
+        axe: { run: (ctx: Document, opts: object) => Promise<{ violations: { id: string; impact: string; help: string; nodes: { target: string[] }[] }[] }> };
+      }
+    ).axe;
     return axe.run(document, { resultTypes: ["violations"] });
   })) as { violations: { id: string; impact: string; help: string; nodes: { target: string[] }[] }[] };
-  return result.violations.filter((v) => v.impact === "serious" || v.impact === "critical").map((v) => `${v.id} (${v.impact}): ${v.help} at ${v.nodes.slice(0, 3).map((n) => `${n.target.join(" ")} ${(n as { html?: string }).html?.slice(0, 160) ?? ""}`).join("; ")}`);
+  return result.violations
+    .filter((v) => v.impact === "serious" || v.impact === "critical")
+    .map(
+      (v) =>
+        `${v.id} (${v.impact}): ${v.help} at ${v.nodes
+          .slice(0, 3)
+          .map((n) => `${n.target.join(" ")} ${(n as { html?: string }).html?.slice(0, 160) ?? ""}`)
+          .join("; ")}`,
+    );
 }
 
 describe("accessibility of the web app", () => {

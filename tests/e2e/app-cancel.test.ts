@@ -8,7 +8,14 @@ const browser = useBrowser();
 
 describe("cancel from the page", () => {
   it("cancels a running sweep and shows it cancelled", async () => {
-    const network = { lattice: "triangular", size: { columns: 24, rows: 16 }, transverse: "periodic", twistDegrees: 0.11, node: { forward: 0.5, left: 0.25, right: 0.25 }, disorder: { linkPhaseWidthRad: 6.28, forwardSpread: 0, seed: 3 } };
+    const network = {
+      lattice: "triangular",
+      size: { columns: 24, rows: 16 },
+      transverse: "periodic",
+      twistDegrees: 0.11,
+      node: { forward: 0.5, left: 0.25, right: 0.25 },
+      disorder: { linkPhaseWidthRad: 6.28, forwardSpread: 0, seed: 3 },
+    };
     const res = await api("/api/v1/sweeps", {
       as: "researcher",
       method: "POST",

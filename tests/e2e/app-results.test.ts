@@ -82,7 +82,11 @@ describe("result figures", () => {
   });
 
   it("one-axis sweep with an ensemble: mean and error band against the field", async () => {
-    const id = await finished("sweep", "sweeps", { computation: { kind: "conductance", energyMeV: 2 }, axes: [{ parameter: "fieldTesla", from: 0, to: 0.4, points: 5 }], ensemble: { samples: 3 } });
+    const id = await finished("sweep", "sweeps", {
+      computation: { kind: "conductance", energyMeV: 2 },
+      axes: [{ parameter: "fieldTesla", from: 0, to: 0.4, points: 5 }],
+      ensemble: { samples: 3 },
+    });
     await page.goto(url(`/sweeps/${id}`));
     const plot = page.getByTestId("sweep-plot");
     await plot.locator("[data-band]").waitFor();

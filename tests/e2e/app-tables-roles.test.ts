@@ -12,7 +12,10 @@ beforeAll(async () => {
   const list = (await (await api("/api/v1/networks?limit=50", { as: "researcher" })).json()) as { networks: { id: string; name: string }[] };
   networkId = list.networks.find((n) => n.name.startsWith("Clean"))!.id;
   // Two small runs to list: one conductance, one band structure.
-  for (const computation of [{ kind: "conductance", energyMeV: 1 }, { kind: "spectrum", pathPointsPerSegment: 2 }]) {
+  for (const computation of [
+    { kind: "conductance", energyMeV: 1 },
+    { kind: "spectrum", pathPointsPerSegment: 2 },
+  ]) {
     const res = await api("/api/v1/runs", { as: "researcher", method: "POST", json: { networkId, computation } });
     expect(res.status).toBe(202);
   }
@@ -38,7 +41,16 @@ describe("runs table", () => {
     await table.getByRole("button", { name: /Computation/ }).click();
     await expect(table.locator("th[aria-sort]").getAttribute("aria-sort")).resolves.toBe("ascending");
     const kinds = (await table.locator("tbody tr td:nth-child(2)").allInnerTexts()).map((t) => t.trim());
-    const kindsRaw = kinds.map((k) => ({ Conductance: "conductance", "Band structure": "spectrum", "Density of states": "dos", "Local density of states": "ldos", "Localization length": "localization" })[k] ?? k);
+    const kindsRaw = kinds.map(
+      (k) =>
+        ({
+          Conductance: "conductance",
+          "Band structure": "spectrum",
+          "Density of states": "dos",
+          "Local density of states": "ldos",
+          "Localization length": "localization",
+        })[k] ?? k,
+    );
     expect(kindsRaw).toEqual([...kindsRaw].sort());
     await page.close();
   });

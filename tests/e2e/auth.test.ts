@@ -83,7 +83,11 @@ describe("invitations", () => {
     await owner.goto(url("/networks"));
     const email = unique("invitee");
     const invited = await owner.evaluate(async (address) => {
-      const res = await fetch("/api/v1/workspace/members", { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ email: address, role: "researcher" }) });
+      const res = await fetch("/api/v1/workspace/members", {
+        method: "POST",
+        headers: { "content-type": "application/json" },
+        body: JSON.stringify({ email: address, role: "researcher" }),
+      });
       return { status: res.status, body: await res.json() };
     }, email);
     expect(invited.status).toBe(201);

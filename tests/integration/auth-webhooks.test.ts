@@ -30,7 +30,13 @@ function userCreated(clerkId: string, email: string) {
   return JSON.stringify({
     type: "user.created",
     object: "event",
-    data: { id: clerkId, first_name: "Webhook", last_name: "Person", primary_email_address_id: "idn_1", email_addresses: [{ id: "idn_1", email_address: email }] },
+    data: {
+      id: clerkId,
+      first_name: "Webhook",
+      last_name: "Person",
+      primary_email_address_id: "idn_1",
+      email_addresses: [{ id: "idn_1", email_address: email }],
+    },
   });
 }
 
@@ -75,9 +81,15 @@ describe("Clerk webhooks", () => {
     const email = `member-${Date.now()}@webhook.example`;
     const org = { id: "org_demo_larkspur", name: "Larkspur Devices Lab", slug: "larkspur-devices-lab" };
     const membership = (type: string, role: string) =>
-      JSON.stringify({ type, object: "event", data: { id: "orgmem_wh", role, organization: org, public_user_data: { user_id: clerkId, identifier: email, first_name: "Mem", last_name: "Ber" } } });
+      JSON.stringify({
+        type,
+        object: "event",
+        data: { id: "orgmem_wh", role, organization: org, public_user_data: { user_id: clerkId, identifier: email, first_name: "Mem", last_name: "Ber" } },
+      });
     const roleNow = async () =>
-      (await sql`select m.role from memberships m join users u on u.id = m.user_id join workspaces w on w.id = m.workspace_id where u.clerk_user_id = ${clerkId} and w.clerk_org_id = ${org.id}`)[0]?.role ?? null;
+      (
+        await sql`select m.role from memberships m join users u on u.id = m.user_id join workspaces w on w.id = m.workspace_id where u.clerk_user_id = ${clerkId} and w.clerk_org_id = ${org.id}`
+      )[0]?.role ?? null;
 
     let body = membership("organizationMembership.created", "org:researcher");
     expect((await post(body, signed(body).headers)).status).toBe(200);

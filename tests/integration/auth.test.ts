@@ -23,7 +23,8 @@ function apiRoutes(): { path: string; method: string }[] {
         const rel = relative(API_DIR, dir).split("/").filter(Boolean);
         const path = "/api/v1/" + rel.map((seg) => (seg.startsWith("[") ? SOME_ID : seg)).join("/");
         const src = readFileSync(full, "utf8");
-        for (const m of METHODS) if (new RegExp(`export\\s+(const|async\\s+function|function)\\s+${m}\\b`).test(src)) out.push({ path: path.replace(/\/$/, ""), method: m });
+        for (const m of METHODS)
+          if (new RegExp(`export\\s+(const|async\\s+function|function)\\s+${m}\\b`).test(src)) out.push({ path: path.replace(/\/$/, ""), method: m });
       }
     }
   };
@@ -118,7 +119,10 @@ describe("browser sessions (Clerk through the stand-in)", () => {
   it("an expired session on a page load goes through the handshake at the stand-in and comes back signed in", async () => {
     const { cookies } = await sessionCookies("researcher");
     // The browser still knows its client but its short-lived session token is gone.
-    const jar = new Map([["__client", cookies.__client], ["__client_uat", cookies.__client_uat]]);
+    const jar = new Map([
+      ["__client", cookies.__client],
+      ["__client_uat", cookies.__client_uat],
+    ]);
     const cookieHeader = () => [...jar].map(([k, v]) => `${k}=${v}`).join("; ");
     const doc = { "sec-fetch-dest": "document", accept: "text/html" };
     const first = await fetch(new URL("/networks", appUrl()), { headers: { ...doc, cookie: cookieHeader() }, redirect: "manual" });

@@ -33,7 +33,13 @@ function routeFiles(): { route: string; method: string }[] {
   return out;
 }
 
-const TOKEN_OF: Partial<Record<CallerKey, DemoTokenKey>> = { owner: "owner", billingAdmin: "billingAdmin", researcher: "researcher", viewer: "viewer", other: "student" };
+const TOKEN_OF: Partial<Record<CallerKey, DemoTokenKey>> = {
+  owner: "owner",
+  billingAdmin: "billingAdmin",
+  researcher: "researcher",
+  viewer: "viewer",
+  other: "student",
+};
 let revokedSecret = "";
 
 function headersFor(who: CallerKey): Record<string, string> {
@@ -70,11 +76,21 @@ beforeAll(async () => {
   await ok(await call("researcher", "DELETE", `/api/v1/tokens/${created.token.id}`), "revoke");
   revokedSecret = created.secret;
 
-  labWorkspaceId = (await ok(await call("owner", "GET", "/api/v1/workspace"), "workspace")).id ?? (await ok(await call("owner", "GET", "/api/v1/billing"), "billing")).workspace.id;
-  const newNetwork = async () => (await ok(await call("researcher", "POST", "/api/v1/networks", { name: "authz matrix", network: SMALL_RUN.network }), "network")).id as string;
+  labWorkspaceId =
+    (await ok(await call("owner", "GET", "/api/v1/workspace"), "workspace")).id ??
+    (await ok(await call("owner", "GET", "/api/v1/billing"), "billing")).workspace.id;
+  const newNetwork = async () =>
+    (await ok(await call("researcher", "POST", "/api/v1/networks", { name: "authz matrix", network: SMALL_RUN.network }), "network")).id as string;
   const networkId = await newNetwork();
   const run = await ok(await call("researcher", "POST", "/api/v1/runs", SMALL_RUN), "run");
-  const sweep = await ok(await call("researcher", "POST", "/api/v1/sweeps", { ...SMALL_RUN, name: "authz matrix", axes: [{ parameter: "fieldTesla", from: 0, to: 0.1, points: 2 }] }), "sweep");
+  const sweep = await ok(
+    await call("researcher", "POST", "/api/v1/sweeps", {
+      ...SMALL_RUN,
+      name: "authz matrix",
+      axes: [{ parameter: "fieldTesla", from: 0, to: 0.1, points: 2 }],
+    }),
+    "sweep",
+  );
   const datasets = await ok(await call("researcher", "GET", "/api/v1/datasets"), "datasets");
   const lk07 = datasets.items.find((d: { name: string }) => /LK-07/.test(d.name));
   if (!lk07) throw new Error("demo dataset LK-07 not found");
@@ -109,7 +125,10 @@ beforeAll(async () => {
 }, 120_000);
 
 afterAll(async () => {
-  for (const id of [...startedFits, fixtures?.fitId].filter(Boolean)) await call("owner", "POST", `/api/v1/fits/${id}/cancel`).then((r) => r.text()).catch(() => {});
+  for (const id of [...startedFits, fixtures?.fitId].filter(Boolean))
+    await call("owner", "POST", `/api/v1/fits/${id}/cancel`)
+      .then((r) => r.text())
+      .catch(() => {});
   // Leave the demo lab as it was: no extra members or open invitations, the cap unchanged.
   await sql`delete from invitations where email like '%@authz.example'`.catch(() => {});
   await sql`delete from users where email like '%@authz.example'`.catch(() => {});
@@ -157,7 +176,8 @@ describe("authorization matrix", () => {
         }
         if (typeof expected === "number") {
           const body = JSON.parse(text);
-          if (typeof body?.error?.message !== "string" || !body.error.message) failures.push(`${e.method} /api/${e.route} as ${who}: ${res.status} without an error message`);
+          if (typeof body?.error?.message !== "string" || !body.error.message)
+            failures.push(`${e.method} /api/${e.route} as ${who}: ${res.status} without an error message`);
           if (who === "revoked" && !/revoked/.test(body.error.message)) failures.push(`${e.method} /api/${e.route} as revoked: message does not say revoked`);
         }
       }
@@ -187,7 +207,15 @@ describe("authorization matrix", () => {
     expect((await health.json()).status).toBe("ok");
     const clerk = await fetch(new URL("/api/webhooks/clerk", appUrl()), {
       method: "POST",
-      headers: { "content-type": "application/json", "svix-id": "msg_authz", "svix-timestamp": String(Math.floor(Date.now() / 1000)), "svix-signature": "v1,AAAA", "webhook-id": "msg_authz", "webhook-timestamp": String(Math.floor(Date.now() / 1000)), "webhook-signature": "v1,AAAA" },
+      headers: {
+        "content-type": "application/json",
+        "svix-id": "msg_authz",
+        "svix-timestamp": String(Math.floor(Date.now() / 1000)),
+        "svix-signature": "v1,AAAA",
+        "webhook-id": "msg_authz",
+        "webhook-timestamp": String(Math.floor(Date.now() / 1000)),
+        "webhook-signature": "v1,AAAA",
+      },
       body: JSON.stringify({ type: "user.deleted", data: { id: "user_authz" } }),
     });
     expect(clerk.status).toBe(400);

@@ -81,10 +81,28 @@ export const TABLE: Entry[] = [
 
   // --- networks
   { route: "v1/networks", method: "GET", path: () => "/api/v1/networks", expect: seeList },
-  { route: "v1/networks", method: "POST", path: () => "/api/v1/networks", body: () => ({ name: "authz matrix", network: SMALL_NETWORK }), expect: { ...CREATE, other: "ok" } },
+  {
+    route: "v1/networks",
+    method: "POST",
+    path: () => "/api/v1/networks",
+    body: () => ({ name: "authz matrix", network: SMALL_NETWORK }),
+    expect: { ...CREATE, other: "ok" },
+  },
   { route: "v1/networks/[id]", method: "GET", path: (f) => `/api/v1/networks/${f.networkId}`, expect: seeObject },
-  { route: "v1/networks/[id]", method: "PUT", path: (f) => `/api/v1/networks/${f.networkId}`, body: () => ({ name: "authz matrix (replaced)", network: SMALL_NETWORK }), expect: { ...CREATE, other: 404 } },
-  { route: "v1/networks/[id]", method: "PATCH", path: (f) => `/api/v1/networks/${f.networkId}`, body: () => ({ name: "authz matrix (patched)" }), expect: { ...CREATE, other: 404 } },
+  {
+    route: "v1/networks/[id]",
+    method: "PUT",
+    path: (f) => `/api/v1/networks/${f.networkId}`,
+    body: () => ({ name: "authz matrix (replaced)", network: SMALL_NETWORK }),
+    expect: { ...CREATE, other: 404 },
+  },
+  {
+    route: "v1/networks/[id]",
+    method: "PATCH",
+    path: (f) => `/api/v1/networks/${f.networkId}`,
+    body: () => ({ name: "authz matrix (patched)" }),
+    expect: { ...CREATE, other: 404 },
+  },
   // The researcher's own network: the Owner may delete it (others' work), the researcher (own) too.
   { route: "v1/networks/[id]", method: "DELETE", path: (f) => f.freshNetwork(), expect: { ...CREATE, other: 404 } },
 
@@ -137,15 +155,43 @@ export const TABLE: Entry[] = [
   // --- members and invitations
   { route: "v1/workspace/members", method: "GET", path: () => "/api/v1/workspace/members", expect: seeList },
   // Inviting a Viewer: Owner, and Billing admin (seats); a personal workspace cannot grow (409 = allowed, refused by state).
-  { route: "v1/workspace/members", method: "POST", path: () => "/api/v1/workspace/members", body: () => ({ email: unique("invitee"), role: "viewer" }), expect: { ...BILLING, other: "ok" } },
+  {
+    route: "v1/workspace/members",
+    method: "POST",
+    path: () => "/api/v1/workspace/members",
+    body: () => ({ email: unique("invitee"), role: "viewer" }),
+    expect: { ...BILLING, other: "ok" },
+  },
   // Changing a role: Owner only (a Billing admin fills and frees seats, does not change roles).
-  { route: "v1/workspace/members/[userId]", method: "PATCH", path: async (f) => `/api/v1/workspace/members/${await f.freshMember("viewer")}`, body: () => ({ role: "researcher" }), expect: { owner: "ok", billingAdmin: 403, researcher: 403, viewer: 403, other: 404 } },
+  {
+    route: "v1/workspace/members/[userId]",
+    method: "PATCH",
+    path: async (f) => `/api/v1/workspace/members/${await f.freshMember("viewer")}`,
+    body: () => ({ role: "researcher" }),
+    expect: { owner: "ok", billingAdmin: 403, researcher: 403, viewer: 403, other: 404 },
+  },
   // Removing a Viewer: Owner, and Billing admin (seats).
-  { route: "v1/workspace/members/[userId]", method: "DELETE", path: async (f) => `/api/v1/workspace/members/${await f.freshMember("viewer")}`, expect: { ...BILLING, other: 404 } },
+  {
+    route: "v1/workspace/members/[userId]",
+    method: "DELETE",
+    path: async (f) => `/api/v1/workspace/members/${await f.freshMember("viewer")}`,
+    expect: { ...BILLING, other: 404 },
+  },
   { route: "v1/workspace/invitations", method: "GET", path: () => "/api/v1/workspace/invitations", expect: { ...BILLING, other: "ok" } },
-  { route: "v1/workspace/invitations/[id]", method: "DELETE", path: async (f) => `/api/v1/workspace/invitations/${await f.freshInvitation()}`, expect: { ...BILLING, other: 404 } },
+  {
+    route: "v1/workspace/invitations/[id]",
+    method: "DELETE",
+    path: async (f) => `/api/v1/workspace/invitations/${await f.freshInvitation()}`,
+    expect: { ...BILLING, other: 404 },
+  },
   // Accepting needs an invitation token; an unknown one is 404 for every signed-in caller.
-  { route: "v1/workspace/invitations/accept", method: "POST", path: () => "/api/v1/workspace/invitations/accept", body: () => ({ token: "inv_not-a-real-one" }), expect: { owner: 404, billingAdmin: 404, researcher: 404, viewer: 404, other: 404 } },
+  {
+    route: "v1/workspace/invitations/accept",
+    method: "POST",
+    path: () => "/api/v1/workspace/invitations/accept",
+    body: () => ({ token: "inv_not-a-real-one" }),
+    expect: { owner: 404, billingAdmin: 404, researcher: 404, viewer: 404, other: 404 },
+  },
 
   // --- billing (the other workspace is the student's own free workspace, where they are Owner)
   { route: "v1/billing", method: "GET", path: () => "/api/v1/billing", expect: { ...SEE, other: "ok" } },

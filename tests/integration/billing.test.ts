@@ -45,7 +45,11 @@ async function createWorkspace(name: string, plan: "free" | "lab" = "free"): Pro
   const [ws] = await sql`insert into workspaces (name, slug, kind, plan) values (${name}, ${slug}, 'lab', ${plan}) returning id`;
   const tokens: Record<string, string> = {};
   const userIds: Record<string, string> = {};
-  for (const [key, role] of [["owner", "owner"], ["billingAdmin", "billing_admin"], ["researcher", "researcher"]] as const) {
+  for (const [key, role] of [
+    ["owner", "owner"],
+    ["billingAdmin", "billing_admin"],
+    ["researcher", "researcher"],
+  ] as const) {
     const [u] = await sql`insert into users (email, name) values (${`${key}-${slug}@billing-test.example`}, ${`${key} of ${name}`}) returning id`;
     await sql`insert into memberships (workspace_id, user_id, role) values (${ws.id}, ${u.id}, ${role})`;
     const secret = newTokenSecret();
@@ -146,7 +150,8 @@ describe("upgrade to Lab and seats", () => {
     expect(up.status).toBe(200);
     expect(up.body).toEqual({ seats: 4, members: 4 });
     const [row] = await sql`select stripe_subscription_id from workspaces where id = ${ws.id}`;
-    const seatQty = async () => (await stripe.subscriptions.retrieve(row.stripe_subscription_id)).items.data.find((i) => i.price.recurring?.usage_type === "licensed")!.quantity;
+    const seatQty = async () =>
+      (await stripe.subscriptions.retrieve(row.stripe_subscription_id)).items.data.find((i) => i.price.recurring?.usage_type === "licensed")!.quantity;
     expect(await seatQty()).toBe(4);
     await sql`delete from memberships where workspace_id = ${ws.id} and user_id = ${u.id}`;
     // The worker's billing pass follows membership on its own, too.
@@ -198,11 +203,23 @@ describe("metering: ledger rows become meter events", () => {
   });
 
   it("meters a real run end to end: POST /api/v1/runs -> worker -> ledger row -> meter event", async () => {
-    const network = { lattice: "triangular", size: { columns: 6, rows: 6 }, transverse: "periodic", twistDegrees: 0.11, modeVelocityMps: 1.0e6, channelsPerLink: 1, node: { forward: 0.6, left: 0.2, right: 0.2 } };
+    const network = {
+      lattice: "triangular",
+      size: { columns: 6, rows: 6 },
+      transverse: "periodic",
+      twistDegrees: 0.11,
+      modeVelocityMps: 1.0e6,
+      channelsPerLink: 1,
+      node: { forward: 0.6, left: 0.2, right: 0.2 },
+    };
     const created = await call(ws, "researcher", "/api/v1/runs", { method: "POST", json: { network, computation: { kind: "conductance", energyMeV: 0.4 } } });
     expect(created.status).toBe(202);
     const runId = created.body.id as string;
-    const ledger = await until("the run's ledger row", async () => (await sql`select id, compute_seconds from usage_ledger where run_id = ${runId}`)[0], 120_000);
+    const ledger = await until(
+      "the run's ledger row",
+      async () => (await sql`select id, compute_seconds from usage_ledger where run_id = ${runId}`)[0],
+      120_000,
+    );
     await until("its meter event sent", async () => (await sql`select status from meter_outbox where ledger_id = ${ledger.id}`)[0]?.status === "sent");
     const events = await fakeMeterEvents(customer);
     const mine = events.filter((e) => e.identifier === ledger.id);
@@ -214,14 +231,20 @@ describe("metering: ledger rows become meter events", () => {
   it("loses nothing and duplicates nothing when a sender is killed midway", async () => {
     const before = (await fakeMeterEvents(customer)).length;
     await fetch(`${fakeUrl}/_fake/meter_event_delay`, { method: "POST", body: JSON.stringify({ delayMs: 150 }) });
-    const ids = await addLedgerRows(ws, Array.from({ length: 30 }, (_, i) => 5 + i * 0.5));
+    const ids = await addLedgerRows(
+      ws,
+      Array.from({ length: 30 }, (_, i) => 5 + i * 0.5),
+    );
     // node itself (tsx as a loader), so SIGKILL hits the sender and not a wrapper.
     const child = spawn(process.execPath, ["--import", "tsx", "worker/billing.ts"], {
       env: { ...process.env, METER_SENDER_WORKSPACE_ID: ws.id, METER_SENDER_LEASE_SECONDS: "3", METER_SENDER_INTERVAL_MS: "200" },
       stdio: "ignore",
     });
     try {
-      await until("a few events sent", async () => (await sql`select count(*)::int as n from meter_outbox where ledger_id = any(${ids}) and status = 'sent'`)[0].n >= 4);
+      await until(
+        "a few events sent",
+        async () => (await sql`select count(*)::int as n from meter_outbox where ledger_id = any(${ids}) and status = 'sent'`)[0].n >= 4,
+      );
     } finally {
       child.kill("SIGKILL");
     }
@@ -257,14 +280,28 @@ describe("metering: ledger rows become meter events", () => {
 
 describe("webhooks", () => {
   it("rejects a bad signature with 400 and accepts a correctly signed event", async () => {
-    const payload = JSON.stringify({ id: `evt_test_${tag}`, object: "event", type: "product.created", created: Math.floor(Date.now() / 1000), data: { object: {} } });
-    const bad = await fetch(new URL("/api/webhooks/stripe", appUrl()), { method: "POST", headers: { "stripe-signature": "t=1,v1=deadbeef", "content-type": "application/json" }, body: payload });
+    const payload = JSON.stringify({
+      id: `evt_test_${tag}`,
+      object: "event",
+      type: "product.created",
+      created: Math.floor(Date.now() / 1000),
+      data: { object: {} },
+    });
+    const bad = await fetch(new URL("/api/webhooks/stripe", appUrl()), {
+      method: "POST",
+      headers: { "stripe-signature": "t=1,v1=deadbeef", "content-type": "application/json" },
+      body: payload,
+    });
     expect(bad.status).toBe(400);
     expect((await bad.json()).error.message).toContain("signature");
     const none = await fetch(new URL("/api/webhooks/stripe", appUrl()), { method: "POST", body: payload });
     expect(none.status).toBe(400);
     const header = stripe.webhooks.generateTestHeaderString({ payload, secret: process.env.STRIPE_WEBHOOK_SECRET! });
-    const good = await fetch(new URL("/api/webhooks/stripe", appUrl()), { method: "POST", headers: { "stripe-signature": header, "content-type": "application/json" }, body: payload });
+    const good = await fetch(new URL("/api/webhooks/stripe", appUrl()), {
+      method: "POST",
+      headers: { "stripe-signature": header, "content-type": "application/json" },
+      body: payload,
+    });
     expect(good.status).toBe(200);
     expect((await good.json()).duplicate).toBe(false);
   });
@@ -304,7 +341,15 @@ describe("webhooks", () => {
 });
 
 const smallRun = {
-  network: { lattice: "triangular", size: { columns: 6, rows: 6 }, transverse: "periodic", twistDegrees: 0.11, modeVelocityMps: 1.0e6, channelsPerLink: 1, node: { forward: 0.6, left: 0.2, right: 0.2 } },
+  network: {
+    lattice: "triangular",
+    size: { columns: 6, rows: 6 },
+    transverse: "periodic",
+    twistDegrees: 0.11,
+    modeVelocityMps: 1.0e6,
+    channelsPerLink: 1,
+    node: { forward: 0.6, left: 0.2, right: 0.2 },
+  },
   computation: { kind: "conductance", energyMeV: 0.4 },
 };
 /** A dry run through the runs API (every check, budget included; nothing written). */
@@ -345,7 +390,10 @@ describe("free quota and spend cap", () => {
     const err = await assertWithinBudget(ws.id, 1200).catch((e) => e);
     expect(err.status).toBe(402);
     expect(err.message).toContain("would take this month's compute spend from 0.85 USD past the spend cap of 1.00 USD");
-    const mails = async () => ((await (await fetch(`${process.env.MAIL_WEB_URL}/email`)).json()) as { subject: string; to: { address: string }[] }[]).filter((m) => m.subject.startsWith("Cinderford Quantum Lab"));
+    const mails = async () =>
+      ((await (await fetch(`${process.env.MAIL_WEB_URL}/email`)).json()) as { subject: string; to: { address: string }[] }[]).filter((m) =>
+        m.subject.startsWith("Cinderford Quantum Lab"),
+      );
     const first = await until("80 % e-mail", async () => {
       const m = await mails();
       return m.length >= 1 ? m : null;

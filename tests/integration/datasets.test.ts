@@ -42,7 +42,11 @@ describe("POST /api/v1/datasets", () => {
       ["B (mT),R (kohm),dR (kohm)\n0,1,0.1\n10,x1,0.1\n20,1,0.1\n30,1,0.1\n", mapping, { code: "non_numeric", row: 3, column: "R (kohm)" }],
       ["field,R (kohm)\n0,1\n", mapping, { code: "missing_column", row: 1, column: "B (mT)" }],
       ["B (mT),R (kohm),dR (kohm)\n0,1,0.1\n20,1,0.1\n10,1,0.1\n30,1,0.1\n", mapping, { code: "unsorted_x", row: 4, column: "B (mT)" }],
-      ["B,G\n1 T,1\n2 T,1\n3 mT,1\n4 T,1\n", { name: "m", xColumn: "B", xUnit: "T", yColumn: "G", yUnit: "e2/h" }, { code: "mixed_units", row: 4, column: "B" }],
+      [
+        "B,G\n1 T,1\n2 T,1\n3 mT,1\n4 T,1\n",
+        { name: "m", xColumn: "B", xUnit: "T", yColumn: "G", yUnit: "e2/h" },
+        { code: "mixed_units", row: 4, column: "B" },
+      ],
     ];
     for (const [csv, fields, issue] of cases) {
       const res = await upload(csv, fields);

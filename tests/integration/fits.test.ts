@@ -34,7 +34,10 @@ async function waitFinished(id: string, timeoutMs = 170_000) {
 
 describe("fits", () => {
   it("fits node.forward and contactOhms back within the reported uncertainties, metered once", async () => {
-    const res = await api("/api/v1/fits", { method: "POST", json: { datasetId, network: LK07_NETWORK, computation: LK07_COMPUTATION, sweepParameter: "fieldTesla", fit: LK07_FIT_START } });
+    const res = await api("/api/v1/fits", {
+      method: "POST",
+      json: { datasetId, network: LK07_NETWORK, computation: LK07_COMPUTATION, sweepParameter: "fieldTesla", fit: LK07_FIT_START },
+    });
     expect(res.status).toBe(202);
     const { id, estimate } = await res.json();
     expect(estimate.computeSeconds).toBeGreaterThan(0);
@@ -56,7 +59,8 @@ describe("fits", () => {
     expect(f.computeSeconds).toBeGreaterThan(0);
     expect(f.progress).toBe(1);
 
-    const ledger = await sql`select l.compute_seconds, r.kind from fits f join runs r on r.id = f.run_id join usage_ledger l on l.run_id = r.id where f.id = ${id}`;
+    const ledger =
+      await sql`select l.compute_seconds, r.kind from fits f join runs r on r.id = f.run_id join usage_ledger l on l.run_id = r.id where f.id = ${id}`;
     expect(ledger).toHaveLength(1);
     expect(ledger[0].kind).toBe("fit");
     expect(ledger[0].compute_seconds).toBeCloseTo(f.computeSeconds, 3);
@@ -67,7 +71,17 @@ describe("fits", () => {
     await sql`update fits set status = 'running' where id = ${id}`;
     const [row] = await sql`select workspace_id, created_by, dataset_id, input, input_hash, estimated_compute_seconds, attempts from fits where id = ${id}`;
     const again = await finishFit(
-      { id, workspaceId: row.workspace_id, createdBy: row.created_by, datasetId: row.dataset_id, input: row.input, points: { x: [], y: [], sigma: null }, inputHash: row.input_hash, estimatedComputeSeconds: row.estimated_compute_seconds, attempts: row.attempts },
+      {
+        id,
+        workspaceId: row.workspace_id,
+        createdBy: row.created_by,
+        datasetId: row.dataset_id,
+        input: row.input,
+        points: { x: [], y: [], sigma: null },
+        inputHash: row.input_hash,
+        estimatedComputeSeconds: row.estimated_compute_seconds,
+        attempts: row.attempts,
+      },
       { status: "succeeded", result: f.result, computeSeconds: f.computeSeconds, engineVersion: f.engineVersion },
     );
     expect(again).toBe(true);
@@ -76,7 +90,22 @@ describe("fits", () => {
     const fitRuns = await sql`select count(*)::int as n from runs where kind = 'fit' and input->>'fitId' = ${id}`;
     expect(fitRuns[0].n).toBe(1);
     // and a finished fit is not finished twice
-    expect(await finishFit({ id, workspaceId: row.workspace_id, createdBy: null, datasetId: row.dataset_id, input: {}, points: { x: [], y: [], sigma: null }, inputHash: "", estimatedComputeSeconds: 0, attempts: 1 }, { status: "failed", computeSeconds: 0, engineVersion: "" })).toBe(false);
+    expect(
+      await finishFit(
+        {
+          id,
+          workspaceId: row.workspace_id,
+          createdBy: null,
+          datasetId: row.dataset_id,
+          input: {},
+          points: { x: [], y: [], sigma: null },
+          inputHash: "",
+          estimatedComputeSeconds: 0,
+          attempts: 1,
+        },
+        { status: "failed", computeSeconds: 0, engineVersion: "" },
+      ),
+    ).toBe(false);
 
     const report = await (await api(`/api/v1/fits/${id}/export`)).json();
     expect(report.engineVersion).toBe(f.engineVersion);
@@ -93,7 +122,10 @@ describe("fits", () => {
   it("an engine input error in a fit answers like the same error in a run: 422, same code, message, field and issues", async () => {
     const network = { ...LK07_NETWORK, size: { columns: 4, rows: 3 } };
     const run = await api("/api/v1/runs", { method: "POST", json: { network, computation: LK07_COMPUTATION } });
-    const fit = await api("/api/v1/fits", { method: "POST", json: { datasetId, network, computation: LK07_COMPUTATION, sweepParameter: "fieldTesla", fit: LK07_FIT_START } });
+    const fit = await api("/api/v1/fits", {
+      method: "POST",
+      json: { datasetId, network, computation: LK07_COMPUTATION, sweepParameter: "fieldTesla", fit: LK07_FIT_START },
+    });
     expect(run.status).toBe(422);
     expect(fit.status).toBe(422);
     const runError = (await run.json()).error;
@@ -105,7 +137,10 @@ describe("fits", () => {
     // A saved network that is not in this workspace: the same answer as a run's.
     const missing = "00000000-0000-0000-0000-000000000000";
     const runMissing = await api("/api/v1/runs", { method: "POST", json: { networkId: missing, computation: LK07_COMPUTATION } });
-    const fitMissing = await api("/api/v1/fits", { method: "POST", json: { datasetId, networkId: missing, computation: LK07_COMPUTATION, sweepParameter: "fieldTesla", fit: LK07_FIT_START } });
+    const fitMissing = await api("/api/v1/fits", {
+      method: "POST",
+      json: { datasetId, networkId: missing, computation: LK07_COMPUTATION, sweepParameter: "fieldTesla", fit: LK07_FIT_START },
+    });
     expect(runMissing.status).toBe(404);
     expect(fitMissing.status).toBe(404);
     expect((await fitMissing.json()).error).toEqual((await runMissing.json()).error);

@@ -52,18 +52,33 @@ async function expectRefused(what: string, path: string, init: RequestInit) {
   } catch {
     // not JSON: body stays null and the check below fails
   }
-  const ok = res.status >= 400 && res.status < 500 && typeof body?.error?.message === "string" && body.error.message.length > 0 && typeof body?.error?.code === "string";
+  const ok =
+    res.status >= 400 && res.status < 500 && typeof body?.error?.message === "string" && body.error.message.length > 0 && typeof body?.error?.code === "string";
   if (!ok) wrong++;
   if (!ok) failures.push(`${what} ${path} -> ${res.status} ${text.slice(0, 200)}`);
   return ok;
 }
-const postJson = (what: string, path: string, text: string) => expectRefused(what, path, { method: "POST", headers: { "content-type": "application/json" }, body: text });
+const postJson = (what: string, path: string, text: string) =>
+  expectRefused(what, path, { method: "POST", headers: { "content-type": "application/json" }, body: text });
 
 const ENDPOINTS = ["/api/v1/runs", "/api/v1/networks", "/api/v1/sweeps", "/api/v1/fits"] as const;
 
 /** Values no numeric, string or enum field of the schemas accepts. */
 const hostileValue = fc.oneof(
-  fc.constantFrom("NaN", "Infinity", "-Infinity", "1e999", "0x10", "", " ", "\u0000", "‮evil", "💥".repeat(50), "<script>alert(1)</script>", "'; drop table runs; --"),
+  fc.constantFrom(
+    "NaN",
+    "Infinity",
+    "-Infinity",
+    "1e999",
+    "0x10",
+    "",
+    " ",
+    "\u0000",
+    "‮evil",
+    "💥".repeat(50),
+    "<script>alert(1)</script>",
+    "'; drop table runs; --",
+  ),
   fc.constantFrom(1e308, -1e308, Number.MAX_SAFE_INTEGER * 1e6, -Number.MAX_SAFE_INTEGER, 1e-320),
   fc.constantFrom<unknown>(null, true, false, [], [1, 2, 3], {}, { $gt: 0 }, { __proto__: { admin: true } }),
   fc.string({ unit: "binary", maxLength: 40 }).map((s) => `x${s}`),
@@ -77,9 +92,20 @@ function base(endpoint: (typeof ENDPOINTS)[number]): Record<string, unknown> {
     case "/api/v1/networks":
       return { name: "hostile", network: structuredClone(NETWORK) };
     case "/api/v1/sweeps":
-      return { name: "hostile", network: structuredClone(NETWORK), computation: { ...COMPUTATION }, axes: [{ parameter: "fieldTesla", from: 0, to: 0.1, points: 3 }] };
+      return {
+        name: "hostile",
+        network: structuredClone(NETWORK),
+        computation: { ...COMPUTATION },
+        axes: [{ parameter: "fieldTesla", from: 0, to: 0.1, points: 3 }],
+      };
     case "/api/v1/fits":
-      return { datasetId, network: structuredClone(LK07_NETWORK), computation: structuredClone(LK07_COMPUTATION), sweepParameter: "fieldTesla", fit: structuredClone(LK07_FIT_START) };
+      return {
+        datasetId,
+        network: structuredClone(LK07_NETWORK),
+        computation: structuredClone(LK07_COMPUTATION),
+        sweepParameter: "fieldTesla",
+        fit: structuredClone(LK07_FIT_START),
+      };
   }
 }
 
@@ -121,7 +147,11 @@ describe("hostile JSON bodies to runs, networks, sweeps and fits", () => {
         const paths = leafPaths(body).filter((p) => p[0] !== "name" && p[0] !== "description");
         const path = paths[pick % paths.length];
         setAt(body, path, value);
-        return expectRefused(`${path.join(".")}=${JSON.stringify(value)?.slice(0, 40)}`, endpoint, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(body) });
+        return expectRefused(`${path.join(".")}=${JSON.stringify(value)?.slice(0, 40)}`, endpoint, {
+          method: "POST",
+          headers: { "content-type": "application/json" },
+          body: JSON.stringify(body),
+        });
       }),
       { numRuns: 60, seed: 9 },
     );
@@ -132,7 +162,9 @@ describe("hostile JSON bodies to runs, networks, sweeps and fits", () => {
   it("arbitrary JSON documents and wrong top-level types: 4xx with a message, nothing written", async () => {
     const before = await counts();
     await fc.assert(
-      fc.asyncProperty(fc.constantFrom(...ENDPOINTS), fc.jsonValue({ maxDepth: 4 }), async (endpoint, doc) => postJson("random json", endpoint, JSON.stringify(doc))),
+      fc.asyncProperty(fc.constantFrom(...ENDPOINTS), fc.jsonValue({ maxDepth: 4 }), async (endpoint, doc) =>
+        postJson("random json", endpoint, JSON.stringify(doc)),
+      ),
       { numRuns: 40, seed: 19 },
     );
     expect(failures).toEqual([]);
@@ -150,10 +182,18 @@ describe("hostile JSON bodies to runs, networks, sweeps and fits", () => {
       await postJson("deep network", endpoint, JSON.stringify({ ...base(endpoint), network: JSON.parse(deep(200)) }));
       await postJson("__proto__ at top", endpoint, `{"__proto__": {"role": "owner"}, ${JSON.stringify(base(endpoint)).slice(1)}`);
       await postJson("constructor.prototype", endpoint, JSON.stringify({ constructor: { prototype: { isAdmin: true } } }));
-      await postJson("__proto__ in network", endpoint, JSON.stringify({ ...base(endpoint), network: { ...NETWORK, __proto__: null } }).replace('"lattice"', '"__proto__":{"polluted":1},"lattice"'));
+      await postJson(
+        "__proto__ in network",
+        endpoint,
+        JSON.stringify({ ...base(endpoint), network: { ...NETWORK, __proto__: null } }).replace('"lattice"', '"__proto__":{"polluted":1},"lattice"'),
+      );
       // Oversized: 3 MB with Content-Length, and streamed without one.
       const big = JSON.stringify({ ...base(endpoint), padding: "x".repeat(3_000_000) });
-      const res = await fetch(new URL(endpoint, appUrl()), { method: "POST", headers: { authorization: `Bearer ${demoTokens().researcher}`, "content-type": "application/json" }, body: big });
+      const res = await fetch(new URL(endpoint, appUrl()), {
+        method: "POST",
+        headers: { authorization: `Bearer ${demoTokens().researcher}`, "content-type": "application/json" },
+        body: big,
+      });
       tried++;
       expect(res.status, `${endpoint} oversized`).toBe(413);
       expect((await res.json()).error.code).toBe("payload_too_large");
@@ -163,7 +203,12 @@ describe("hostile JSON bodies to runs, networks, sweeps and fits", () => {
           c.close();
         },
       });
-      const streamed = await fetch(new URL(endpoint, appUrl()), { method: "POST", headers: { authorization: `Bearer ${demoTokens().researcher}`, "content-type": "application/json" }, body: stream, duplex: "half" } as RequestInit);
+      const streamed = await fetch(new URL(endpoint, appUrl()), {
+        method: "POST",
+        headers: { authorization: `Bearer ${demoTokens().researcher}`, "content-type": "application/json" },
+        body: stream,
+        duplex: "half",
+      } as RequestInit);
       tried++;
       expect(streamed.status, `${endpoint} streamed oversized`).toBe(413);
       await streamed.text();
@@ -175,7 +220,13 @@ describe("hostile JSON bodies to runs, networks, sweeps and fits", () => {
 
   it("network size limits are refused before any work (runs, sweeps, networks)", async () => {
     const before = await counts();
-    for (const size of [{ columns: 100_000, rows: 100_000 }, { columns: 1e9, rows: 2 }, { columns: 4, rows: -4 }, { columns: 4.5, rows: 4 }, { columns: 0, rows: 0 }]) {
+    for (const size of [
+      { columns: 100_000, rows: 100_000 },
+      { columns: 1e9, rows: 2 },
+      { columns: 4, rows: -4 },
+      { columns: 4.5, rows: 4 },
+      { columns: 0, rows: 0 },
+    ]) {
       for (const endpoint of ["/api/v1/runs", "/api/v1/networks", "/api/v1/sweeps"] as const) {
         const body = base(endpoint);
         (body.network as Record<string, unknown>).size = size;
@@ -183,7 +234,11 @@ describe("hostile JSON bodies to runs, networks, sweeps and fits", () => {
       }
     }
     // A sweep with far too many points, and a huge ensemble.
-    await postJson("sweep points", "/api/v1/sweeps", JSON.stringify({ ...base("/api/v1/sweeps"), axes: [{ parameter: "fieldTesla", from: 0, to: 1, points: 10_000_000 }] }));
+    await postJson(
+      "sweep points",
+      "/api/v1/sweeps",
+      JSON.stringify({ ...base("/api/v1/sweeps"), axes: [{ parameter: "fieldTesla", from: 0, to: 1, points: 10_000_000 }] }),
+    );
     await postJson("ensemble", "/api/v1/runs", JSON.stringify({ ...base("/api/v1/runs"), computation: { ...COMPUTATION, ensemble: { samples: 1e9 } } }));
     expect(failures).toEqual([]);
     expect(await counts()).toEqual(before);
@@ -197,7 +252,10 @@ describe("hostile CSV uploads", () => {
 
   it("random and malformed files: 4xx with a message, nothing written", async () => {
     const before = await counts();
-    const cell = fc.oneof(fc.constantFrom("NaN", "Infinity", "-", "", "1e999", "=cmd|' /C calc'!A0", "\"unterminated", "1,5", "💥", "null"), fc.string({ maxLength: 12 }).filter((s) => Number.isNaN(Number(s)) || s.trim() === ""));
+    const cell = fc.oneof(
+      fc.constantFrom("NaN", "Infinity", "-", "", "1e999", "=cmd|' /C calc'!A0", '"unterminated', "1,5", "💥", "null"),
+      fc.string({ maxLength: 12 }).filter((s) => Number.isNaN(Number(s)) || s.trim() === ""),
+    );
     await fc.assert(
       fc.asyncProperty(fc.array(fc.tuple(cell, cell), { minLength: 0, maxLength: 30 }), async (rows) => {
         // The mapped columns exist but no row holds two numbers (each cell is written as one cell).
@@ -207,7 +265,9 @@ describe("hostile CSV uploads", () => {
       { numRuns: 40, seed: 29 },
     );
     await fc.assert(
-      fc.asyncProperty(fc.string({ unit: "grapheme", minLength: 1, maxLength: 30 }), async (column) => upload("B (mT),R (kohm)\n0,1\n1,2\n2,3\n", { ...mapping, xColumn: `missing ${column}` }, "unknown column")),
+      fc.asyncProperty(fc.string({ unit: "grapheme", minLength: 1, maxLength: 30 }), async (column) =>
+        upload("B (mT),R (kohm)\n0,1\n1,2\n2,3\n", { ...mapping, xColumn: `missing ${column}` }, "unknown column"),
+      ),
       { numRuns: 20, seed: 31 },
     );
     await upload(new Uint8Array([0xff, 0xfe, 0x00, 0x41, 0xc3, 0x28]), mapping, "not utf-8");
@@ -215,13 +275,25 @@ describe("hostile CSV uploads", () => {
     await upload("B (mT),R (kohm)\n0,1\n1,2\n", { ...mapping, xUnit: "parsecs" }, "unknown unit");
     await upload("B (mT),R (kohm)\n0,1\n1,2\n", { ...mapping, xColumn: "" }, "no x column");
     await upload("B (mT),R (kohm)\n0,1\n1,2\n", { ...mapping, name: "x".repeat(100_000) }, "huge name");
-    await upload(csvText(Array.from({ length: 5000 }, (_, i) => `c${i}`), [], { finalNewline: true }), mapping, "5000 columns, no rows");
+    await upload(
+      csvText(
+        Array.from({ length: 5000 }, (_, i) => `c${i}`),
+        [],
+        { finalNewline: true },
+      ),
+      mapping,
+      "5000 columns, no rows",
+    );
     // Broken quoting, written out as it is: a quote that never closes, a quote inside a bare cell.
     await upload('B (mT),R (kohm)\n"unterminated,1\n0,1\n1,2\n2,3\n', mapping, "unterminated quote");
     await upload('B (mT),R (kohm)\n0,1"5\n1,2\n2,3\n3,4"\n', mapping, "stray quotes");
     // Over the 5 MB upload limit.
     await upload(csvText(["B (mT)", "R (kohm)"], Array(1_500_000).fill([1, 2]), { finalNewline: true }), mapping, "6 MB");
-    const notMultipart = await fetch(new URL("/api/v1/datasets", appUrl()), { method: "POST", headers: { authorization: `Bearer ${demoTokens().researcher}`, "content-type": "text/csv" }, body: "B,R\n1,2\n" });
+    const notMultipart = await fetch(new URL("/api/v1/datasets", appUrl()), {
+      method: "POST",
+      headers: { authorization: `Bearer ${demoTokens().researcher}`, "content-type": "text/csv" },
+      body: "B,R\n1,2\n",
+    });
     tried++;
     expect(notMultipart.status).toBe(400);
     expect(failures).toEqual([]);

@@ -27,7 +27,8 @@ const hugeNetwork = { ...smallNetwork(200, 200), disorder: { linkPhaseWidthRad: 
 const hugeComputation = { kind: "conductance", energyMeV: 0.5, temperatureK: 20, ensemble: { samples: 1000 } };
 
 async function studentWorkspace(): Promise<string> {
-  const [row] = await sql`select w.id from workspaces w join memberships m on m.workspace_id = w.id join users u on u.id = m.user_id where u.email = 'student@fernhill.example'`;
+  const [row] =
+    await sql`select w.id from workspaces w join memberships m on m.workspace_id = w.id join users u on u.id = m.user_id where u.email = 'student@fernhill.example'`;
   return row.id;
 }
 
@@ -90,7 +91,11 @@ describe("the per-job compute-time cap", () => {
       expect(r.body.error.details).toMatchObject({ limit: "maxJobComputeSeconds", value: FREE });
     }
     // Small points pass on Free: the cap is per point, the quota is for the sum.
-    const ok = await post("/api/v1/sweeps?dryRun=true", { ...body, network: smallNetwork(), computation: { kind: "conductance" }, ensemble: undefined }, "student");
+    const ok = await post(
+      "/api/v1/sweeps?dryRun=true",
+      { ...body, network: smallNetwork(), computation: { kind: "conductance" }, ensemble: undefined },
+      "student",
+    );
     expect(ok.status).toBe(200);
     expect(await counts(student)).toEqual(before);
   });
@@ -108,7 +113,13 @@ describe("the per-job compute-time cap", () => {
     const res = await api("/api/v1/fits", {
       method: "POST",
       as: "student",
-      json: { datasetId, network: smallNetwork(40, 40), computation: { kind: "conductance", energyMeV: 0.5, temperatureK: 5, temperaturePoints: 20 }, sweepParameter: "fieldTesla", fit },
+      json: {
+        datasetId,
+        network: smallNetwork(40, 40),
+        computation: { kind: "conductance", energyMeV: 0.5, temperatureK: 5, temperaturePoints: 20 },
+        sweepParameter: "fieldTesla",
+        fit,
+      },
     });
     const body = await res.json();
     expect(res.status).toBe(402);

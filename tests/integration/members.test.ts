@@ -173,7 +173,11 @@ describe("changing roles and removing members", () => {
     const list = await (await api("/api/v1/workspace/members", { as: "owner" })).json();
     expect(list.members.some((m: { email: string }) => m.email === email)).toBe(false);
     const staleRes = await fetch(new URL("/api/v1/workspace", appUrl()), {
-      headers: { cookie: Object.entries(stale.cookies).map(([k, v]) => `${k}=${v}`).join("; ") },
+      headers: {
+        cookie: Object.entries(stale.cookies)
+          .map(([k, v]) => `${k}=${v}`)
+          .join("; "),
+      },
     });
     expect(staleRes.status).toBe(403);
     const after = await sessionFetch(person, "/api/v1/workspace", { workspace: "personal" });

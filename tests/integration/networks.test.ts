@@ -19,7 +19,10 @@ describe("networks", () => {
     expect(put.status).toBe(200);
     expect((await json(put)).version).toBe(2);
 
-    const patch = await api(`/api/v1/networks/${id}`, { method: "PATCH", json: { name: "IT versioned network (renamed)", network: { node: { forward: 0.5, left: 0.25, right: 0.25 } } } });
+    const patch = await api(`/api/v1/networks/${id}`, {
+      method: "PATCH",
+      json: { name: "IT versioned network (renamed)", network: { node: { forward: 0.5, left: 0.25, right: 0.25 } } },
+    });
     const patched = await json(patch);
     expect(patch.status).toBe(200);
     expect(patched.version).toBe(3);

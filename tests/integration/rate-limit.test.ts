@@ -23,7 +23,8 @@ async function newToken(name: string) {
 }
 const bearer = (secret: string) => ({ authorization: `Bearer ${secret}`, "content-type": "application/json" });
 /** A write that needs no state: creating a token named after the call. */
-const write = (secret: string) => fetch(new URL("/api/v1/tokens", appUrl()), { method: "POST", headers: bearer(secret), body: JSON.stringify({ name: "rate limit probe" }) });
+const write = (secret: string) =>
+  fetch(new URL("/api/v1/tokens", appUrl()), { method: "POST", headers: bearer(secret), body: JSON.stringify({ name: "rate limit probe" }) });
 const read = (secret: string) => fetch(new URL("/api/v1/runs?limit=1", appUrl()), { headers: bearer(secret) });
 
 beforeAll(async () => {

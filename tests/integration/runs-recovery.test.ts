@@ -42,11 +42,16 @@ describe("crash recovery", () => {
     });
     expect(created.status).toBe(202);
     const id = created.body.id;
-    await waitFor("the sweep to get going", async () => {
-      const s = (await get(`/api/v1/sweeps/${id}`)).body;
-      if (finished(s.status)) throw new Error("the sweep finished before the worker could be killed; make its points heavier");
-      return s.counts.succeeded >= 2 && s.counts.running > 0;
-    }, 120_000, 200);
+    await waitFor(
+      "the sweep to get going",
+      async () => {
+        const s = (await get(`/api/v1/sweeps/${id}`)).body;
+        if (finished(s.status)) throw new Error("the sweep finished before the worker could be killed; make its points heavier");
+        return s.counts.succeeded >= 2 && s.counts.running > 0;
+      },
+      120_000,
+      200,
+    );
 
     const killed = await killWorker();
     const [{ done }] = await sql`select count(*)::int as done from runs where sweep_id = ${id} and status = 'succeeded'`;
@@ -57,10 +62,15 @@ describe("crash recovery", () => {
     const replacement = startWorker();
     expect(replacement).not.toBe(killed);
 
-    const s = await waitFor("the sweep to complete after the crash", async () => {
-      const b = (await get(`/api/v1/sweeps/${id}`)).body;
-      return finished(b.status) ? b : undefined;
-    }, 170_000, 250);
+    const s = await waitFor(
+      "the sweep to complete after the crash",
+      async () => {
+        const b = (await get(`/api/v1/sweeps/${id}`)).body;
+        return finished(b.status) ? b : undefined;
+      },
+      170_000,
+      250,
+    );
     expect(s.status).toBe("succeeded");
     expect(s.counts.succeeded).toBe(POINTS);
 
@@ -99,10 +109,15 @@ describe("crash recovery", () => {
     }
     expect(await redis.exists(`${prefix}:runs:${ids[0]}`)).toBe(0);
 
-    const runs = await waitFor("the runs to complete after the flush", async () => {
-      const all = await Promise.all(ids.map(async (id) => (await get(`/api/v1/runs/${id}`)).body));
-      return all.every((r) => finished(r.status)) ? all : undefined;
-    }, 120_000, 300);
+    const runs = await waitFor(
+      "the runs to complete after the flush",
+      async () => {
+        const all = await Promise.all(ids.map(async (id) => (await get(`/api/v1/runs/${id}`)).body));
+        return all.every((r) => finished(r.status)) ? all : undefined;
+      },
+      120_000,
+      300,
+    );
     expect(runs.map((r) => r.status)).toEqual(["succeeded", "succeeded", "succeeded"]);
     const ledger = await sql`select run_id from usage_ledger where run_id = any(${ids}::uuid[])`;
     expect(ledger).toHaveLength(3);
@@ -141,10 +156,15 @@ describe("crash recovery", () => {
     expect(still.attempts).toBe(0);
 
     // The worker was not restarted: only its periodic pass can bring the job back.
-    const f = await waitFor("the lost fit to complete", async () => {
-      const b = (await get(`/api/v1/fits/${id}`)).body;
-      return finished(b.status) ? b : undefined;
-    }, 170_000, 500);
+    const f = await waitFor(
+      "the lost fit to complete",
+      async () => {
+        const b = (await get(`/api/v1/fits/${id}`)).body;
+        return finished(b.status) ? b : undefined;
+      },
+      170_000,
+      500,
+    );
     expect(f.status).toBe("succeeded");
     expect(f.result.parameters.map((p: { parameter: string }) => p.parameter)).toEqual(["node.forward"]);
     const ledger = await sql`select l.compute_seconds from fits f join usage_ledger l on l.run_id = f.run_id where f.id = ${id}`;

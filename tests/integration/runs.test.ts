@@ -55,19 +55,29 @@ describe("a run", () => {
     const created = await post("/api/v1/runs", longInput);
     expect(created.status).toBe(202);
     const id = created.body.id;
-    const seen = await waitFor("progress between 0 and 1", async () => {
-      const r = await get(`/api/v1/runs/${id}`);
-      if (finished(r.body.status)) throw new Error(`run ended (${r.body.status}) before progress could be seen; make it longer`);
-      return r.body.status === "running" && r.body.progress > 0 && r.body.progress < 1 ? r.body.progress : undefined;
-    }, 120_000, 200);
+    const seen = await waitFor(
+      "progress between 0 and 1",
+      async () => {
+        const r = await get(`/api/v1/runs/${id}`);
+        if (finished(r.body.status)) throw new Error(`run ended (${r.body.status}) before progress could be seen; make it longer`);
+        return r.body.status === "running" && r.body.progress > 0 && r.body.progress < 1 ? r.body.progress : undefined;
+      },
+      120_000,
+      200,
+    );
     expect(seen).toBeGreaterThan(0);
 
     const cancel = await api(`/api/v1/runs/${id}/cancel`, { method: "POST" });
     expect(cancel.status).toBe(202);
-    const run = await waitFor("the run to stop", async () => {
-      const r = await get(`/api/v1/runs/${id}`);
-      return finished(r.body.status) ? r.body : undefined;
-    }, 30_000, 100);
+    const run = await waitFor(
+      "the run to stop",
+      async () => {
+        const r = await get(`/api/v1/runs/${id}`);
+        return finished(r.body.status) ? r.body : undefined;
+      },
+      30_000,
+      100,
+    );
     expect(run.status).toBe("cancelled");
     expect(run.computeSeconds).toBeGreaterThan(0);
     expect(run.result).toBeNull();
@@ -111,7 +121,8 @@ describe("a run", () => {
 describe("invalid run submissions get the documented status and write nothing", () => {
   it("bad schema (422), over a plan limit (402), unknown network (404), another workspace's network (404), viewer (403)", async () => {
     const lab = await workspaceId();
-    const [student] = await sql`select w.id from workspaces w join memberships m on m.workspace_id = w.id join users u on u.id = m.user_id where u.email = 'student@fernhill.example'`;
+    const [student] =
+      await sql`select w.id from workspaces w join memberships m on m.workspace_id = w.id join users u on u.id = m.user_id where u.email = 'student@fernhill.example'`;
     const labBefore = await counts(lab);
     const studentBefore = await counts(student.id);
 
@@ -123,14 +134,22 @@ describe("invalid run submissions get the documented status and write nothing", 
     expect(badKind.status).toBe(422);
     expect(badKind.body.error.message).toMatch(/computation/);
 
-    const both = await post("/api/v1/runs", { network: smallNetwork(), networkId: "7d9e6a53-1111-4c1e-8a44-0a2b3c4d5e6f", computation: { kind: "conductance" } });
+    const both = await post("/api/v1/runs", {
+      network: smallNetwork(),
+      networkId: "7d9e6a53-1111-4c1e-8a44-0a2b3c4d5e6f",
+      computation: { kind: "conductance" },
+    });
     expect(both.status).toBe(422);
 
     const overPlan = await post("/api/v1/runs", { network: smallNetwork(44, 44), computation: { kind: "conductance" } }, "student");
     expect(overPlan.status).toBe(402);
     expect(overPlan.body.error.message).toContain("maxCellsPerSide = 40");
 
-    const bigEnsemble = await post("/api/v1/runs", { network: { ...smallNetwork(), disorder: { linkPhaseWidthRad: 1, seed: 1 } }, computation: { kind: "conductance", ensemble: { samples: 51 } } }, "student");
+    const bigEnsemble = await post(
+      "/api/v1/runs",
+      { network: { ...smallNetwork(), disorder: { linkPhaseWidthRad: 1, seed: 1 } }, computation: { kind: "conductance", ensemble: { samples: 51 } } },
+      "student",
+    );
     expect(bigEnsemble.status).toBe(402);
     expect(bigEnsemble.body.error.message).toContain("maxEnsembleSamples = 50");
 
@@ -156,7 +175,11 @@ describe("invalid run submissions get the documented status and write nothing", 
     expect(dry.body.estimate.computeSeconds).toBeGreaterThan(0);
     const dryRefused = await post("/api/v1/runs?dryRun=true", { network: smallNetwork(44, 44), computation: { kind: "conductance" } }, "student");
     expect(dryRefused.status).toBe(402);
-    const drySweep = await post("/api/v1/sweeps?dryRun=true", { network: smallNetwork(), computation: { kind: "conductance" }, axes: [{ parameter: "energyMeV", from: 0, to: 1, points: 7 }] });
+    const drySweep = await post("/api/v1/sweeps?dryRun=true", {
+      network: smallNetwork(),
+      computation: { kind: "conductance" },
+      axes: [{ parameter: "energyMeV", from: 0, to: 1, points: 7 }],
+    });
     expect(drySweep.status).toBe(200);
     expect(drySweep.body.pointCount).toBe(7);
 

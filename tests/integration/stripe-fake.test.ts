@@ -57,7 +57,12 @@ describe("Stripe stand-in through the SDK", () => {
     const customer = await stripe.customers.create({ name: "Meter check (test)" });
     const now = Math.floor(Date.now() / 1000);
     const id = `it-${now}-${Math.random()}`;
-    await stripe.billing.meterEvents.create({ event_name: "compute_seconds", identifier: id, timestamp: now - 120, payload: { stripe_customer_id: customer.id, value: "12.5" } });
+    await stripe.billing.meterEvents.create({
+      event_name: "compute_seconds",
+      identifier: id,
+      timestamp: now - 120,
+      payload: { stripe_customer_id: customer.id, value: "12.5" },
+    });
     await stripe.billing.meterEvents.create({ event_name: "compute_seconds", timestamp: now - 60, payload: { stripe_customer_id: customer.id, value: "7.5" } });
     const dup = await stripe.billing.meterEvents
       .create({ event_name: "compute_seconds", identifier: id, timestamp: now, payload: { stripe_customer_id: customer.id, value: "100" } })

@@ -20,7 +20,11 @@ const base = {
 
 describe("a 50-point sweep", () => {
   it("fans out into 50 runs, shows rising progress and a partial grid, and ends with the command line's results", async () => {
-    const created = await post("/api/v1/sweeps", { ...base, name: "IT conductance versus field", axes: [{ parameter: "fieldTesla", from: 0, to: 0.49, points: POINTS }] });
+    const created = await post("/api/v1/sweeps", {
+      ...base,
+      name: "IT conductance versus field",
+      axes: [{ parameter: "fieldTesla", from: 0, to: 0.49, points: POINTS }],
+    });
     expect(created.status).toBe(202);
     expect(created.body.pointCount).toBe(POINTS);
     expect(created.body.axes[0].values).toHaveLength(POINTS);
@@ -31,13 +35,18 @@ describe("a 50-point sweep", () => {
 
     const progress: number[] = [];
     let sawPartialGrid = false;
-    const done = await waitFor("the sweep to finish", async () => {
-      const s = (await get(`/api/v1/sweeps/${id}`)).body;
-      progress.push(s.progress);
-      const ready = s.grid.quantities ? Object.values(s.grid.quantities as Record<string, (number | null)[]>)[0] : undefined;
-      if (s.status === "running" && ready && ready.some((v) => v !== null) && ready.some((v) => v === null)) sawPartialGrid = true;
-      return finished(s.status) ? s : undefined;
-    }, 170_000, 250);
+    const done = await waitFor(
+      "the sweep to finish",
+      async () => {
+        const s = (await get(`/api/v1/sweeps/${id}`)).body;
+        progress.push(s.progress);
+        const ready = s.grid.quantities ? Object.values(s.grid.quantities as Record<string, (number | null)[]>)[0] : undefined;
+        if (s.status === "running" && ready && ready.some((v) => v !== null) && ready.some((v) => v === null)) sawPartialGrid = true;
+        return finished(s.status) ? s : undefined;
+      },
+      170_000,
+      250,
+    );
     expect(done.status).toBe("succeeded");
     expect(done.counts).toEqual({ queued: 0, running: 0, succeeded: POINTS, failed: 0, cancelled: 0 });
     expect(progress[progress.length - 1]).toBe(1);
@@ -58,15 +67,20 @@ describe("a 50-point sweep", () => {
       expect(run.sweepPointIndex).toBe(i);
       expect(run.result).toEqual(JSON.parse(printed[k]));
     }
-    const points = await sql`select sweep_point_index, compute_seconds, (input->'computation'->>'fieldTesla')::float8 as field from runs where sweep_id = ${id} order by sweep_point_index`;
+    const points =
+      await sql`select sweep_point_index, compute_seconds, (input->'computation'->>'fieldTesla')::float8 as field from runs where sweep_id = ${id} order by sweep_point_index`;
     expect(points.map((p) => p.sweep_point_index)).toEqual([...Array(POINTS).keys()]);
     points.forEach((p, i) => expect(p.field).toBeCloseTo(done.axes[0].values[i], 12));
 
     // One ledger row per point, with the seconds the run records.
-    const ledger = await sql`select l.compute_seconds as billed, r.compute_seconds as spent from usage_ledger l join runs r on r.id = l.run_id where r.sweep_id = ${id}`;
+    const ledger =
+      await sql`select l.compute_seconds as billed, r.compute_seconds as spent from usage_ledger l join runs r on r.id = l.run_id where r.sweep_id = ${id}`;
     expect(ledger).toHaveLength(POINTS);
     for (const row of ledger) expect(row.billed).toBeCloseTo(row.spent, 6);
-    expect(done.computeSeconds).toBeCloseTo(ledger.reduce((s, r) => s + r.billed, 0), 4);
+    expect(done.computeSeconds).toBeCloseTo(
+      ledger.reduce((s, r) => s + r.billed, 0),
+      4,
+    );
 
     const csv = await api(`/api/v1/sweeps/${id}/results.csv`);
     expect(csv.headers.get("content-type")).toMatch(/text\/csv/);
@@ -86,17 +100,26 @@ describe("a 50-point sweep", () => {
   });
 
   it("stops when cancelled midway: no further points are computed", async () => {
-    const created = await post("/api/v1/sweeps", { ...base, computation: { ...base.computation, ensemble: { samples: 12 } }, axes: [{ parameter: "energyMeV", from: 0, to: 2, points: POINTS }] });
+    const created = await post("/api/v1/sweeps", {
+      ...base,
+      computation: { ...base.computation, ensemble: { samples: 12 } },
+      axes: [{ parameter: "energyMeV", from: 0, to: 2, points: POINTS }],
+    });
     expect(created.status).toBe(202);
     const id = created.body.id;
     await waitFor("a few points done", async () => (await get(`/api/v1/sweeps/${id}`)).body.counts.succeeded >= 3, 120_000, 150);
     const cancel = await api(`/api/v1/sweeps/${id}/cancel`, { method: "POST" });
     expect(cancel.status).toBe(202);
     const [{ at }] = await sql`select cancel_requested_at as at from sweeps where id = ${id}`;
-    const stopped = await waitFor("the sweep to stop", async () => {
-      const s = (await get(`/api/v1/sweeps/${id}`)).body;
-      return finished(s.status) ? s : undefined;
-    }, 30_000, 100);
+    const stopped = await waitFor(
+      "the sweep to stop",
+      async () => {
+        const s = (await get(`/api/v1/sweeps/${id}`)).body;
+        return finished(s.status) ? s : undefined;
+      },
+      30_000,
+      100,
+    );
     expect(stopped.status).toBe("cancelled");
     expect(stopped.counts.succeeded).toBeLessThan(POINTS);
     expect(stopped.counts.cancelled).toBeGreaterThan(0);
@@ -152,17 +175,30 @@ describe("invalid sweep submissions get the documented status and write nothing"
     const noAxes = await post("/api/v1/sweeps", { ...base, axes: [] });
     expect(noAxes.status).toBe(422);
     expect(noAxes.body.error.message).toMatch(/axes/);
-    const badPoint = await post("/api/v1/sweeps", { network: smallNetwork(4, 4), computation: { kind: "conductance" }, axes: [{ parameter: "node.forward", values: [0.5, 0.05] }] });
+    const badPoint = await post("/api/v1/sweeps", {
+      network: smallNetwork(4, 4),
+      computation: { kind: "conductance" },
+      axes: [{ parameter: "node.forward", values: [0.5, 0.05] }],
+    });
     expect(badPoint.status).toBe(422);
     expect(badPoint.body.error.message).toMatch(/sweep point 1/);
     const labNetwork = (await get("/api/v1/networks?limit=1")).body.networks[0].id;
-    const foreign = await post("/api/v1/sweeps", { networkId: labNetwork, computation: { kind: "conductance" }, axes: [{ parameter: "energyMeV", values: [0, 1] }] }, "student");
+    const foreign = await post(
+      "/api/v1/sweeps",
+      { networkId: labNetwork, computation: { kind: "conductance" }, axes: [{ parameter: "energyMeV", values: [0, 1] }] },
+      "student",
+    );
     expect(foreign.status).toBe(404);
     expect(await counts(lab)).toEqual(before);
 
-    const [student] = await sql`select w.id from workspaces w join memberships m on m.workspace_id = w.id join users u on u.id = m.user_id where u.email = 'student@fernhill.example'`;
+    const [student] =
+      await sql`select w.id from workspaces w join memberships m on m.workspace_id = w.id join users u on u.id = m.user_id where u.email = 'student@fernhill.example'`;
     const studentBefore = await counts(student.id);
-    const tooMany = await post("/api/v1/sweeps", { network: smallNetwork(4, 4), computation: { kind: "conductance" }, axes: [{ parameter: "energyMeV", from: 0, to: 1, points: 101 }] }, "student");
+    const tooMany = await post(
+      "/api/v1/sweeps",
+      { network: smallNetwork(4, 4), computation: { kind: "conductance" }, axes: [{ parameter: "energyMeV", from: 0, to: 1, points: 101 }] },
+      "student",
+    );
     expect(tooMany.status).toBe(402);
     expect(tooMany.body.error.message).toContain("maxSweepPoints = 100");
     expect(tooMany.body.error.details).toMatchObject({ limit: "maxSweepPoints", value: 100, requested: 101 });

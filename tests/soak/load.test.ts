@@ -73,10 +73,24 @@ describe("load", () => {
     record("load.json", "load", figures);
     console.table({
       all: { "req/s": figures.requestsPerSecond, p50: figures.latencyMs.p50, p95: figures.latencyMs.p95, p99: figures.latencyMs.p99, count: all.length },
-      reads: { "req/s": Math.round(r.length / SECONDS), p50: figures.readLatencyMs.p50, p95: figures.readLatencyMs.p95, p99: figures.readLatencyMs.p99, count: r.length },
-      submissions: { "req/s": Math.round(wr.length / SECONDS), p50: figures.writeLatencyMs.p50, p95: figures.writeLatencyMs.p95, p99: figures.writeLatencyMs.p99, count: wr.length },
+      reads: {
+        "req/s": Math.round(r.length / SECONDS),
+        p50: figures.readLatencyMs.p50,
+        p95: figures.readLatencyMs.p95,
+        p99: figures.readLatencyMs.p99,
+        count: r.length,
+      },
+      submissions: {
+        "req/s": Math.round(wr.length / SECONDS),
+        p50: figures.writeLatencyMs.p50,
+        p95: figures.writeLatencyMs.p95,
+        p99: figures.writeLatencyMs.p99,
+        count: wr.length,
+      },
     });
-    console.log(`[load] statuses ${JSON.stringify(statuses)}, errors ${result.errors}, timeouts ${result.timeouts}, runs accepted ${accepted}, in the database ${runs}`);
+    console.log(
+      `[load] statuses ${JSON.stringify(statuses)}, errors ${result.errors}, timeouts ${result.timeouts}, runs accepted ${accepted}, in the database ${runs}`,
+    );
     expect(result.errors).toBe(0);
     expect(result.timeouts).toBe(0);
     expect(result.non2xx).toBe(0);

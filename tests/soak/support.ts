@@ -26,7 +26,11 @@ export async function createLabWorkspace(name: string): Promise<SoakWorkspace> {
   const [ws] = await sql`insert into workspaces (name, slug, kind, plan) values (${name}, ${slug}, 'lab', 'free') returning id`;
   const tokens: Record<string, string> = {};
   const userIds: Record<string, string> = {};
-  for (const [key, role] of [["owner", "owner"], ["billingAdmin", "billing_admin"], ["researcher", "researcher"]] as const) {
+  for (const [key, role] of [
+    ["owner", "owner"],
+    ["billingAdmin", "billing_admin"],
+    ["researcher", "researcher"],
+  ] as const) {
     const [u] = await sql`insert into users (email, name) values (${`${key}-${slug}@soak.example`}, ${`${key} of ${name}`}) returning id`;
     await sql`insert into memberships (workspace_id, user_id, role) values (${ws.id}, ${u.id}, ${role})`;
     const secret = newTokenSecret();
@@ -82,7 +86,8 @@ export async function until<T>(what: string, probe: () => Promise<T | null | und
     } catch (e) {
       last = e;
     }
-    if (Date.now() - started > timeoutMs) throw new Error(`timed out after ${timeoutMs} ms waiting for ${what}${last ? ` (last error: ${(last as Error).message})` : ""}`);
+    if (Date.now() - started > timeoutMs)
+      throw new Error(`timed out after ${timeoutMs} ms waiting for ${what}${last ? ` (last error: ${(last as Error).message})` : ""}`);
     await sleep(everyMs);
   }
 }
@@ -114,7 +119,15 @@ export function record(file: string, key: string, value: unknown) {
 }
 
 export const SMALL_RUN = {
-  network: { lattice: "triangular", size: { columns: 4, rows: 4 }, transverse: "periodic", twistDegrees: 0.11, modeVelocityMps: 1.0e6, channelsPerLink: 1, node: { forward: 0.6, left: 0.2, right: 0.2 } },
+  network: {
+    lattice: "triangular",
+    size: { columns: 4, rows: 4 },
+    transverse: "periodic",
+    twistDegrees: 0.11,
+    modeVelocityMps: 1.0e6,
+    channelsPerLink: 1,
+    node: { forward: 0.6, left: 0.2, right: 0.2 },
+  },
   computation: { kind: "conductance", energyMeV: 0.4 },
 };
 
@@ -122,11 +135,22 @@ export const SMALL_RUN = {
 export async function billingOnce(w: SoakWorkspace, runIds: string[], timeoutMs = 240_000) {
   const ledger = await sql`select id, run_id from usage_ledger where run_id in ${sql(runIds)}`;
   const ledgerIds = ledger.map((l) => l.id as string);
-  await until("every meter event of these runs sent", async () => {
-    const [r] = await sql`select count(*)::int as sent from meter_outbox where ledger_id in ${sql(ledgerIds)} and status = 'sent'`;
-    return r.sent === ledgerIds.length;
-  }, timeoutMs, 1000);
+  await until(
+    "every meter event of these runs sent",
+    async () => {
+      const [r] = await sql`select count(*)::int as sent from meter_outbox where ledger_id in ${sql(ledgerIds)} and status = 'sent'`;
+      return r.sent === ledgerIds.length;
+    },
+    timeoutMs,
+    1000,
+  );
   const events = (await (await fetch(`${stripeFake()}/_fake/meter_events?customer=${w.customer}`)).json()).data as { identifier: string }[];
   const ids = events.map((e) => e.identifier).filter((i) => ledgerIds.includes(i));
-  return { runs: runIds.length, ledgerRows: ledger.length, distinctLedgerRuns: new Set(ledger.map((l) => l.run_id)).size, meterEvents: ids.length, distinctMeterEvents: new Set(ids).size };
+  return {
+    runs: runIds.length,
+    ledgerRows: ledger.length,
+    distinctLedgerRuns: new Set(ledger.map((l) => l.run_id)).size,
+    meterEvents: ids.length,
+    distinctMeterEvents: new Set(ids).size,
+  };
 }

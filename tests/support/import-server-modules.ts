@@ -9,11 +9,17 @@ import { pathToFileURL } from "node:url";
 const root = path.resolve(import.meta.dirname, "../..");
 function walk(dir: string): string[] {
   return readdirSync(path.join(root, dir), { withFileTypes: true }).flatMap((e) =>
-    e.isDirectory() ? walk(path.posix.join(dir, e.name)) : /\.tsx?$/.test(e.name) && !/\.test\.tsx?$|\.d\.ts$/.test(e.name) ? [path.posix.join(dir, e.name)] : [],
+    e.isDirectory()
+      ? walk(path.posix.join(dir, e.name))
+      : /\.tsx?$/.test(e.name) && !/\.test\.tsx?$|\.d\.ts$/.test(e.name)
+        ? [path.posix.join(dir, e.name)]
+        : [],
   );
 }
 // *-generate.ts files are scripts (they write files when run), not modules of the app.
-const files = [...walk("src/server"), ...walk("src/shared"), ...walk("src/lib"), ...walk("src/app").filter((f) => f.endsWith("/route.ts"))].filter((f) => !f.endsWith("-generate.ts"));
+const files = [...walk("src/server"), ...walk("src/shared"), ...walk("src/lib"), ...walk("src/app").filter((f) => f.endsWith("/route.ts"))].filter(
+  (f) => !f.endsWith("-generate.ts"),
+);
 const failed: { file: string; error: string }[] = [];
 for (const file of files) {
   try {

@@ -104,7 +104,12 @@ export async function sessionFetch(
 ): Promise<Response> {
   const { cookies } = await sessionCookies(who, { workspace: init.workspace, organizationId: init.organizationId });
   const headers = new Headers(init.headers);
-  headers.set("cookie", Object.entries(cookies).map(([k, v]) => `${k}=${v}`).join("; "));
+  headers.set(
+    "cookie",
+    Object.entries(cookies)
+      .map(([k, v]) => `${k}=${v}`)
+      .join("; "),
+  );
   let body = init.body;
   if (init.json !== undefined) {
     headers.set("content-type", "application/json");
@@ -115,7 +120,11 @@ export async function sessionFetch(
 }
 
 /** Creates a person at the sign-in stand-in (as if they had signed up); returns their credentials. */
-export async function createStandInUser(input: { email: string; name?: string; password?: string }): Promise<{ email: string; password: string; clerkUserId: string }> {
+export async function createStandInUser(input: {
+  email: string;
+  name?: string;
+  password?: string;
+}): Promise<{ email: string; password: string; clerkUserId: string }> {
   const password = input.password ?? "stand-in-pass-2026";
   const [first, ...rest] = (input.name ?? "Test Person").split(" ");
   const res = await fetch(`${clerkFakeUrl()}/v1/users`, {

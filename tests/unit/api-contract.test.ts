@@ -18,7 +18,12 @@ function files(dir: string, test: (f: string) => boolean): string[] {
 
 /** "METHOD /api/v1/..." for every handler a route file exports. */
 function endpointsOf(file: string): { method: string; path: string; source: string }[] {
-  const path = "/api/v1/" + relative(apiDir, join(file, "..")).split("\\").join("/").replace(/\[(\w+)\]/g, "{$1}");
+  const path =
+    "/api/v1/" +
+    relative(apiDir, join(file, ".."))
+      .split("\\")
+      .join("/")
+      .replace(/\[(\w+)\]/g, "{$1}");
   const source = readFileSync(file, "utf8");
   const methods = [...source.matchAll(/^export (?:const|async function) (GET|POST|PUT|PATCH|DELETE)\b/gm)].map((m) => m[1]);
   return methods.map((method) => ({ method, path: path.replace(/\/$/, ""), source }));
@@ -62,13 +67,17 @@ describe("API contract", () => {
     const problems: string[] = [];
     for (const file of routeFiles) {
       const own = new Set(endpointsOf(file).map((e) => `${e.method} ${e.path}`));
-      for (const m of readFileSync(file, "utf8").matchAll(/(?:reply|noContent)\("([^"]+)"/g)) if (!own.has(base(m[1]))) problems.push(`${relative(root, file)}: ${m[1]}`);
+      for (const m of readFileSync(file, "utf8").matchAll(/(?:reply|noContent)\("([^"]+)"/g))
+        if (!own.has(base(m[1]))) problems.push(`${relative(root, file)}: ${m[1]}`);
     }
     expect(problems).toEqual([]);
   });
 
   it("the browser calls the API only through src/lib/api.ts", () => {
-    const browser = [...files(join(root, "components"), (f) => /\.tsx?$/.test(f)), ...files(join(root, "lib"), (f) => /\.tsx?$/.test(f) && !f.endsWith("api.ts"))];
+    const browser = [
+      ...files(join(root, "components"), (f) => /\.tsx?$/.test(f)),
+      ...files(join(root, "lib"), (f) => /\.tsx?$/.test(f) && !f.endsWith("api.ts")),
+    ];
     const direct = browser.filter((f) => /fetch\(\s*[`"']\/api\//.test(readFileSync(f, "utf8"))).map((f) => relative(root, f));
     expect(direct).toEqual([]);
   });

@@ -8,15 +8,25 @@
 import path from "node:path";
 import { afterEach, describe, expect, it, vi } from "vitest";
 import {
-  ROOT, browserLayerProblems, clientModules, importsOf, missingServerOnlyMarkers, relative, serverResourceImports, sharedLayerProblems, sourceFiles, walk,
+  ROOT,
+  browserLayerProblems,
+  clientModules,
+  importsOf,
+  missingServerOnlyMarkers,
+  relative,
+  serverResourceImports,
+  sharedLayerProblems,
+  sourceFiles,
+  walk,
   type LayerProblem,
 } from "../../scripts/import-graph";
 
 const at = (file: string) => path.join(ROOT, file);
-const describeProblems = (problems: LayerProblem[]) => problems.map((p) => `${p.file} imports "${p.specifier}": ${p.reason} (via ${p.chain.join(" -> ")})`).join("\n");
+const describeProblems = (problems: LayerProblem[]) =>
+  problems.map((p) => `${p.file} imports "${p.specifier}": ${p.reason} (via ${p.chain.join(" -> ")})`).join("\n");
 
 describe("browser code", () => {
-  it("no \"use client\" module reaches src/server, src/env.ts, a Node built-in or a database, queue or service package", () => {
+  it('no "use client" module reaches src/server, src/env.ts, a Node built-in or a database, queue or service package', () => {
     const roots = clientModules();
     expect(roots.length).toBeGreaterThan(30);
     // The walk follows "@/" imports into src/shared (the upload form parses CSV with the server's code).
@@ -32,7 +42,9 @@ describe("browser code", () => {
       expect.arrayContaining(["@/server/db: server code (src/server/db/index.ts)", "@/server/queue: server code (src/server/queue/index.ts)"]),
     );
     expect(found("src/server/auth/tokens.ts")).toEqual(["node:crypto: a Node built-in"]);
-    expect(found("src/server/billing/stripe.ts")).toEqual(expect.arrayContaining(["stripe: a package of the database, the queue or a hosted service", "@/env: server code (src/env.ts)"]));
+    expect(found("src/server/billing/stripe.ts")).toEqual(
+      expect.arrayContaining(["stripe: a package of the database, the queue or a hosted service", "@/env: server code (src/env.ts)"]),
+    );
     // A server component that reaches the server through one import is named at that import.
     expect(found("src/app/(auth)/accept-invitation/page.tsx")).toEqual(["@/server/workspaces/invitations: server code (src/server/workspaces/invitations.ts)"]);
   });
@@ -41,7 +53,16 @@ describe("browser code", () => {
 describe("src/shared", () => {
   it("reaches no server code, Node built-in or database, queue or service package, and imports only src/shared and @/engine/browser", () => {
     const files = sourceFiles(at("src/shared")).map(relative);
-    expect(files).toEqual(expect.arrayContaining(["src/shared/csv.ts", "src/shared/units.ts", "src/shared/fit-parameters.ts", "src/shared/lk07.ts", "src/shared/permissions.ts", "src/shared/plans.ts"]));
+    expect(files).toEqual(
+      expect.arrayContaining([
+        "src/shared/csv.ts",
+        "src/shared/units.ts",
+        "src/shared/fit-parameters.ts",
+        "src/shared/lk07.ts",
+        "src/shared/permissions.ts",
+        "src/shared/plans.ts",
+      ]),
+    );
     const problems = sharedLayerProblems();
     expect(problems, describeProblems(problems)).toEqual([]);
   });
@@ -64,17 +85,33 @@ describe("server-only marker", () => {
   });
 
   it("every module that touches the database, the queue or secrets imports it", () => {
-    const marked = sourceFiles(at("src")).filter((f) => serverResourceImports(f).length > 0).map(relative);
-    expect(marked).toEqual(expect.arrayContaining(["src/env.ts", "src/server/db/index.ts", "src/server/db/schema/index.ts", "src/server/queue/index.ts", "src/server/billing/stripe.ts", "src/server/mail/index.ts", "src/server/auth/session.ts", "src/server/http/rate-limit.ts"]));
+    const marked = sourceFiles(at("src"))
+      .filter((f) => serverResourceImports(f).length > 0)
+      .map(relative);
+    expect(marked).toEqual(
+      expect.arrayContaining([
+        "src/env.ts",
+        "src/server/db/index.ts",
+        "src/server/db/schema/index.ts",
+        "src/server/queue/index.ts",
+        "src/server/billing/stripe.ts",
+        "src/server/mail/index.ts",
+        "src/server/auth/session.ts",
+        "src/server/http/rate-limit.ts",
+      ]),
+    );
     expect(marked.length).toBeGreaterThan(30);
     // Pure modules need not: the CSV parser, the permissions table, the fitter.
-    for (const pure of ["src/shared/csv.ts", "src/shared/permissions.ts", "src/server/fits/fitter.ts"]) expect(serverResourceImports(at(pure)), pure).toEqual([]);
+    for (const pure of ["src/shared/csv.ts", "src/shared/permissions.ts", "src/server/fits/fitter.ts"])
+      expect(serverResourceImports(at(pure)), pure).toEqual([]);
     const missing = missingServerOnlyMarkers();
     expect(missing, missing.map((m) => `${m.file} (${m.because.join(", ")}): add import "@/server/server-only"`).join("\n")).toEqual([]);
   });
 
   it("no module imports the npm package server-only (it throws under Vitest, tsx and plain Node)", () => {
-    const users = sourceFiles(at("src")).filter((f) => importsOf(f).some((e) => e.specifier === "server-only")).map(relative);
+    const users = sourceFiles(at("src"))
+      .filter((f) => importsOf(f).some((e) => e.specifier === "server-only"))
+      .map(relative);
     expect(users).toEqual([]);
   });
 

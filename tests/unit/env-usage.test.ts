@@ -24,13 +24,25 @@ function envReads(file: string, source: string): EnvRead[] {
   const out: EnvRead[] = [];
   const isProcessEnv = (n: ts.Node): boolean =>
     (ts.isPropertyAccessExpression(n) && ts.isIdentifier(n.expression) && n.expression.text === "process" && n.name.text === "env") ||
-    (ts.isElementAccessExpression(n) && ts.isIdentifier(n.expression) && n.expression.text === "process" && ts.isStringLiteralLike(n.argumentExpression) && n.argumentExpression.text === "env");
+    (ts.isElementAccessExpression(n) &&
+      ts.isIdentifier(n.expression) &&
+      n.expression.text === "process" &&
+      ts.isStringLiteralLike(n.argumentExpression) &&
+      n.argumentExpression.text === "env");
   const visit = (n: ts.Node) => {
     // `import { env } from "node:process"` or `const { env } = process` also read it.
     const bindings =
-      ts.isImportDeclaration(n) && ts.isStringLiteral(n.moduleSpecifier) && /^(node:)?process$/.test(n.moduleSpecifier.text) && n.importClause?.namedBindings && ts.isNamedImports(n.importClause.namedBindings)
+      ts.isImportDeclaration(n) &&
+      ts.isStringLiteral(n.moduleSpecifier) &&
+      /^(node:)?process$/.test(n.moduleSpecifier.text) &&
+      n.importClause?.namedBindings &&
+      ts.isNamedImports(n.importClause.namedBindings)
         ? n.importClause.namedBindings.elements.map((e) => (e.propertyName ?? e.name).text)
-        : ts.isVariableDeclaration(n) && ts.isObjectBindingPattern(n.name) && n.initializer && ts.isIdentifier(n.initializer) && n.initializer.text === "process"
+        : ts.isVariableDeclaration(n) &&
+            ts.isObjectBindingPattern(n.name) &&
+            n.initializer &&
+            ts.isIdentifier(n.initializer) &&
+            n.initializer.text === "process"
           ? n.name.elements.map((e) => (e.propertyName ?? e.name).getText())
           : [];
     if (bindings.includes("env")) out.push({ file, line: sf.getLineAndCharacterOfPosition(n.getStart()).line + 1, text: n.getText(), assigned: false });
@@ -47,7 +59,9 @@ function envReads(file: string, source: string): EnvRead[] {
       }
       const up = target.parent;
       const assigned =
-        target !== n && ts.isBinaryExpression(up) && up.left === target &&
+        target !== n &&
+        ts.isBinaryExpression(up) &&
+        up.left === target &&
         [ts.SyntaxKind.EqualsToken, ts.SyntaxKind.QuestionQuestionEqualsToken, ts.SyntaxKind.BarBarEqualsToken].includes(up.operatorToken.kind);
       const line = sf.getLineAndCharacterOfPosition(n.getStart()).line;
       out.push({ file, line: line + 1, text: source.split("\n")[line].trim(), name, assigned });

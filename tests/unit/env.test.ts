@@ -25,13 +25,25 @@ describe("environment validation (src/env.ts)", () => {
     const env = parseEnv(good);
     expect([env.DATABASE_POOL_SIZE, env.RATE_LIMIT_READS_PER_MINUTE, env.RATE_LIMIT_WRITES_PER_MINUTE]).toEqual([10, 600, 120]);
     expect([env.METER_SENDER_INTERVAL_MS, env.METER_SENDER_LEASE_SECONDS, env.METER_SENDER_WORKSPACE_ID]).toEqual([2000, 30, undefined]);
-    const set = parseEnv({ ...good, RATE_LIMIT_WRITES_PER_MINUTE: "1000000", METER_SENDER_LEASE_SECONDS: "3", METER_SENDER_WORKSPACE_ID: "3f2b8c1e-9a4d-4e6f-8b2a-1c3d5e7f9a0b" });
-    expect([env.SMTP_URL, set.RATE_LIMIT_WRITES_PER_MINUTE, set.METER_SENDER_LEASE_SECONDS, set.METER_SENDER_WORKSPACE_ID]).toEqual(["smtp://127.0.0.1:1025", 1_000_000, 3, "3f2b8c1e-9a4d-4e6f-8b2a-1c3d5e7f9a0b"]);
+    const set = parseEnv({
+      ...good,
+      RATE_LIMIT_WRITES_PER_MINUTE: "1000000",
+      METER_SENDER_LEASE_SECONDS: "3",
+      METER_SENDER_WORKSPACE_ID: "3f2b8c1e-9a4d-4e6f-8b2a-1c3d5e7f9a0b",
+    });
+    expect([env.SMTP_URL, set.RATE_LIMIT_WRITES_PER_MINUTE, set.METER_SENDER_LEASE_SECONDS, set.METER_SENDER_WORKSPACE_ID]).toEqual([
+      "smtp://127.0.0.1:1025",
+      1_000_000,
+      3,
+      "3f2b8c1e-9a4d-4e6f-8b2a-1c3d5e7f9a0b",
+    ]);
   });
 
   it("takes an empty METER_SENDER_WORKSPACE_ID as unset and names a bad one", () => {
     expect(parseEnv({ ...good, METER_SENDER_WORKSPACE_ID: "" }).METER_SENDER_WORKSPACE_ID).toBeUndefined();
-    expect(() => parseEnv({ ...good, METER_SENDER_WORKSPACE_ID: "workspace-1" })).toThrowError(/METER_SENDER_WORKSPACE_ID is invalid \("workspace-1"\): must be a workspace id/);
+    expect(() => parseEnv({ ...good, METER_SENDER_WORKSPACE_ID: "workspace-1" })).toThrowError(
+      /METER_SENDER_WORKSPACE_ID is invalid \("workspace-1"\): must be a workspace id/,
+    );
     expect(() => parseEnv({ ...good, RATE_LIMIT_READS_PER_MINUTE: "0" })).toThrowError(/RATE_LIMIT_READS_PER_MINUTE is invalid/);
     expect(() => parseEnv({ ...good, DATABASE_POOL_SIZE: "many" })).toThrowError(/DATABASE_POOL_SIZE is invalid/);
   });

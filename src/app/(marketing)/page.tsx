@@ -30,29 +30,40 @@ export default function LandingPage() {
           Triskel
         </span>
         <nav className="flex gap-6 text-body text-fg-soft">
-          <Link href="/pricing" className="hover:text-accent">Pricing</Link>
-          <Link href="/manual" className="hover:text-accent">Model manual</Link>
-          <Link href="/sign-in" className="rounded-full bg-fg px-4 py-1.5 text-canvas hover:bg-accent">Sign in</Link>
+          <Link href="/pricing" className="hover:text-accent">
+            Pricing
+          </Link>
+          <Link href="/manual" className="hover:text-accent">
+            Model manual
+          </Link>
+          <Link href="/sign-in" className="rounded-full bg-fg px-4 py-1.5 text-canvas hover:bg-accent">
+            Sign in
+          </Link>
         </nav>
       </header>
 
       <section className="mt-20 grid items-center gap-10 lg:grid-cols-[minmax(0,1.3fr)_minmax(0,1fr)]">
         <div>
-        <p className="font-mono text-caption uppercase tracking-widest text-accent">chiral scattering networks</p>
-        <h1 className="mt-3 text-display font-semibold">Coherent transport through networks of one-way channels.</h1>
-        <p className="mt-6 text-lead text-fg-soft">
-          Describe a triangular domain-wall network or a square network at the quantum Hall transition. Triskel&apos;s
-          workers compute conductance, spectra and densities of states, and hand back plots, tables and files for your
-          paper.
-        </p>
-        <div className="mt-8 flex gap-4">
-          <Link href="/sign-up" className="rounded-full bg-accent px-5 py-2 text-accent-fg hover:bg-accent-strong">Start free</Link>
-          <a href="/api/v1/health" className="rounded-full border border-line-strong px-5 py-2 hover:border-accent">Service status</a>
-        </div>
+          <p className="font-mono text-caption uppercase tracking-widest text-accent">chiral scattering networks</p>
+          <h1 className="mt-3 text-display font-semibold">Coherent transport through networks of one-way channels.</h1>
+          <p className="mt-6 text-lead text-fg-soft">
+            Describe a triangular domain-wall network or a square network at the quantum Hall transition. Triskel&apos;s workers compute conductance, spectra
+            and densities of states, and hand back plots, tables and files for your paper.
+          </p>
+          <div className="mt-8 flex gap-4">
+            <Link href="/sign-up" className="rounded-full bg-accent px-5 py-2 text-accent-fg hover:bg-accent-strong">
+              Start free
+            </Link>
+            <a href="/api/v1/health" className="rounded-full border border-line-strong px-5 py-2 hover:border-accent">
+              Service status
+            </a>
+          </div>
         </div>
         <figure className="rounded-card border border-line bg-surface p-4">
           <NetworkMotif className="h-auto w-full" />
-          <figcaption className="mt-2 text-caption text-fg-faint">A 7 × 6 triangular network in one valley: every link carries its mode one way; leads on the left and right.</figcaption>
+          <figcaption className="mt-2 text-caption text-fg-faint">
+            A 7 × 6 triangular network in one valley: every link carries its mode one way; leads on the left and right.
+          </figcaption>
         </figure>
       </section>
 
@@ -66,9 +77,8 @@ export default function LandingPage() {
       </section>
 
       <p className="mt-16 border-t border-line pt-6 text-caption text-fg-faint">
-        Results are predictions of a phenomenological model, not measurements; node probabilities and mode velocity are
-        model parameters to be fitted, not material constants. Costs are shown before any job is charged. Nothing here
-        controls instruments.
+        Results are predictions of a phenomenological model, not measurements; node probabilities and mode velocity are model parameters to be fitted, not
+        material constants. Costs are shown before any job is charged. Nothing here controls instruments.
       </p>
     </main>
   );

@@ -23,7 +23,11 @@ export function AcceptInvitation({ token, preview }: { token: string; preview: P
   const withEmail = (path: string) => `${path}?redirect_url=${encodeURIComponent(back)}&email=${encodeURIComponent(preview.email)}`;
 
   if (preview.status !== "pending") {
-    return <FormMessage>This invitation is {preview.status}. Ask an Owner of {preview.workspaceName} for a new one.</FormMessage>;
+    return (
+      <FormMessage>
+        This invitation is {preview.status}. Ask an Owner of {preview.workspaceName} for a new one.
+      </FormMessage>
+    );
   }
 
   async function accept() {
@@ -64,10 +68,16 @@ export function AcceptInvitation({ token, preview }: { token: string; preview: P
         </button>
       ) : (
         <div className="space-y-3">
-          <Link href={withEmail("/sign-up")} className="inline-flex w-full items-center justify-center rounded-full bg-wall-700 px-5 py-2.5 text-body font-semibold text-paper hover:bg-wall-900">
+          <Link
+            href={withEmail("/sign-up")}
+            className="inline-flex w-full items-center justify-center rounded-full bg-wall-700 px-5 py-2.5 text-body font-semibold text-paper hover:bg-wall-900"
+          >
             Create an account to join
           </Link>
-          <Link href={withEmail("/sign-in")} className="inline-flex w-full items-center justify-center rounded-full border border-ink/20 px-5 py-2.5 text-body font-semibold text-ink hover:border-wall-500">
+          <Link
+            href={withEmail("/sign-in")}
+            className="inline-flex w-full items-center justify-center rounded-full border border-ink/20 px-5 py-2.5 text-body font-semibold text-ink hover:border-wall-500"
+          >
             I already have an account
           </Link>
         </div>

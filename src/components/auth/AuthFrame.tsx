@@ -22,9 +22,7 @@ export function AuthFrame({ title, lead, children, aside }: { title: string; lea
           {aside ?? (
             <>
               <p className="font-mono text-caption uppercase tracking-widest text-spark-300">one-way channels</p>
-              <p className="mt-3 text-lead">
-                Networks, runs and fits live in a workspace: your own, or your lab&apos;s, shared with the people you invite.
-              </p>
+              <p className="mt-3 text-lead">Networks, runs and fits live in a workspace: your own, or your lab&apos;s, shared with the people you invite.</p>
             </>
           )}
         </div>

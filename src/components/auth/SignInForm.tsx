@@ -23,14 +23,28 @@ export function SignInForm() {
     if (!password) next.password = "Enter your password.";
     setErrors(next);
     if (Object.keys(next).length || !isLoaded) return;
-    await attemptSession(() => signIn.create({ identifier: email.trim(), password }), { setActive, redirect, incomplete: "This account needs a sign-in step Triskel does not offer yet; contact support.", setErrors, setBusy });
+    await attemptSession(() => signIn.create({ identifier: email.trim(), password }), {
+      setActive,
+      redirect,
+      incomplete: "This account needs a sign-in step Triskel does not offer yet; contact support.",
+      setErrors,
+      setBusy,
+    });
   }
 
   return (
     <form onSubmit={submit} noValidate className="space-y-5" data-testid="sign-in-form" data-ready={isLoaded ? "yes" : "no"}>
       {errors.form ? <FormMessage>{errors.form}</FormMessage> : null}
       <AuthInput id="email" label="E-mail" type="email" autoComplete="email" value={email} onChange={(e) => setEmail(e.target.value)} error={errors.email} />
-      <AuthInput id="password" label="Password" type="password" autoComplete="current-password" value={password} onChange={(e) => setPassword(e.target.value)} error={errors.password} />
+      <AuthInput
+        id="password"
+        label="Password"
+        type="password"
+        autoComplete="current-password"
+        value={password}
+        onChange={(e) => setPassword(e.target.value)}
+        error={errors.password}
+      />
       <AuthButton busy={busy || !isLoaded}>Sign in</AuthButton>
       <p className="text-caption text-ink-faint">
         New to Triskel?{" "}

@@ -11,18 +11,24 @@ export function SignOutNow() {
   useEffect(() => {
     if (!clerk.loaded) return;
     // Clerk navigates to redirectUrl once the session is ended.
-    clerk
-      .signOut({ redirectUrl: "/sign-in" })
-      .catch((err: unknown) => setFailed(err instanceof Error ? err.message : String(err)));
+    clerk.signOut({ redirectUrl: "/sign-in" }).catch((err: unknown) => setFailed(err instanceof Error ? err.message : String(err)));
   }, [clerk, clerk.loaded]);
   if (failed) {
     return (
       <p role="alert" className="text-body text-alarm-700">
-        Signing out did not finish ({failed}). <Link href="/sign-out" className="underline">Try again</Link>.
+        Signing out did not finish ({failed}).{" "}
+        <Link href="/sign-out" className="underline">
+          Try again
+        </Link>
+        .
       </p>
     );
   }
-  return <p className="text-body text-ink-faint" aria-live="polite">Signing you out…</p>;
+  return (
+    <p className="text-body text-ink-faint" aria-live="polite">
+      Signing you out…
+    </p>
+  );
 }
 
 /** A sign-out control for menus and headers (the shell can place it anywhere). */

@@ -39,7 +39,15 @@ export function SignUpForm() {
       {errors.form ? <FormMessage>{errors.form}</FormMessage> : null}
       <AuthInput id="name" label="Name" autoComplete="name" value={name} onChange={(e) => setName(e.target.value)} error={errors.name} />
       <AuthInput id="email" label="E-mail" type="email" autoComplete="email" value={email} onChange={(e) => setEmail(e.target.value)} error={errors.email} />
-      <AuthInput id="password" label="Password" type="password" autoComplete="new-password" value={password} onChange={(e) => setPassword(e.target.value)} error={errors.password} />
+      <AuthInput
+        id="password"
+        label="Password"
+        type="password"
+        autoComplete="new-password"
+        value={password}
+        onChange={(e) => setPassword(e.target.value)}
+        error={errors.password}
+      />
       <AuthButton busy={busy || !isLoaded}>Create account</AuthButton>
       <p className="text-caption text-ink-faint">
         Already have an account?{" "}

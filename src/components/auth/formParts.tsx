@@ -70,7 +70,13 @@ interface Attempt {
  */
 export async function attemptSession(
   start: () => Promise<Attempt>,
-  { setActive, redirect, incomplete, setErrors, setBusy }: {
+  {
+    setActive,
+    redirect,
+    incomplete,
+    setErrors,
+    setBusy,
+  }: {
     setActive: (params: { session: string }) => Promise<unknown>;
     redirect: string;
     incomplete: string;

@@ -24,7 +24,11 @@ export function BillingPage() {
   });
   const usage = useQuery({ queryKey: keys.usage, queryFn: () => api("GET /api/v1/usage") });
   const canManage = overview.data?.canManageBilling ?? false;
-  const invoices = useQuery({ queryKey: keys.invoices, queryFn: () => api("GET /api/v1/billing/invoices"), enabled: canManage && Boolean(overview.data?.hasPaymentAccount) });
+  const invoices = useQuery({
+    queryKey: keys.invoices,
+    queryFn: () => api("GET /api/v1/billing/invoices"),
+    enabled: canManage && Boolean(overview.data?.hasPaymentAccount),
+  });
   const refresh = () => void client.invalidateQueries({ queryKey: ["billing"] });
 
   const upgrade = useMutation({
@@ -50,12 +54,16 @@ export function BillingPage() {
 
       {returnedFromCheckout ? (
         <p role="status" className="rounded-card border border-accent/40 bg-accent-soft p-3 text-body text-accent-strong" data-testid="checkout-done">
-          Payment received. {o.plan === "lab" ? "This workspace is on the Lab plan." : "The plan changes as soon as the payment service confirms it; this page updates by itself."}
+          Payment received.{" "}
+          {o.plan === "lab"
+            ? "This workspace is on the Lab plan."
+            : "The plan changes as soon as the payment service confirms it; this page updates by itself."}
         </p>
       ) : null}
       {o.planState === "grace" ? (
         <p role="alert" className="rounded-card border border-warm/50 bg-warm-soft p-3 text-body text-warm" data-testid="grace-banner">
-          The last payment failed. Lab limits stay until {o.graceEndsAt ? day(o.graceEndsAt) : "the end of the grace period"}; then this workspace works under Free limits. Update the payment details to keep Lab.
+          The last payment failed. Lab limits stay until {o.graceEndsAt ? day(o.graceEndsAt) : "the end of the grace period"}; then this workspace works under
+          Free limits. Update the payment details to keep Lab.
         </p>
       ) : null}
       {o.planState === "suspended" ? (
@@ -66,8 +74,12 @@ export function BillingPage() {
 
       <div className="grid gap-4 md:grid-cols-3">
         <section className="tk-card space-y-2 p-4" aria-labelledby="plan-h">
-          <h2 id="plan-h" className="text-body font-semibold">Plan</h2>
-          <p className="text-title font-semibold" data-testid="plan-label">{o.planLabel}</p>
+          <h2 id="plan-h" className="text-body font-semibold">
+            Plan
+          </h2>
+          <p className="text-title font-semibold" data-testid="plan-label">
+            {o.planLabel}
+          </p>
           <p className="text-caption text-fg-soft">
             {o.plan === "lab"
               ? `${o.seatPriceUsdPerMonth} USD per seat per month + ${o.computePriceUsdPerHour.toFixed(2)} USD per compute-hour, metered.`
@@ -94,12 +106,15 @@ export function BillingPage() {
         </section>
 
         <section className="tk-card space-y-2 p-4" aria-labelledby="seats-h">
-          <h2 id="seats-h" className="text-body font-semibold">Seats</h2>
+          <h2 id="seats-h" className="text-body font-semibold">
+            Seats
+          </h2>
           <p className="text-title font-semibold tk-num" data-testid="seats">
             {o.plan === "lab" ? o.seats : "–"}
           </p>
           <p className="text-caption text-fg-soft">
-            {o.members} member{o.members === 1 ? "" : "s"}. Seats follow membership: inviting or removing a member changes the seat count (prorated by the payment service).
+            {o.members} member{o.members === 1 ? "" : "s"}. Seats follow membership: inviting or removing a member changes the seat count (prorated by the
+            payment service).
           </p>
           {canManage && o.hasSubscription && o.seats !== Math.max(1, o.members) ? (
             <button type="button" className="tk-btn-quiet" onClick={() => syncSeats.mutate()} disabled={syncSeats.isPending}>
@@ -113,13 +128,19 @@ export function BillingPage() {
 
       <section className="tk-card space-y-3 p-4" aria-labelledby="usage-h">
         <div className="flex flex-wrap items-baseline justify-between gap-2">
-          <h2 id="usage-h" className="text-body font-semibold">Usage in {o.period}</h2>
+          <h2 id="usage-h" className="text-body font-semibold">
+            Usage in {o.period}
+          </h2>
           <p className="text-caption text-fg-soft" data-testid="usage-total">
             {formatComputeSeconds(o.usedComputeSeconds)}
             {o.plan === "lab" ? ` · ${formatUsd(o.spendUsd)}` : ` of ${o.includedComputeSeconds / 60} included compute-minutes`}
           </p>
         </div>
-        {usage.isPending ? <Skeleton /> : usage.error ? <ErrorNote error={usage.error} /> : (
+        {usage.isPending ? (
+          <Skeleton />
+        ) : usage.error ? (
+          <ErrorNote error={usage.error} />
+        ) : (
           <>
             <FigureTable testId="usage-members" columns={["Member", "Role"]} numberColumns={["Runs", "Compute-seconds", "Cost"]}>
               {usage.data.members.map((m) => (
@@ -145,21 +166,39 @@ export function BillingPage() {
 
       {canManage && o.hasPaymentAccount ? (
         <section className="tk-card space-y-3 p-4" aria-labelledby="inv-h">
-          <h2 id="inv-h" className="text-body font-semibold">Invoices</h2>
-          {invoices.isPending ? <Skeleton /> : invoices.error ? <ErrorNote error={invoices.error} /> : (
+          <h2 id="inv-h" className="text-body font-semibold">
+            Invoices
+          </h2>
+          {invoices.isPending ? (
+            <Skeleton />
+          ) : invoices.error ? (
+            <ErrorNote error={invoices.error} />
+          ) : (
             <FigureTable testId="invoices" columns={["Invoice", "Period", "Status"]} numberColumns={["Total"]}>
               {invoices.data.upcoming ? (
                 <tr className="border-b border-line/60 text-fg-soft">
                   <td className="py-1.5">Next (estimate so far)</td>
-                  <td className="py-1.5">{day(invoices.data.upcoming.periodStart)} – {day(invoices.data.upcoming.periodEnd)}</td>
+                  <td className="py-1.5">
+                    {day(invoices.data.upcoming.periodStart)} – {day(invoices.data.upcoming.periodEnd)}
+                  </td>
                   <td className="py-1.5">upcoming</td>
                   <td className="py-1.5 text-right tk-num">{formatUsd(invoices.data.upcoming.totalUsd)}</td>
                 </tr>
               ) : null}
               {invoices.data.invoices.map((i) => (
                 <tr key={i.id} className="border-b border-line/60">
-                  <td className="py-1.5">{i.url ? <a className="underline" href={i.url}>{i.number ?? i.id}</a> : (i.number ?? i.id)}</td>
-                  <td className="py-1.5">{day(i.periodStart)} – {day(i.periodEnd)}</td>
+                  <td className="py-1.5">
+                    {i.url ? (
+                      <a className="underline" href={i.url}>
+                        {i.number ?? i.id}
+                      </a>
+                    ) : (
+                      (i.number ?? i.id)
+                    )}
+                  </td>
+                  <td className="py-1.5">
+                    {day(i.periodStart)} – {day(i.periodEnd)}
+                  </td>
                   <td className="py-1.5">{i.status}</td>
                   <td className="py-1.5 text-right tk-num">{formatUsd(i.totalUsd)}</td>
                 </tr>
@@ -179,10 +218,14 @@ function FigureTable({ testId, columns, numberColumns, children }: { testId: str
       <thead>
         <tr className="border-b border-line text-left text-caption text-fg-faint">
           {columns.map((c) => (
-            <th key={c} className="py-1.5 font-medium">{c}</th>
+            <th key={c} className="py-1.5 font-medium">
+              {c}
+            </th>
           ))}
           {numberColumns.map((c) => (
-            <th key={c} className="py-1.5 text-right font-medium">{c}</th>
+            <th key={c} className="py-1.5 text-right font-medium">
+              {c}
+            </th>
           ))}
         </tr>
       </thead>
@@ -200,14 +243,20 @@ function SpendCap({ o, canManage, onSaved }: { o: BillingOverview; canManage: bo
   const share = o.spendCapUsd ? Math.min(1, o.spendUsd / o.spendCapUsd) : 0;
   return (
     <section className="tk-card space-y-2 p-4" aria-labelledby="cap-h">
-      <h2 id="cap-h" className="text-body font-semibold">Spend cap</h2>
-      <p className="text-title font-semibold tk-num" data-testid="spend-cap">{o.spendCapUsd === null ? "No cap" : formatUsd(o.spendCapUsd)}</p>
+      <h2 id="cap-h" className="text-body font-semibold">
+        Spend cap
+      </h2>
+      <p className="text-title font-semibold tk-num" data-testid="spend-cap">
+        {o.spendCapUsd === null ? "No cap" : formatUsd(o.spendCapUsd)}
+      </p>
       {o.spendCapUsd !== null && o.plan === "lab" ? (
         <div aria-label={`Spent ${Math.round(share * 100)} % of the cap`}>
           <div className="h-2 rounded-full bg-surface-sunk">
             <div className={`h-2 rounded-full ${share >= 1 ? "bg-danger" : share >= 0.8 ? "bg-warm" : "bg-accent"}`} style={{ width: `${share * 100}%` }} />
           </div>
-          <p className="mt-1 text-caption text-fg-soft">{formatUsd(o.spendUsd)} spent on compute this month. E-mails go to the Owner and Billing admins at 80 % and 100 %.</p>
+          <p className="mt-1 text-caption text-fg-soft">
+            {formatUsd(o.spendUsd)} spent on compute this month. E-mails go to the Owner and Billing admins at 80 % and 100 %.
+          </p>
         </div>
       ) : null}
       {canManage ? (
@@ -219,10 +268,21 @@ function SpendCap({ o, canManage, onSaved }: { o: BillingOverview; canManage: bo
           }}
         >
           <div>
-            <label htmlFor="spend-cap" className="tk-label">Monthly cap <span className="font-mono text-micro text-fg-faint">[USD]</span></label>
-            <input id="spend-cap" className="tk-field mt-1 w-32" inputMode="decimal" value={value} onChange={(e) => setValue(e.target.value)} placeholder="no cap" />
+            <label htmlFor="spend-cap" className="tk-label">
+              Monthly cap <span className="font-mono text-micro text-fg-faint">[USD]</span>
+            </label>
+            <input
+              id="spend-cap"
+              className="tk-field mt-1 w-32"
+              inputMode="decimal"
+              value={value}
+              onChange={(e) => setValue(e.target.value)}
+              placeholder="no cap"
+            />
           </div>
-          <button type="submit" className="tk-btn-quiet" disabled={save.isPending}>Save</button>
+          <button type="submit" className="tk-btn-quiet" disabled={save.isPending}>
+            Save
+          </button>
         </form>
       ) : null}
       {save.error ? <ErrorNote error={save.error} title="Cap not saved" /> : null}

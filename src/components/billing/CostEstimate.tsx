@@ -22,7 +22,12 @@ export function formatUsd(usd: number): string {
 export function CostEstimate({ computeSeconds, plan, className = "" }: { computeSeconds: number; plan: PlanId; className?: string }) {
   const e = estimateCost(computeSeconds, plan);
   return (
-    <p className={`text-caption text-fg-soft ${className}`} data-testid="cost-estimate" data-compute-seconds={Math.round(e.computeSeconds)} data-cost-usd={e.costUsd.toFixed(4)}>
+    <p
+      className={`text-caption text-fg-soft ${className}`}
+      data-testid="cost-estimate"
+      data-compute-seconds={Math.round(e.computeSeconds)}
+      data-cost-usd={e.costUsd.toFixed(4)}
+    >
       <span className="font-semibold text-fg">Estimate:</span> <span className="tk-num">{formatComputeSeconds(e.computeSeconds)}</span>
       {plan === "free" ? null : (
         <>

@@ -6,7 +6,6 @@ import { ChartFrame } from "@/components/charts/ChartFrame";
 import { useChartBox } from "@/components/charts/useWidth";
 import type { DayUsage } from "@/shared/api";
 
-
 /** Compute-seconds per day of the period, stacked by member (d3 stack and scales, drawn as SVG). */
 export function UsageByDayChart({ period, days, names }: { period: string; days: DayUsage[]; names: Map<string, string> }) {
   const svgRef = useRef<SVGSVGElement>(null);
@@ -24,15 +23,25 @@ export function UsageByDayChart({ period, days, names }: { period: string; days:
       for (const d of days) if (d.date === date) row[d.userId ?? "former"] = (row[d.userId ?? "former"] as number) + d.computeSeconds;
       return row;
     });
-    const series = d3.stack<Record<string, number | string>>().keys(members).value((r, k) => Number(r[k]))(table);
+    const series = d3
+      .stack<Record<string, number | string>>()
+      .keys(members)
+      .value((r, k) => Number(r[k]))(table);
     const max = d3.max(series, (s) => d3.max(s, (p) => p[1])) ?? 0;
     return { dates, members, series, max };
   }, [period, days]);
   // The frame pads its figure (p-4 on each side): draw inside that.
   const inner = { w: Math.max(200, width - 34 - m.left - m.right), h: height - m.top - m.bottom };
   const x = d3.scaleBand<string>().domain(model.dates).range([0, inner.w]).padding(0.18);
-  const y = d3.scaleLinear().domain([0, Math.max(1, model.max)]).nice().range([inner.h, 0]);
-  const colours = d3.scaleOrdinal<string, string>().domain(model.members).range([palette?.link ?? "#1f8f7d", palette?.linkAlt ?? "#d9891a", palette?.accent ?? "#146657", palette?.warm ?? "#9a5b08", "#5b6b75", "#7fcabb"]);
+  const y = d3
+    .scaleLinear()
+    .domain([0, Math.max(1, model.max)])
+    .nice()
+    .range([inner.h, 0]);
+  const colours = d3
+    .scaleOrdinal<string, string>()
+    .domain(model.members)
+    .range([palette?.link ?? "#1f8f7d", palette?.linkAlt ?? "#d9891a", palette?.accent ?? "#146657", palette?.warm ?? "#9a5b08", "#5b6b75", "#7fcabb"]);
   const csv = {
     header: ["date", "member", "compute_seconds"],
     rows: days.map((d) => [d.date, d.userId ? (names.get(d.userId) ?? d.userId) : "former members", d.computeSeconds]),
@@ -63,11 +72,13 @@ export function UsageByDayChart({ period, days, names }: { period: string; days:
                 })}
               </g>
             ))}
-            {model.dates.filter((_, i) => i % 5 === 0).map((d) => (
-              <text key={d} x={(x(d) ?? 0) + x.bandwidth() / 2} y={inner.h + 18} textAnchor="middle" fontSize={11} fill={palette?.faint ?? "#5b6b75"}>
-                {d.slice(8)}
-              </text>
-            ))}
+            {model.dates
+              .filter((_, i) => i % 5 === 0)
+              .map((d) => (
+                <text key={d} x={(x(d) ?? 0) + x.bandwidth() / 2} y={inner.h + 18} textAnchor="middle" fontSize={11} fill={palette?.faint ?? "#5b6b75"}>
+                  {d.slice(8)}
+                </text>
+              ))}
             <text transform={`translate(${-44},${inner.h / 2}) rotate(-90)`} textAnchor="middle" fontSize={11} fill={palette?.faint ?? "#5b6b75"}>
               compute-seconds
             </text>

@@ -44,7 +44,23 @@ export function useD3Chart(height: number, draw: (c: ChartDrawing) => void, deps
 export type D3ChartState = ReturnType<typeof useD3Chart>;
 
 /** A chart of useD3Chart in its frame: title, export buttons, the sized SVG and the read-out. */
-export function D3Chart({ chart, title, name, label, height, csv, extra }: { chart: D3ChartState; title: string; name: string; label: string; height: number; csv?: CsvData; extra?: ReactNode }) {
+export function D3Chart({
+  chart,
+  title,
+  name,
+  label,
+  height,
+  csv,
+  extra,
+}: {
+  chart: D3ChartState;
+  title: string;
+  name: string;
+  label: string;
+  height: number;
+  csv?: CsvData;
+  extra?: ReactNode;
+}) {
   // The refs of useD3Chart go to ref attributes and to the frame's export buttons (read on click,
   // never during render); the hook rules cannot see that through the chart object.
   /* eslint-disable react-hooks/refs */

@@ -6,26 +6,56 @@ import { drawAxes } from "./axes";
 import { D3Chart, useD3Chart } from "./D3Chart";
 
 /** Histogram of values in [0, 1] by default (transmission eigenvalues), count on the y axis. */
-export function Histogram({ title, name, values, xLabel, bins = 20, domain = [0, 1], height = 260 }: { title: string; name: string; values: number[]; xLabel: string; bins?: number; domain?: [number, number]; height?: number }) {
-  const binned = d3.bin().domain(domain).thresholds(d3.range(bins + 1).map((i) => domain[0] + ((domain[1] - domain[0]) * i) / bins).slice(1, -1))(values);
-  const chart = useD3Chart(height, ({ g, innerW, innerH, palette, setReadout }) => {
-    const x = d3.scaleLinear().domain(domain).range([0, innerW]);
-    const y = d3.scaleLinear().domain([0, d3.max(binned, (b) => b.length) || 1]).nice().range([innerH, 0]);
-    drawAxes(g, x, y, innerW, innerH, xLabel, "Count", palette);
-    g.append("g")
-      .attr("data-layer", "bars")
-      .selectAll("rect")
-      .data(binned)
-      .join("rect")
-      .attr("x", (b) => x(b.x0!) + 1)
-      .attr("width", (b) => Math.max(0, x(b.x1!) - x(b.x0!) - 2))
-      .attr("y", (b) => y(b.length))
-      .attr("height", (b) => innerH - y(b.length))
-      .attr("fill", palette.link)
-      .on("mouseenter", (_, b) => setReadout(`${num(b.x0!)} – ${num(b.x1!)}: ${b.length} eigenvalue${b.length === 1 ? "" : "s"}`));
-  }, [values, bins, xLabel]);
-  const csv = { header: ["binFrom", "binTo", "count"], rows: binned.map((b) => [b.x0!, b.x1!, b.length]), comments: [`${title}`, `${values.length} values`] };
-  return (
-    <D3Chart chart={chart} title={title} name={name} label={`${title}: histogram of ${values.length} values`} height={height} csv={csv} />
+export function Histogram({
+  title,
+  name,
+  values,
+  xLabel,
+  bins = 20,
+  domain = [0, 1],
+  height = 260,
+}: {
+  title: string;
+  name: string;
+  values: number[];
+  xLabel: string;
+  bins?: number;
+  domain?: [number, number];
+  height?: number;
+}) {
+  const binned = d3
+    .bin()
+    .domain(domain)
+    .thresholds(
+      d3
+        .range(bins + 1)
+        .map((i) => domain[0] + ((domain[1] - domain[0]) * i) / bins)
+        .slice(1, -1),
+    )(values);
+  const chart = useD3Chart(
+    height,
+    ({ g, innerW, innerH, palette, setReadout }) => {
+      const x = d3.scaleLinear().domain(domain).range([0, innerW]);
+      const y = d3
+        .scaleLinear()
+        .domain([0, d3.max(binned, (b) => b.length) || 1])
+        .nice()
+        .range([innerH, 0]);
+      drawAxes(g, x, y, innerW, innerH, xLabel, "Count", palette);
+      g.append("g")
+        .attr("data-layer", "bars")
+        .selectAll("rect")
+        .data(binned)
+        .join("rect")
+        .attr("x", (b) => x(b.x0!) + 1)
+        .attr("width", (b) => Math.max(0, x(b.x1!) - x(b.x0!) - 2))
+        .attr("y", (b) => y(b.length))
+        .attr("height", (b) => innerH - y(b.length))
+        .attr("fill", palette.link)
+        .on("mouseenter", (_, b) => setReadout(`${num(b.x0!)} – ${num(b.x1!)}: ${b.length} eigenvalue${b.length === 1 ? "" : "s"}`));
+    },
+    [values, bins, xLabel],
   );
+  const csv = { header: ["binFrom", "binTo", "count"], rows: binned.map((b) => [b.x0!, b.x1!, b.length]), comments: [`${title}`, `${values.length} values`] };
+  return <D3Chart chart={chart} title={title} name={name} label={`${title}: histogram of ${values.length} values`} height={height} csv={csv} />;
 }

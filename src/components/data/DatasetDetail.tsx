@@ -26,7 +26,8 @@ export function DatasetDetail({ id }: { id: string }) {
           </a>
         }
       >
-        {d.synthetic ? <SyntheticMark /> : null} {d.rows} points · x: {d.xQuantity} in {d.xUnit} · y: conductance in e²/h{d.hasSigma ? " with uncertainties" : ""} · sha256 <span className="font-mono text-caption">{d.dataHash.slice(0, 12)}…</span>
+        {d.synthetic ? <SyntheticMark /> : null} {d.rows} points · x: {d.xQuantity} in {d.xUnit} · y: conductance in e²/h
+        {d.hasSigma ? " with uncertainties" : ""} · sha256 <span className="font-mono text-caption">{d.dataHash.slice(0, 12)}…</span>
         {d.description ? <p className="mt-1 text-caption">{d.description}</p> : null}
       </PageHeader>
       <div className="space-y-10">
@@ -40,7 +41,11 @@ export function DatasetDetail({ id }: { id: string }) {
           series={[{ name: d.synthetic ? "data (synthetic)" : "data", x: d.points.x, y: d.points.y, err: d.points.sigma ?? undefined, points: true }]}
           csv={{ header: [`x_${d.xUnit}`, "conductanceE2h", "sigmaE2h"], rows: d.points.x.map((x, i) => [x, d.points.y[i], d.points.sigma?.[i] ?? ""]) }}
         />
-        {d.xQuantity === "field" ? <PeriodPanel datasetId={d.id} /> : <p className="text-body text-fg-soft">The period analysis and fits need a field axis; this dataset&apos;s x is {d.xQuantity}.</p>}
+        {d.xQuantity === "field" ? (
+          <PeriodPanel datasetId={d.id} />
+        ) : (
+          <p className="text-body text-fg-soft">The period analysis and fits need a field axis; this dataset&apos;s x is {d.xQuantity}.</p>
+        )}
         {d.xQuantity === "field" ? <FitForm datasetId={d.id} datasetName={d.name} /> : null}
         {fitsQ.data?.items.length ? (
           <section>

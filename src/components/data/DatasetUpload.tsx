@@ -18,7 +18,11 @@ function IssueList({ issues }: { issues: CsvIssue[] }) {
     <ul role="alert" className="space-y-1 rounded-card border border-danger/40 bg-danger-soft p-3 text-caption text-danger" data-testid="csv-issues">
       {issues.map((i, k) => (
         <li key={k}>
-          <span className="font-mono">{i.row !== null ? `row ${i.row}` : "file"}{i.column ? ` · ${i.column}` : ""}</span> — {i.message}
+          <span className="font-mono">
+            {i.row !== null ? `row ${i.row}` : "file"}
+            {i.column ? ` · ${i.column}` : ""}
+          </span>{" "}
+          — {i.message}
         </li>
       ))}
     </ul>
@@ -43,7 +47,9 @@ export function DatasetUpload() {
     setSubmitError(null);
     setFile(f);
     if (f.size > DATASET_MAX_BYTES) {
-      setReadIssues([{ code: "too_many_rows", row: null, column: null, message: `The file is ${f.size} bytes; the limit is ${DATASET_MAX_BYTES} bytes (5 MB).` }]);
+      setReadIssues([
+        { code: "too_many_rows", row: null, column: null, message: `The file is ${f.size} bytes; the limit is ${DATASET_MAX_BYTES} bytes (5 MB).` },
+      ]);
       setPreview(null);
       return;
     }
@@ -59,7 +65,14 @@ export function DatasetUpload() {
       const gy = p.guessedUnits[c1];
       const sigma = p.columns.find((c) => /sigma|err|unc|^d[GR]/i.test(c));
       const temp = p.columns.find((c) => /temp|^T_?K/i.test(c));
-      setMapping({ xColumn: c0 ?? "", xUnit: gx && isXUnit(gx) ? gx : "T", yColumn: c1 ?? "", yUnit: gy && isYUnit(gy) ? gy : "e2/h", ...(sigma ? { sigmaColumn: sigma } : {}), ...(temp ? { temperatureColumn: temp } : {}) });
+      setMapping({
+        xColumn: c0 ?? "",
+        xUnit: gx && isXUnit(gx) ? gx : "T",
+        yColumn: c1 ?? "",
+        yUnit: gy && isYUnit(gy) ? gy : "e2/h",
+        ...(sigma ? { sigmaColumn: sigma } : {}),
+        ...(temp ? { temperatureColumn: temp } : {}),
+      });
     } catch (e) {
       setPreview(null);
       setReadIssues(e instanceof DatasetCsvError ? e.issues : [{ code: "malformed_row", row: null, column: null, message: (e as Error).message }]);
@@ -71,7 +84,10 @@ export function DatasetUpload() {
     try {
       return { ok: true as const, data: parseDatasetCsv(text, mapping) };
     } catch (e) {
-      return { ok: false as const, issues: e instanceof DatasetCsvError ? e.issues : [{ code: "malformed_row" as const, row: null, column: null, message: (e as Error).message }] };
+      return {
+        ok: false as const,
+        issues: e instanceof DatasetCsvError ? e.issues : [{ code: "malformed_row" as const, row: null, column: null, message: (e as Error).message }],
+      };
     }
   }, [text, mapping]);
 
@@ -111,7 +127,8 @@ export function DatasetUpload() {
   return (
     <>
       <PageHeader kicker="datasets" title="Upload a measured curve">
-        A CSV with a header line: one column for x (field, gate voltage or density), one for the conductance or resistance, optionally its uncertainty and the temperature. Lines starting with # are comments. Files up to 5 MB.
+        A CSV with a header line: one column for x (field, gate voltage or density), one for the conductance or resistance, optionally its uncertainty and the
+        temperature. Lines starting with # are comments. Files up to 5 MB.
       </PageHeader>
       <div className="space-y-6">
         <label
@@ -126,8 +143,16 @@ export function DatasetUpload() {
           className={`flex cursor-pointer flex-col items-center justify-center rounded-card border-2 border-dashed p-10 text-center ${dragging ? "border-accent bg-accent-soft" : "border-line-strong"}`}
         >
           <span className="text-lead font-semibold">{file ? file.name : "Drop a CSV file here"}</span>
-          <span className="mt-1 text-caption text-fg-soft">{file ? `${file.size.toLocaleString()} bytes · ${preview?.totalRows ?? "?"} rows` : "or click to choose one"}</span>
-          <input id="dataset-file" type="file" accept=".csv,text/csv,text/plain" className="sr-only" onChange={(e) => e.target.files?.[0] && void take(e.target.files[0])} />
+          <span className="mt-1 text-caption text-fg-soft">
+            {file ? `${file.size.toLocaleString()} bytes · ${preview?.totalRows ?? "?"} rows` : "or click to choose one"}
+          </span>
+          <input
+            id="dataset-file"
+            type="file"
+            accept=".csv,text/csv,text/plain"
+            className="sr-only"
+            onChange={(e) => e.target.files?.[0] && void take(e.target.files[0])}
+          />
         </label>
         {readIssues ? <IssueList issues={readIssues} /> : null}
 
@@ -169,7 +194,12 @@ export function DatasetUpload() {
                 </select>
               </Field>
               <Field id="sigma-column" label="uncertainty column (optional)" hint="same unit as y">
-                <select id="sigma-column" className="tk-field" value={mapping.sigmaColumn ?? ""} onChange={(e) => set({ sigmaColumn: e.target.value || undefined })}>
+                <select
+                  id="sigma-column"
+                  className="tk-field"
+                  value={mapping.sigmaColumn ?? ""}
+                  onChange={(e) => set({ sigmaColumn: e.target.value || undefined })}
+                >
                   <option value="">none</option>
                   {columns.map((c) => (
                     <option key={c}>{c}</option>
@@ -177,7 +207,12 @@ export function DatasetUpload() {
                 </select>
               </Field>
               <Field id="temperature-column" label="temperature column (optional)" hint="kelvin">
-                <select id="temperature-column" className="tk-field" value={mapping.temperatureColumn ?? ""} onChange={(e) => set({ temperatureColumn: e.target.value || undefined })}>
+                <select
+                  id="temperature-column"
+                  className="tk-field"
+                  value={mapping.temperatureColumn ?? ""}
+                  onChange={(e) => set({ temperatureColumn: e.target.value || undefined })}
+                >
                   <option value="">none</option>
                   {columns.map((c) => (
                     <option key={c}>{c}</option>
@@ -236,7 +271,11 @@ export function DatasetUpload() {
           <button type="button" className="tk-btn" disabled={!parsed?.ok || !name.trim() || busy} onClick={() => void submit()}>
             {busy ? "Saving…" : "Save dataset"}
           </button>
-          {parsed?.ok ? <span className="text-caption text-fg-soft">{parsed.data.rows} points{parsed.data.xDescending ? " (x ran downwards; stored ascending)" : ""}</span> : null}
+          {parsed?.ok ? (
+            <span className="text-caption text-fg-soft">
+              {parsed.data.rows} points{parsed.data.xDescending ? " (x ran downwards; stored ascending)" : ""}
+            </span>
+          ) : null}
         </div>
       </div>
     </>

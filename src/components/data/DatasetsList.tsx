@@ -21,9 +21,16 @@ export function DatasetsList() {
           </Link>
         }
       >
-        Conductance or resistance curves with their column mapping and units. Estimate the moiré period from the oscillations, or fit model parameters with uncertainties.
+        Conductance or resistance curves with their column mapping and units. Estimate the moiré period from the oscillations, or fit model parameters with
+        uncertainties.
       </PageHeader>
-      {q.isPending ? <Skeleton /> : q.error ? <ErrorNote error={q.error} /> : q.data.items.length === 0 ? <Empty>No datasets yet. Upload a CSV to start.</Empty> : (
+      {q.isPending ? (
+        <Skeleton />
+      ) : q.error ? (
+        <ErrorNote error={q.error} />
+      ) : q.data.items.length === 0 ? (
+        <Empty>No datasets yet. Upload a CSV to start.</Empty>
+      ) : (
         <table className="w-full text-body" data-testid="datasets-table">
           <thead className="text-left text-caption text-fg-faint">
             <tr>

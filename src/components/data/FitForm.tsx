@@ -50,7 +50,12 @@ export function FitForm({ datasetId, datasetName }: { datasetId: string; dataset
     } catch (e) {
       return setLocalError(`computation: not valid JSON (${(e as Error).message})`);
     }
-    const fit = FIT_PARAMETERS.filter((p) => rows[p.parameter].on).map((p) => ({ parameter: p.parameter, initial: Number(rows[p.parameter].initial), min: Number(rows[p.parameter].min), max: Number(rows[p.parameter].max) }));
+    const fit = FIT_PARAMETERS.filter((p) => rows[p.parameter].on).map((p) => ({
+      parameter: p.parameter,
+      initial: Number(rows[p.parameter].initial),
+      min: Number(rows[p.parameter].min),
+      max: Number(rows[p.parameter].max),
+    }));
     if (!fit.length) return setLocalError("Choose at least one parameter to fit.");
     m.mutate({ datasetId, network: net, computation: comp, sweepParameter: "fieldTesla", fit, options: { multiStart: Number(multiStart) || 1 } });
   }
@@ -63,7 +68,8 @@ export function FitForm({ datasetId, datasetName }: { datasetId: string; dataset
           Fit the model
         </h2>
         <p className="text-caption text-fg-soft">
-          Levenberg–Marquardt on the engine&apos;s conductance (thermal smearing at the computation&apos;s temperature), one engine computation per data point and iteration. Runs as a job and is metered in compute-seconds like a run; the estimate is checked against your quota and spend cap.
+          Levenberg–Marquardt on the engine&apos;s conductance (thermal smearing at the computation&apos;s temperature), one engine computation per data point
+          and iteration. Runs as a job and is metered in compute-seconds like a run; the estimate is checked against your quota and spend cap.
         </p>
       </div>
       <table className="w-full text-body" data-testid="fit-parameters">
@@ -97,7 +103,13 @@ export function FitForm({ datasetId, datasetName }: { datasetId: string; dataset
                 </td>
                 {(["initial", "min", "max"] as const).map((k) => (
                   <td key={k}>
-                    <input className="tk-field w-28 font-mono" aria-label={`${p.parameter} ${k}`} value={r[k]} disabled={!r.on} onChange={(e) => upd({ [k]: e.target.value })} />
+                    <input
+                      className="tk-field w-28 font-mono"
+                      aria-label={`${p.parameter} ${k}`}
+                      value={r[k]}
+                      disabled={!r.on}
+                      onChange={(e) => upd({ [k]: e.target.value })}
+                    />
                   </td>
                 ))}
               </tr>
@@ -108,12 +120,22 @@ export function FitForm({ datasetId, datasetName }: { datasetId: string; dataset
       <div className="grid gap-4 lg:grid-cols-2">
         <label className="block">
           <span className="tk-label">network (engine schema; the fitted parameters override it)</span>
-          <textarea className="tk-field mt-1 h-56 font-mono text-caption" value={network} onChange={(e) => setNetwork(e.target.value)} aria-label="network JSON" />
+          <textarea
+            className="tk-field mt-1 h-56 font-mono text-caption"
+            value={network}
+            onChange={(e) => setNetwork(e.target.value)}
+            aria-label="network JSON"
+          />
         </label>
         <div className="space-y-3">
           <label className="block">
             <span className="tk-label">computation at every point (fieldTesla is set from the data)</span>
-            <textarea className="tk-field mt-1 h-32 font-mono text-caption" value={computation} onChange={(e) => setComputation(e.target.value)} aria-label="computation JSON" />
+            <textarea
+              className="tk-field mt-1 h-32 font-mono text-caption"
+              value={computation}
+              onChange={(e) => setComputation(e.target.value)}
+              aria-label="computation JSON"
+            />
           </label>
           <label className="block">
             <span className="tk-label">starts (multi-start against local minima)</span>

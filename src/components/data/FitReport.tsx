@@ -19,7 +19,11 @@ export function FitReport({ id }: { id: string }) {
     refetchInterval: (query) => (finished(query.state.data?.status) ? false : 1000),
   });
   const datasetId = q.data?.datasetId;
-  const dq = useQuery({ queryKey: ["dataset", datasetId], queryFn: () => api("GET /api/v1/datasets/{id}", { params: { id: datasetId! } }), enabled: !!datasetId });
+  const dq = useQuery({
+    queryKey: ["dataset", datasetId],
+    queryFn: () => api("GET /api/v1/datasets/{id}", { params: { id: datasetId! } }),
+    enabled: !!datasetId,
+  });
   const cancel = useMutation({
     mutationFn: () => api("POST /api/v1/fits/{id}/cancel", { params: { id } }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: ["fit", id] }),
@@ -51,7 +55,8 @@ export function FitReport({ id }: { id: string }) {
         <Link className="text-accent hover:underline" href={`/datasets/${f.datasetId}`}>
           dataset
         </Link>{" "}
-        · engine {f.engineVersion ?? "–"} · data sha256 <span className="font-mono text-caption">{f.dataHash.slice(0, 12)}…</span> · estimate {sig(f.estimatedComputeSeconds, 3)} compute-s
+        · engine {f.engineVersion ?? "–"} · data sha256 <span className="font-mono text-caption">{f.dataHash.slice(0, 12)}…</span> · estimate{" "}
+        {sig(f.estimatedComputeSeconds, 3)} compute-s
         {f.computeSeconds !== null ? ` · used ${sig(f.computeSeconds, 3)} compute-s` : ""}
       </PageHeader>
 
@@ -61,7 +66,14 @@ export function FitReport({ id }: { id: string }) {
             Status: <strong data-status={f.status}>{f.status}</strong>
             {f.lastIteration && !finished(f.status) ? ` · iteration ${f.lastIteration.iteration} · χ² ${sig(f.lastIteration.chi2, 4)}` : ""}
           </p>
-          <div className="h-2 w-full overflow-hidden rounded-full bg-surface-sunk" role="progressbar" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(f.progress * 100)} aria-label="fit progress">
+          <div
+            className="h-2 w-full overflow-hidden rounded-full bg-surface-sunk"
+            role="progressbar"
+            aria-valuemin={0}
+            aria-valuemax={100}
+            aria-valuenow={Math.round(f.progress * 100)}
+            aria-label="fit progress"
+          >
             <div className="h-full bg-accent transition-all" style={{ width: `${Math.round(f.progress * 100)}%` }} />
           </div>
           {!finished(f.status) ? (
@@ -82,7 +94,14 @@ export function FitReport({ id }: { id: string }) {
               xUnit="T"
               yUnit="e²/h"
               series={[
-                { name: d.synthetic ? "data (synthetic)" : "data", x: d.points.x, y: d.points.y, err: d.points.sigma ?? undefined, points: true, color: "linkAlt" },
+                {
+                  name: d.synthetic ? "data (synthetic)" : "data",
+                  x: d.points.x,
+                  y: d.points.y,
+                  err: d.points.sigma ?? undefined,
+                  points: true,
+                  color: "linkAlt",
+                },
                 { name: "model", x: r.curve.x, y: r.curve.y, color: "accent", points: false },
               ]}
               csv={{ header: ["fieldTesla", "dataE2h", "modelE2h"], rows: r.curve.x.map((x, i) => [x, d.points.y[i], r.curve!.y[i]]) }}
@@ -131,13 +150,19 @@ export function FitReport({ id }: { id: string }) {
               </tbody>
             </table>
             <p className="text-body">
-              χ²/dof = <span className="tk-num font-mono" data-testid="chi2-per-dof">{sig(r.chi2PerDof, 4)}</span>
+              χ²/dof ={" "}
+              <span className="tk-num font-mono" data-testid="chi2-per-dof">
+                {sig(r.chi2PerDof, 4)}
+              </span>
               {r.dof !== undefined ? ` (dof ${r.dof})` : ""}
               {r.weighted === false ? " · no uncertainty column: unit weights, so χ²/dof is the residual variance in (e²/h)²" : ""}
               {r.iterations !== undefined ? ` · ${r.iterations} iterations` : ""}
               {r.converged === false ? " · did not meet the convergence rule" : ""}
             </p>
-            <p className="text-caption text-fg-soft">Standard errors from the Jacobian at the optimum, scaled by the residual variance (χ²/dof). Results are predictions of a phenomenological model; node probabilities and mode velocity are model parameters, not material constants.</p>
+            <p className="text-caption text-fg-soft">
+              Standard errors from the Jacobian at the optimum, scaled by the residual variance (χ²/dof). Results are predictions of a phenomenological model;
+              node probabilities and mode velocity are model parameters, not material constants.
+            </p>
             {r.warnings?.length ? (
               <ul className="list-disc pl-5 text-caption text-warm">
                 {r.warnings.map((w, i) => (

@@ -14,7 +14,13 @@ export function FitsList() {
       <PageHeader kicker="measured data" title="Fits">
         Model parameters adjusted to datasets, with standard errors. Start a fit from a dataset&apos;s page.
       </PageHeader>
-      {q.isPending ? <Skeleton /> : q.error ? <ErrorNote error={q.error} /> : q.data.items.length === 0 ? <Empty>No fits yet. Open a dataset to start one.</Empty> : (
+      {q.isPending ? (
+        <Skeleton />
+      ) : q.error ? (
+        <ErrorNote error={q.error} />
+      ) : q.data.items.length === 0 ? (
+        <Empty>No fits yet. Open a dataset to start one.</Empty>
+      ) : (
         <table className="w-full text-body" data-testid="fits-table">
           <thead className="text-left text-caption text-fg-faint">
             <tr>
@@ -33,13 +39,18 @@ export function FitsList() {
                     {f.datasetName ?? f.datasetId}
                   </Link>
                 </td>
-                <td>{f.status}{f.status === "running" ? ` ${Math.round(f.progress * 100)} %` : ""}</td>
+                <td>
+                  {f.status}
+                  {f.status === "running" ? ` ${Math.round(f.progress * 100)} %` : ""}
+                </td>
                 <td className="font-mono text-caption">
                   {f.result?.parameters
-                    ? f.result.parameters.map((p) => {
-                        const v = withStderr(p.value, p.stderr);
-                        return `${p.parameter} = ${v.value} ± ${v.stderr}`;
-                      }).join("; ")
+                    ? f.result.parameters
+                        .map((p) => {
+                          const v = withStderr(p.value, p.stderr);
+                          return `${p.parameter} = ${v.value} ± ${v.stderr}`;
+                        })
+                        .join("; ")
                     : f.settings.fit.map((p) => p.parameter).join(", ")}
                 </td>
                 <td className="tk-num">{f.result ? f.result.chi2PerDof.toPrecision(3) : "–"}</td>

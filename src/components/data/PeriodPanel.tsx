@@ -19,7 +19,9 @@ export function PeriodPanel({ datasetId }: { datasetId: string }) {
           <h2 id="period-title" className="text-lead font-semibold">
             Period analysis
           </h2>
-          <p className="text-caption text-fg-soft">Smooth background removed, Hann window, zero-padded Fourier transform of the magnetoconductance; no fit, no compute charged.</p>
+          <p className="text-caption text-fg-soft">
+            Smooth background removed, Hann window, zero-padded Fourier transform of the magnetoconductance; no fit, no compute charged.
+          </p>
         </div>
         <button type="button" className="tk-btn" onClick={() => m.mutate()} disabled={m.isPending}>
           {m.isPending ? "Analysing…" : "Estimate the moiré period"}
@@ -44,7 +46,9 @@ export function PeriodPanel({ datasetId }: { datasetId: string }) {
           <div className="tk-card space-y-3" data-testid="period-result">
             <dl className="grid grid-cols-2 gap-x-4 gap-y-1 text-body">
               <dt className="text-fg-soft">field period ΔB</dt>
-              <dd className="tk-num font-mono" data-testid="period-tesla">{sig(r.periodTesla * 1e3, 5)} mT</dd>
+              <dd className="tk-num font-mono" data-testid="period-tesla">
+                {sig(r.periodTesla * 1e3, 5)} mT
+              </dd>
               <dt className="text-fg-soft">peak prominence</dt>
               <dd className="tk-num font-mono">{sig(r.peak.prominence, 3)} × median</dd>
               <dt className="text-fg-soft">area h/(e ΔB)</dt>
@@ -53,8 +57,14 @@ export function PeriodPanel({ datasetId }: { datasetId: string }) {
             <div className="rounded-field border border-accent/40 p-3">
               <p className="text-caption font-semibold text-accent">Reading used: one flux quantum per triangle</p>
               <p className="text-body">
-                moiré period <span className="tk-num font-mono" data-testid="period-nm">{sig(r.perTriangle.periodNm, 4)} nm</span> · twist angle{" "}
-                <span className="tk-num font-mono" data-testid="twist-degrees">{r.perTriangle.twistDegrees === null ? "–" : `${sig(r.perTriangle.twistDegrees, 4)}°`}</span>
+                moiré period{" "}
+                <span className="tk-num font-mono" data-testid="period-nm">
+                  {sig(r.perTriangle.periodNm, 4)} nm
+                </span>{" "}
+                · twist angle{" "}
+                <span className="tk-num font-mono" data-testid="twist-degrees">
+                  {r.perTriangle.twistDegrees === null ? "–" : `${sig(r.perTriangle.twistDegrees, 4)}°`}
+                </span>
               </p>
               <p className="mt-1 text-caption text-fg-soft">{r.perTriangle.assumption}</p>
             </div>

@@ -45,9 +45,25 @@ export function NetworkDrawing({ shape, linkNm, height = 420, linkValues, label,
       <div ref={wrapRef} style={{ height }} className="relative w-full">
         {palette ? (
           mode === "svg" ? (
-            <SvgNetwork shape={shape} custom={custom} width={width} height={height} palette={palette} linkValues={linkValues} description={label ?? description} />
+            <SvgNetwork
+              shape={shape}
+              custom={custom}
+              width={width}
+              height={height}
+              palette={palette}
+              linkValues={linkValues}
+              description={label ?? description}
+            />
           ) : (
-            <CanvasNetwork shape={shape} custom={custom} width={width} height={height} palette={palette} linkValues={linkValues} description={label ?? description} />
+            <CanvasNetwork
+              shape={shape}
+              custom={custom}
+              width={width}
+              height={height}
+              palette={palette}
+              linkValues={linkValues}
+              description={label ?? description}
+            />
           )
         ) : null}
       </div>
@@ -77,7 +93,23 @@ function fitTransform(g: NetworkGeometry, width: number, height: number) {
   return { k, x: (u: number) => width / 2 + (u - cx) * k, y: (v: number) => height / 2 - (v - cy) * k };
 }
 
-function SvgNetwork({ shape, custom, width, height, palette, linkValues, description }: { shape: NetworkShape; custom?: NetworkGeometry; width: number; height: number; palette: Palette; linkValues?: LinkValues; description: string }) {
+function SvgNetwork({
+  shape,
+  custom,
+  width,
+  height,
+  palette,
+  linkValues,
+  description,
+}: {
+  shape: NetworkShape;
+  custom?: NetworkGeometry;
+  width: number;
+  height: number;
+  palette: Palette;
+  linkValues?: LinkValues;
+  description: string;
+}) {
   const svgRef = useRef<SVGSVGElement>(null);
   const gRef = useRef<SVGGElement>(null);
   const geometry = useMemo(() => custom ?? networkGeometry(shape), [custom, shape]);
@@ -158,8 +190,14 @@ function SvgNetwork({ shape, custom, width, height, palette, linkValues, descrip
       .attr("cy", (i) => f.y(g.nodes[2 * i + 1]))
       .attr("r", Math.max(1.5, Math.min(5, f.k * 0.08)))
       .attr("fill", palette.node);
-    svg.select("marker#tk-arrow").attr("markerWidth", 7 * arrowScale).attr("markerHeight", 7 * arrowScale);
-    svg.select("marker#tk-arrow-lead").attr("markerWidth", 7 * arrowScale).attr("markerHeight", 7 * arrowScale);
+    svg
+      .select("marker#tk-arrow")
+      .attr("markerWidth", 7 * arrowScale)
+      .attr("markerHeight", 7 * arrowScale);
+    svg
+      .select("marker#tk-arrow-lead")
+      .attr("markerWidth", 7 * arrowScale)
+      .attr("markerHeight", 7 * arrowScale);
     const zoom = d3
       .zoom<SVGSVGElement, unknown>()
       .scaleExtent([0.5, 20])
@@ -172,7 +210,17 @@ function SvgNetwork({ shape, custom, width, height, palette, linkValues, descrip
     };
   }, [geometry, width, height, palette, shape.transverse, linkValues]);
   return (
-    <svg ref={svgRef} width={width} height={height} role="img" aria-label={description} data-renderer="svg" data-links={geometry.linkCount} data-nodes={geometry.nodeCount} className="block cursor-grab touch-none active:cursor-grabbing">
+    <svg
+      ref={svgRef}
+      width={width}
+      height={height}
+      role="img"
+      aria-label={description}
+      data-renderer="svg"
+      data-links={geometry.linkCount}
+      data-nodes={geometry.nodeCount}
+      className="block cursor-grab touch-none active:cursor-grabbing"
+    >
       <defs>
         <marker id="tk-arrow" viewBox="0 0 10 10" refX="8" refY="5" markerUnits="userSpaceOnUse" orient="auto">
           <path d="M0,0 L10,5 L0,10 L3,5 z" />
@@ -187,7 +235,16 @@ function SvgNetwork({ shape, custom, width, height, palette, linkValues, descrip
 }
 
 /** Paints the whole network on a canvas for a zoom transform; returns the number of links painted. */
-export function paintNetwork(ctx: CanvasRenderingContext2D, g: NetworkGeometry, width: number, height: number, t: d3.ZoomTransform, palette: Palette, transverse: string, linkValues?: LinkValues): number {
+export function paintNetwork(
+  ctx: CanvasRenderingContext2D,
+  g: NetworkGeometry,
+  width: number,
+  height: number,
+  t: d3.ZoomTransform,
+  palette: Palette,
+  transverse: string,
+  linkValues?: LinkValues,
+): number {
   const base = fitTransform(g, width, height);
   const k = base.k * t.k;
   const X = (u: number) => t.applyX(base.x(u));
@@ -294,7 +351,23 @@ export function paintNetwork(ctx: CanvasRenderingContext2D, g: NetworkGeometry, 
   return painted;
 }
 
-function CanvasNetwork({ shape, custom, width, height, palette, linkValues, description }: { shape: NetworkShape; custom?: NetworkGeometry; width: number; height: number; palette: Palette; linkValues?: LinkValues; description: string }) {
+function CanvasNetwork({
+  shape,
+  custom,
+  width,
+  height,
+  palette,
+  linkValues,
+  description,
+}: {
+  shape: NetworkShape;
+  custom?: NetworkGeometry;
+  width: number;
+  height: number;
+  palette: Palette;
+  linkValues?: LinkValues;
+  description: string;
+}) {
   const canvasRef = useRef<HTMLCanvasElement>(null);
   const transformRef = useRef(d3.zoomIdentity);
   const geometryMsRef = useRef(0);

@@ -41,10 +41,17 @@ export function NetworkEditor({ initial, canEdit }: Props) {
 
   const me = useMe();
   // Plan-dependent text only after mount, so the server's HTML and the first client render agree.
-  const mounted = useSyncExternalStore(noSubscription, () => true, () => false);
+  const mounted = useSyncExternalStore(
+    noSubscription,
+    () => true,
+    () => false,
+  );
   const planId = mounted ? me.data?.workspace?.plan : undefined;
   const plan = PLANS[planId ?? "free"];
-  const overPlan = (v: unknown) => (planId && typeof v === "number" && v > plan.maxCellsPerSide ? `the ${plan.label} plan allows up to ${plan.maxCellsPerSide} cells per side; the drawing still shows it, but runs will be refused` : undefined);
+  const overPlan = (v: unknown) =>
+    planId && typeof v === "number" && v > plan.maxCellsPerSide
+      ? `the ${plan.label} plan allows up to ${plan.maxCellsPerSide} cells per side; the drawing still shows it, but runs will be refused`
+      : undefined;
   const triangular = draft.lattice !== "square";
   const scaleMode: "twist" | "period" = draft.periodNm !== undefined ? "period" : "twist";
   const set = (path: string, value: unknown) => {
@@ -59,7 +66,7 @@ export function NetworkEditor({ initial, canEdit }: Props) {
   const triple = { forward: Number(node.forward), left: Number(node.left), right: Number(node.right) };
   const tripleVerdict = usesProbabilities ? checkTriple(triple) : ({ ok: true } as const);
   // One message for the node triple: ours explains the geometry, the engine's is the authority.
-  const nodeMessage = !tripleVerdict.ok ? tripleVerdict.message : issues["node"] ?? issues["node.forward"] ?? issues["node.left"] ?? issues["node.right"];
+  const nodeMessage = !tripleVerdict.ok ? tripleVerdict.message : (issues["node"] ?? issues["node.forward"] ?? issues["node.left"] ?? issues["node.right"]);
   const err = (path: string) => issues[path];
 
   const deferredDraft = useDeferredValue(draft);
@@ -104,7 +111,14 @@ export function NetworkEditor({ initial, canEdit }: Props) {
         <fieldset className="tk-card space-y-3" disabled={!canEdit}>
           <legend className="px-1 text-caption font-semibold uppercase tracking-[0.14em] text-fg-faint">Network</legend>
           <Field id="name" label="Name" error={name !== "" || initial ? nameError : undefined}>
-            <input id="name" className="tk-field" value={name} onChange={(e) => setName(e.target.value)} placeholder="e.g. 0.11° clean, 12 × 8" aria-invalid={nameError && name !== "" ? true : undefined} />
+            <input
+              id="name"
+              className="tk-field"
+              value={name}
+              onChange={(e) => setName(e.target.value)}
+              placeholder="e.g. 0.11° clean, 12 × 8"
+              aria-invalid={nameError && name !== "" ? true : undefined}
+            />
           </Field>
           <div className="grid grid-cols-2 gap-3">
             <Field id="lattice" label="Lattice" error={err("lattice")} hint={triangular ? "domain walls of a twisted bilayer" : "quantum Hall transition"}>
@@ -115,18 +129,30 @@ export function NetworkEditor({ initial, canEdit }: Props) {
                 onChange={(v) => setDraft((d) => ({ ...defaultNetwork(v as "triangular" | "square"), size: d.size }))}
               />
             </Field>
-            <Field id="transverse" label="Transverse boundary" error={err("transverse")} hint={draft.transverse === "open" ? "two edges" : "a cylinder, no edges"}>
-              <Select
-                id="transverse"
-                value={draft.transverse ?? "periodic"}
-                options={TRANSVERSE_OPTIONS}
-                onChange={(v) => set("transverse", v)}
-              />
+            <Field
+              id="transverse"
+              label="Transverse boundary"
+              error={err("transverse")}
+              hint={draft.transverse === "open" ? "two edges" : "a cylinder, no edges"}
+            >
+              <Select id="transverse" value={draft.transverse ?? "periodic"} options={TRANSVERSE_OPTIONS} onChange={(v) => set("transverse", v)} />
             </Field>
-            <Field id="size.columns" label="Columns" unit="cells" error={err("size.columns") ?? err("size") ?? overPlan(draft.size?.columns)} hint={planId ? `along a1, lead to lead; up to ${plan.maxCellsPerSide} on ${plan.label}` : "along a1, lead to lead"}>
+            <Field
+              id="size.columns"
+              label="Columns"
+              unit="cells"
+              error={err("size.columns") ?? err("size") ?? overPlan(draft.size?.columns)}
+              hint={planId ? `along a1, lead to lead; up to ${plan.maxCellsPerSide} on ${plan.label}` : "along a1, lead to lead"}
+            >
               <NumberInput id="size.columns" integer value={draft.size?.columns} onChange={(v) => set("size.columns", v)} error={err("size.columns")} />
             </Field>
-            <Field id="size.rows" label="Rows" unit="cells" error={err("size.rows") ?? overPlan(draft.size?.rows)} hint={planId ? `across the sample; up to ${plan.maxCellsPerSide} on ${plan.label}` : "across the sample"}>
+            <Field
+              id="size.rows"
+              label="Rows"
+              unit="cells"
+              error={err("size.rows") ?? overPlan(draft.size?.rows)}
+              hint={planId ? `across the sample; up to ${plan.maxCellsPerSide} on ${plan.label}` : "across the sample"}
+            >
               <NumberInput id="size.rows" integer value={draft.size?.rows} onChange={(v) => set("size.rows", v)} error={err("size.rows")} />
             </Field>
           </div>
@@ -166,7 +192,15 @@ export function NetworkEditor({ initial, canEdit }: Props) {
               label="Twist angle θ"
               unit="degrees"
               error={err("twistDegrees")}
-              hint={typeof draft.twistDegrees === "number" && draft.twistDegrees > 0 ? <span data-testid="scale-conversion">l = a / (2 sin(θ/2)) = {num(periodFromTwistNm(draft.twistDegrees), 4)} nm (a = {GRAPHENE_LATTICE_NM} nm)</span> : `l = a / (2 sin(θ/2)), a = ${GRAPHENE_LATTICE_NM} nm`}
+              hint={
+                typeof draft.twistDegrees === "number" && draft.twistDegrees > 0 ? (
+                  <span data-testid="scale-conversion">
+                    l = a / (2 sin(θ/2)) = {num(periodFromTwistNm(draft.twistDegrees), 4)} nm (a = {GRAPHENE_LATTICE_NM} nm)
+                  </span>
+                ) : (
+                  `l = a / (2 sin(θ/2)), a = ${GRAPHENE_LATTICE_NM} nm`
+                )
+              }
             >
               <NumberInput id="twistDegrees" value={draft.twistDegrees} onChange={(v) => set("twistDegrees", v)} error={err("twistDegrees")} />
             </Field>
@@ -176,7 +210,11 @@ export function NetworkEditor({ initial, canEdit }: Props) {
               label="Moiré period l (link length)"
               unit="nm"
               error={err("periodNm")}
-              hint={typeof draft.periodNm === "number" && draft.periodNm > GRAPHENE_LATTICE_NM / 2 ? <span data-testid="scale-conversion">θ = 2 arcsin(a / 2l) = {num(twistFromPeriodDegrees(draft.periodNm), 4)}°</span> : undefined}
+              hint={
+                typeof draft.periodNm === "number" && draft.periodNm > GRAPHENE_LATTICE_NM / 2 ? (
+                  <span data-testid="scale-conversion">θ = 2 arcsin(a / 2l) = {num(twistFromPeriodDegrees(draft.periodNm), 4)}°</span>
+                ) : undefined
+              }
             >
               <NumberInput id="periodNm" value={draft.periodNm} onChange={(v) => set("periodNm", v)} error={err("periodNm")} />
             </Field>
@@ -189,10 +227,20 @@ export function NetworkEditor({ initial, canEdit }: Props) {
               <Select id="channelsPerLink" value={draft.channelsPerLink ?? 1} options={ONE_OR_TWO} onChange={(v) => set("channelsPerLink", v)} />
             </Field>
             <Field id="degeneracy.spin" label="Spin degeneracy" error={err("degeneracy.spin")}>
-              <Select id="degeneracy.spin" value={draft.degeneracy?.spin ?? (triangular ? 2 : 1)} options={ONE_OR_TWO} onChange={(v) => set("degeneracy.spin", v)} />
+              <Select
+                id="degeneracy.spin"
+                value={draft.degeneracy?.spin ?? (triangular ? 2 : 1)}
+                options={ONE_OR_TWO}
+                onChange={(v) => set("degeneracy.spin", v)}
+              />
             </Field>
             <Field id="degeneracy.valley" label="Valley degeneracy" error={err("degeneracy.valley")}>
-              <Select id="degeneracy.valley" value={draft.degeneracy?.valley ?? (triangular ? 2 : 1)} options={ONE_OR_TWO} onChange={(v) => set("degeneracy.valley", v)} />
+              <Select
+                id="degeneracy.valley"
+                value={draft.degeneracy?.valley ?? (triangular ? 2 : 1)}
+                options={ONE_OR_TWO}
+                onChange={(v) => set("degeneracy.valley", v)}
+              />
             </Field>
           </div>
         </fieldset>
@@ -211,7 +259,12 @@ export function NetworkEditor({ initial, canEdit }: Props) {
                     ))}
                   </div>
                   {nodeMessage ? (
-                    <div id="node-error" role="alert" className="rounded-field border border-danger/40 bg-danger-soft p-2.5 text-caption text-danger" data-testid="node-refusal">
+                    <div
+                      id="node-error"
+                      role="alert"
+                      className="rounded-field border border-danger/40 bg-danger-soft p-2.5 text-caption text-danger"
+                      data-testid="node-refusal"
+                    >
                       <p>{nodeMessage}</p>
                       {!tripleVerdict.ok && tripleVerdict.suggestion ? (
                         <button
@@ -220,19 +273,33 @@ export function NetworkEditor({ initial, canEdit }: Props) {
                           onClick={() => {
                             const s = tripleVerdict.suggestion!;
                             const r3 = (x: number) => Math.round(x * 1e6) / 1e6;
-                            setDraft((d) => ({ ...d, node: { ...d.node, forward: r3(s.forward), left: r3(s.left), right: r3(1 - r3(s.forward) - r3(s.left)) } }));
+                            setDraft((d) => ({
+                              ...d,
+                              node: { ...d.node, forward: r3(s.forward), left: r3(s.left), right: r3(1 - r3(s.forward) - r3(s.left)) },
+                            }));
                           }}
                         >
-                          Use forward = {num(tripleVerdict.suggestion.forward, 3)}, left = {num(tripleVerdict.suggestion.left, 3)}, right = {num(tripleVerdict.suggestion.right, 3)}
+                          Use forward = {num(tripleVerdict.suggestion.forward, 3)}, left = {num(tripleVerdict.suggestion.left, 3)}, right ={" "}
+                          {num(tripleVerdict.suggestion.right, 3)}
                         </button>
                       ) : null}
                     </div>
                   ) : (
-                    <p className="text-caption text-fg-faint">Probabilities of going straight on or turning by ±120° at a node; they add up to 1. Fitted model parameters, not material constants.</p>
+                    <p className="text-caption text-fg-faint">
+                      Probabilities of going straight on or turning by ±120° at a node; they add up to 1. Fitted model parameters, not material constants.
+                    </p>
                   )}
                   <div className="grid grid-cols-2 gap-2">
                     <Field id="node.branch" label="Branch" error={err("node.branch")} hint="which of the two mirror solutions">
-                      <Select id="node.branch" value={node.branch ?? 1} options={[{ value: 1, label: "+1" }, { value: -1, label: "−1" }]} onChange={(v) => set("node.branch", v)} />
+                      <Select
+                        id="node.branch"
+                        value={node.branch ?? 1}
+                        options={[
+                          { value: 1, label: "+1" },
+                          { value: -1, label: "−1" },
+                        ]}
+                        onChange={(v) => set("node.branch", v)}
+                      />
                     </Field>
                     <Field id="node.phaseRad" label="Node phase χ" unit="rad" error={err("node.phaseRad")}>
                       <NumberInput id="node.phaseRad" value={node.phaseRad} onChange={(v) => set("node.phaseRad", v)} error={err("node.phaseRad")} />
@@ -240,15 +307,14 @@ export function NetworkEditor({ initial, canEdit }: Props) {
                   </div>
                 </div>
                 <div>
-                  <TernaryDiagram
-                    value={triple}
-                    onPick={canEdit ? (t) => setDraft((d) => ({ ...d, node: { ...d.node, ...t } })) : undefined}
-                  />
+                  <TernaryDiagram value={triple} onPick={canEdit ? (t) => setDraft((d) => ({ ...d, node: { ...d.node, ...t } })) : undefined} />
                   <p className="max-w-[16rem] text-micro text-fg-faint">Shaded: triples a unitary node can have. Click to choose a point.</p>
                 </div>
               </div>
             ) : (
-              <p className="text-caption text-fg-soft">This node is given as an explicit unitary matrix; edit it in the JSON view below. {err("node.matrix") ?? err("node")}</p>
+              <p className="text-caption text-fg-soft">
+                This node is given as an explicit unitary matrix; edit it in the JSON view below. {err("node.matrix") ?? err("node")}
+              </p>
             )
           ) : (
             <Field id="node.turning" label="Turning probability p" error={err("node.turning")} hint="1 − p on the other sublattice; critical at p = 0.5">
@@ -270,10 +336,20 @@ export function NetworkEditor({ initial, canEdit }: Props) {
           {draft.disorder !== undefined ? (
             <div className="grid grid-cols-3 gap-2">
               <Field id="disorder.linkPhaseWidthRad" label="Phase width w" unit="rad" error={err("disorder.linkPhaseWidthRad")} hint="2π = full">
-                <NumberInput id="disorder.linkPhaseWidthRad" value={draft.disorder.linkPhaseWidthRad} onChange={(v) => set("disorder.linkPhaseWidthRad", v)} error={err("disorder.linkPhaseWidthRad")} />
+                <NumberInput
+                  id="disorder.linkPhaseWidthRad"
+                  value={draft.disorder.linkPhaseWidthRad}
+                  onChange={(v) => set("disorder.linkPhaseWidthRad", v)}
+                  error={err("disorder.linkPhaseWidthRad")}
+                />
               </Field>
               <Field id="disorder.forwardSpread" label="Forward spread" error={err("disorder.forwardSpread")}>
-                <NumberInput id="disorder.forwardSpread" value={draft.disorder.forwardSpread} onChange={(v) => set("disorder.forwardSpread", v)} error={err("disorder.forwardSpread")} />
+                <NumberInput
+                  id="disorder.forwardSpread"
+                  value={draft.disorder.forwardSpread}
+                  onChange={(v) => set("disorder.forwardSpread", v)}
+                  error={err("disorder.forwardSpread")}
+                />
               </Field>
               <Field id="disorder.seed" label="Seed" error={err("disorder.seed")} hint="same seed, same sample">
                 <NumberInput id="disorder.seed" integer value={draft.disorder.seed} onChange={(v) => set("disorder.seed", v)} error={err("disorder.seed")} />
@@ -319,7 +395,14 @@ export function NetworkEditor({ initial, canEdit }: Props) {
           <h2 className="text-lead font-semibold">Drawing</h2>
           <div role="radiogroup" aria-label="Valley drawn" className="flex gap-1 rounded-full border border-line p-0.5 text-caption">
             {(["K", "K'"] as const).map((v) => (
-              <button key={v} type="button" role="radio" aria-checked={valley === v} onClick={() => setValley(v)} className={`rounded-full px-2.5 py-0.5 ${valley === v ? "bg-accent text-accent-fg" : "text-fg-soft"}`}>
+              <button
+                key={v}
+                type="button"
+                role="radio"
+                aria-checked={valley === v}
+                onClick={() => setValley(v)}
+                className={`rounded-full px-2.5 py-0.5 ${valley === v ? "bg-accent text-accent-fg" : "text-fg-soft"}`}
+              >
                 valley {v}
               </button>
             ))}
@@ -327,7 +410,9 @@ export function NetworkEditor({ initial, canEdit }: Props) {
         </div>
         <NetworkDrawing shape={shape} linkNm={l} height={460} />
         <p className="text-caption text-fg-faint">
-          Arrows show the direction of motion in valley {valley}{triangular ? "; the other valley runs every link the opposite way" : ""}. Leads (amber) sit on the left and right faces; the {draft.transverse === "open" ? "solid lines are the open edges" : "dashed lines are the periodic boundary, identified with each other"}.
+          Arrows show the direction of motion in valley {valley}
+          {triangular ? "; the other valley runs every link the opposite way" : ""}. Leads (amber) sit on the left and right faces; the{" "}
+          {draft.transverse === "open" ? "solid lines are the open edges" : "dashed lines are the periodic boundary, identified with each other"}.
         </p>
       </section>
     </div>

@@ -17,7 +17,8 @@ export function NewNetwork() {
   return (
     <>
       <PageHeader kicker="new network" title="Describe a network">
-        Choose the lattice, its size and boundary, the scale and the node. The drawing follows as you type; values the model cannot take are explained under the field.
+        Choose the lattice, its size and boundary, the scale and the node. The drawing follows as you type; values the model cannot take are explained under the
+        field.
       </PageHeader>
       <NetworkEditor canEdit={me.isPending ? true : canCreate(me.data?.role)} />
     </>

@@ -43,7 +43,12 @@ const columnsFor = (who: (id: string | null) => string): ColumnDef<NetworkView, 
   },
   { id: "version", header: "Version", cell: ({ row }) => <span className="tk-num">v{row.original.version}</span> },
   { id: "createdBy", header: "By", cell: ({ row }) => who(row.original.createdBy) },
-  { id: "createdAt", header: "Created", accessorFn: (r) => r.createdAt, cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
+  {
+    id: "createdAt",
+    header: "Created",
+    accessorFn: (r) => r.createdAt,
+    cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span>,
+  },
 ];
 
 export function NetworksList() {

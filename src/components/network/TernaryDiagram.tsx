@@ -43,9 +43,18 @@ export function TernaryDiagram({ value, onPick, size = 260 }: Props) {
   for (let i = 1; i < 5; i++) {
     const a = i / 5;
     for (const [p, q] of [
-      [{ forward: a, left: 1 - a, right: 0 }, { forward: a, left: 0, right: 1 - a }],
-      [{ left: a, forward: 1 - a, right: 0 }, { left: a, forward: 0, right: 1 - a }],
-      [{ right: a, forward: 1 - a, left: 0 }, { right: a, forward: 0, left: 1 - a }],
+      [
+        { forward: a, left: 1 - a, right: 0 },
+        { forward: a, left: 0, right: 1 - a },
+      ],
+      [
+        { left: a, forward: 1 - a, right: 0 },
+        { left: a, forward: 0, right: 1 - a },
+      ],
+      [
+        { right: a, forward: 1 - a, left: 0 },
+        { right: a, forward: 0, left: 1 - a },
+      ],
     ] as [Triple, Triple][]) {
       grid.push(d3.line()([P(p), P(q)])!);
     }
@@ -93,13 +102,25 @@ export function TernaryDiagram({ value, onPick, size = 260 }: Props) {
       <text x={corners.r[0] + 4} y={corners.r[1] + 18} textAnchor="end" className="fill-fg text-caption font-medium">
         right
       </text>
-      <text x={P({ forward: 1 / 9, left: 4 / 9, right: 4 / 9 })[0] + 6} y={P({ forward: 1 / 9, left: 4 / 9, right: 4 / 9 })[1] - 4} className="fill-fg-faint text-micro">
+      <text
+        x={P({ forward: 1 / 9, left: 4 / 9, right: 4 / 9 })[0] + 6}
+        y={P({ forward: 1 / 9, left: 4 / 9, right: 4 / 9 })[1] - 4}
+        className="fill-fg-faint text-micro"
+      >
         1/9
       </text>
       {sugg && shown ? <line x1={px} y1={py} x2={sugg[0]} y2={sugg[1]} stroke="var(--tk-danger)" strokeDasharray="3 3" /> : null}
       {sugg ? <circle cx={sugg[0]} cy={sugg[1]} r={4} fill="var(--tk-accent)" data-point="suggestion" /> : null}
       {shown ? (
-        <circle cx={px} cy={py} r={5.5} fill={ok ? "var(--tk-warm)" : "var(--tk-surface)"} stroke={ok ? "var(--tk-fg)" : "var(--tk-danger)"} strokeWidth={2} data-point="chosen" />
+        <circle
+          cx={px}
+          cy={py}
+          r={5.5}
+          fill={ok ? "var(--tk-warm)" : "var(--tk-surface)"}
+          stroke={ok ? "var(--tk-fg)" : "var(--tk-danger)"}
+          strokeWidth={2}
+          data-point="chosen"
+        />
       ) : null}
     </svg>
   );

@@ -31,7 +31,17 @@ export function useComputationDraft(network: NetworkView) {
 export type ComputationDraft = ReturnType<typeof useComputationDraft>;
 
 /** One input per field of the computation (those its other values call for), with unit and error. */
-export function ComputationFields({ draft, idPrefix, errorOf, hints = false }: { draft: ComputationDraft; idPrefix: string; errorOf: (path: string) => string | undefined; hints?: boolean }) {
+export function ComputationFields({
+  draft,
+  idPrefix,
+  errorOf,
+  hints = false,
+}: {
+  draft: ComputationDraft;
+  idPrefix: string;
+  errorOf: (path: string) => string | undefined;
+  hints?: boolean;
+}) {
   const { kind, values, setValues } = draft;
   return (
     <>
@@ -43,7 +53,12 @@ export function ComputationFields({ draft, idPrefix, errorOf, hints = false }: {
           return (
             <Field key={f.path} id={id} label={f.label} unit={f.unit} hint={hints ? f.hint : undefined} error={error}>
               {f.options ? (
-                <Select id={id} value={String(values[f.path] ?? f.default ?? "")} options={f.options} onChange={(v) => setValues((s) => ({ ...s, [f.path]: v }))} />
+                <Select
+                  id={id}
+                  value={String(values[f.path] ?? f.default ?? "")}
+                  options={f.options}
+                  onChange={(v) => setValues((s) => ({ ...s, [f.path]: v }))}
+                />
               ) : (
                 <NumberInput id={id} integer={f.integer} value={values[f.path]} error={error} onChange={(v) => setValues((s) => ({ ...s, [f.path]: v }))} />
               )}

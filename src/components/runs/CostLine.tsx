@@ -24,8 +24,11 @@ export function CostLine({ seconds, plan, points = 1, jobSeconds }: { seconds: n
       <CostEstimate computeSeconds={seconds} plan={plan ?? "free"} />
       {overCap ? (
         <p role="alert" className="text-caption text-danger" data-testid="job-cap">
-          {points > 1 ? "One point" : "This run"} is estimated at {formatComputeSeconds(job)}, over the {p.label} plan&apos;s limit of {formatComputeSeconds(p.maxJobComputeSeconds)} per job; it would be refused.
-          {p.id === "free" ? ` The ${PLANS.lab.label} plan allows ${formatComputeSeconds(PLANS.lab.maxJobComputeSeconds)}.` : " Use a smaller network, fewer samples or fewer energies."}
+          {points > 1 ? "One point" : "This run"} is estimated at {formatComputeSeconds(job)}, over the {p.label} plan&apos;s limit of{" "}
+          {formatComputeSeconds(p.maxJobComputeSeconds)} per job; it would be refused.
+          {p.id === "free"
+            ? ` The ${PLANS.lab.label} plan allows ${formatComputeSeconds(PLANS.lab.maxJobComputeSeconds)}.`
+            : " Use a smaller network, fewer samples or fewer energies."}
         </p>
       ) : null}
       <p className="text-micro text-fg-faint">

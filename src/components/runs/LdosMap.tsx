@@ -20,7 +20,11 @@ export function LdosMap({ result, network, runId }: { result: LdosResult; networ
   const values = result.ldosPerMeV.total;
   const l = network ? linkLengthNm(network) : undefined;
   const links = result.links;
-  const custom = useMemo(() => (links ? geometryFromSegments({ fromX: links.fromXNm, fromY: links.fromYNm, toX: links.toXNm, toY: links.toYNm, edge: links.edge }, l ?? 1) : undefined), [links, l]);
+  const custom = useMemo(
+    () =>
+      links ? geometryFromSegments({ fromX: links.fromXNm, fromY: links.fromYNm, toX: links.toXNm, toY: links.toYNm, edge: links.edge }, l ?? 1) : undefined,
+    [links, l],
+  );
   const shape = useMemo(() => shapeOf(network ?? {}, "K"), [network]);
   const [lo, hi] = useMemo(() => {
     const e = d3.extent(values.filter(Number.isFinite));
@@ -38,10 +42,18 @@ export function LdosMap({ result, network, runId }: { result: LdosResult; networ
   return (
     <div className="space-y-3">
       <p className="text-body text-fg-soft">
-        E = {num(result.energyMeV)} meV · B = {num(result.fieldTesla)} T · broadening {num(result.broadeningMeV)} meV · total {num(result.totalDosPerMeV)} states/meV, both valleys and spins.
+        E = {num(result.energyMeV)} meV · B = {num(result.fieldTesla)} T · broadening {num(result.broadeningMeV)} meV · total {num(result.totalDosPerMeV)}{" "}
+        states/meV, both valleys and spins.
       </p>
       <div ref={box}>
-      <NetworkDrawing shape={shape} custom={custom} linkNm={l} linkValues={linkValues} height={480} label={`Local density of states on ${values.length} links, colour scale from ${num(lo)} to ${num(hi)} states per meV`} />
+        <NetworkDrawing
+          shape={shape}
+          custom={custom}
+          linkNm={l}
+          linkValues={linkValues}
+          height={480}
+          label={`Local density of states on ${values.length} links, colour scale from ${num(lo)} to ${num(hi)} states per meV`}
+        />
       </div>
       <div className="flex flex-wrap items-center gap-3" data-testid="ldos-legend">
         <span className="text-caption text-fg-soft">LDOS per link (states / meV)</span>

@@ -6,7 +6,21 @@ import { elapsed } from "@/lib/units";
 import { StatusBadge } from "@/components/ui/Status";
 
 /** Progress bar with status and elapsed time (ticking while the job is live). */
-export function Progress({ status, progress, startedAt, createdAt, finishedAt, label }: { status: JobStatus; progress: number; startedAt?: string | null; createdAt?: string; finishedAt?: string | null; label: string }) {
+export function Progress({
+  status,
+  progress,
+  startedAt,
+  createdAt,
+  finishedAt,
+  label,
+}: {
+  status: JobStatus;
+  progress: number;
+  startedAt?: string | null;
+  createdAt?: string;
+  finishedAt?: string | null;
+  label: string;
+}) {
   const live = status === "queued" || status === "running";
   const [now, setNow] = useState(() => Date.now());
   useEffect(() => {
@@ -27,8 +41,18 @@ export function Progress({ status, progress, startedAt, createdAt, finishedAt, l
           <span data-testid="elapsed">{elapsed(ms)}</span> {startedAt ? "elapsed" : "since submitted"}
         </span>
       </div>
-      <div role="progressbar" aria-label={label} aria-valuemin={0} aria-valuemax={100} aria-valuenow={pct} className="h-2.5 overflow-hidden rounded-full bg-surface-sunk">
-        <div className={`h-full rounded-full transition-[width] duration-500 ${status === "failed" ? "bg-danger" : status === "cancelled" ? "bg-line-strong" : "bg-accent"}`} style={{ width: `${pct}%` }} />
+      <div
+        role="progressbar"
+        aria-label={label}
+        aria-valuemin={0}
+        aria-valuemax={100}
+        aria-valuenow={pct}
+        className="h-2.5 overflow-hidden rounded-full bg-surface-sunk"
+      >
+        <div
+          className={`h-full rounded-full transition-[width] duration-500 ${status === "failed" ? "bg-danger" : status === "cancelled" ? "bg-line-strong" : "bg-accent"}`}
+          style={{ width: `${pct}%` }}
+        />
       </div>
     </div>
   );

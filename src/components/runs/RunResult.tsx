@@ -1,7 +1,14 @@
 "use client";
 
 import { useMemo } from "react";
-import type { ComputeInput, ComputeResult, ConductanceResult as Conductance, DosResult as Dos, LocalizationResult as Localization, SpectrumResult as Spectrum } from "@/engine/browser";
+import type {
+  ComputeInput,
+  ComputeResult,
+  ConductanceResult as Conductance,
+  DosResult as Dos,
+  LocalizationResult as Localization,
+  SpectrumResult as Spectrum,
+} from "@/engine/browser";
 import type { RunDetail } from "@/shared/api";
 import { num, withUnit } from "@/lib/units";
 import { BandChart } from "@/components/charts/BandChart";
@@ -52,12 +59,20 @@ function ConductanceResult({ r }: { r: Conductance }) {
       <dl className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4" data-testid="conductance-figures">
         <Figure label="Total conductance G" value={withUnit(g.total, "e²/h")} sub={`${num(r.siemens)} S`} />
         <Figure label="Resistance" value={withUnit(r.ohms, "Ω")} sub="1 / G, with contacts" />
-        <Figure label="Valley K, per spin" value={withUnit(g.valleyK, "e²/h")} sub={g.valleyKPrime !== null && g.valleyKPrime !== undefined ? `valley K′: ${num(g.valleyKPrime)} e²/h` : "one valley"} />
+        <Figure
+          label="Valley K, per spin"
+          value={withUnit(g.valleyK, "e²/h")}
+          sub={g.valleyKPrime !== null && g.valleyKPrime !== undefined ? `valley K′: ${num(g.valleyKPrime)} e²/h` : "one valley"}
+        />
         <Figure label="Fano factor F" value={num(r.fano)} sub={`${num(r.channels.total)} lead channels`} />
       </dl>
       {ens ? (
         <dl className="grid gap-3 sm:grid-cols-3">
-          <Figure label={`Ensemble mean (${ens.samples} seeds)`} value={withUnit(ens.mean.total, "e²/h")} sub={`standard error ${num(ens.stderr.total)} e²/h`} />
+          <Figure
+            label={`Ensemble mean (${ens.samples} seeds)`}
+            value={withUnit(ens.mean.total, "e²/h")}
+            sub={`standard error ${num(ens.stderr.total)} e²/h`}
+          />
           <Figure label="Ensemble standard deviation" value={withUnit(ens.std.total, "e²/h")} />
           <Figure label="Current conservation error" value={num(r.checks.currentConservationError)} sub="|R + T − N|, should be ≤ 1e−10" />
         </dl>
@@ -66,7 +81,8 @@ function ConductanceResult({ r }: { r: Conductance }) {
       )}
       {r.thermal ? (
         <p className="text-caption text-fg-faint" data-testid="thermal-accuracy">
-          Thermal average: {r.thermal.energiesPerSample} energies per sample, estimated relative error {num(r.thermal.estimatedRelativeError)} (tolerance {num(r.thermal.relativeTolerance)}).
+          Thermal average: {r.thermal.energiesPerSample} energies per sample, estimated relative error {num(r.thermal.estimatedRelativeError)} (tolerance{" "}
+          {num(r.thermal.relativeTolerance)}).
         </p>
       ) : null}
       {r.warnings.length > 0 ? (
@@ -77,7 +93,15 @@ function ConductanceResult({ r }: { r: Conductance }) {
         </ul>
       ) : null}
       <div className="grid gap-6 xl:grid-cols-2">
-        {eig.length > 0 ? <Histogram title="Transmission eigenvalues" name="transmission-eigenvalues" values={eig} xLabel="Transmission eigenvalue T (dimensionless)" bins={20} /> : null}
+        {eig.length > 0 ? (
+          <Histogram
+            title="Transmission eigenvalues"
+            name="transmission-eigenvalues"
+            values={eig}
+            xLabel="Transmission eigenvalue T (dimensionless)"
+            bins={20}
+          />
+        ) : null}
         {histo ? (
           <XYChart
             title="Ensemble distribution of G"
@@ -106,14 +130,22 @@ function SpectrumResult({ r }: { r: Spectrum }) {
   const distance = k.length === energies.length && k.length > 0 ? pathDistance(k) : energies.map((_, i) => i);
   const labels = r.pathLabels ?? [];
   const greek = (x: string) => (x === "Gamma" ? "Γ" : x);
-  const ticks = labels.length ? labels.map((l) => ({ at: distance[l.index] ?? 0, label: greek(l.label) })) : [{ at: distance[0] ?? 0, label: "start" }, { at: distance[distance.length - 1] ?? 1, label: "end" }];
+  const ticks = labels.length
+    ? labels.map((l) => ({ at: distance[l.index] ?? 0, label: greek(l.label) }))
+    : [
+        { at: distance[0] ?? 0, label: "start" },
+        { at: distance[distance.length - 1] ?? 1, label: "end" },
+      ];
   return (
     <div className="space-y-4">
       <p className="text-body text-fg-soft">
-        Energy period 2πħv/l = <span className="font-mono">{withUnit(r.energyPeriodMeV, "meV")}</span>; energies are reduced into one period. {energies.length} k points.
+        Energy period 2πħv/l = <span className="font-mono">{withUnit(r.energyPeriodMeV, "meV")}</span>; energies are reduced into one period. {energies.length}{" "}
+        k points.
       </p>
       <BandChart energies={energies} distance={distance} ticks={ticks} periodMeV={r.energyPeriodMeV} />
-      {r.valleyKPrimeEnergiesMeV ? <p className="text-caption text-fg-faint">Valley K′ energies are in the result JSON (valleyKPrimeEnergiesMeV); the plot shows valley K.</p> : null}
+      {r.valleyKPrimeEnergiesMeV ? (
+        <p className="text-caption text-fg-faint">Valley K′ energies are in the result JSON (valleyKPrimeEnergiesMeV); the plot shows valley K.</p>
+      ) : null}
     </div>
   );
 }
@@ -132,9 +164,23 @@ function DosResult({ r }: { r: Dos }) {
         yLabel={dos.label}
         yUnit={dos.unit}
         series={[{ name: "DOS", x: e, y: dos.y }]}
-        csv={{ header: ["energyMeV", "dosPerCellPerMeV", "carrierDensityPerCm2"], rows: e.map((x, i) => [x, dos.y[i], density.y[i]]), comments: ["Density of states and carrier density (model prediction)"] }}
+        csv={{
+          header: ["energyMeV", "dosPerCellPerMeV", "carrierDensityPerCm2"],
+          rows: e.map((x, i) => [x, dos.y[i], density.y[i]]),
+          comments: ["Density of states and carrier density (model prediction)"],
+        }}
       />
-      {density.y.length ? <XYChart title="Carrier density" name="carrier-density" xLabel="Energy E (meV)" xUnit="meV" yLabel={density.label} yUnit={density.unit} series={[{ name: "n", x: e, y: density.y, color: "warm" }]} /> : null}
+      {density.y.length ? (
+        <XYChart
+          title="Carrier density"
+          name="carrier-density"
+          xLabel="Energy E (meV)"
+          xUnit="meV"
+          yLabel={density.label}
+          yUnit={density.unit}
+          series={[{ name: "n", x: e, y: density.y, color: "warm" }]}
+        />
+      ) : null}
     </div>
   );
 }
@@ -146,12 +192,18 @@ function LocalizationResult({ r }: { r: Localization }) {
   const mKp = r.meanLnT.valleyKPrime;
   const xi = r.localizationLength.valleyK;
   const lambda = r.lambda.valleyK;
-  const series: { name: string; x: number[]; y: number[]; err?: number[]; color?: "warm" }[] = [{ name: "valley K", x: L, y: mK, err: seK.length ? seK : undefined }];
+  const series: { name: string; x: number[]; y: number[]; err?: number[]; color?: "warm" }[] = [
+    { name: "valley K", x: L, y: mK, err: seK.length ? seK : undefined },
+  ];
   if (mKp?.length) series.push({ name: "valley K′", x: L, y: mKp, err: r.stderrLnT.valleyKPrime ?? undefined, color: "warm" });
   return (
     <div className="space-y-6">
       <dl className="grid gap-3 sm:grid-cols-3">
-        <Figure label="Localization length ξ (valley K)" value={xi ? withUnit(xi.nm, "nm") : "not localized on these lengths"} sub={xi ? `${num(xi.inLinkLengths)} link lengths${xi.stderrNm ? ` · ± ${num(xi.stderrNm, 2)} nm` : ""}` : "ln T does not decrease"} />
+        <Figure
+          label="Localization length ξ (valley K)"
+          value={xi ? withUnit(xi.nm, "nm") : "not localized on these lengths"}
+          sub={xi ? `${num(xi.inLinkLengths)} link lengths${xi.stderrNm ? ` · ± ${num(xi.stderrNm, 2)} nm` : ""}` : "ln T does not decrease"}
+        />
         <Figure label="Λ = ξ / W" value={num(lambda)} sub="small: localized; order 1 or more: extended on this width" />
         <Figure label="Strip width W" value={withUnit(r.widthNm, "nm")} sub={`${r.rows} rows · ${r.samples} seeds · fit from ${num(r.fitFromNm)} nm`} />
       </dl>
@@ -163,7 +215,11 @@ function LocalizationResult({ r }: { r: Localization }) {
           xUnit="nm"
           yLabel="⟨ln T⟩ (dimensionless)"
           series={series}
-          csv={{ header: ["lengthNm", "meanLnTValleyK", "stderrLnTValleyK"], rows: L.map((x, i) => [x, mK[i], seK[i]]), comments: ["Mean ln T over the ensemble against strip length (model prediction)"] }}
+          csv={{
+            header: ["lengthNm", "meanLnTValleyK", "stderrLnTValleyK"],
+            rows: L.map((x, i) => [x, mK[i], seK[i]]),
+            comments: ["Mean ln T over the ensemble against strip length (model prediction)"],
+          }}
         />
       ) : null}
     </div>

@@ -65,9 +65,20 @@ export function RunView({ id }: { id: string }) {
         {run.computeSeconds !== null ? ` · used ${computeSeconds(run.computeSeconds)}` : ""}
       </PageHeader>
       <div className="max-w-3xl">
-        <Progress status={run.status} progress={run.progress} startedAt={run.startedAt} createdAt={run.createdAt} finishedAt={run.finishedAt} label="Run progress" />
+        <Progress
+          status={run.status}
+          progress={run.progress}
+          startedAt={run.startedAt}
+          createdAt={run.createdAt}
+          finishedAt={run.finishedAt}
+          label="Run progress"
+        />
       </div>
-      {cancel.error ? <p role="alert" className="mt-2 text-caption text-danger">{(cancel.error as Error).message}</p> : null}
+      {cancel.error ? (
+        <p role="alert" className="mt-2 text-caption text-danger">
+          {(cancel.error as Error).message}
+        </p>
+      ) : null}
       {err ? (
         <div role="alert" className="mt-4 max-w-3xl rounded-card border border-danger/40 bg-danger-soft p-3 text-body text-danger">
           {err}

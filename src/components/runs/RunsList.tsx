@@ -25,7 +25,11 @@ export function RunsList() {
       header: "Status",
       accessorFn: (r) => r.status,
       cell: ({ row }) => (
-        <Link href={`/runs/${row.original.id}`} className="inline-flex items-center gap-2" aria-label={`Run ${row.original.id.slice(0, 8)}, ${row.original.status}`}>
+        <Link
+          href={`/runs/${row.original.id}`}
+          className="inline-flex items-center gap-2"
+          aria-label={`Run ${row.original.id.slice(0, 8)}, ${row.original.status}`}
+        >
           <StatusBadge status={row.original.status} />
           {row.original.status === "running" ? <span className="tk-num text-caption text-fg-faint">{Math.round(row.original.progress * 100)}%</span> : null}
         </Link>
@@ -44,11 +48,33 @@ export function RunsList() {
     {
       id: "network",
       header: "Network",
-      cell: ({ row }) => (row.original.networkId ? <Link href={`/networks/${row.original.networkId}`} className="hover:underline">{names.get(row.original.networkId) ?? "network"}{row.original.networkVersion ? ` v${row.original.networkVersion}` : ""}</Link> : <span className="text-fg-faint">inline</span>),
+      cell: ({ row }) =>
+        row.original.networkId ? (
+          <Link href={`/networks/${row.original.networkId}`} className="hover:underline">
+            {names.get(row.original.networkId) ?? "network"}
+            {row.original.networkVersion ? ` v${row.original.networkVersion}` : ""}
+          </Link>
+        ) : (
+          <span className="text-fg-faint">inline</span>
+        ),
     },
     { id: "createdBy", header: "Who", cell: ({ row }) => who(row.original.createdBy) },
-    { id: "cost", header: "Compute", accessorFn: (r) => r.computeSeconds ?? r.estimate.computeSeconds, cell: ({ row }) => <span className="tk-num">{row.original.computeSeconds !== null ? computeSeconds(row.original.computeSeconds) : `est. ${computeSeconds(row.original.estimate.computeSeconds)}`}</span> },
-    { id: "createdAt", header: "Created", accessorFn: (r) => r.createdAt, cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
+    {
+      id: "cost",
+      header: "Compute",
+      accessorFn: (r) => r.computeSeconds ?? r.estimate.computeSeconds,
+      cell: ({ row }) => (
+        <span className="tk-num">
+          {row.original.computeSeconds !== null ? computeSeconds(row.original.computeSeconds) : `est. ${computeSeconds(row.original.estimate.computeSeconds)}`}
+        </span>
+      ),
+    },
+    {
+      id: "createdAt",
+      header: "Created",
+      accessorFn: (r) => r.createdAt,
+      cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span>,
+    },
   ];
   return (
     <>
@@ -67,7 +93,11 @@ export function RunsList() {
         label="runs"
         empty={
           <>
-            No runs yet. Open a <Link href="/networks" className="text-accent underline">network</Link> and run a computation.
+            No runs yet. Open a{" "}
+            <Link href="/networks" className="text-accent underline">
+              network
+            </Link>{" "}
+            and run a computation.
           </>
         }
       />

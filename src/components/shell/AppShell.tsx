@@ -33,7 +33,10 @@ export function AppShell({ children }: { children: ReactNode }) {
   const items = NAV.filter((n) => !n.show || (role ? n.show(role) : false));
   return (
     <div className="min-h-screen lg:grid lg:grid-cols-[15rem_1fr]">
-      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-surface focus:px-3 focus:py-1">
+      <a
+        href="#main"
+        className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-surface focus:px-3 focus:py-1"
+      >
         Skip to content
       </a>
       <aside className="border-b border-line bg-surface-sunk lg:sticky lg:top-0 lg:h-screen lg:border-b-0 lg:border-r">

@@ -16,8 +16,23 @@ export function NetworkMotif({ columns = 7, rows = 6, className }: { columns?: n
   for (let i = 0; i < g.linkCount; i++) {
     const [x0, y0, x1, y1] = [g.links[4 * i], g.links[4 * i + 1], g.links[4 * i + 2], g.links[4 * i + 3]];
     const f = g.linkKind[i] ? 0.9 : 0.62;
-    lines.push(<line key={i} x1={X(x0)} y1={Y(y0)} x2={X(x0 + (x1 - x0) * f)} y2={Y(y0 + (y1 - y0) * f)} stroke={g.linkKind[i] === 1 ? "var(--tk-plot-lead)" : "var(--tk-plot-link)"} strokeWidth={1.6} markerEnd="url(#motif-arrow)" opacity={g.linkKind[i] === 2 ? 0.45 : 1} />);
-    if (!g.linkKind[i]) lines.push(<line key={`t${i}`} x1={X(x0 + (x1 - x0) * 0.6)} y1={Y(y0 + (y1 - y0) * 0.6)} x2={X(x1)} y2={Y(y1)} stroke="var(--tk-plot-link)" strokeWidth={1.6} />);
+    lines.push(
+      <line
+        key={i}
+        x1={X(x0)}
+        y1={Y(y0)}
+        x2={X(x0 + (x1 - x0) * f)}
+        y2={Y(y0 + (y1 - y0) * f)}
+        stroke={g.linkKind[i] === 1 ? "var(--tk-plot-lead)" : "var(--tk-plot-link)"}
+        strokeWidth={1.6}
+        markerEnd="url(#motif-arrow)"
+        opacity={g.linkKind[i] === 2 ? 0.45 : 1}
+      />,
+    );
+    if (!g.linkKind[i])
+      lines.push(
+        <line key={`t${i}`} x1={X(x0 + (x1 - x0) * 0.6)} y1={Y(y0 + (y1 - y0) * 0.6)} x2={X(x1)} y2={Y(y1)} stroke="var(--tk-plot-link)" strokeWidth={1.6} />,
+      );
   }
   return (
     <svg viewBox={`0 0 ${w} ${h}`} className={className} aria-hidden="true" focusable="false">

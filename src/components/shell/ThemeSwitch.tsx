@@ -41,7 +41,11 @@ export function ThemeSwitch() {
   return (
     <label className="flex items-center gap-2 text-caption text-fg-faint">
       <span>Theme</span>
-      <select className="rounded-field border border-line bg-surface px-1.5 py-0.5 text-caption text-fg" value={theme} onChange={(e) => choose(e.target.value as Theme)}>
+      <select
+        className="rounded-field border border-line bg-surface px-1.5 py-0.5 text-caption text-fg"
+        value={theme}
+        onChange={(e) => choose(e.target.value as Theme)}
+      >
         <option value="system">System</option>
         <option value="light">Light</option>
         <option value="dark">Dark</option>

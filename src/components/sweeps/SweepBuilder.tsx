@@ -64,7 +64,8 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
   const duplicate = axes.length === 2 && axes[0].parameter === axes[1].parameter;
   const pointCount = parsed.reduce((n, p) => n * ("count" in p ? p.count : 0), 1);
   const ensembleN = samples === "" ? 1 : Number(samples);
-  const ensembleError = samples !== "" && (!Number.isInteger(ensembleN) || ensembleN < 1) ? "ensemble size must be a whole number, at least 1 (blank: one sample)" : undefined;
+  const ensembleError =
+    samples !== "" && (!Number.isInteger(ensembleN) || ensembleN < 1) ? "ensemble size must be a whole number, at least 1 (blank: one sample)" : undefined;
   const limit = PLANS[plan].maxSweepPoints;
   const overLimit = pointCount > limit;
   const ok = check.ok && axisOk && !duplicate && !ensembleError && pointCount > 0;
@@ -114,10 +115,18 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
         const unit = PARAMETER_UNITS[a.parameter]?.unit;
         return (
           <fieldset key={i} className="rounded-field border border-line p-3" aria-label={`Axis ${i + 1}`}>
-            <legend className="px-1 text-caption font-semibold text-fg-soft">Axis {i + 1}{i === 0 && axes.length === 2 ? " (rows of the heat map: y)" : i === 1 ? " (columns: x)" : ""}</legend>
+            <legend className="px-1 text-caption font-semibold text-fg-soft">
+              Axis {i + 1}
+              {i === 0 && axes.length === 2 ? " (rows of the heat map: y)" : i === 1 ? " (columns: x)" : ""}
+            </legend>
             <div className="grid gap-3 sm:grid-cols-[1.4fr_1fr_repeat(3,0.8fr)]">
               <Field id={`axis${i}.parameter`} label="Parameter" error={duplicate && i === 1 ? "the two axes must sweep different parameters" : undefined}>
-                <Select id={`axis${i}.parameter`} value={a.parameter} options={params.map((x) => ({ value: x, label: axisLabel(x) }))} onChange={(v) => setAxis(i, { parameter: v })} />
+                <Select
+                  id={`axis${i}.parameter`}
+                  value={a.parameter}
+                  options={params.map((x) => ({ value: x, label: axisLabel(x) }))}
+                  onChange={(v) => setAxis(i, { parameter: v })}
+                />
               </Field>
               <Field id={`axis${i}.mode`} label="Given as">
                 <Select
@@ -133,19 +142,42 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
               {a.mode === "range" ? (
                 <>
                   <Field id={`axis${i}.from`} label="From" unit={unit || undefined} error={err?.field === "from" ? err.error : undefined}>
-                    <NumberInput id={`axis${i}.from`} value={a.from} onChange={(v) => setAxis(i, { from: v })} error={err?.field === "from" ? err.error : undefined} />
+                    <NumberInput
+                      id={`axis${i}.from`}
+                      value={a.from}
+                      onChange={(v) => setAxis(i, { from: v })}
+                      error={err?.field === "from" ? err.error : undefined}
+                    />
                   </Field>
                   <Field id={`axis${i}.to`} label="To" unit={unit || undefined} error={err?.field === "to" ? err.error : undefined}>
                     <NumberInput id={`axis${i}.to`} value={a.to} onChange={(v) => setAxis(i, { to: v })} error={err?.field === "to" ? err.error : undefined} />
                   </Field>
                   <Field id={`axis${i}.points`} label="Points" error={err?.field === "points" ? err.error : undefined}>
-                    <NumberInput id={`axis${i}.points`} integer value={a.points} onChange={(v) => setAxis(i, { points: v })} error={err?.field === "points" ? err.error : undefined} />
+                    <NumberInput
+                      id={`axis${i}.points`}
+                      integer
+                      value={a.points}
+                      onChange={(v) => setAxis(i, { points: v })}
+                      error={err?.field === "points" ? err.error : undefined}
+                    />
                   </Field>
                 </>
               ) : (
                 <div className="sm:col-span-3">
-                  <Field id={`axis${i}.values`} label="Values" unit={unit || undefined} hint="separated by commas or spaces" error={err?.field === "values" ? err.error : undefined}>
-                    <input id={`axis${i}.values`} className="tk-field font-mono" value={a.values} onChange={(e) => setAxis(i, { values: e.target.value })} placeholder="0, 0.5, 1, 2" />
+                  <Field
+                    id={`axis${i}.values`}
+                    label="Values"
+                    unit={unit || undefined}
+                    hint="separated by commas or spaces"
+                    error={err?.field === "values" ? err.error : undefined}
+                  >
+                    <input
+                      id={`axis${i}.values`}
+                      className="tk-field font-mono"
+                      value={a.values}
+                      onChange={(e) => setAxis(i, { values: e.target.value })}
+                      placeholder="0, 0.5, 1, 2"
+                    />
                   </Field>
                 </div>
               )}
@@ -158,7 +190,9 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
           <button
             type="button"
             className="tk-btn-quiet"
-            onClick={() => setAxes((l) => [...l, { parameter: params.find((x) => x !== l[0].parameter) ?? params[0], mode: "range", from: 0, to: 1, points: 6, values: "" }])}
+            onClick={() =>
+              setAxes((l) => [...l, { parameter: params.find((x) => x !== l[0].parameter) ?? params[0], mode: "range", from: 0, to: 1, points: 6, values: "" }])
+            }
           >
             + Second axis (heat map)
           </button>
@@ -171,9 +205,17 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
       <p className="text-body" data-testid="point-count">
         <strong className="tk-num">{axisOk ? pointCount.toLocaleString("en") : "–"}</strong> points
         {samples !== "" && !ensembleError ? ` × ${ensembleN} seeds` : ""}
-        <span className={overLimit ? "text-danger" : "text-fg-faint"}> · the {PLANS[plan].label} plan allows up to {limit.toLocaleString("en")} points per sweep</span>
+        <span className={overLimit ? "text-danger" : "text-fg-faint"}>
+          {" "}
+          · the {PLANS[plan].label} plan allows up to {limit.toLocaleString("en")} points per sweep
+        </span>
       </p>
-      <CostLine seconds={perPoint === null || !axisOk ? null : perPoint * pointCount * (ensembleError ? 1 : ensembleN)} plan={plan} points={pointCount} jobSeconds={perPoint === null ? null : perPoint * (ensembleError ? 1 : ensembleN)} />
+      <CostLine
+        seconds={perPoint === null || !axisOk ? null : perPoint * pointCount * (ensembleError ? 1 : ensembleN)}
+        plan={plan}
+        points={pointCount}
+        jobSeconds={perPoint === null ? null : perPoint * (ensembleError ? 1 : ensembleN)}
+      />
       <ServerError message={serverError} />
       {canSubmit ? (
         <button type="submit" className="tk-btn" disabled={!ok || submit.isPending}>

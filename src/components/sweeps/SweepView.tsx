@@ -16,7 +16,13 @@ import { XYChart } from "@/components/charts/XYChart";
 import { quantityLabel, preferredQuantity, errorQuantityFor } from "./quantities";
 
 const LIVE = new Set(["queued", "running"]);
-const KIND_LABEL: Record<string, string> = { conductance: "Conductance", dos: "Density of states", ldos: "Local density of states", localization: "Localization length", spectrum: "Band structure" };
+const KIND_LABEL: Record<string, string> = {
+  conductance: "Conductance",
+  dos: "Density of states",
+  ldos: "Local density of states",
+  localization: "Localization length",
+  spectrum: "Band structure",
+};
 
 /** A sweep: progress, partial results drawn as they arrive (1 axis: curve; 2 axes: heat map). */
 export function SweepView({ id }: { id: string }) {
@@ -45,7 +51,7 @@ export function SweepView({ id }: { id: string }) {
   if (q.error) return <ErrorNote error={q.error} title="Could not load this sweep" />;
   if (!s) return <Skeleton lines={5} />;
   const live = LIVE.has(s.status);
-  const values = quantity ? s.grid.quantities[quantity] ?? [] : [];
+  const values = quantity ? (s.grid.quantities[quantity] ?? []) : [];
   const errName = quantity ? errorQuantityFor(quantity, Object.keys(s.grid.quantities)) : null;
   const errs = errName ? s.grid.quantities[errName] : undefined;
   const done = values.filter((v) => v !== null).length;
@@ -75,7 +81,8 @@ export function SweepView({ id }: { id: string }) {
           </>
         }
       >
-        Submitted {when(s.createdAt)} by {who(s.createdBy)} · estimated {computeSeconds(s.estimate?.computeSeconds)} · used {computeSeconds(s.computeSeconds ?? 0)}
+        Submitted {when(s.createdAt)} by {who(s.createdBy)} · estimated {computeSeconds(s.estimate?.computeSeconds)} · used{" "}
+        {computeSeconds(s.computeSeconds ?? 0)}
       </PageHeader>
       <div className="max-w-3xl space-y-2">
         <Progress status={s.status} progress={s.progress} startedAt={s.startedAt} createdAt={s.createdAt} finishedAt={s.finishedAt} label="Sweep progress" />
@@ -112,7 +119,11 @@ export function SweepView({ id }: { id: string }) {
             yUnit={ql.unit}
             xDomain={[Math.min(...a0.values), Math.max(...a0.values)]}
             series={[{ name: errs ? "mean ± s.e." : ql.label, x: a0.values, y: values, err: errs }]}
-            csv={{ header: [a0.parameter, quantity, ...(errName ? [errName] : [])], rows: a0.values.map((x, i) => [x, values[i], ...(errs ? [errs[i]] : [])]), comments: [`Sweep ${s.id}; ${done} of ${s.pointCount} points; model prediction`] }}
+            csv={{
+              header: [a0.parameter, quantity, ...(errName ? [errName] : [])],
+              rows: a0.values.map((x, i) => [x, values[i], ...(errs ? [errs[i]] : [])]),
+              comments: [`Sweep ${s.id}; ${done} of ${s.pointCount} points; model prediction`],
+            }}
           />
         ) : (
           <HeatMap
@@ -125,7 +136,11 @@ export function SweepView({ id }: { id: string }) {
             xLabel={axisLabel(a1.parameter)}
             zLabel={ql.label}
             zUnit={ql.unit}
-            csv={{ header: [a0.parameter, a1.parameter, quantity], rows: values.map((v, i) => [a0.values[Math.floor(i / a1.values.length)], a1.values[i % a1.values.length], v]), comments: [`Sweep ${s.id}; ${done} of ${s.pointCount} points; model prediction`] }}
+            csv={{
+              header: [a0.parameter, a1.parameter, quantity],
+              rows: values.map((v, i) => [a0.values[Math.floor(i / a1.values.length)], a1.values[i % a1.values.length], v]),
+              comments: [`Sweep ${s.id}; ${done} of ${s.pointCount} points; model prediction`],
+            }}
           />
         )}
       </div>

@@ -36,11 +36,42 @@ export function SweepsList() {
         </Link>
       ),
     },
-    { id: "points", header: "Points", accessorFn: (r) => r.pointCount, cell: ({ row }) => <span className="tk-num">{row.original.pointCount}{row.original.ensemble ? ` × ${row.original.ensemble.samples}` : ""}</span> },
-    { id: "network", header: "Network", cell: ({ row }) => (row.original.networkId ? <Link className="hover:underline" href={`/networks/${row.original.networkId}`}>{names.get(row.original.networkId) ?? "network"}</Link> : <span className="text-fg-faint">inline</span>) },
+    {
+      id: "points",
+      header: "Points",
+      accessorFn: (r) => r.pointCount,
+      cell: ({ row }) => (
+        <span className="tk-num">
+          {row.original.pointCount}
+          {row.original.ensemble ? ` × ${row.original.ensemble.samples}` : ""}
+        </span>
+      ),
+    },
+    {
+      id: "network",
+      header: "Network",
+      cell: ({ row }) =>
+        row.original.networkId ? (
+          <Link className="hover:underline" href={`/networks/${row.original.networkId}`}>
+            {names.get(row.original.networkId) ?? "network"}
+          </Link>
+        ) : (
+          <span className="text-fg-faint">inline</span>
+        ),
+    },
     { id: "createdBy", header: "Who", cell: ({ row }) => who(row.original.createdBy) },
-    { id: "cost", header: "Compute", accessorFn: (r) => r.computeSeconds, cell: ({ row }) => <span className="tk-num">{computeSeconds(row.original.computeSeconds)}</span> },
-    { id: "createdAt", header: "Created", accessorFn: (r) => r.createdAt, cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span> },
+    {
+      id: "cost",
+      header: "Compute",
+      accessorFn: (r) => r.computeSeconds,
+      cell: ({ row }) => <span className="tk-num">{computeSeconds(row.original.computeSeconds)}</span>,
+    },
+    {
+      id: "createdAt",
+      header: "Created",
+      accessorFn: (r) => r.createdAt,
+      cell: ({ row }) => <span className="tk-num text-caption">{when(row.original.createdAt)}</span>,
+    },
   ];
   return (
     <>
@@ -55,7 +86,11 @@ export function SweepsList() {
         label="sweeps"
         empty={
           <>
-            No sweeps yet. Open a <Link href="/networks" className="text-accent underline">network</Link> and build one.
+            No sweeps yet. Open a{" "}
+            <Link href="/networks" className="text-accent underline">
+              network
+            </Link>{" "}
+            and build one.
           </>
         }
       />

@@ -38,7 +38,17 @@ interface Props<R extends ListRoute, K extends ListKey<R>> {
  * A list read page by page from the API (cursor pagination), with sort and filters passed to the
  * server as query parameters, drawn with TanStack Table.
  */
-export function DataTable<R extends ListRoute & ApiRoute, K extends ListKey<R>>({ route, listKey, columns, filters = [], fixed = {}, pageSize = 20, cursorParam = "cursor", empty, label }: Props<R, K>) {
+export function DataTable<R extends ListRoute & ApiRoute, K extends ListKey<R>>({
+  route,
+  listKey,
+  columns,
+  filters = [],
+  fixed = {},
+  pageSize = 20,
+  cursorParam = "cursor",
+  empty,
+  label,
+}: Props<R, K>) {
   const [sorting, setSorting] = useState<SortingState>([]);
   const [filterValues, setFilterValues] = useState<Record<string, string>>({});
   const [cursors, setCursors] = useState<(string | null)[]>([null]);
@@ -94,7 +104,9 @@ export function DataTable<R extends ListRoute & ApiRoute, K extends ListKey<R>>(
       ) : null}
       {q.error ? <ErrorNote error={q.error} title={`Could not load ${label}`} /> : null}
       {!q.data && q.isLoading ? <Skeleton lines={4} /> : null}
-      {q.data && q.data.items.length === 0 ? <div className="rounded-card border border-dashed border-line-strong p-8 text-center text-body text-fg-soft">{empty}</div> : null}
+      {q.data && q.data.items.length === 0 ? (
+        <div className="rounded-card border border-dashed border-line-strong p-8 text-center text-body text-fg-soft">{empty}</div>
+      ) : null}
       {q.data && q.data.items.length > 0 ? (
         <div className="overflow-x-auto rounded-card border border-line bg-surface">
           <table className="w-full text-left text-body" aria-label={label}>
@@ -107,7 +119,12 @@ export function DataTable<R extends ListRoute & ApiRoute, K extends ListKey<R>>(
                     return (
                       <th key={h.id} scope="col" className="px-3 py-2 font-medium" aria-sort={dir ? (dir === "asc" ? "ascending" : "descending") : undefined}>
                         {can ? (
-                          <button type="button" className="inline-flex items-center gap-1 uppercase hover:text-fg" onClick={h.column.getToggleSortingHandler()} title="Sort the rows on this page">
+                          <button
+                            type="button"
+                            className="inline-flex items-center gap-1 uppercase hover:text-fg"
+                            onClick={h.column.getToggleSortingHandler()}
+                            title="Sort the rows on this page"
+                          >
                             {flexRender(h.column.columnDef.header, h.getContext())}
                             <span aria-hidden>{dir === "asc" ? "▲" : dir === "desc" ? "▼" : "↕"}</span>
                           </button>
@@ -139,7 +156,12 @@ export function DataTable<R extends ListRoute & ApiRoute, K extends ListKey<R>>(
           ← Newer
         </button>
         <span>Page {cursors.length}</span>
-        <button type="button" className="tk-btn-quiet" disabled={!q.data?.nextCursor} onClick={() => q.data?.nextCursor && setCursors((c) => [...c, q.data!.nextCursor!])}>
+        <button
+          type="button"
+          className="tk-btn-quiet"
+          disabled={!q.data?.nextCursor}
+          onClick={() => q.data?.nextCursor && setCursors((c) => [...c, q.data!.nextCursor!])}
+        >
           Older →
         </button>
         {q.isFetching ? <span className="text-fg-faint">updating…</span> : null}

@@ -3,7 +3,21 @@
 import type { ReactNode } from "react";
 
 /** A labelled form field with its unit and an inline error (linked with aria-describedby). */
-export function Field({ id, label, unit, hint, error, children }: { id: string; label: string; unit?: string; hint?: ReactNode; error?: string; children: ReactNode }) {
+export function Field({
+  id,
+  label,
+  unit,
+  hint,
+  error,
+  children,
+}: {
+  id: string;
+  label: string;
+  unit?: string;
+  hint?: ReactNode;
+  error?: string;
+  children: ReactNode;
+}) {
   return (
     <div className="min-w-0">
       <label htmlFor={id} className="tk-label">
@@ -25,7 +39,25 @@ export function Field({ id, label, unit, hint, error, children }: { id: string; 
 }
 
 /** Numeric input that keeps what the user typed (so "0." survives) and reports numbers up. */
-export function NumberInput({ id, value, onChange, step, min, max, error, integer }: { id: string; value: number | string | undefined; onChange: (v: number | string) => void; step?: number | string; min?: number; max?: number; error?: string; integer?: boolean }) {
+export function NumberInput({
+  id,
+  value,
+  onChange,
+  step,
+  min,
+  max,
+  error,
+  integer,
+}: {
+  id: string;
+  value: number | string | undefined;
+  onChange: (v: number | string) => void;
+  step?: number | string;
+  min?: number;
+  max?: number;
+  error?: string;
+  integer?: boolean;
+}) {
   return (
     <input
       id={id}
@@ -48,7 +80,17 @@ export function NumberInput({ id, value, onChange, step, min, max, error, intege
   );
 }
 
-export function Select<T extends string | number>({ id, value, options, onChange }: { id: string; value: T; options: { value: T; label: string }[]; onChange: (v: T) => void }) {
+export function Select<T extends string | number>({
+  id,
+  value,
+  options,
+  onChange,
+}: {
+  id: string;
+  value: T;
+  options: { value: T; label: string }[];
+  onChange: (v: T) => void;
+}) {
   return (
     <select
       id={id}

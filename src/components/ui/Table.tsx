@@ -5,7 +5,19 @@ import type { ReactNode } from "react";
  * rows are the children. Name it for screen readers with a hidden `caption` or with `label`.
  * Plain markup, so server pages and client components both use it.
  */
-export function CardTable({ columns, caption, label, className, children }: { columns: string[]; caption?: string; label?: string; className?: string; children: ReactNode }) {
+export function CardTable({
+  columns,
+  caption,
+  label,
+  className,
+  children,
+}: {
+  columns: string[];
+  caption?: string;
+  label?: string;
+  className?: string;
+  children: ReactNode;
+}) {
   return (
     <div className={`${className ? `${className} ` : ""}overflow-x-auto rounded-card border border-line bg-surface`}>
       <table className="w-full text-left text-body" aria-label={label}>

@@ -13,7 +13,8 @@ export function WorkspacePage() {
   return (
     <>
       <PageHeader kicker="workspace" title={me.data?.workspace?.name ?? "Workspace"}>
-        {me.data?.workspace?.plan === "lab" ? "Lab plan" : "Free plan"} · you are {me.data?.role ? me.data.role.replace("_", " ") : "…"}. API tokens for scripts are scoped to this workspace and to one role.
+        {me.data?.workspace?.plan === "lab" ? "Lab plan" : "Free plan"} · you are {me.data?.role ? me.data.role.replace("_", " ") : "…"}. API tokens for scripts
+        are scoped to this workspace and to one role.
       </PageHeader>
       <h2 className="mb-2 text-lead font-semibold">Members</h2>
       {members.error ? <ErrorNote error={members.error} /> : null}

@@ -6,8 +6,13 @@ import type { Network } from "../schema";
 import { fluxPerPlaquette, type Scale } from "./common";
 
 export function checkClosedSample(net: Network, fieldField: string): void {
-  if (net.lattice === "triangular" && net.size.columns < 2) throw new EngineInputError("network.size.columns", "a closed (ring) triangular sample needs at least 2 columns");
-  if (net.lattice === "square" && net.size.columns % 2 !== 0) throw new EngineInputError("network.size.columns", `a closed (ring) square sample needs an even number of columns (got ${net.size.columns}); allowed: 2, 4, 6, ...`);
+  if (net.lattice === "triangular" && net.size.columns < 2)
+    throw new EngineInputError("network.size.columns", "a closed (ring) triangular sample needs at least 2 columns");
+  if (net.lattice === "square" && net.size.columns % 2 !== 0)
+    throw new EngineInputError(
+      "network.size.columns",
+      `a closed (ring) square sample needs an even number of columns (got ${net.size.columns}); allowed: 2, 4, 6, ...`,
+    );
   void fieldField;
 }
 
@@ -23,7 +28,10 @@ export function buildClosedSample(net: Network, scale: Scale, fieldTesla: number
     const total = phi * torusPlaquettes(net);
     if (Math.abs(total - Math.round(total)) > 1e-6) {
       const step = scale.fieldPeriodTesla / torusPlaquettes(net);
-      throw new EngineInputError(fieldField, `a closed periodic sample (a torus) holds a whole number of flux quanta: fieldTesla must be a multiple of ${step.toPrecision(8)} T here (got ${fieldTesla} T, ${total.toPrecision(8)} quanta); or use transverse "open"`);
+      throw new EngineInputError(
+        fieldField,
+        `a closed periodic sample (a torus) holds a whole number of flux quanta: fieldTesla must be a multiple of ${step.toPrecision(8)} T here (got ${fieldTesla} T, ${total.toPrecision(8)} quanta); or use transverse "open"`,
+      );
     }
   }
   return buildSample(net, { mode: "ring", fluxPerPlaquette: phi, sample });

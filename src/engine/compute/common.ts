@@ -30,7 +30,9 @@ export function energyPhase(scale: Scale, energyMeV: number): number {
   return energyMeV / scale.energyScaleMeV;
 }
 
-export function mean(xs: number[]): number { return xs.reduce((a, b) => a + b, 0) / Math.max(1, xs.length); }
+export function mean(xs: number[]): number {
+  return xs.reduce((a, b) => a + b, 0) / Math.max(1, xs.length);
+}
 export function std(xs: number[]): number {
   if (xs.length < 2) return 0;
   const m = mean(xs);

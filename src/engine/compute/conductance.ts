@@ -16,14 +16,24 @@ import { EngineInputError } from "../errors";
 
 /** A thermal average beyond what the rule can resolve is refused (CLI exit 2, API 422), naming the field. */
 function thermalOrRefuse(run: () => ThermalAverage): ThermalAverage {
-  try { return run(); } catch (e) {
+  try {
+    return run();
+  } catch (e) {
     if (e instanceof ThermalResolutionError) throw new EngineInputError("computation.temperatureMaxEnergies", e.message);
     throw e;
   }
 }
 
-export interface ValleyPair<T> { valleyK: T; valleyKPrime: T | null }
-export interface ConductanceFigures { valleyK: number; valleyKPrime: number | null; total: number; unit: "e2/h" }
+export interface ValleyPair<T> {
+  valleyK: T;
+  valleyKPrime: T | null;
+}
+export interface ConductanceFigures {
+  valleyK: number;
+  valleyKPrime: number | null;
+  total: number;
+  unit: "e2/h";
+}
 
 export interface ConductanceResult {
   kind: "conductance";
@@ -93,50 +103,72 @@ export function composeSample(g: NetworkGraph, thetaE: number, progress?: Progre
 export function sampleTransport(g: NetworkGraph, thetaE: number, wantEigen: boolean, progress?: Progress, withCheck = true): SampleTransport {
   const abs = composeSample(g, thetaE, progress, withCheck);
   const { leftIn, leftOut, rightIn, rightOut } = leadChannels(g);
-  const nIn = leftIn.length, nOut = rightOut.length;
+  const nIn = leftIn.length,
+    nOut = rightOut.length;
   const t = new Float64Array(2 * nOut * nIn);
-  let T = 0, err = 0;
+  let T = 0,
+    err = 0;
   for (let j = 0; j < nIn; j++) {
     let col = 0;
     for (let i = 0; i < nOut; i++) {
       const [re, im] = abs.entry(rightOut[i], leftIn[j]);
-      t[2 * (i * nIn + j)] = re; t[2 * (i * nIn + j) + 1] = im;
+      t[2 * (i * nIn + j)] = re;
+      t[2 * (i * nIn + j) + 1] = im;
       col += re * re + im * im;
     }
     T += col;
-    for (const o of leftOut) { const [re, im] = abs.entry(o, leftIn[j]); col += re * re + im * im; }
+    for (const o of leftOut) {
+      const [re, im] = abs.entry(o, leftIn[j]);
+      col += re * re + im * im;
+    }
     err = Math.max(err, Math.abs(col - 1));
   }
   if (!withCheck) err = NaN;
-  else for (const j of rightIn) {
-    let col = 0;
-    for (const o of [...leftOut, ...rightOut]) { const [re, im] = abs.entry(o, j); col += re * re + im * im; }
-    err = Math.max(err, Math.abs(col - 1));
-  }
+  else
+    for (const j of rightIn) {
+      let col = 0;
+      for (const o of [...leftOut, ...rightOut]) {
+        const [re, im] = abs.entry(o, j);
+        col += re * re + im * im;
+      }
+      err = Math.max(err, Math.abs(col - 1));
+    }
   // t^H t (nIn x nIn)
   const tht = new Float64Array(2 * nIn * nIn);
-  for (let a = 0; a < nIn; a++) for (let b = a; b < nIn; b++) {
-    let re = 0, im = 0;
-    for (let i = 0; i < nOut; i++) {
-      const xr = t[2 * (i * nIn + a)], xi = -t[2 * (i * nIn + a) + 1], yr = t[2 * (i * nIn + b)], yi = t[2 * (i * nIn + b) + 1];
-      re += xr * yr - xi * yi; im += xr * yi + xi * yr;
+  for (let a = 0; a < nIn; a++)
+    for (let b = a; b < nIn; b++) {
+      let re = 0,
+        im = 0;
+      for (let i = 0; i < nOut; i++) {
+        const xr = t[2 * (i * nIn + a)],
+          xi = -t[2 * (i * nIn + a) + 1],
+          yr = t[2 * (i * nIn + b)],
+          yi = t[2 * (i * nIn + b) + 1];
+        re += xr * yr - xi * yi;
+        im += xr * yi + xi * yr;
+      }
+      tht[2 * (a * nIn + b)] = re;
+      tht[2 * (a * nIn + b) + 1] = im;
+      tht[2 * (b * nIn + a)] = re;
+      tht[2 * (b * nIn + a) + 1] = -im;
     }
-    tht[2 * (a * nIn + b)] = re; tht[2 * (a * nIn + b) + 1] = im;
-    tht[2 * (b * nIn + a)] = re; tht[2 * (b * nIn + a) + 1] = -im;
-  }
   // sum T(1-T) = Tr(t^H t) - Tr((t^H t)^2) = T - ||t^H t||_F^2
   let fro = 0;
   for (let i = 0; i < tht.length; i++) fro += tht[i] * tht[i];
   let eigenvalues: number[] | null = null;
   if (wantEigen && nIn > 0) {
     const { values } = getKernels().eigHermitian(tht, nIn, false);
-    eigenvalues = Array.from(values).map((v) => Math.min(1, Math.max(0, v))).sort((a, b) => b - a);
+    eigenvalues = Array.from(values)
+      .map((v) => Math.min(1, Math.max(0, v)))
+      .sort((a, b) => b - a);
   }
   return { transmission: T, injected: nIn, conservationError: err, eigenvalues, noise: T - fro };
 }
 
 /** Work units of one conductance evaluation (groups of both valleys), for progress. */
-export function conductanceWork(g: NetworkGraph, valleys: number): number { return g.schedule.length * valleys; }
+export function conductanceWork(g: NetworkGraph, valleys: number): number {
+  return g.schedule.length * valleys;
+}
 
 export function computeConductance(net: Network, c: ConductanceComputation, opts: ComputeOptions = {}): ConductanceResult {
   const scale = networkScale(net);
@@ -148,12 +180,20 @@ export function computeConductance(net: Network, c: ConductanceComputation, opts
   const thermalOn = kTMeV > 0;
   const g0 = buildSample(net, { mode: "leads", fluxPerPlaquette: phi, sample: 0 });
   // progress: the adaptive rule's first panels (refinements extend it; progress is capped below 1)
-  const expected = thermalOn ? (c.temperaturePoints !== undefined ? c.temperaturePoints + Math.ceil(c.temperaturePoints / 2) : thermalPlan(kTMeV, scale.energyPeriodMeV, scale.energyPeriodMeV / 64).energies) + 1 : 1;
+  const expected = thermalOn
+    ? (c.temperaturePoints !== undefined
+        ? c.temperaturePoints + Math.ceil(c.temperaturePoints / 2)
+        : thermalPlan(kTMeV, scale.energyPeriodMeV, scale.energyPeriodMeV / 64).energies) + 1
+    : 1;
   const progress = new Progress(samples * expected * conductanceWork(g0, valleys), opts);
   const perSample: { gK: number; gKp: number | null; total: number }[] = [];
-  let eigK: number[] = [], eigKp: number[] | null = null;
-  let noiseSum = 0, tSum = 0, err = 0;
-  let chK = 0, chKp: number | null = null;
+  let eigK: number[] = [],
+    eigKp: number[] | null = null;
+  let noiseSum = 0,
+    tSum = 0,
+    err = 0;
+  let chK = 0,
+    chKp: number | null = null;
   let thermal: ConductanceResult["thermal"] = null;
   for (let s = 0; s < samples; s++) {
     const gK = s === 0 ? g0 : buildSample(net, { mode: "leads", fluxPerPlaquette: phi, sample: s });
@@ -163,9 +203,16 @@ export function computeConductance(net: Network, c: ConductanceComputation, opts
     const r0 = sampleTransport(gK, th0, s === 0, progress);
     const r0p = gKp ? sampleTransport(gKp, th0, s === 0, progress, false) : null;
     err = Math.max(err, r0.conservationError);
-    noiseSum += r0.noise + (r0p?.noise ?? 0); tSum += r0.transmission + (r0p?.transmission ?? 0);
-    if (s === 0) { eigK = r0.eigenvalues ?? []; eigKp = r0p ? r0p.eigenvalues ?? [] : null; chK = r0.injected; chKp = r0p ? r0p.injected : null; }
-    let TK = r0.transmission, TKp = r0p?.transmission ?? 0;
+    noiseSum += r0.noise + (r0p?.noise ?? 0);
+    tSum += r0.transmission + (r0p?.transmission ?? 0);
+    if (s === 0) {
+      eigK = r0.eigenvalues ?? [];
+      eigKp = r0p ? (r0p.eigenvalues ?? []) : null;
+      chK = r0.injected;
+      chKp = r0p ? r0p.injected : null;
+    }
+    let TK = r0.transmission,
+      TKp = r0p?.transmission ?? 0;
     if (thermalOn) {
       // the R + T = N check runs on valley K at every energy (K' skips the reflection rows)
       const f = (eMeV: number): number[] => {
@@ -176,17 +223,21 @@ export function computeConductance(net: Network, c: ConductanceComputation, opts
       };
       const resonance = c.temperaturePoints === undefined ? narrowestResonance(gK) : null;
       const widthMeV = resonance ? resonance.widthRad * scale.energyScaleMeV : null;
-      const avg = thermalOrRefuse(() => thermalAverage(f, c.energyMeV, kTMeV, scale.energyPeriodMeV, {
-        relativeTolerance: c.temperatureTolerance,
-        maxEnergies: c.temperatureMaxEnergies,
-        fixedPoints: c.temperaturePoints,
-        scale: r0.injected + (r0p?.injected ?? 0),
-        panelMeV: widthMeV === null ? scale.energyPeriodMeV : 8 * widthMeV,
-      }));
-      TK = avg.values[0]; TKp = avg.values[1];
+      const avg = thermalOrRefuse(() =>
+        thermalAverage(f, c.energyMeV, kTMeV, scale.energyPeriodMeV, {
+          relativeTolerance: c.temperatureTolerance,
+          maxEnergies: c.temperatureMaxEnergies,
+          fixedPoints: c.temperaturePoints,
+          scale: r0.injected + (r0p?.injected ?? 0),
+          panelMeV: widthMeV === null ? scale.energyPeriodMeV : 8 * widthMeV,
+        }),
+      );
+      TK = avg.values[0];
+      TKp = avg.values[1];
       const prev = thermal as ConductanceResult["thermal"];
       thermal = {
-        method: avg.method, domain: avg.domain,
+        method: avg.method,
+        domain: avg.domain,
         energiesPerSample: Math.max(prev?.energiesPerSample ?? 0, avg.energies),
         estimatedRelativeError: Math.max(prev?.estimatedRelativeError ?? 0, avg.estimatedRelativeError),
         relativeTolerance: avg.relativeTolerance,
@@ -195,15 +246,18 @@ export function computeConductance(net: Network, c: ConductanceComputation, opts
       };
     }
     const copies = gK.copies;
-    const gk = TK * copies, gkp = gKp ? TKp * copies : null;
+    const gk = TK * copies,
+      gkp = gKp ? TKp * copies : null;
     perSample.push({ gK: gk, gKp: gkp, total: spin * (gk + (gkp ?? 0)) });
   }
   const warnings: string[] = [];
   if (thermal && !thermal.converged) {
-    warnings.push(`The thermal average reached an estimated relative error of ${thermal.estimatedRelativeError.toExponential(1)}, above the tolerance ${thermal.relativeTolerance.toExponential(1)} (${thermal.energiesPerSample} energies per sample${thermal.method === "gauss-legendre" ? ", fixed rule of temperaturePoints" : ", limit temperatureMaxEnergies"}); the conductance at this temperature is less accurate than asked.`);
+    warnings.push(
+      `The thermal average reached an estimated relative error of ${thermal.estimatedRelativeError.toExponential(1)}, above the tolerance ${thermal.relativeTolerance.toExponential(1)} (${thermal.energiesPerSample} energies per sample${thermal.method === "gauss-legendre" ? ", fixed rule of temperaturePoints" : ", limit temperatureMaxEnergies"}); the conductance at this temperature is less accurate than asked.`,
+    );
   }
   const copies = g0.copies;
-  const dup = (xs: number[]) => copies === 1 ? xs : xs.flatMap((x) => Array(copies).fill(x) as number[]);
+  const dup = (xs: number[]) => (copies === 1 ? xs : xs.flatMap((x) => Array(copies).fill(x) as number[]));
   const fig = (f: (xs: number[]) => number): ConductanceFigures => ({
     valleyK: f(perSample.map((p) => p.gK)),
     valleyKPrime: valleys === 2 ? f(perSample.map((p) => p.gKp as number)) : null,
@@ -234,16 +288,34 @@ export function computeConductance(net: Network, c: ConductanceComputation, opts
   };
   if (c.ensemble) {
     const sd = fig(std);
-    const se: ConductanceFigures = { valleyK: sd.valleyK / Math.sqrt(samples), valleyKPrime: sd.valleyKPrime === null ? null : sd.valleyKPrime / Math.sqrt(samples), total: sd.total / Math.sqrt(samples), unit: "e2/h" };
-    result.ensemble = { samples, mean: meanFig, std: sd, stderr: se, histogram: histogram(perSample.map((p) => p.total), c.histogramBins) };
+    const se: ConductanceFigures = {
+      valleyK: sd.valleyK / Math.sqrt(samples),
+      valleyKPrime: sd.valleyKPrime === null ? null : sd.valleyKPrime / Math.sqrt(samples),
+      total: sd.total / Math.sqrt(samples),
+      unit: "e2/h",
+    };
+    result.ensemble = {
+      samples,
+      mean: meanFig,
+      std: sd,
+      stderr: se,
+      histogram: histogram(
+        perSample.map((p) => p.total),
+        c.histogramBins,
+      ),
+    };
   }
   progress.finish();
   return result;
 }
 
 export function histogram(xs: number[], bins: number): { quantity: "conductance.total"; unit: "e2/h"; binEdges: number[]; counts: number[] } {
-  let lo = Math.min(...xs), hi = Math.max(...xs);
-  if (!(hi > lo)) { lo -= 0.5; hi += 0.5; }
+  let lo = Math.min(...xs),
+    hi = Math.max(...xs);
+  if (!(hi > lo)) {
+    lo -= 0.5;
+    hi += 0.5;
+  }
   const edges = Array.from({ length: bins + 1 }, (_, i) => lo + ((hi - lo) * i) / bins);
   const counts = new Array(bins).fill(0) as number[];
   for (const x of xs) counts[Math.min(bins - 1, Math.floor(((x - lo) / (hi - lo)) * bins))]++;

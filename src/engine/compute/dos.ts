@@ -46,30 +46,40 @@ const poisson = (x: number, r: number) => (1 - r * r) / (1 - 2 * r * Math.cos(x)
 const poissonIntegral = (x: number, r: number) => x + 2 * Math.atan2(r * Math.sin(x), 1 - r * Math.cos(x));
 
 /** Bloch DOS per cell per meV (per spin, channels included) and states per cell from 0 to E. */
-export function blochDos(cell: PeriodicCell, scale: Scale, energies: number[], eta: number, kMesh: number, progress?: Progress): { dos: number[]; count: number[]; perPeriod: number } {
+export function blochDos(
+  cell: PeriodicCell,
+  scale: Scale,
+  energies: number[],
+  eta: number,
+  kMesh: number,
+  progress?: Progress,
+): { dos: number[]; count: number[]; perPeriod: number } {
   const r = Math.exp(-eta);
   const dos = new Array(energies.length).fill(0) as number[];
   const count = new Array(energies.length).fill(0) as number[];
   // reciprocal vectors of the supercell
-  const [a, b] = cell.A1, [c, d] = cell.A2;
+  const [a, b] = cell.A1,
+    [c, d] = cell.A2;
   const det = a * d - b * c;
   const B1: [number, number] = [(2 * Math.PI * d) / det, (-2 * Math.PI * c) / det];
   const B2: [number, number] = [(-2 * Math.PI * b) / det, (2 * Math.PI * a) / det];
   const norm = cell.copies / (kMesh * kMesh * cell.primitiveCells);
   const check = new Array(256).fill(0) as number[];
-  for (let i = 0; i < kMesh; i++) for (let j = 0; j < kMesh; j++) {
-    const u = (i + 0.5) / kMesh, v = (j + 0.5) / kMesh;
-    const { phases } = blochPhases(cell, u * B1[0] + v * B2[0], u * B1[1] + v * B2[1]);
-    for (const al of phases) {
-      for (let e = 0; e < energies.length; e++) {
-        const th = energies[e] / scale.energyScaleMeV;
-        dos[e] += (norm * poisson(th + al, r)) / (2 * Math.PI * scale.energyScaleMeV);
-        count[e] += (norm * (poissonIntegral(th + al, r) - poissonIntegral(al, r))) / (2 * Math.PI);
+  for (let i = 0; i < kMesh; i++)
+    for (let j = 0; j < kMesh; j++) {
+      const u = (i + 0.5) / kMesh,
+        v = (j + 0.5) / kMesh;
+      const { phases } = blochPhases(cell, u * B1[0] + v * B2[0], u * B1[1] + v * B2[1]);
+      for (const al of phases) {
+        for (let e = 0; e < energies.length; e++) {
+          const th = energies[e] / scale.energyScaleMeV;
+          dos[e] += (norm * poisson(th + al, r)) / (2 * Math.PI * scale.energyScaleMeV);
+          count[e] += (norm * (poissonIntegral(th + al, r) - poissonIntegral(al, r))) / (2 * Math.PI);
+        }
+        for (let e = 0; e < check.length; e++) check[e] += (norm * poisson((2 * Math.PI * e) / check.length + al, r)) / check.length;
       }
-      for (let e = 0; e < check.length; e++) check[e] += (norm * poisson((2 * Math.PI * e) / check.length + al, r)) / check.length;
+      progress?.tick();
     }
-    progress?.tick();
-  }
   // periodic trapezoid over one period (spectrally accurate for the smooth kernel)
   const perPeriod = check.reduce((x, y) => x + y, 0);
   return { dos, count, perPeriod };
@@ -83,10 +93,14 @@ export function argDetDerivative(g: NetworkGraph, theta: number, eta: number, pr
     plus.run(progress ? { afterGroup: () => progress.tick() } : undefined);
     const minus = new Absorber(g, channelPhases(g, theta - hh, eta), true);
     minus.run(progress ? { afterGroup: () => progress.tick() } : undefined);
-    const dp = plus.stepDet as Float64Array, dm = minus.stepDet as Float64Array;
+    const dp = plus.stepDet as Float64Array,
+      dm = minus.stepDet as Float64Array;
     let s = 0;
     for (let i = 0; i < dp.length / 2; i++) {
-      const ar = dp[2 * i], ai = dp[2 * i + 1], br = dm[2 * i], bi = dm[2 * i + 1];
+      const ar = dp[2 * i],
+        ai = dp[2 * i + 1],
+        br = dm[2 * i],
+        bi = dm[2 * i + 1];
       // arg(a / b) = arg(a conj(b))
       s += Math.atan2(ai * br - ar * bi, ar * br + ai * bi);
     }
@@ -107,15 +121,27 @@ export function computeDos(net: Network, c: DosComputation, opts: ComputeOptions
   const energies = energyGrid(c, scale);
   const broadening = c.broadeningMeV ?? scale.energyPeriodMeV / 100;
   const eta = broadening / scale.energyScaleMeV;
-  const valleys = net.degeneracy.valley, spin = net.degeneracy.spin;
+  const valleys = net.degeneracy.valley,
+    spin = net.degeneracy.spin;
   const geom = sampleGeometryNm(net, scale.periodNm);
-  let dK: number[], dKp: number[] | null = null, nK: number[], nKp: number[] | null = null, perPeriod: number, from: number;
+  let dK: number[],
+    dKp: number[] | null = null,
+    nK: number[],
+    nKp: number[] | null = null,
+    perPeriod: number,
+    from: number;
   if (c.source === "bloch") {
     const cell = periodicCell(net, c.flux.numerator, c.flux.denominator);
     const progress = new Progress(c.kMesh * c.kMesh * valleys, opts);
     const a = blochDos(cell, scale, energies, eta, c.kMesh, progress);
-    dK = a.dos; nK = a.count; perPeriod = a.perPeriod;
-    if (valleys === 2) { const b = blochDos(reverseCell(cell), scale, energies, eta, c.kMesh, progress); dKp = b.dos; nKp = b.count; }
+    dK = a.dos;
+    nK = a.count;
+    perPeriod = a.perPeriod;
+    if (valleys === 2) {
+      const b = blochDos(reverseCell(cell), scale, energies, eta, c.kMesh, progress);
+      dKp = b.dos;
+      nKp = b.count;
+    }
     progress.finish();
     from = 0;
   } else {
@@ -126,8 +152,13 @@ export function computeDos(net: Network, c: DosComputation, opts: ComputeOptions
     const progress = new Progress(energies.length * valleys * 4 * gK.schedule.length, opts);
     dK = energies.map((e) => sampleDos(gK, scale, e, eta, progress) / cells);
     if (gKp) dKp = energies.map((e) => sampleDos(gKp, scale, e, eta, progress) / cells);
-    const integrate = (d: number[]) => { const out = [0]; for (let i = 1; i < d.length; i++) out.push(out[i - 1] + ((d[i] + d[i - 1]) / 2) * (energies[i] - energies[i - 1])); return out; };
-    nK = integrate(dK); nKp = dKp ? integrate(dKp) : null;
+    const integrate = (d: number[]) => {
+      const out = [0];
+      for (let i = 1; i < d.length; i++) out.push(out[i - 1] + ((d[i] + d[i - 1]) / 2) * (energies[i] - energies[i - 1]));
+      return out;
+    };
+    nK = integrate(dK);
+    nKp = dKp ? integrate(dKp) : null;
     perPeriod = linksPerCell(gK) * gK.copies;
     from = energies[0];
     progress.finish();

@@ -46,7 +46,8 @@ export function linkResolventDiagonal(g: NetworkGraph, theta: number, eta: numbe
   for (let s = 0; s < nSeg; s++) wanted.set(G - 1 - parts[segEnd(s)], s);
   if (wanted.has(0)) checkpoints.set(wanted.get(0) as number, back.clone());
   while (!back.done) {
-    back.step(); progress?.tick();
+    back.step();
+    progress?.tick();
     const s = wanted.get(back.nextGroup);
     if (s !== undefined) checkpoints.set(s, back.clone());
   }
@@ -54,23 +55,43 @@ export function linkResolventDiagonal(g: NetworkGraph, theta: number, eta: numbe
   const fwd = new Absorber(g, z, false);
   const kern = getKernels();
   for (let s = 0; s < nSeg; s++) {
-    const lo = s * K, hi = segEnd(s);
+    const lo = s * K,
+      hi = segEnd(s);
     // states of the backward sweep for partitions hi..lo
     const states = new Map<number, Absorber>();
     const b = (checkpoints.get(s) as Absorber).clone();
     states.set(hi, b.clone());
     for (let i = hi - 1; i >= lo; i--) {
-      while (b.nextGroup < G - 1 - parts[i]) { b.step(); progress?.tick(); }
+      while (b.nextGroup < G - 1 - parts[i]) {
+        b.step();
+        progress?.tick();
+      }
       states.set(i, b.clone());
     }
     for (let i = lo; i <= hi; i++) {
-      while (fwd.nextGroup <= parts[i]) { fwd.step(); progress?.tick(); }
+      while (fwd.nextGroup <= parts[i]) {
+        fwd.step();
+        progress?.tick();
+      }
       const B = states.get(i) as Absorber;
-      const f1 = Array.from(fwd.rowCh.subarray(0, fwd.nr)), f2 = Array.from(fwd.colCh.subarray(0, fwd.nc));
-      const n1 = f1.length, n2 = f2.length;
-      const SA = new Float64Array(2 * n1 * n2), SB = new Float64Array(2 * n2 * n1);
-      for (let a = 0; a < n1; a++) for (let c = 0; c < n2; c++) { const [re, im] = fwd.entry(f1[a], f2[c]); SA[2 * (a * n2 + c)] = re; SA[2 * (a * n2 + c) + 1] = im; }
-      for (let c = 0; c < n2; c++) for (let a = 0; a < n1; a++) { const [re, im] = B.entry(f2[c], f1[a]); SB[2 * (c * n1 + a)] = re; SB[2 * (c * n1 + a) + 1] = im; }
+      const f1 = Array.from(fwd.rowCh.subarray(0, fwd.nr)),
+        f2 = Array.from(fwd.colCh.subarray(0, fwd.nc));
+      const n1 = f1.length,
+        n2 = f2.length;
+      const SA = new Float64Array(2 * n1 * n2),
+        SB = new Float64Array(2 * n2 * n1);
+      for (let a = 0; a < n1; a++)
+        for (let c = 0; c < n2; c++) {
+          const [re, im] = fwd.entry(f1[a], f2[c]);
+          SA[2 * (a * n2 + c)] = re;
+          SA[2 * (a * n2 + c) + 1] = im;
+        }
+      for (let c = 0; c < n2; c++)
+        for (let a = 0; a < n1; a++) {
+          const [re, im] = B.entry(f2[c], f1[a]);
+          SB[2 * (c * n1 + a)] = re;
+          SB[2 * (c * n1 + a) + 1] = im;
+        }
       const diagOf = (X: Float64Array, Y: Float64Array, n: number, m: number, chans: number[]) => {
         if (chans.every((ch) => !Number.isNaN(out[ch]))) return;
         const P = kern.matmul(X, Y, n, m, n);
@@ -93,7 +114,8 @@ export function computeLdos(net: Network, c: LdosComputation, opts: ComputeOptio
   const broadening = c.broadeningMeV ?? scale.energyPeriodMeV / 100;
   const eta = broadening / scale.energyScaleMeV;
   const gK = buildClosedSample(net, scale, c.fieldTesla, 0, "computation.fieldTesla");
-  const valleys = net.degeneracy.valley, spin = net.degeneracy.spin;
+  const valleys = net.degeneracy.valley,
+    spin = net.degeneracy.spin;
   const gKp = valleys === 2 ? reverseGraph(gK) : null;
   const progress = new Progress(valleys * 3 * gK.schedule.length, opts);
   const theta = c.energyMeV / scale.energyScaleMeV;
@@ -104,8 +126,10 @@ export function computeLdos(net: Network, c: LdosComputation, opts: ComputeOptio
   const l = scale.periodNm;
   const links = { fromXNm: [] as number[], fromYNm: [] as number[], toXNm: [] as number[], toYNm: [] as number[], edge: [] as number[] };
   for (let ch = 0; ch < gK.channelCount; ch++) {
-    links.fromXNm.push(gK.chSegment[4 * ch] * l); links.fromYNm.push(gK.chSegment[4 * ch + 1] * l);
-    links.toXNm.push(gK.chSegment[4 * ch + 2] * l); links.toYNm.push(gK.chSegment[4 * ch + 3] * l);
+    links.fromXNm.push(gK.chSegment[4 * ch] * l);
+    links.fromYNm.push(gK.chSegment[4 * ch + 1] * l);
+    links.toXNm.push(gK.chSegment[4 * ch + 2] * l);
+    links.toYNm.push(gK.chSegment[4 * ch + 3] * l);
     links.edge.push(gK.nodeReal[gK.chFromNode[ch]] && gK.nodeReal[gK.chToNode[ch]] ? 0 : 1);
   }
   progress.finish();

@@ -12,7 +12,11 @@ import { Absorber } from "../scattering/absorber";
 import { fluxPerPlaquette, mean, networkScale, std } from "./common";
 import { Progress, type ComputeOptions } from "./progress";
 
-export interface LocalizationLength { nm: number; inLinkLengths: number; stderrNm: number | null }
+export interface LocalizationLength {
+  nm: number;
+  inLinkLengths: number;
+  stderrNm: number | null;
+}
 
 export interface LocalizationResult {
   kind: "localization";
@@ -57,20 +61,28 @@ export function lnTransmissionProfile(g: NetworkGraph, theta: number, progress?:
   const abs = new Absorber(g, channelPhases(g, theta), false, undefined, 16, CH_LEFT_OUT);
   const leftIn: number[] = [];
   for (let c = 0; c < g.channelCount; c++) if (g.chKind[c] === CH_LEFT_IN) leftIn.push(c);
-  const xs: number[] = [], lnT: number[] = [];
+  const xs: number[] = [],
+    lnT: number[] = [];
   let cut = 0;
   while (!abs.done) {
-    abs.step(); progress?.tick();
+    abs.step();
+    progress?.tick();
     const t = abs.nextGroup - 1;
     const atCut = cut < g.cutAfter.length && g.cutAfter[cut] === t;
     const wanted = abs.done || (atCut && (!atXs || atXs.some((x) => Math.abs(x - g.cutX[cut]) < 1e-9)));
-    if (atCut && !wanted) { cut++; continue; }
+    if (atCut && !wanted) {
+      cut++;
+      continue;
+    }
     if (wanted) {
       let T = 0;
       for (let r = 0; r < abs.nr; r++) {
         const ch = abs.rowCh[r];
         if (g.chKind[ch] === CH_LEFT_OUT) continue;
-        for (const j of leftIn) { const [re, im] = abs.entry(ch, j); T += re * re + im * im; }
+        for (const j of leftIn) {
+          const [re, im] = abs.entry(ch, j);
+          T += re * re + im * im;
+        }
       }
       xs.push(abs.done ? Math.max(...Array.from(g.nodeX)) + 0.5 : g.cutX[cut]);
       lnT.push(Math.log(Math.max(T, 1e-300)) + (g.copies > 1 ? Math.log(g.copies) : 0));
@@ -81,9 +93,14 @@ export function lnTransmissionProfile(g: NetworkGraph, theta: number, progress?:
 }
 
 function fitSlope(xs: number[], ys: number[]): number {
-  const mx = mean(xs), my = mean(ys);
-  let sxy = 0, sxx = 0;
-  for (let i = 0; i < xs.length; i++) { sxy += (xs[i] - mx) * (ys[i] - my); sxx += (xs[i] - mx) ** 2; }
+  const mx = mean(xs),
+    my = mean(ys);
+  let sxy = 0,
+    sxx = 0;
+  for (let i = 0; i < xs.length; i++) {
+    sxy += (xs[i] - mx) * (ys[i] - my);
+    sxx += (xs[i] - mx) ** 2;
+  }
   return sxx > 0 ? sxy / sxx : 0;
 }
 
@@ -97,7 +114,8 @@ export function computeLocalization(net: Network, c: LocalizationComputation, op
   const theta = c.energyMeV / scale.energyScaleMeV;
   const g0 = buildSample(net, { mode: "leads", fluxPerPlaquette: phi, sample: 0 });
   const progress = new Progress(samples * valleys * g0.schedule.length, opts);
-  const profK: number[][] = [], profKp: number[][] = [];
+  const profK: number[][] = [],
+    profKp: number[][] = [];
   const cutXs = columnCutXs(net, net.size.columns);
   for (let s = 0; s < samples; s++) {
     const g = s === 0 ? g0 : buildSample(net, { mode: "leads", fluxPerPlaquette: phi, sample: s });
@@ -124,13 +142,21 @@ export function computeLocalization(net: Network, c: LocalizationComputation, op
     const se = xs.map((_, i) => std(prof.map((p) => p[i])) / Math.sqrt(prof.length));
     const idx = lengthsNm.map((L, i) => (L >= fitFromNm - 1e-9 ? i : -1)).filter((i) => i >= 0);
     const X = idx.map((i) => lengthsNm[i]);
-    const slope = fitSlope(X, idx.map((i) => m[i]));
+    const slope = fitSlope(
+      X,
+      idx.map((i) => m[i]),
+    );
     let xi: LocalizationLength | null = null;
     if (slope < -1e-12 && X.length >= 2) {
       const nm = -2 / slope;
       let stderrNm: number | null = null;
       if (prof.length >= 2) {
-        const slopes = prof.map((p) => fitSlope(X, idx.map((i) => p[i])));
+        const slopes = prof.map((p) =>
+          fitSlope(
+            X,
+            idx.map((i) => p[i]),
+          ),
+        );
         const sse = std(slopes) / Math.sqrt(prof.length);
         stderrNm = (2 * sse) / (slope * slope);
       }

@@ -11,7 +11,10 @@ export class Progress {
   private done = 0;
   private lastReport = 0;
   private lastCheck = 0;
-  constructor(private readonly total: number, private readonly opts: ComputeOptions = {}) {
+  constructor(
+    private readonly total: number,
+    private readonly opts: ComputeOptions = {},
+  ) {
     opts.onProgress?.(0);
     this.lastReport = Date.now();
   }

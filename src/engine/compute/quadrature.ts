@@ -1,20 +1,28 @@
 /** Gauss-Legendre nodes and weights on [-1, 1] (Newton iteration on P_n; Golub-Welsch-free). */
 export function gaussLegendre(n: number): { x: Float64Array; w: Float64Array } {
-  const x = new Float64Array(n), w = new Float64Array(n);
+  const x = new Float64Array(n),
+    w = new Float64Array(n);
   const m = Math.floor((n + 1) / 2);
   for (let i = 0; i < m; i++) {
     let z = Math.cos((Math.PI * (i + 0.75)) / (n + 0.5));
     let pp = 1;
     for (let it = 0; it < 100; it++) {
-      let p1 = 1, p2 = 0;
-      for (let j = 1; j <= n; j++) { const p3 = p2; p2 = p1; p1 = ((2 * j - 1) * z * p2 - (j - 1) * p3) / j; }
+      let p1 = 1,
+        p2 = 0;
+      for (let j = 1; j <= n; j++) {
+        const p3 = p2;
+        p2 = p1;
+        p1 = ((2 * j - 1) * z * p2 - (j - 1) * p3) / j;
+      }
       pp = (n * (z * p1 - p2)) / (z * z - 1);
       const z1 = z;
       z = z1 - p1 / pp;
       if (Math.abs(z - z1) < 1e-15) break;
     }
-    x[i] = -z; x[n - 1 - i] = z;
-    w[i] = 2 / ((1 - z * z) * pp * pp); w[n - 1 - i] = w[i];
+    x[i] = -z;
+    x[n - 1 - i] = z;
+    w[i] = 2 / ((1 - z * z) * pp * pp);
+    w[n - 1 - i] = w[i];
   }
   return { x, w };
 }
@@ -27,8 +35,12 @@ export function gaussLegendre(n: number): { x: Float64Array; w: Float64Array } {
 export function thermalNodes(muMeV: number, kTMeV: number, points: number): { energiesMeV: number[]; weights: number[] } {
   if (kTMeV <= 0) return { energiesMeV: [muMeV], weights: [1] };
   const { x, w } = gaussLegendre(points);
-  const energiesMeV: number[] = [], weights: number[] = [];
-  for (let i = 0; i < points; i++) { energiesMeV.push(muMeV + 2 * kTMeV * Math.atanh(x[i])); weights.push(w[i] / 2); }
+  const energiesMeV: number[] = [],
+    weights: number[] = [];
+  for (let i = 0; i < points; i++) {
+    energiesMeV.push(muMeV + 2 * kTMeV * Math.atanh(x[i]));
+    weights.push(w[i] / 2);
+  }
   return { energiesMeV, weights };
 }
 
@@ -40,26 +52,41 @@ export function thermalNodes(muMeV: number, kTMeV: number, points: number): { en
  */
 export const KRONROD_15 = {
   x: [0.9914553711208126, 0.9491079123427585, 0.8648644233597691, 0.7415311855993945, 0.5860872354676911, 0.4058451513773972, 0.20778495500789848, 0],
-  wK: [0.022935322010529224, 0.06309209262997856, 0.10479001032225019, 0.14065325971552592, 0.1690047266392679, 0.19035057806478542, 0.20443294007529889, 0.20948214108472782],
+  wK: [
+    0.022935322010529224, 0.06309209262997856, 0.10479001032225019, 0.14065325971552592, 0.1690047266392679, 0.19035057806478542, 0.20443294007529889,
+    0.20948214108472782,
+  ],
   /** Gauss weights at x[1], x[3], x[5], x[7]. */
   wG: [0.1294849661688697, 0.27970539148927664, 0.3818300505051189, 0.4179591836734694],
 } as const;
 
 /** One Gauss-Kronrod panel of a vector integrand: Kronrod estimate and |Kronrod - Gauss| per component. */
 export function kronrodPanel(h: (t: number) => number[], a: number, b: number): { value: number[]; error: number[] } {
-  const c = (a + b) / 2, r = (b - a) / 2;
-  let value: number[] | null = null, gauss: number[] | null = null;
+  const c = (a + b) / 2,
+    r = (b - a) / 2;
+  let value: number[] | null = null,
+    gauss: number[] | null = null;
   const acc = (y: number[], wk: number, wg: number) => {
-    if (!value || !gauss) { value = y.map(() => 0); gauss = y.map(() => 0); }
-    for (let i = 0; i < y.length; i++) { value[i] += wk * y[i]; gauss[i] += wg * y[i]; }
+    if (!value || !gauss) {
+      value = y.map(() => 0);
+      gauss = y.map(() => 0);
+    }
+    for (let i = 0; i < y.length; i++) {
+      value[i] += wk * y[i];
+      gauss[i] += wg * y[i];
+    }
   };
   for (let i = 0; i < 8; i++) {
     const wg = i % 2 === 1 ? KRONROD_15.wG[(i - 1) / 2] : 0;
-    if (i === 7) { acc(h(c), KRONROD_15.wK[7], KRONROD_15.wG[3]); continue; }
+    if (i === 7) {
+      acc(h(c), KRONROD_15.wK[7], KRONROD_15.wG[3]);
+      continue;
+    }
     acc(h(c - r * KRONROD_15.x[i]), KRONROD_15.wK[i], wg);
     acc(h(c + r * KRONROD_15.x[i]), KRONROD_15.wK[i], wg);
   }
-  const v = (value as unknown as number[]).map((x) => x * r), g = (gauss as unknown as number[]).map((x) => x * r);
+  const v = (value as unknown as number[]).map((x) => x * r),
+    g = (gauss as unknown as number[]).map((x) => x * r);
   return { value: v, error: v.map((x, i) => Math.abs(x - g[i])) };
 }
 
@@ -133,7 +160,14 @@ export function thermalPlan(kTMeV: number, periodMeV: number, panelMeV: number):
 
 /** Thrown when the structure to resolve needs more energies than allowed (before any is evaluated). */
 export class ThermalResolutionError extends Error {
-  constructor(message: string, readonly neededEnergies: number, readonly maxEnergies: number) { super(message); this.name = "ThermalResolutionError"; }
+  constructor(
+    message: string,
+    readonly neededEnergies: number,
+    readonly maxEnergies: number,
+  ) {
+    super(message);
+    this.name = "ThermalResolutionError";
+  }
 }
 
 /**
@@ -149,52 +183,92 @@ export class ThermalResolutionError extends Error {
  * `fixedPoints` keeps the earlier fixed rule (Gauss-Legendre in u = tanh((E - mu)/2kT)) and
  * estimates its error against the rule with half the points.
  */
-export function thermalAverage(f: (energyMeV: number) => number[], muMeV: number, kTMeV: number, periodMeV: number, opts: ThermalAverageOptions): ThermalAverage {
+export function thermalAverage(
+  f: (energyMeV: number) => number[],
+  muMeV: number,
+  kTMeV: number,
+  periodMeV: number,
+  opts: ThermalAverageOptions,
+): ThermalAverage {
   const tol = opts.relativeTolerance;
-  if (!(kTMeV > 0)) return { values: f(muMeV), energies: 1, method: "none", domain: "none", estimatedRelativeError: 0, relativeTolerance: tol, converged: true };
+  if (!(kTMeV > 0))
+    return { values: f(muMeV), energies: 1, method: "none", domain: "none", estimatedRelativeError: 0, relativeTolerance: tol, converged: true };
   const total = (v: number[]) => v.reduce((a, b) => a + b, 0);
   const floor = tol * 1e-6 * Math.max(1, opts.scale);
   if (opts.fixedPoints !== undefined) {
     const rule = (n: number) => {
       const { energiesMeV, weights } = thermalNodes(muMeV, kTMeV, n);
       let acc: number[] = [];
-      energiesMeV.forEach((e, i) => { const y = f(e); acc = i === 0 ? y.map((v) => weights[i] * v) : acc.map((a, j) => a + weights[i] * y[j]); });
+      energiesMeV.forEach((e, i) => {
+        const y = f(e);
+        acc = i === 0 ? y.map((v) => weights[i] * v) : acc.map((a, j) => a + weights[i] * y[j]);
+      });
       return acc;
     };
-    const n = opts.fixedPoints, half = Math.max(2, Math.ceil(n / 2));
-    const a = rule(n), b = rule(half);
+    const n = opts.fixedPoints,
+      half = Math.max(2, Math.ceil(n / 2));
+    const a = rule(n),
+      b = rule(half);
     const err = Math.abs(total(a) - total(b)) / Math.max(Math.abs(total(a)), floor / tol);
-    return { values: a, energies: n + half, method: "gauss-legendre", domain: "fermi-window", estimatedRelativeError: err, relativeTolerance: tol, converged: err <= tol };
+    return {
+      values: a,
+      energies: n + half,
+      method: "gauss-legendre",
+      domain: "fermi-window",
+      estimatedRelativeError: err,
+      relativeTolerance: tol,
+      converged: err <= tol,
+    };
   }
   const plan = thermalPlan(kTMeV, periodMeV, opts.panelMeV);
   if (plan.energies > opts.maxEnergies) {
     throw new ThermalResolutionError(
       `the thermal average needs at least ${plan.energies} energies to resolve resonances about ${(opts.panelMeV / 8).toPrecision(3)} meV wide over ${plan.widthMeV.toPrecision(4)} meV, over the limit of ${opts.maxEnergies} (temperatureMaxEnergies); raise temperatureMaxEnergies (up to 100000), or give temperaturePoints for a fixed rule whose estimated error is reported`,
-      plan.energies, opts.maxEnergies,
+      plan.energies,
+      opts.maxEnergies,
     );
   }
   const lo = plan.windowed ? muMeV - FERMI_WINDOW_KT * kTMeV : muMeV - periodMeV / 2;
   const hi = lo + plan.widthMeV;
   const kernel = plan.windowed ? (x: number) => fermiKernel(x, kTMeV) : (x: number) => periodizedFermiKernel(x, kTMeV, periodMeV);
-  const h = (e: number) => { const w = kernel(e - muMeV); return f(e).map((y) => y * w); };
+  const h = (e: number) => {
+    const w = kernel(e - muMeV);
+    return f(e).map((y) => y * w);
+  };
   const tailError = plan.windowed ? (2 / (1 + Math.exp(FERMI_WINDOW_KT))) * Math.max(1, opts.scale) : 0;
   type Panel = { a: number; b: number; value: number[]; error: number[] };
   const list: Panel[] = [];
   let energies = 0;
-  const evalPanel = (a: number, b: number): Panel => { energies += 15; return { a, b, ...kronrodPanel(h, a, b) }; };
+  const evalPanel = (a: number, b: number): Panel => {
+    energies += 15;
+    return { a, b, ...kronrodPanel(h, a, b) };
+  };
   for (let i = 0; i < plan.panels; i++) list.push(evalPanel(lo + ((hi - lo) * i) / plan.panels, lo + ((hi - lo) * (i + 1)) / plan.panels));
-  const sumValues = () => list.reduce<number[]>((acc, p) => acc.map((x, i) => x + p.value[i]), list[0].value.map(() => 0));
+  const sumValues = () =>
+    list.reduce<number[]>(
+      (acc, p) => acc.map((x, i) => x + p.value[i]),
+      list[0].value.map(() => 0),
+    );
   const panelError = (p: Panel) => p.error.reduce((a, b) => a + b, 0);
   let values = sumValues();
   let error = list.reduce((a, p) => a + panelError(p), 0) + tailError;
   while (error > tol * Math.max(Math.abs(total(values)), floor / tol) && energies + 30 <= opts.maxEnergies) {
     let worst = 0;
     for (let i = 1; i < list.length; i++) if (panelError(list[i]) > panelError(list[worst])) worst = i;
-    const p = list[worst], mid = (p.a + p.b) / 2;
+    const p = list[worst],
+      mid = (p.a + p.b) / 2;
     list.splice(worst, 1, evalPanel(p.a, mid), evalPanel(mid, p.b));
     values = sumValues();
     error = list.reduce((a, q) => a + panelError(q), 0) + tailError;
   }
   const rel = error / Math.max(Math.abs(total(values)), floor / tol);
-  return { values, energies, method: "adaptive-gauss-kronrod", domain: plan.windowed ? "fermi-window" : "one-period", estimatedRelativeError: rel, relativeTolerance: tol, converged: rel <= tol };
+  return {
+    values,
+    energies,
+    method: "adaptive-gauss-kronrod",
+    domain: plan.windowed ? "fermi-window" : "one-period",
+    estimatedRelativeError: rel,
+    relativeTolerance: tol,
+    converged: rel <= tol,
+  };
 }

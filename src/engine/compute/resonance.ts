@@ -21,48 +21,69 @@ export interface ResonanceEstimate {
 
 export function narrowestResonance(g: NetworkGraph, maxWork = 4e7): ResonanceEstimate {
   const n = g.channelCount;
-  let re = new Float64Array(n), im = new Float64Array(n);
-  let nre = new Float64Array(n), nim = new Float64Array(n);
+  let re = new Float64Array(n),
+    im = new Float64Array(n);
+  let nre = new Float64Array(n),
+    nim = new Float64Array(n);
   const rand = randomStream(12345);
-  const pr = new Float64Array(n), pi = new Float64Array(n);
+  const pr = new Float64Array(n),
+    pi = new Float64Array(n);
   for (let c = 0; c < n; c++) {
     if (g.chKind[c] !== CH_LINK) continue;
-    re[c] = rand() - 0.5; im[c] = rand() - 0.5;
+    re[c] = rand() - 0.5;
+    im[c] = rand() - 0.5;
     const ph = g.chThetaB[c] + g.chThetaDis[c];
-    pr[c] = Math.cos(ph); pi[c] = Math.sin(ph);
+    pr[c] = Math.cos(ph);
+    pi[c] = Math.sin(ph);
   }
   let work = 0;
   for (let m = 0; m < g.nodeCount; m++) work += g.slotCount[m] * g.slotCount[m];
   const maxSteps = Math.max(50, Math.min(100000, Math.floor(maxWork / Math.max(1, work))));
-  const norm = () => { let s = 0; for (let c = 0; c < n; c++) s += re[c] * re[c] + im[c] * im[c]; return s; };
+  const norm = () => {
+    let s = 0;
+    for (let c = 0; c < n; c++) s += re[c] * re[c] + im[c] * im[c];
+    return s;
+  };
   let n0 = norm();
   if (n0 === 0) return { widthRad: Infinity, steps: 0 };
   const history: number[] = [0];
-  let logNorm = 0, steps = 0;
+  let logNorm = 0,
+    steps = 0;
   while (steps < maxSteps) {
-    nre.fill(0); nim.fill(0);
+    nre.fill(0);
+    nim.fill(0);
     for (let m = 0; m < g.nodeCount; m++) {
-      const k = g.slotCount[m], so = g.slotOffset[m], mo = 2 * g.matrixOffset[m];
+      const k = g.slotCount[m],
+        so = g.slotOffset[m],
+        mo = 2 * g.matrixOffset[m];
       for (let o = 0; o < k; o++) {
         const out = g.outChannel[so + o];
         if (g.chKind[out] !== CH_LINK) continue;
-        let ar = 0, ai = 0;
+        let ar = 0,
+          ai = 0;
         for (let s = 0; s < k; s++) {
           const inc = g.inChannel[so + s];
           if (g.chKind[inc] !== CH_LINK) continue;
-          const sr = g.matrices[mo + 2 * (o * k + s)], si = g.matrices[mo + 2 * (o * k + s) + 1];
-          ar += sr * re[inc] - si * im[inc]; ai += sr * im[inc] + si * re[inc];
+          const sr = g.matrices[mo + 2 * (o * k + s)],
+            si = g.matrices[mo + 2 * (o * k + s) + 1];
+          ar += sr * re[inc] - si * im[inc];
+          ai += sr * im[inc] + si * re[inc];
         }
-        nre[out] = ar * pr[out] - ai * pi[out]; nim[out] = ar * pi[out] + ai * pr[out];
+        nre[out] = ar * pr[out] - ai * pi[out];
+        nim[out] = ar * pi[out] + ai * pr[out];
       }
     }
-    [re, nre] = [nre, re]; [im, nim] = [nim, im];
+    [re, nre] = [nre, re];
+    [im, nim] = [nim, im];
     steps++;
     const n1 = norm();
     if (n1 === 0 || n1 < 1e-280) return { widthRad: Infinity, steps };
     // renormalise, keep the log of the norm
     const f = 1 / Math.sqrt(n1);
-    for (let c = 0; c < n; c++) { re[c] *= f; im[c] *= f; }
+    for (let c = 0; c < n; c++) {
+      re[c] *= f;
+      im[c] *= f;
+    }
     logNorm += 0.5 * Math.log(n1 / n0);
     n0 = 1;
     history.push(logNorm);

@@ -42,7 +42,7 @@ export function blochPhases(cell: PeriodicCell, kx: number, ky: number): { phase
 export function reducedEnergies(phases: number[], energyScaleMeV: number, copies: number): number[] {
   const out: number[] = [];
   for (const a of phases) {
-    let x = (-a) % (2 * Math.PI);
+    let x = -a % (2 * Math.PI);
     if (x < 0) x += 2 * Math.PI;
     if (x >= 2 * Math.PI) x -= 2 * Math.PI;
     for (let c = 0; c < copies; c++) out.push(x * energyScaleMeV);
@@ -54,15 +54,23 @@ export function reducedEnergies(phases: number[], energyScaleMeV: number, copies
 export function defaultPath(lattice: Network["lattice"], perSegment: number): { points: [number, number][]; labels: { index: number; label: string }[] } {
   let corners: [number, number][], names: string[];
   if (lattice === "triangular") {
-    const b1: [number, number] = [2 * Math.PI, (2 * Math.PI) / Math.sqrt(3)], b2: [number, number] = [0, (4 * Math.PI) / Math.sqrt(3)];
+    const b1: [number, number] = [2 * Math.PI, (2 * Math.PI) / Math.sqrt(3)],
+      b2: [number, number] = [0, (4 * Math.PI) / Math.sqrt(3)];
     // zone corner K = (b1 + b2) / 3: k.a_j = 2 pi / 3 for all three j, |K| = 4 pi / (3 l); M = b1 / 2,
     // the midpoint of the zone edge that ends at K, |M| = 2 pi / (sqrt3 l) (physics.md section 6)
     const K: [number, number] = [(b1[0] + b2[0]) / 3, (b1[1] + b2[1]) / 3];
     const M: [number, number] = [b1[0] / 2, b1[1] / 2];
-    corners = [[0, 0], K, M, [0, 0]]; names = ["Gamma", "K", "M", "Gamma"];
+    corners = [[0, 0], K, M, [0, 0]];
+    names = ["Gamma", "K", "M", "Gamma"];
   } else {
     const g = Math.PI / Math.SQRT2;
-    corners = [[0, 0], [g, 0], [g, g], [0, 0]]; names = ["Gamma", "X", "M", "Gamma"];
+    corners = [
+      [0, 0],
+      [g, 0],
+      [g, g],
+      [0, 0],
+    ];
+    names = ["Gamma", "X", "M", "Gamma"];
   }
   const points: [number, number][] = [];
   const labels: { index: number; label: string }[] = [];
@@ -86,9 +94,14 @@ export function computeSpectrum(net: Network, c: SpectrumComputation, opts: Comp
   let kl: [number, number][];
   let labels: { index: number; label: string }[] | null = null;
   if (c.kPointsPerNm) kl = c.kPointsPerNm.map(([x, y]) => [x * l, y * l]);
-  else { const p = defaultPath(net.lattice, c.pathPointsPerSegment); kl = p.points; labels = p.labels; }
+  else {
+    const p = defaultPath(net.lattice, c.pathPointsPerSegment);
+    kl = p.points;
+    labels = p.labels;
+  }
   const progress = new Progress(kl.length * (cellKp ? 2 : 1), opts);
-  const eK: number[][] = [], eKp: number[][] = [];
+  const eK: number[][] = [],
+    eKp: number[][] = [];
   let defect = 0;
   for (const [kx, ky] of kl) {
     const a = blochPhases(cellK, kx, ky);

@@ -29,10 +29,18 @@ export interface ComplexKernels {
    * (complex elements). c must not overlap a or b. This is the hot loop of the slice composition.
    */
   gemmAccumulate(
-    m: number, n: number, k: number,
-    a: Float64Array, aOffset: number, lda: number,
-    b: Float64Array, bOffset: number, ldb: number,
-    c: Float64Array, cOffset: number, ldc: number,
+    m: number,
+    n: number,
+    k: number,
+    a: Float64Array,
+    aOffset: number,
+    lda: number,
+    b: Float64Array,
+    bOffset: number,
+    ldb: number,
+    c: Float64Array,
+    cOffset: number,
+    ldc: number,
   ): void;
   /** X with A X = B; A packed n x n, B packed n x nrhs; returns X packed n x nrhs. */
   solve(a: Float64Array, b: Float64Array, n: number, nrhs: number): Float64Array;

@@ -57,7 +57,10 @@ function randomHermitian(rand: () => number, n: number): Float64Array {
   const a = randomComplex(rand, n * n);
   for (let i = 0; i < n; i++) {
     a[2 * (i * n + i) + 1] = 0;
-    for (let j = 0; j < i; j++) { a[2 * (j * n + i)] = a[2 * (i * n + j)]; a[2 * (j * n + i) + 1] = -a[2 * (i * n + j) + 1]; }
+    for (let j = 0; j < i; j++) {
+      a[2 * (j * n + i)] = a[2 * (i * n + j)];
+      a[2 * (j * n + i) + 1] = -a[2 * (i * n + j) + 1];
+    }
   }
   return a;
 }
@@ -83,11 +86,15 @@ export function unorderedDifference(x: Float64Array, y: Float64Array): number {
   const used = new Uint8Array(n);
   let d = 0;
   for (let i = 0; i < n; i++) {
-    let best = -1, bestD = Infinity;
+    let best = -1,
+      bestD = Infinity;
     for (let j = 0; j < n; j++) {
       if (used[j]) continue;
       const dd = Math.hypot(x[2 * i] - y[2 * j], x[2 * i + 1] - y[2 * j + 1]);
-      if (dd < bestD) { bestD = dd; best = j; }
+      if (dd < bestD) {
+        bestD = dd;
+        best = j;
+      }
     }
     used[best] = 1;
     d = Math.max(d, bestD);
@@ -100,21 +107,30 @@ export function eigenvectorResidual(a: Float64Array, n: number, values: Float64A
   let r = 0;
   for (let c = 0; c < n; c++) {
     for (let i = 0; i < n; i++) {
-      let sr = 0, si = 0;
+      let sr = 0,
+        si = 0;
       for (let j = 0; j < n; j++) {
-        const ar = a[2 * (i * n + j)], ai = a[2 * (i * n + j) + 1];
-        const vr = vectors[2 * (j * n + c)], vi = vectors[2 * (j * n + c) + 1];
-        sr += ar * vr - ai * vi; si += ar * vi + ai * vr;
+        const ar = a[2 * (i * n + j)],
+          ai = a[2 * (i * n + j) + 1];
+        const vr = vectors[2 * (j * n + c)],
+          vi = vectors[2 * (j * n + c) + 1];
+        sr += ar * vr - ai * vi;
+        si += ar * vi + ai * vr;
       }
-      sr -= values[c] * vectors[2 * (i * n + c)]; si -= values[c] * vectors[2 * (i * n + c) + 1];
+      sr -= values[c] * vectors[2 * (i * n + c)];
+      si -= values[c] * vectors[2 * (i * n + c) + 1];
       r = Math.max(r, Math.hypot(sr, si));
     }
     for (let c2 = 0; c2 < n; c2++) {
-      let sr = 0, si = 0;
+      let sr = 0,
+        si = 0;
       for (let j = 0; j < n; j++) {
-        const xr = vectors[2 * (j * n + c)], xi = vectors[2 * (j * n + c) + 1];
-        const yr = vectors[2 * (j * n + c2)], yi = vectors[2 * (j * n + c2) + 1];
-        sr += xr * yr + xi * yi; si += xr * yi - xi * yr;
+        const xr = vectors[2 * (j * n + c)],
+          xi = vectors[2 * (j * n + c) + 1];
+        const yr = vectors[2 * (j * n + c2)],
+          yi = vectors[2 * (j * n + c2) + 1];
+        sr += xr * yr + xi * yi;
+        si += xr * yi - xi * yr;
       }
       r = Math.max(r, Math.hypot(sr - (c === c2 ? 1 : 0), si));
     }
@@ -131,23 +147,43 @@ export function selfTest(k: ComplexKernels, ref: ComplexKernels = tsKernels, tol
   const rand = generator(0x7a1c5);
   const fail = (what: string, d: number) => `${what} differs from the ${ref.name} kernels by ${d.toExponential(2)}`;
   try {
-    for (const [m, kk, n] of [[1, 1, 1], [3, 5, 4], [8, 8, 8], [13, 7, 11]]) {
-      const a = randomComplex(rand, m * kk), b = randomComplex(rand, kk * n);
+    for (const [m, kk, n] of [
+      [1, 1, 1],
+      [3, 5, 4],
+      [8, 8, 8],
+      [13, 7, 11],
+    ]) {
+      const a = randomComplex(rand, m * kk),
+        b = randomComplex(rand, kk * n);
       const d = relativeDifference(k.matmul(a, b, m, kk, n), ref.matmul(a, b, m, kk, n));
       if (!(d <= tolerance)) return fail(`matmul ${m}x${kk}x${n}`, d);
     }
     {
       // 5x3 times 3x6 added into a 7x9 block, all inside larger arrays.
-      const m = 5, n = 6, kk = 3, lda = 4, ldb = 8, ldc = 9;
-      const a = randomComplex(rand, 2 + m * lda), b = randomComplex(rand, 3 + kk * ldb), c0 = randomComplex(rand, 1 + 7 * ldc);
-      const c1 = c0.slice(), c2 = c0.slice();
+      const m = 5,
+        n = 6,
+        kk = 3,
+        lda = 4,
+        ldb = 8,
+        ldc = 9;
+      const a = randomComplex(rand, 2 + m * lda),
+        b = randomComplex(rand, 3 + kk * ldb),
+        c0 = randomComplex(rand, 1 + 7 * ldc);
+      const c1 = c0.slice(),
+        c2 = c0.slice();
       k.gemmAccumulate(m, n, kk, a, 4, lda, b, 6, ldb, c1, 2, ldc);
       ref.gemmAccumulate(m, n, kk, a, 4, lda, b, 6, ldb, c2, 2, ldc);
       const d = relativeDifference(c1, c2);
       if (!(d <= tolerance)) return fail("gemmAccumulate with offsets", d);
     }
-    for (const [n, nrhs] of [[1, 1], [5, 3], [12, 7], [9, 1]]) {
-      const a = randomSquare(rand, n, 2), b = randomComplex(rand, n * nrhs);
+    for (const [n, nrhs] of [
+      [1, 1],
+      [5, 3],
+      [12, 7],
+      [9, 1],
+    ]) {
+      const a = randomSquare(rand, n, 2),
+        b = randomComplex(rand, n * nrhs);
       const d = relativeDifference(k.solve(a, b, n, nrhs), ref.solve(a, b, n, nrhs));
       if (!(d <= tolerance)) return fail(`solve ${n}x${n} with ${nrhs} right-hand sides`, d);
     }
@@ -158,7 +194,8 @@ export function selfTest(k: ComplexKernels, ref: ComplexKernels = tsKernels, tol
     }
     for (const n of [1, 6, 10]) {
       const a = randomHermitian(rand, n);
-      const mine = k.eigHermitian(a, n, true), theirs = ref.eigHermitian(a, n, false);
+      const mine = k.eigHermitian(a, n, true),
+        theirs = ref.eigHermitian(a, n, false);
       const d = relativeDifference(toComplex(mine.values), toComplex(theirs.values));
       if (!(d <= tolerance)) return fail(`eigHermitian ${n}x${n} eigenvalues`, d);
       if (!mine.vectors) return `eigHermitian ${n}x${n} returned no eigenvectors`;
@@ -174,12 +211,20 @@ export function selfTest(k: ComplexKernels, ref: ComplexKernels = tsKernels, tol
     {
       const s = new Float64Array([1, 0, 2, 0, 2, 0, 4, 0]);
       let thrown: unknown = null;
-      try { k.solve(s, new Float64Array([1, 0, 1, 0]), 2, 1); } catch (e) { thrown = e; }
+      try {
+        k.solve(s, new Float64Array([1, 0, 1, 0]), 2, 1);
+      } catch (e) {
+        thrown = e;
+      }
       if (!(thrown instanceof SingularMatrixError)) return "solve of a singular matrix did not throw SingularMatrixError";
     }
     {
       let thrown: unknown = null;
-      try { k.matmul(new Float64Array(6), new Float64Array(8), 2, 2, 2); } catch (e) { thrown = e; }
+      try {
+        k.matmul(new Float64Array(6), new Float64Array(8), 2, 2, 2);
+      } catch (e) {
+        thrown = e;
+      }
       if (!(thrown instanceof RangeError)) return "matmul with a short array did not throw RangeError";
     }
   } catch (e) {

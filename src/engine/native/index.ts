@@ -54,9 +54,7 @@ export interface NativeInfo {
   mallocTuned: boolean;
 }
 
-export type NativeLoad =
-  | { ok: true; kernels: ComplexKernels; addon: NativeAddon; info: NativeInfo }
-  | { ok: false; reason: string };
+export type NativeLoad = { ok: true; kernels: ComplexKernels; addon: NativeAddon; info: NativeInfo } | { ok: false; reason: string };
 
 /**
  * The OpenBLAS core type for a /proc/cpuinfo text: "SkylakeX" with AVX-512 (F, DQ, BW and VL, the
@@ -129,11 +127,16 @@ function load(): NativeLoad {
   let coreTypeSource: NativeInfo["coreTypeSource"] = coreType ? "environment" : "none";
   if (!coreType) {
     let cpuinfo = "";
-    try { cpuinfo = readFileSync("/proc/cpuinfo", "utf8"); } catch { cpuinfo = ""; }
+    try {
+      cpuinfo = readFileSync("/proc/cpuinfo", "utf8");
+    } catch {
+      cpuinfo = "";
+    }
     const chosen = chooseCoreType(cpuinfo);
     if (chosen) {
       setenv("OPENBLAS_CORETYPE", chosen);
-      coreType = chosen; coreTypeSource = "cpuinfo";
+      coreType = chosen;
+      coreTypeSource = "cpuinfo";
     }
   }
   if (!isMainThread) {
@@ -150,8 +153,13 @@ function load(): NativeLoad {
   try {
     if (!isMainThread) addon.setThreads(1); // OpenBLAS was maybe loaded earlier by another thread
     const info: NativeInfo = {
-      coreName: addon.coreName(), config: addon.config(), threads: addon.getThreads(),
-      coreType, coreTypeSource, file, mallocTuned: addon.mallocTuned(),
+      coreName: addon.coreName(),
+      config: addon.config(),
+      threads: addon.getThreads(),
+      coreType,
+      coreTypeSource,
+      file,
+      mallocTuned: addon.mallocTuned(),
     };
     return { ok: true, kernels: wrap(addon), addon, info };
   } catch (e) {
@@ -172,10 +180,18 @@ export function wrap(addon: NativeAddon): ComplexKernels {
     gemmAccumulate: (m, n, k, a, aOffset, lda, b, bOffset, ldb, c, cOffset, ldc) =>
       addon.gemmAccumulate(m, n, k, a, aOffset, lda, b, bOffset, ldb, c, cOffset, ldc),
     solve(a, b, n, nrhs) {
-      try { return addon.solve(a, b, n, nrhs); } catch (e) { throw singular(e, "solve"); }
+      try {
+        return addon.solve(a, b, n, nrhs);
+      } catch (e) {
+        throw singular(e, "solve");
+      }
     },
     inverse(a, n) {
-      try { return addon.inverse(a, n); } catch (e) { throw singular(e, "inverse"); }
+      try {
+        return addon.inverse(a, n);
+      } catch (e) {
+        throw singular(e, "inverse");
+      }
     },
     eigHermitian: (a, n, wantVectors) => addon.eigHermitian(a, n, wantVectors),
     eigGeneral: (a, n) => addon.eigGeneral(a, n),

@@ -30,13 +30,21 @@ import { buildSchedule } from "./schedule";
 export type SampleMode = "leads" | "ring";
 
 /** Linear gauge: A / B = (mxx x + mxy y, myx x + myy y) (lengths in units of l). */
-export interface LinearGauge { mxx: number; mxy: number; myx: number; myy: number; cx?: number; cy?: number }
+export interface LinearGauge {
+  mxx: number;
+  mxy: number;
+  myx: number;
+  myy: number;
+  cx?: number;
+  cy?: number;
+}
 export const GAUGE_LANDAU_Y: LinearGauge = { mxx: 0, mxy: 0, myx: 1, myy: 0 }; // A = B (0, x)
 export const GAUGE_LANDAU_X: LinearGauge = { mxx: 0, mxy: -1, myx: 0, myy: 0 }; // A = B (-y, 0)
 
 /** Integral of (A/B).dl along the straight segment (exact for a linear gauge: midpoint rule). */
 export function gaugeIntegral(gauge: LinearGauge, x1: number, y1: number, x2: number, y2: number): number {
-  const xm = (x1 + x2) / 2, ym = (y1 + y2) / 2;
+  const xm = (x1 + x2) / 2,
+    ym = (y1 + y2) / 2;
   return (gauge.mxx * xm + gauge.mxy * ym + (gauge.cx ?? 0)) * (x2 - x1) + (gauge.myx * xm + gauge.myy * ym + (gauge.cy ?? 0)) * (y2 - y1);
 }
 
@@ -77,20 +85,29 @@ function triangularRules(net: Network, columns: number, rows: number, rand: (() 
   const fixedMatrix = isMatrix ? triangularNodeFromSpec(node as MatrixNode) : null;
   const p = node as TriangularProbabilityNode;
   const base = isMatrix ? null : triangularNodeFromSpec(p);
-  const dirs = [[2, 0], [-1, 1], [-1, -1]];
+  const dirs = [
+    [2, 0],
+    [-1, 1],
+    [-1, -1],
+  ];
   return {
     slots: 3 * nch,
     position: (i, r) => [2 * i + mod(r, 2), r],
-    index: (X, Y) => { const par = mod(Y, 2); if (mod(X - par, 2) !== 0) return null; return [(X - par) / 2, Y]; },
+    index: (X, Y) => {
+      const par = mod(Y, 2);
+      if (mod(X - par, 2) !== 0) return null;
+      return [(X - par) / 2, Y];
+    },
     outs: () => dirs.map(([dX, dY], j) => ({ dX, dY, slot: j })),
     physical: (X, Y) => [X / 2, (Y * Math.sqrt(3)) / 2],
     rowOf: (Y) => Y,
     periodY: rows,
     openYMaxExcl: rows,
     periodX: 2 * columns,
-    virtual: (_X, _Y, top) => top
-      ? { inFrom: [1, -1], outTo: [-1, -1], outSlot: 2 } // arrives along a2, leaves along a3
-      : { inFrom: [1, 1], outTo: [-1, 1], outSlot: 1 }, // arrives along a3, leaves along a2
+    virtual: (_X, _Y, top) =>
+      top
+        ? { inFrom: [1, -1], outTo: [-1, -1], outSlot: 2 } // arrives along a2, leaves along a3
+        : { inFrom: [1, 1], outTo: [-1, 1], outSlot: 1 }, // arrives along a3, leaves along a2
     nodeMatrix: () => {
       if (fixedMatrix) return fixedMatrix;
       if (rand && net.disorder.forwardSpread > 0) {
@@ -111,10 +128,20 @@ function squareRules(net: Network, columns: number, rows: number, rand: (() => n
   return {
     slots: 2,
     position: (i, r) => [i, 2 * r + mod(i, 2)],
-    index: (X, Y) => { if (mod(X + Y, 2) !== 0) return null; return [X, (Y - mod(X, 2)) / 2]; },
-    outs: (X) => mod(X, 2) === 0
-      ? [{ dX: 1, dY: 1, slot: 1 }, { dX: -1, dY: -1, slot: 0 }] // A: NE -> B.SW, SW -> B.NE
-      : [{ dX: 1, dY: -1, slot: 0 }, { dX: -1, dY: 1, slot: 1 }], // B: SE -> A.NW, NW -> A.SE
+    index: (X, Y) => {
+      if (mod(X + Y, 2) !== 0) return null;
+      return [X, (Y - mod(X, 2)) / 2];
+    },
+    outs: (X) =>
+      mod(X, 2) === 0
+        ? [
+            { dX: 1, dY: 1, slot: 1 },
+            { dX: -1, dY: -1, slot: 0 },
+          ] // A: NE -> B.SW, SW -> B.NE
+        : [
+            { dX: 1, dY: -1, slot: 0 },
+            { dX: -1, dY: 1, slot: 1 },
+          ], // B: SE -> A.NW, NW -> A.SE
     physical: (X, Y) => [X / Math.SQRT2, Y / Math.SQRT2],
     rowOf: (Y) => Math.floor(Y / 2),
     periodY: 2 * rows,
@@ -122,9 +149,10 @@ function squareRules(net: Network, columns: number, rows: number, rand: (() => n
     // no node but a pass-through, so every cut carries rows channels each way
     openYMaxExcl: 2 * rows - 1,
     periodX: columns,
-    virtual: (_X, _Y, top) => top
-      ? { inFrom: [-1, -1], outTo: [1, -1], outSlot: 0 } // top B site: in SW (from A.NE), out SE -> A.NW
-      : { inFrom: [1, 1], outTo: [-1, 1], outSlot: 1 }, // virtual B below: in NE, out NW -> A.SE
+    virtual: (_X, _Y, top) =>
+      top
+        ? { inFrom: [-1, -1], outTo: [1, -1], outSlot: 0 } // top B site: in SW (from A.NE), out SE -> A.NW
+        : { inFrom: [1, 1], outTo: [-1, 1], outSlot: 1 }, // virtual B below: in NE, out NW -> A.SE
     nodeMatrix: () => {
       if (rand && net.disorder.forwardSpread > 0) {
         const q = Math.min(1, Math.max(0, turning + (rand() - 0.5) * net.disorder.forwardSpread));
@@ -161,20 +189,29 @@ export function buildSample(net: Network, opts: SampleOptions): NetworkGraph {
 
   // nodes: key -> id
   const ids = new Map<string, number>();
-  const nodeXs: number[] = [], nodeYs: number[] = [], real: number[] = [], virtualTop: number[] = [];
+  const nodeXs: number[] = [],
+    nodeYs: number[] = [],
+    real: number[] = [],
+    virtualTop: number[] = [];
   const matrices: Float64Array[] = [];
   const keyOf = (X: number, Y: number) => `${X},${Y}`;
-  const yMin = 0, yMaxExcl = periodicY ? rules.periodY : rules.openYMaxExcl;
-  for (let i = 0; i < columns; i++) for (let r = 0; r < rows; r++) {
-    const [X, Y] = rules.position(i, r);
-    if (!periodicY && Y >= yMaxExcl) continue; // an edge site of the open square strip (a pass-through)
-    ids.set(keyOf(X, Y), nodeXs.length);
-    nodeXs.push(X); nodeYs.push(Y); real.push(1); virtualTop.push(0);
-    matrices.push(rules.nodeMatrix(i, r, nodeRand));
-  }
+  const yMin = 0,
+    yMaxExcl = periodicY ? rules.periodY : rules.openYMaxExcl;
+  for (let i = 0; i < columns; i++)
+    for (let r = 0; r < rows; r++) {
+      const [X, Y] = rules.position(i, r);
+      if (!periodicY && Y >= yMaxExcl) continue; // an edge site of the open square strip (a pass-through)
+      ids.set(keyOf(X, Y), nodeXs.length);
+      nodeXs.push(X);
+      nodeYs.push(Y);
+      real.push(1);
+      virtualTop.push(0);
+      matrices.push(rules.nodeMatrix(i, r, nodeRand));
+    }
   type Where = { kind: "node"; id: number; X: number; Y: number } | { kind: "lead"; side: "left" | "right" } | { kind: "virtual"; X: number; Y: number };
   const resolve = (X: number, Y: number): Where => {
-    let y = Y, x = X;
+    let y = Y,
+      x = X;
     if (periodicY) y = mod(y, rules.periodY);
     else if (y < yMin || y >= yMaxExcl) return { kind: "virtual", X: ring ? mod(x, rules.periodX) : x, Y: y };
     if (ring) x = mod(x, rules.periodX);
@@ -190,7 +227,10 @@ export function buildSample(net: Network, opts: SampleOptions): NetworkGraph {
     if (id === undefined) {
       id = nodeXs.length;
       ids.set(k, id);
-      nodeXs.push(X); nodeYs.push(Y); real.push(0); virtualTop.push(Y >= yMaxExcl ? 1 : 0);
+      nodeXs.push(X);
+      nodeYs.push(Y);
+      real.push(0);
+      virtualTop.push(Y >= yMaxExcl ? 1 : 0);
       const m = new Float64Array(2 * nch * nch);
       for (let c = 0; c < nch; c++) m[2 * (c * nch + c)] = 1;
       matrices.push(m);
@@ -208,11 +248,13 @@ export function buildSample(net: Network, opts: SampleOptions): NetworkGraph {
     }
     // virtual nodes whose input comes from outside the sample but whose output enters it
     for (let n = 0; n < realCount; n++) {
-      const X = nodeXs[n], Y = nodeYs[n];
+      const X = nodeXs[n],
+        Y = nodeYs[n];
       for (const top of [true, false]) {
         // a virtual node V feeds (X, Y) if V + outTo = (X, Y)
         const probe = rules.virtual(0, 0, top);
-        const vX = X - probe.outTo[0], vY = Y - probe.outTo[1];
+        const vX = X - probe.outTo[0],
+          vY = Y - probe.outTo[1];
         if ((top && vY >= yMaxExcl) || (!top && vY < yMin)) {
           const vx = ring ? mod(vX, rules.periodX) : vX;
           if (rules.index(vx, vY)) getVirtual(vx, vY);
@@ -221,21 +263,39 @@ export function buildSample(net: Network, opts: SampleOptions): NetworkGraph {
     }
   }
   const nodeCount = nodeXs.length;
-  const slotCount = new Int32Array(nodeCount), slotOffset = new Int32Array(nodeCount + 1), matrixOffset = new Int32Array(nodeCount);
-  let so = 0, mo = 0;
+  const slotCount = new Int32Array(nodeCount),
+    slotOffset = new Int32Array(nodeCount + 1),
+    matrixOffset = new Int32Array(nodeCount);
+  let so = 0,
+    mo = 0;
   for (let n = 0; n < nodeCount; n++) {
     const k = real[n] ? slotsPerNode : nch;
-    slotCount[n] = k; slotOffset[n] = so; matrixOffset[n] = mo; so += k; mo += k * k;
+    slotCount[n] = k;
+    slotOffset[n] = so;
+    matrixOffset[n] = mo;
+    so += k;
+    mo += k * k;
   }
   slotOffset[nodeCount] = so;
   const mats = new Float64Array(2 * mo);
   for (let n = 0; n < nodeCount; n++) mats.set(matrices[n], 2 * matrixOffset[n]);
-  const inChannel = new Int32Array(so).fill(-1), outChannel = new Int32Array(so).fill(-1);
-  const from: number[] = [], fromSlot: number[] = [], to: number[] = [], toSlot: number[] = [], kind: number[] = [], seg: number[] = [];
+  const inChannel = new Int32Array(so).fill(-1),
+    outChannel = new Int32Array(so).fill(-1);
+  const from: number[] = [],
+    fromSlot: number[] = [],
+    to: number[] = [],
+    toSlot: number[] = [],
+    kind: number[] = [],
+    seg: number[] = [];
   const addChannel = (fn: number, fs: number, tn: number, ts: number, k: number, x1: number, y1: number, x2: number, y2: number) => {
     const c = from.length;
-    from.push(fn); fromSlot.push(fs); to.push(tn); toSlot.push(ts); kind.push(k);
-    const [px1, py1] = rules.physical(x1, y1), [px2, py2] = rules.physical(x2, y2);
+    from.push(fn);
+    fromSlot.push(fs);
+    to.push(tn);
+    toSlot.push(ts);
+    kind.push(k);
+    const [px1, py1] = rules.physical(x1, y1),
+      [px2, py2] = rules.physical(x2, y2);
     seg.push(px1, py1, px2, py2);
     if (fn >= 0) outChannel[slotOffset[fn] + fs] = c;
     if (tn >= 0) inChannel[slotOffset[tn] + ts] = c;
@@ -243,10 +303,17 @@ export function buildSample(net: Network, opts: SampleOptions): NetworkGraph {
   };
   // outputs of every node
   for (let n = 0; n < nodeCount; n++) {
-    const X = nodeXs[n], Y = nodeYs[n];
-    const outs = real[n] ? rules.outs(X, Y) : (() => { const v = rules.virtual(X, Y, virtualTop[n] === 1); return [{ dX: v.outTo[0], dY: v.outTo[1], slot: v.outSlot }]; })();
+    const X = nodeXs[n],
+      Y = nodeYs[n];
+    const outs = real[n]
+      ? rules.outs(X, Y)
+      : (() => {
+          const v = rules.virtual(X, Y, virtualTop[n] === 1);
+          return [{ dX: v.outTo[0], dY: v.outTo[1], slot: v.outSlot }];
+        })();
     outs.forEach((o, m) => {
-      const tX = X + o.dX, tY = Y + o.dY;
+      const tX = X + o.dX,
+        tY = Y + o.dY;
       const w = resolve(tX, tY);
       for (let c = 0; c < nch; c++) {
         const fs = real[n] ? c * latticeSlots + m : c;
@@ -265,17 +332,20 @@ export function buildSample(net: Network, opts: SampleOptions): NetworkGraph {
   for (let n = 0; n < nodeCount; n++) {
     for (let s = 0; s < slotCount[n]; s++) {
       if (inChannel[slotOffset[n] + s] >= 0) continue;
-      const X = nodeXs[n], Y = nodeYs[n];
+      const X = nodeXs[n],
+        Y = nodeYs[n];
       let sX: number, sY: number;
       if (real[n]) {
         const ls = s % latticeSlots;
         // the source of slot ls: a node whose out of that kind lands here; for both lattices the
         // out slot with target slot ls, seen from a node of the other sublattice
         const cand = findSource(rules, X, Y, ls);
-        sX = cand[0]; sY = cand[1];
+        sX = cand[0];
+        sY = cand[1];
       } else {
         const v = rules.virtual(X, Y, virtualTop[n] === 1);
-        sX = X + v.inFrom[0]; sY = Y + v.inFrom[1];
+        sX = X + v.inFrom[0];
+        sY = Y + v.inFrom[1];
       }
       const w = resolve(sX, sY);
       if (w.kind !== "lead") throw new Error(`internal: unconnected slot ${s} of node ${n} at (${X}, ${Y})`);
@@ -285,15 +355,27 @@ export function buildSample(net: Network, opts: SampleOptions): NetworkGraph {
   const channelCount = from.length;
   const g: NetworkGraph = {
     nodeCount,
-    slotCount, slotOffset, matrixOffset, matrices: mats, inChannel, outChannel, channelCount,
-    chFromNode: Int32Array.from(from), chFromSlot: Int32Array.from(fromSlot), chToNode: Int32Array.from(to), chToSlot: Int32Array.from(toSlot),
+    slotCount,
+    slotOffset,
+    matrixOffset,
+    matrices: mats,
+    inChannel,
+    outChannel,
+    channelCount,
+    chFromNode: Int32Array.from(from),
+    chFromSlot: Int32Array.from(fromSlot),
+    chToNode: Int32Array.from(to),
+    chToSlot: Int32Array.from(toSlot),
     chKind: Uint8Array.from(kind),
-    chThetaB: new Float64Array(channelCount), chThetaDis: new Float64Array(channelCount),
+    chThetaB: new Float64Array(channelCount),
+    chThetaDis: new Float64Array(channelCount),
     chSegment: Float64Array.from(seg),
     nodeReal: Uint8Array.from(real),
     nodeX: Float64Array.from(nodeXs.map((X, n) => rules.physical(X, nodeYs[n])[0])),
     nodeY: Float64Array.from(nodeYs.map((Y, n) => rules.physical(nodeXs[n], Y)[1])),
-    schedule: [], cutAfter: new Int32Array(0), cutX: new Float64Array(0),
+    schedule: [],
+    cutAfter: new Int32Array(0),
+    cutX: new Float64Array(0),
     copies: net.lattice === "triangular" && !("matrix" in net.node) ? net.channelsPerLink : 1,
   };
   for (let s = 0; s < so; s++) if (outChannel[s] < 0 || inChannel[s] < 0) throw new Error("internal: unconnected node slot");
@@ -305,7 +387,10 @@ export function buildSample(net: Network, opts: SampleOptions): NetworkGraph {
     const gauge = ring && !periodicY ? GAUGE_LANDAU_X : GAUGE_LANDAU_Y;
     for (let c = 0; c < channelCount; c++) {
       if (g.chKind[c] !== CH_LINK) continue;
-      const x1 = g.chSegment[4 * c], y1 = g.chSegment[4 * c + 1], x2 = g.chSegment[4 * c + 2], y2 = g.chSegment[4 * c + 3];
+      const x1 = g.chSegment[4 * c],
+        y1 = g.chSegment[4 * c + 1],
+        x2 = g.chSegment[4 * c + 2],
+        y2 = g.chSegment[4 * c + 3];
       let integral = gaugeIntegral(gauge, x1, y1, x2, y2);
       if (ring && periodicY) {
         // torus: A = B (0, x) on the fundamental domain; a link that crosses the x seam enters the
@@ -325,7 +410,7 @@ export function buildSample(net: Network, opts: SampleOptions): NetworkGraph {
     for (let c = 0; c < channelCount; c++) {
       if (g.chKind[c] !== CH_LINK) continue;
       // channels of one physical link share the phase: they are consecutive (c = 0..nch-1)
-      g.chThetaDis[c] = (g.chFromSlot[c] >= 0 && channelCopyIndex(g, c, latticeSlots) > 0) ? g.chThetaDis[c - 1] : (rand() - 0.5) * w;
+      g.chThetaDis[c] = g.chFromSlot[c] >= 0 && channelCopyIndex(g, c, latticeSlots) > 0 ? g.chThetaDis[c - 1] : (rand() - 0.5) * w;
     }
   }
   buildSchedule(g);
@@ -340,18 +425,24 @@ function channelCopyIndex(g: NetworkGraph, c: number, latticeSlots: number): num
 
 function findSource(rules: LatticeRules, X: number, Y: number, slot: number): [number, number] {
   // try all neighbours at the displacements the lattice uses
-  for (const dX of [-2, -1, 1, 2]) for (const dY of [-1, 0, 1]) {
-    const sx = X - dX, sy = Y - dY;
-    if (!rules.index(sx, sy)) continue;
-    for (const o of rules.outs(sx, sy)) if (o.dX === dX && o.dY === dY && o.slot === slot) return [sx, sy];
-  }
+  for (const dX of [-2, -1, 1, 2])
+    for (const dY of [-1, 0, 1]) {
+      const sx = X - dX,
+        sy = Y - dY;
+      if (!rules.index(sx, sy)) continue;
+      for (const o of rules.outs(sx, sy)) if (o.dX === dX && o.dY === dY && o.slot === slot) return [sx, sy];
+    }
   throw new Error(`internal: no source for slot ${slot} at (${X}, ${Y})`);
 }
 
 /** Sample geometry in nm: length along x and width across (for per-area and Lambda = xi / W). */
 export function sampleGeometryNm(net: Network, periodNm: number): { lengthNm: number; widthNm: number; cellAreaNm2: number } {
   if (net.lattice === "triangular") {
-    return { lengthNm: net.size.columns * periodNm, widthNm: (net.size.rows * Math.sqrt(3) * periodNm) / 2, cellAreaNm2: (Math.sqrt(3) / 2) * periodNm * periodNm };
+    return {
+      lengthNm: net.size.columns * periodNm,
+      widthNm: (net.size.rows * Math.sqrt(3) * periodNm) / 2,
+      cellAreaNm2: (Math.sqrt(3) / 2) * periodNm * periodNm,
+    };
   }
   // square: node columns are l/sqrt2 apart; a column of `rows` nodes spans 2 rows * l/sqrt2
   return { lengthNm: (net.size.columns * periodNm) / Math.SQRT2, widthNm: net.size.rows * Math.SQRT2 * periodNm, cellAreaNm2: periodNm * periodNm };

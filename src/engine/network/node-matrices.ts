@@ -49,7 +49,11 @@ export function reachableForwardRange(left: number, right: number, near: number)
   const refine = (lo: number, hi: number): number => {
     // ok(lo) !== ok(hi); return the boundary
     const okLo = ok(lo);
-    for (let it = 0; it < 60; it++) { const mid = (lo + hi) / 2; if (ok(mid) === okLo) lo = mid; else hi = mid; }
+    for (let it = 0; it < 60; it++) {
+      const mid = (lo + hi) / 2;
+      if (ok(mid) === okLo) lo = mid;
+      else hi = mid;
+    }
     return okLo ? lo : hi;
   };
   let best = intervals[0];
@@ -67,7 +71,8 @@ export function checkTriangularNode(f: number, l: number, r: number): string | n
   const vals = [s1, s2, s3];
   let worst = 0;
   for (let i = 0; i < 3; i++) if (vals[i] - (vals[(i + 1) % 3] + vals[(i + 2) % 3]) > vals[worst] - (vals[(worst + 1) % 3] + vals[(worst + 2) % 3])) worst = i;
-  const a = (worst + 1) % 3, b = (worst + 2) % 3;
+  const a = (worst + 1) % 3,
+    b = (worst + 2) % 3;
   const range = reachableForwardRange(l, r, f);
   const turn = l + r;
   const ratio = turn > 0 ? `left:right = ${(l / turn).toFixed(4)}:${(r / turn).toFixed(4)}` : "no turning";
@@ -82,37 +87,63 @@ export function checkTriangularNode(f: number, l: number, r: number): string | n
  * branch -1 its mirror (relative phases conjugated); the overall phase chi = phaseRad is
  * arg(s_f) (or, for a pure turn, the phase of the turning amplitude).
  */
-export function circulantAmplitudes(f: number, l: number, r: number, branch: 1 | -1, phaseRad: number): { sf: [number, number]; sl: [number, number]; sr: [number, number] } {
+export function circulantAmplitudes(
+  f: number,
+  l: number,
+  r: number,
+  branch: 1 | -1,
+  phaseRad: number,
+): { sf: [number, number]; sl: [number, number]; sr: [number, number] } {
   const problem = checkTriangularNode(f, l, r);
   if (problem) throw new Error(problem);
-  const a = Math.sqrt(f), b = Math.sqrt(l), c = Math.sqrt(r);
+  const a = Math.sqrt(f),
+    b = Math.sqrt(l),
+    c = Math.sqrt(r);
   let sf: [number, number], sl: [number, number], sr: [number, number];
-  const L1 = a * c, L2 = a * b, L3 = b * c;
+  const L1 = a * c,
+    L2 = a * b,
+    L3 = b * c;
   if (L1 === 0 || L2 === 0) {
     // a permutation (or the identity): one probability is 1
-    sf = [a, 0]; sl = [b, 0]; sr = [c, 0];
+    sf = [a, 0];
+    sl = [b, 0];
+    sr = [c, 0];
   } else {
     // u1 = L1, u2 = L2 e^{i th2}, u3 = -(u1 + u2); branch +1 needs sin(x - y) = sin(-th2) >= 0
     let cos2 = (L3 * L3 - L1 * L1 - L2 * L2) / (2 * L1 * L2);
     cos2 = Math.max(-1, Math.min(1, cos2));
     const th2 = -Math.acos(cos2);
-    const u3r = -(L1 + L2 * Math.cos(th2)), u3i = -L2 * Math.sin(th2);
+    const u3r = -(L1 + L2 * Math.cos(th2)),
+      u3i = -L2 * Math.sin(th2);
     const th3 = Math.atan2(u3i, u3r);
     const psi = -(th2 + th3) / 3;
-    const x = psi, y = th2 + psi;
+    const x = psi,
+      y = th2 + psi;
     // alpha = 0: s_f = a, s_l = b e^{-i y}, s_r = c e^{i x}
     sf = [a, 0];
     sl = [b * Math.cos(-y), b * Math.sin(-y)];
     sr = [c * Math.cos(x), c * Math.sin(x)];
   }
-  if (branch === -1) { sf = [sf[0], -sf[1]]; sl = [sl[0], -sl[1]]; sr = [sr[0], -sr[1]]; }
+  if (branch === -1) {
+    sf = [sf[0], -sf[1]];
+    sl = [sl[0], -sl[1]];
+    sr = [sr[0], -sr[1]];
+  }
   // overall phase chi: reference is arg(s_f) when f > 0, else the non-zero turning amplitude
-  const rot = (z: [number, number]): [number, number] => [z[0] * Math.cos(phaseRad) - z[1] * Math.sin(phaseRad), z[0] * Math.sin(phaseRad) + z[1] * Math.cos(phaseRad)];
-  sf = rot(sf); sl = rot(sl); sr = rot(sr);
+  const rot = (z: [number, number]): [number, number] => [
+    z[0] * Math.cos(phaseRad) - z[1] * Math.sin(phaseRad),
+    z[0] * Math.sin(phaseRad) + z[1] * Math.cos(phaseRad),
+  ];
+  sf = rot(sf);
+  sl = rot(sl);
+  sr = rot(sr);
   // the mirror-symmetric gauge (physics.md section 6): s_l -> w^k s_l, s_r -> w^2k s_r with
   // w = exp(2 pi i / 3) and k chosen so that arg(s_l conj(s_r)) lies in (-pi/3, pi/3]
   const k = mirrorGaugeStep(sf, sl, sr);
-  if (k !== 0) { sl = cmulPhase(sl, (2 * Math.PI * k) / 3); sr = cmulPhase(sr, (4 * Math.PI * k) / 3); }
+  if (k !== 0) {
+    sl = cmulPhase(sl, (2 * Math.PI * k) / 3);
+    sr = cmulPhase(sr, (4 * Math.PI * k) / 3);
+  }
   // left = right: the mirror y -> -y maps the node onto itself exactly (s_l = s_r)
   if (l === r) sr = [sl[0], sl[1]];
   return { sf, sl, sr };
@@ -147,7 +178,9 @@ function thirdStep(d: number, sign: 1 | -1): 0 | 1 | 2 {
  * up to the relabelling, so only chi mod 2 pi/3 is physical in the bulk).
  */
 function mirrorGaugeStep(sf: C, sl: C, sr: C): 0 | 1 | 2 {
-  const hasL = cabs(sl) > ZERO_AMPLITUDE, hasR = cabs(sr) > ZERO_AMPLITUDE, hasF = cabs(sf) > ZERO_AMPLITUDE;
+  const hasL = cabs(sl) > ZERO_AMPLITUDE,
+    hasR = cabs(sr) > ZERO_AMPLITUDE,
+    hasF = cabs(sf) > ZERO_AMPLITUDE;
   // under step k: arg(s_l conj s_r) moves by -2 pi k/3; arg(s_l conj s_f) by +2 pi k/3;
   // arg(s_r conj s_f) by +4 pi k/3 = -2 pi k/3 (mod 2 pi); arg(s_l) by +2 pi k/3; arg(s_r) by -2 pi k/3
   if (hasL && hasR) return thirdStep(argMulConj(sl, sr), 1);
@@ -190,7 +223,11 @@ export function canonicalNodeGauge(m: Float64Array, nch: number): Float64Array {
       const theta = (args[0] + args[1] + args[2]) / 3;
       let j = 0;
       a[0] = 0;
-      for (let t = 0; t < 2; t++) { const next = (j + step) % 3; a[next] = a[j] + theta - args[j]; j = next; }
+      for (let t = 0; t < 2; t++) {
+        const next = (j + step) % 3;
+        a[next] = a[j] + theta - args[j];
+        j = next;
+      }
       return true;
     };
     let cyclic = equalise(left, 1);
@@ -198,15 +235,30 @@ export function canonicalNodeGauge(m: Float64Array, nch: number): Float64Array {
     if (cyclic) {
       const sf = fwd[0];
       // sums over the three directions (equal entries for a circulant) for the residual step
-      const sum = (zs: C[], d: number[]): C => zs.reduce<C>((acc, z, j) => { const w = cmulPhase(z, a[(j + d[0]) % 3] - a[j]); return [acc[0] + w[0], acc[1] + w[1]]; }, [0, 0]);
-      const L = sum(left, [1]), R = sum(right, [2]);
+      const sum = (zs: C[], d: number[]): C =>
+        zs.reduce<C>(
+          (acc, z, j) => {
+            const w = cmulPhase(z, a[(j + d[0]) % 3] - a[j]);
+            return [acc[0] + w[0], acc[1] + w[1]];
+          },
+          [0, 0],
+        );
+      const L = sum(left, [1]),
+        R = sum(right, [2]);
       const F: C = fwd.reduce<C>((acc, z) => [acc[0] + z[0], acc[1] + z[1]], [0, 0]);
       const k = mirrorGaugeStep(cabs(F) > ZERO_AMPLITUDE ? F : sf, L, R);
       // residual relabelling: a[j] += 2 pi k j / 3 multiplies left turns by w^k, right turns by w^2k
       for (let j = 0; j < 3; j++) a[j] += (2 * Math.PI * k * j) / 3;
     } else {
       // spanning tree over the non-zero turning amplitudes: make each tree entry real positive
-      const cand: [number, number][] = [[1, 0], [2, 1], [0, 2], [2, 0], [0, 1], [1, 2]]; // [to, from]
+      const cand: [number, number][] = [
+        [1, 0],
+        [2, 1],
+        [0, 2],
+        [2, 0],
+        [0, 1],
+        [1, 2],
+      ]; // [to, from]
       const fixed = [true, false, false];
       let changed = true;
       while (changed) {
@@ -216,23 +268,29 @@ export function canonicalNodeGauge(m: Float64Array, nch: number): Float64Array {
           if (cabs(z) <= ZERO_AMPLITUDE || fixed[to] === fixed[from]) continue;
           // entry phase after D: arg z + a[to] - a[from] = 0
           const ph = Math.atan2(z[1], z[0]);
-          if (fixed[from]) a[to] = a[from] - ph; else a[from] = a[to] + ph;
-          fixed[to] = fixed[from] = true; changed = true;
+          if (fixed[from]) a[to] = a[from] - ph;
+          else a[from] = a[to] + ph;
+          fixed[to] = fixed[from] = true;
+          changed = true;
         }
       }
     }
     for (let j = 0; j < 3; j++) alpha[o + j] = a[j];
   }
   const out = new Float64Array(m.length);
-  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) {
-    const z = cmulPhase(get(i, j), alpha[i] - alpha[j]);
-    out[2 * (i * n + j)] = z[0]; out[2 * (i * n + j) + 1] = z[1];
-  }
+  for (let i = 0; i < n; i++)
+    for (let j = 0; j < n; j++) {
+      const z = cmulPhase(get(i, j), alpha[i] - alpha[j]);
+      out[2 * (i * n + j)] = z[0];
+      out[2 * (i * n + j) + 1] = z[1];
+    }
   return out;
 }
 
 /** The valley-K matrix of a triangular node as the engine uses it (canonical gauge), packed. */
-export function triangularNodeFromSpec(node: { forward: number; left: number; right: number; branch: 1 | -1; phaseRad: number } | { matrix: [number, number][][] }): Float64Array {
+export function triangularNodeFromSpec(
+  node: { forward: number; left: number; right: number; branch: 1 | -1; phaseRad: number } | { matrix: [number, number][][] },
+): Float64Array {
   if ("matrix" in node) return canonicalNodeGauge(packMatrix(node.matrix), node.matrix.length === 6 ? 2 : 1);
   return triangularNodeMatrix(node.forward, node.left, node.right, node.branch, node.phaseRad);
 }
@@ -242,7 +300,10 @@ export function triangularNodeMatrix(f: number, l: number, r: number, branch: 1 
   const { sf, sl, sr } = circulantAmplitudes(f, l, r, branch, phaseRad);
   const m = new Float64Array(18);
   for (let j = 0; j < 3; j++) {
-    const set = (row: number, z: [number, number]) => { m[2 * (row * 3 + j)] = z[0]; m[2 * (row * 3 + j) + 1] = z[1]; };
+    const set = (row: number, z: [number, number]) => {
+      m[2 * (row * 3 + j)] = z[0];
+      m[2 * (row * 3 + j) + 1] = z[1];
+    };
     set(j, sf);
     set((j + 1) % 3, sl);
     set((j + 2) % 3, sr);
@@ -253,16 +314,21 @@ export function triangularNodeMatrix(f: number, l: number, r: number, branch: 1 
 /** Max-norm of S^H S - 1 for a packed n x n matrix. */
 export function unitarityError(m: Float64Array, n: number): number {
   let worst = 0;
-  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) {
-    let re = 0, im = 0;
-    for (let k = 0; k < n; k++) {
-      const ar = m[2 * (k * n + i)], ai = -m[2 * (k * n + i) + 1];
-      const br = m[2 * (k * n + j)], bi = m[2 * (k * n + j) + 1];
-      re += ar * br - ai * bi; im += ar * bi + ai * br;
+  for (let i = 0; i < n; i++)
+    for (let j = 0; j < n; j++) {
+      let re = 0,
+        im = 0;
+      for (let k = 0; k < n; k++) {
+        const ar = m[2 * (k * n + i)],
+          ai = -m[2 * (k * n + i) + 1];
+        const br = m[2 * (k * n + j)],
+          bi = m[2 * (k * n + j) + 1];
+        re += ar * br - ai * bi;
+        im += ar * bi + ai * br;
+      }
+      if (i === j) re -= 1;
+      worst = Math.max(worst, Math.hypot(re, im));
     }
-    if (i === j) re -= 1;
-    worst = Math.max(worst, Math.hypot(re, im));
-  }
   return worst;
 }
 
@@ -279,7 +345,11 @@ export function checkExplicitNodeMatrix(matrix: [number, number][][], dim: numbe
 export function packMatrix(matrix: [number, number][][]): Float64Array {
   const n = matrix.length;
   const m = new Float64Array(2 * n * n);
-  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) { m[2 * (i * n + j)] = matrix[i][j][0]; m[2 * (i * n + j) + 1] = matrix[i][j][1]; }
+  for (let i = 0; i < n; i++)
+    for (let j = 0; j < n; j++) {
+      m[2 * (i * n + j)] = matrix[i][j][0];
+      m[2 * (i * n + j) + 1] = matrix[i][j][1];
+    }
   return m;
 }
 
@@ -289,6 +359,7 @@ export function packMatrix(matrix: [number, number][][]): Float64Array {
  * probability to turn right (see network/square.ts for the slot labels).
  */
 export function squareNodeMatrix(p: number): Float64Array {
-  const a = Math.sqrt(1 - p), b = Math.sqrt(p);
+  const a = Math.sqrt(1 - p),
+    b = Math.sqrt(p);
   return new Float64Array([a, 0, -b, 0, b, 0, a, 0]);
 }

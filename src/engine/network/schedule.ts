@@ -24,11 +24,7 @@ export function buildSchedule(g: NetworkGraph, keys?: Float64Array, order: "chea
   const ik = new Float64Array(n);
   const base = uniq[0] ?? 0;
   for (let i = 0; i < n; i++) ik[i] = Math.round((key[i] - base) / step);
-  const transforms: ((k: number) => number)[] = [
-    (k) => k,
-    (k) => (k % 2 === 1 ? k - 1.5 : k),
-    (k) => (k % 2 === 0 ? k - 1.5 : k),
-  ];
+  const transforms: ((k: number) => number)[] = [(k) => k, (k) => (k % 2 === 1 ? k - 1.5 : k), (k) => (k % 2 === 0 ? k - 1.5 : k)];
   let best: { order: number[]; cost: number; tk: Float64Array } | null = null;
   for (const t of order === "columns" ? transforms.slice(0, 1) : transforms) {
     const tk = new Float64Array(n);
@@ -46,19 +42,32 @@ export function buildSchedule(g: NetworkGraph, keys?: Float64Array, order: "chea
     let j = i;
     while (j < n && tk[nodeOrder[j]] === tk[nodeOrder[i]]) j++;
     // chunk nodeOrder[i..j)
-    let cur: number[] = [], curQ = 0;
+    let cur: number[] = [],
+      curQ = 0;
     const inGroup = new Set<number>();
-    const flush = () => { if (cur.length) { groups.push(Int32Array.from(cur)); for (const m of cur) absorbed[m] = 1; } cur = []; curQ = 0; inGroup.clear(); };
+    const flush = () => {
+      if (cur.length) {
+        groups.push(Int32Array.from(cur));
+        for (const m of cur) absorbed[m] = 1;
+      }
+      cur = [];
+      curQ = 0;
+      inGroup.clear();
+    };
     for (let t = i; t < j; t++) {
       const m = nodeOrder[t];
-      let q = 0, linked = false;
+      let q = 0,
+        linked = false;
       for (let s = g.slotOffset[m]; s < g.slotOffset[m] + g.slotCount[m]; s++) {
-        const to = g.chToNode[g.outChannel[s]], from = g.chFromNode[g.inChannel[s]];
+        const to = g.chToNode[g.outChannel[s]],
+          from = g.chFromNode[g.inChannel[s]];
         if (to >= 0 && absorbed[to]) q++;
         if ((to >= 0 && inGroup.has(to)) || (from >= 0 && inGroup.has(from)) || to === m || from === m) linked = true;
       }
       if (cur.length > 0 && (linked || cur.length >= MAX_GROUP_NODES || curQ + q > MAX_GROUP_FEEDBACK)) flush();
-      cur.push(m); curQ += q; inGroup.add(m);
+      cur.push(m);
+      curQ += q;
+      inGroup.add(m);
     }
     flush();
     i = j;
@@ -67,13 +76,23 @@ export function buildSchedule(g: NetworkGraph, keys?: Float64Array, order: "chea
   // cuts: after group t all absorbed keys < all remaining keys (original abscissa)
   const prefixMax: number[] = [];
   let mx = -Infinity;
-  for (const grp of groups) { for (const m of grp) mx = Math.max(mx, key[m]); prefixMax.push(mx); }
+  for (const grp of groups) {
+    for (const m of grp) mx = Math.max(mx, key[m]);
+    prefixMax.push(mx);
+  }
   const suffixMin: number[] = new Array(groups.length).fill(Infinity);
   let mn = Infinity;
-  for (let t = groups.length - 1; t >= 0; t--) { suffixMin[t] = mn; for (const m of groups[t]) mn = Math.min(mn, key[m]); }
-  const cutAfter: number[] = [], cutX: number[] = [];
+  for (let t = groups.length - 1; t >= 0; t--) {
+    suffixMin[t] = mn;
+    for (const m of groups[t]) mn = Math.min(mn, key[m]);
+  }
+  const cutAfter: number[] = [],
+    cutX: number[] = [];
   for (let t = 0; t < groups.length - 1; t++) {
-    if (prefixMax[t] < suffixMin[t] - 1e-9) { cutAfter.push(t); cutX.push((prefixMax[t] + suffixMin[t]) / 2); }
+    if (prefixMax[t] < suffixMin[t] - 1e-9) {
+      cutAfter.push(t);
+      cutX.push((prefixMax[t] + suffixMin[t]) / 2);
+    }
   }
   g.cutAfter = Int32Array.from(cutAfter);
   g.cutX = Float64Array.from(cutX);
@@ -82,14 +101,20 @@ export function buildSchedule(g: NetworkGraph, keys?: Float64Array, order: "chea
 /** Rough cost of an order: sum over nodes of feedback count x frontier rows x frontier columns. */
 function simulate(g: NetworkGraph, order: number[]): number {
   const absorbed = new Uint8Array(g.nodeCount);
-  let rows = 0, cols = 0, cost = 0;
+  let rows = 0,
+    cols = 0,
+    cost = 0;
   for (const m of order) {
     let q = 0;
     for (let s = g.slotOffset[m]; s < g.slotOffset[m] + g.slotCount[m]; s++) {
       const from = g.chFromNode[g.inChannel[s]];
-      if (from >= 0 && absorbed[from]) rows--; else cols++;
+      if (from >= 0 && absorbed[from]) rows--;
+      else cols++;
       const to = g.chToNode[g.outChannel[s]];
-      if (to >= 0 && absorbed[to]) { q++; cols--; } else rows++;
+      if (to >= 0 && absorbed[to]) {
+        q++;
+        cols--;
+      } else rows++;
     }
     cost += q * (rows + 1) * (cols + 1);
     absorbed[m] = 1;

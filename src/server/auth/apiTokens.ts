@@ -21,7 +21,6 @@ export const createTokenInput = z
   })
   .strict();
 
-
 const columns = {
   id: apiTokens.id,
   name: apiTokens.name,
@@ -51,10 +50,14 @@ export async function createToken(caller: Caller, input: z.infer<typeof createTo
   const allowed = tokenRolesFor(caller.role);
   const role = input.role ?? caller.role;
   if (!allowed.includes(role)) {
-    throw new ApiError("forbidden", `role: a token cannot have more rights than its member; your role (${ROLE_LABELS[caller.role]}) allows ${allowed.join(", ")}.`, {
-      field: "role",
-      allowed,
-    });
+    throw new ApiError(
+      "forbidden",
+      `role: a token cannot have more rights than its member; your role (${ROLE_LABELS[caller.role]}) allows ${allowed.join(", ")}.`,
+      {
+        field: "role",
+        allowed,
+      },
+    );
   }
   const secret = newTokenSecret();
   const [row] = await getDb()

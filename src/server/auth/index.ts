@@ -88,7 +88,10 @@ export async function callerFromToken(secret: string): Promise<Caller> {
   const now = Date.now();
   if ((lastUsedWrites.get(row.id) ?? 0) < now - 60_000) {
     lastUsedWrites.set(row.id, now);
-    await db.update(apiTokens).set({ lastUsedAt: new Date(now) }).where(and(eq(apiTokens.id, row.id), isNull(apiTokens.revokedAt)));
+    await db
+      .update(apiTokens)
+      .set({ lastUsedAt: new Date(now) })
+      .where(and(eq(apiTokens.id, row.id), isNull(apiTokens.revokedAt)));
   }
   return { userId: row.userId, workspaceId: row.workspaceId, role: lesserRole(row.role, row.memberRole), plan: row.plan, via: "token", tokenId: row.id };
 }
@@ -96,7 +99,9 @@ export async function callerFromToken(secret: string): Promise<Caller> {
 /** Throws 403 with a message naming the action and the roles that may do it. */
 export function requirePermission(caller: Caller, action: Action): void {
   if (can(caller.role, action)) return;
-  const allowed = rolesAllowed(action).map((r) => ROLE_LABELS[r]).join(", ");
+  const allowed = rolesAllowed(action)
+    .map((r) => ROLE_LABELS[r])
+    .join(", ");
   throw new ApiError("forbidden", `Your role (${ROLE_LABELS[caller.role]}) cannot ${describeAction(action)}; allowed: ${allowed}.`, {
     action,
     role: caller.role,

@@ -98,7 +98,9 @@ export async function setMembership(workspaceId: string, userId: string, role: R
 }
 
 export async function removeMembership(workspaceId: string, userId: string): Promise<void> {
-  await getDb().delete(memberships).where(and(eq(memberships.workspaceId, workspaceId), eq(memberships.userId, userId)));
+  await getDb()
+    .delete(memberships)
+    .where(and(eq(memberships.workspaceId, workspaceId), eq(memberships.userId, userId)));
 }
 
 export async function membershipRole(workspaceId: string, userId: string): Promise<Role | null> {

@@ -9,16 +9,7 @@ import { eq } from "drizzle-orm";
 import { getDb } from "@/server/db";
 import { clerkWebhookEvents, memberships } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
-import {
-  ensurePersonalWorkspace,
-  nameOf,
-  removeMembership,
-  setMembership,
-  upsertOrgWorkspace,
-  upsertUser,
-  userByClerkId,
-  workspaceByClerkOrg,
-} from "./sync";
+import { ensurePersonalWorkspace, nameOf, removeMembership, setMembership, upsertOrgWorkspace, upsertUser, userByClerkId, workspaceByClerkOrg } from "./sync";
 import { roleFromClerk } from "./roles";
 
 /** Signatures older or newer than this are refused (replays). */

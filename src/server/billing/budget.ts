@@ -24,7 +24,10 @@ export interface BudgetState {
 export async function budgetState(workspaceId: string): Promise<BudgetState> {
   const db = getDb();
   const period = billingPeriod();
-  const [ws] = await db.select({ plan: workspaces.plan, planState: workspaces.planState, cap: workspaces.spendCapUsd }).from(workspaces).where(eq(workspaces.id, workspaceId));
+  const [ws] = await db
+    .select({ plan: workspaces.plan, planState: workspaces.planState, cap: workspaces.spendCapUsd })
+    .from(workspaces)
+    .where(eq(workspaces.id, workspaceId));
   if (!ws) throw new ApiError("not_found", "Workspace not found.");
   const [row] = await db
     .select({ seconds: sql<number>`coalesce(sum(${usageLedger.computeSeconds}), 0)::float8` })

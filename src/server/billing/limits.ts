@@ -28,7 +28,8 @@ function refuse(plan: PlanId, limit: PlanLimitName, value: number, requested: nu
  */
 export function assertJobComputeWithinPlan(plan: PlanId, estimatedSeconds: number, what: string): void {
   const max = PLANS[plan].maxJobComputeSeconds;
-  if (estimatedSeconds > max) refuse(plan, "maxJobComputeSeconds", max, estimatedSeconds, `${what}: the estimated compute time`, formatComputeTime, "compute-seconds");
+  if (estimatedSeconds > max)
+    refuse(plan, "maxJobComputeSeconds", max, estimatedSeconds, `${what}: the estimated compute time`, formatComputeTime, "compute-seconds");
 }
 
 export function assertNetworkWithinPlan(plan: PlanId, size: { columns: number; rows: number }, where = "network.size"): void {

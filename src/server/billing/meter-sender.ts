@@ -109,7 +109,9 @@ async function settle(row: Claimed, outcome: Outcome, customer: string | null): 
       return;
     }
     case "failed":
-      await db.execute(sql`update meter_outbox set status = 'failed', lease_until = null, last_error = ${outcome.reason.slice(0, 1000)}, stripe_customer_id = ${customer} where id = ${row.id}`);
+      await db.execute(
+        sql`update meter_outbox set status = 'failed', lease_until = null, last_error = ${outcome.reason.slice(0, 1000)}, stripe_customer_id = ${customer} where id = ${row.id}`,
+      );
   }
 }
 
@@ -136,7 +138,8 @@ export async function sendDueMeterEvents(opts: SenderOptions = {}): Promise<Send
       const customer = row.stripe_customer_id;
       let outcome: Outcome;
       if (stripeDown) outcome = { kind: "retry", error: "Stripe was unreachable for an earlier event of this batch" };
-      else if (!customer) outcome = { kind: "failed", reason: "The workspace has no Stripe customer (it was not subscribed through Stripe), so this usage cannot be metered." };
+      else if (!customer)
+        outcome = { kind: "failed", reason: "The workspace has no Stripe customer (it was not subscribed through Stripe), so this usage cannot be metered." };
       else {
         try {
           await stripe.billing.meterEvents.create(
@@ -169,7 +172,10 @@ export async function sendDueMeterEvents(opts: SenderOptions = {}): Promise<Send
 /** Counts of a workspace's outbox, for the Billing page. */
 export async function outboxSummary(workspaceId: string): Promise<{ pending: number; sent: number; failed: number; lastError: string | null }> {
   const db = getDb();
-  const rows = (await db.execute(sql`select status, count(*)::int as n from meter_outbox where workspace_id = ${workspaceId} group by status`)) as unknown as { status: string; n: number }[];
+  const rows = (await db.execute(sql`select status, count(*)::int as n from meter_outbox where workspace_id = ${workspaceId} group by status`)) as unknown as {
+    status: string;
+    n: number;
+  }[];
   const [last] = (await db.execute(
     sql`select last_error from meter_outbox where workspace_id = ${workspaceId} and last_error is not null and status <> 'sent' order by created_at desc limit 1`,
   )) as unknown as { last_error: string }[];

@@ -17,7 +17,14 @@ import { BILLING_RULES } from "./config";
 const fmtUsd = (n: number) => `${n.toFixed(2)} USD`;
 
 /** Subject and text of a spend-cap notice (pure, tested). */
-export function spendCapMessage(input: { workspaceName: string; period: string; thresholdPercent: number; spendUsd: number; spendCapUsd: number; billingUrl: string }) {
+export function spendCapMessage(input: {
+  workspaceName: string;
+  period: string;
+  thresholdPercent: number;
+  spendUsd: number;
+  spendCapUsd: number;
+  billingUrl: string;
+}) {
   const reached = input.thresholdPercent >= 100;
   const subject = reached
     ? `${input.workspaceName}: compute spend reached the spend cap (${fmtUsd(input.spendCapUsd)})`
@@ -67,7 +74,14 @@ export async function sendSpendCapNotices(now = new Date()): Promise<number> {
         on conflict (workspace_id, period, threshold_percent) do nothing returning id`)) as unknown as { id: string }[];
       if (inserted.length === 0) continue;
       if (emails.length === 0) continue;
-      const { subject, text } = spendCapMessage({ workspaceName: r.name, period, thresholdPercent: percent, spendUsd: spend, spendCapUsd: cap, billingUrl: `${env().APP_URL}/billing` });
+      const { subject, text } = spendCapMessage({
+        workspaceName: r.name,
+        period,
+        thresholdPercent: percent,
+        spendUsd: spend,
+        spendCapUsd: cap,
+        billingUrl: `${env().APP_URL}/billing`,
+      });
       try {
         await sendMail({ to: emails, subject, text });
         await db.execute(sql`update spend_cap_notices set sent_at = now() where id = ${inserted[0].id}`);

@@ -41,7 +41,11 @@ export function stripePrices(): Promise<StripePrices> {
   if (!globalForStripe.__triskelPrices) {
     globalForStripe.__triskelPrices = (async () => {
       const stripe = getStripe();
-      const prices = await stripe.prices.list({ lookup_keys: [STRIPE_OBJECTS.seatPriceLookupKey, STRIPE_OBJECTS.computePriceLookupKey], active: true, limit: 10 });
+      const prices = await stripe.prices.list({
+        lookup_keys: [STRIPE_OBJECTS.seatPriceLookupKey, STRIPE_OBJECTS.computePriceLookupKey],
+        active: true,
+        limit: 10,
+      });
       const seat = prices.data.find((p) => p.lookup_key === STRIPE_OBJECTS.seatPriceLookupKey);
       const compute = prices.data.find((p) => p.lookup_key === STRIPE_OBJECTS.computePriceLookupKey);
       const meters = await stripe.billing.meters.list({ status: "active", limit: 100 });
@@ -68,9 +72,13 @@ export function stripeToApiError(err: unknown, doing: string): ApiError {
   if (err instanceof ApiError) return err;
   if (err instanceof Stripe.errors.StripeError) {
     if (err.type === "StripeConnectionError" || err.type === "StripeAPIError" || (err.statusCode ?? 0) >= 500) {
-      return new ApiError("unavailable", `The payment service is unreachable while trying to ${doing}; nothing was changed. Try again in a minute.`, { stripe: err.message });
+      return new ApiError("unavailable", `The payment service is unreachable while trying to ${doing}; nothing was changed. Try again in a minute.`, {
+        stripe: err.message,
+      });
     }
-    return new ApiError("bad_request", `The payment service refused to ${doing}: ${err.message}`, { stripe: { type: err.type, code: err.code, param: err.param } });
+    return new ApiError("bad_request", `The payment service refused to ${doing}: ${err.message}`, {
+      stripe: { type: err.type, code: err.code, param: err.param },
+    });
   }
   return new ApiError("internal", `Unexpected error while trying to ${doing}: ${(err as Error).message}`);
 }

@@ -35,23 +35,29 @@ async function ensureCustomer(ws: typeof workspaces.$inferSelect): Promise<strin
   const stripe = getStripe();
   let customerId: string;
   try {
-    const c = await stripe.customers.create({ name: ws.name, metadata: { workspace_id: ws.id, workspace_slug: ws.slug } }, { idempotencyKey: `triskel-customer-${ws.id}` });
+    const c = await stripe.customers.create(
+      { name: ws.name, metadata: { workspace_id: ws.id, workspace_slug: ws.slug } },
+      { idempotencyKey: `triskel-customer-${ws.id}` },
+    );
     customerId = c.id;
   } catch (err) {
     throw stripeToApiError(err, "create the payment customer");
   }
   const db = getDb();
-  await db.update(workspaces).set({ stripeCustomerId: customerId, updatedAt: new Date() }).where(sql`${workspaces.id} = ${ws.id} and ${workspaces.stripeCustomerId} is null`);
+  await db
+    .update(workspaces)
+    .set({ stripeCustomerId: customerId, updatedAt: new Date() })
+    .where(sql`${workspaces.id} = ${ws.id} and ${workspaces.stripeCustomerId} is null`);
   const [back] = await db.select({ id: workspaces.stripeCustomerId }).from(workspaces).where(eq(workspaces.id, ws.id));
   return back?.id ?? customerId;
 }
-
 
 /** Upgrade to Lab: a Checkout Session with one seat per current member, plus metered compute. */
 export async function startCheckout(caller: Caller): Promise<CheckoutStart> {
   requirePermission(caller, "billing.manage");
   const ws = await workspaceOf(caller.workspaceId);
-  if (ws.plan === "lab" && ws.stripeSubscriptionId) throw new ApiError("conflict", "This workspace is already on the Lab plan; change seats or payment details instead.");
+  if (ws.plan === "lab" && ws.stripeSubscriptionId)
+    throw new ApiError("conflict", "This workspace is already on the Lab plan; change seats or payment details instead.");
   const seats = Math.max(1, await memberCount(ws.id));
   const customer = await ensureCustomer(ws);
   try {
@@ -124,7 +130,8 @@ export async function syncSeatsWithMembers(workspaceId: string): Promise<number 
 export async function syncSeats(caller: Caller): Promise<{ seats: number; members: number }> {
   requirePermission(caller, "seats.manage");
   const ws = await workspaceOf(caller.workspaceId);
-  if (ws.plan !== "lab" || !ws.stripeSubscriptionId) throw new ApiError("conflict", "This workspace has no Lab subscription; seats are bought with the upgrade to Lab.");
+  if (ws.plan !== "lab" || !ws.stripeSubscriptionId)
+    throw new ApiError("conflict", "This workspace has no Lab subscription; seats are bought with the upgrade to Lab.");
   const members = await memberCount(ws.id);
   return { seats: (await syncSeatsWithMembers(ws.id)) ?? ws.seats, members };
 }
@@ -156,8 +163,18 @@ export async function setSpendCap(caller: Caller, spendCapUsd: number | null): P
   return { spendCapUsd };
 }
 
-
-const invoiceView = (i: { id?: string; number: string | null; status: string | null; total: number; amount_due: number; currency: string; period_start: number; period_end: number; created: number; hosted_invoice_url?: string | null }): InvoiceView => ({
+const invoiceView = (i: {
+  id?: string;
+  number: string | null;
+  status: string | null;
+  total: number;
+  amount_due: number;
+  currency: string;
+  period_start: number;
+  period_end: number;
+  created: number;
+  hosted_invoice_url?: string | null;
+}): InvoiceView => ({
   id: i.id ?? "upcoming",
   number: i.number,
   status: i.status,

@@ -8,11 +8,12 @@ import { billingPeriod, budgetState } from "./budget";
 import type { DayUsage, MemberUsage, UsageReport } from "@/shared/api";
 export type { DayUsage, MemberUsage, UsageReport };
 
-
 export function parsePeriod(value: string | null): string {
   if (value === null || value === "") return billingPeriod();
   if (!/^\d{4}-(0[1-9]|1[0-2])$/.test(value)) {
-    throw new ApiError("invalid_input", `period: "${value}" is not a billing period; use YYYY-MM (UTC), e.g. ${billingPeriod()}.`, { issues: [{ field: "period", message: "must be YYYY-MM" }] });
+    throw new ApiError("invalid_input", `period: "${value}" is not a billing period; use YYYY-MM (UTC), e.g. ${billingPeriod()}.`, {
+      issues: [{ field: "period", message: "must be YYYY-MM" }],
+    });
   }
   return value;
 }
@@ -35,7 +36,15 @@ export async function usageReport(caller: Caller, period = billingPeriod()): Pro
     from usage_ledger l
     where l.workspace_id = ${caller.workspaceId} and l.period = ${period}
       and (l.user_id is null or not exists (select 1 from memberships m where m.workspace_id = l.workspace_id and m.user_id = l.user_id))
-    having count(l.id) > 0`)) as unknown as { user_id: string | null; name: string; email: string | null; role: string | null; runs: number; seconds: number; lab_seconds: number }[];
+    having count(l.id) > 0`)) as unknown as {
+    user_id: string | null;
+    name: string;
+    email: string | null;
+    role: string | null;
+    runs: number;
+    seconds: number;
+    lab_seconds: number;
+  }[];
   const days = (await db.execute(sql`
     select to_char(l.created_at at time zone 'UTC', 'YYYY-MM-DD') as date, l.user_id, sum(l.compute_seconds)::float8 as seconds
     from usage_ledger l where l.workspace_id = ${caller.workspaceId} and l.period = ${period}

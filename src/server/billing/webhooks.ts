@@ -41,7 +41,13 @@ export async function handleStripeWebhook(rawBody: string, signature: string | n
   return db.transaction(async (tx) => {
     const inserted = await tx
       .insert(stripeEvents)
-      .values({ id: event.id, type: event.type, stripeCreatedAt: new Date(event.created * 1000), outcome: "received", payload: event as unknown as Record<string, unknown> })
+      .values({
+        id: event.id,
+        type: event.type,
+        stripeCreatedAt: new Date(event.created * 1000),
+        outcome: "received",
+        payload: event as unknown as Record<string, unknown>,
+      })
       .onConflictDoNothing()
       .returning({ id: stripeEvents.id });
     if (inserted.length === 0) {
@@ -56,7 +62,10 @@ export async function handleStripeWebhook(rawBody: string, signature: string | n
 
 const idOf = (v: string | { id: string } | null | undefined): string | null => (v == null ? null : typeof v === "string" ? v : v.id);
 
-async function findWorkspace(tx: Tx, hints: { workspaceId?: string | null; customer?: string | null; subscription?: string | null }): Promise<typeof workspaces.$inferSelect | null> {
+async function findWorkspace(
+  tx: Tx,
+  hints: { workspaceId?: string | null; customer?: string | null; subscription?: string | null },
+): Promise<typeof workspaces.$inferSelect | null> {
   const uuid = /^[0-9a-f-]{36}$/i;
   if (hints.workspaceId && uuid.test(hints.workspaceId)) {
     const [w] = await tx.select().from(workspaces).where(eq(workspaces.id, hints.workspaceId));
@@ -75,7 +84,9 @@ async function findWorkspace(tx: Tx, hints: { workspaceId?: string | null; custo
 
 /** The seat quantity of a subscription: its licensed (per-seat) item. */
 export function seatQuantity(sub: Pick<Stripe.Subscription, "items">): number {
-  const item = sub.items.data.find((i) => i.price.lookup_key === STRIPE_OBJECTS.seatPriceLookupKey) ?? sub.items.data.find((i) => i.price.recurring?.usage_type !== "metered");
+  const item =
+    sub.items.data.find((i) => i.price.lookup_key === STRIPE_OBJECTS.seatPriceLookupKey) ??
+    sub.items.data.find((i) => i.price.recurring?.usage_type !== "metered");
   return item?.quantity ?? 0;
 }
 
@@ -86,7 +97,11 @@ async function enterGrace(tx: Tx, workspaceId: string): Promise<string> {
     .values({ workspaceId, graceEndsAt: graceEnds, lastPaymentFailedAt: new Date() })
     .onConflictDoUpdate({
       target: workspaceBilling.workspaceId,
-      set: { graceEndsAt: sql`coalesce(${workspaceBilling.graceEndsAt}, ${graceEnds.toISOString()}::timestamptz)`, lastPaymentFailedAt: new Date(), updatedAt: new Date() },
+      set: {
+        graceEndsAt: sql`coalesce(${workspaceBilling.graceEndsAt}, ${graceEnds.toISOString()}::timestamptz)`,
+        lastPaymentFailedAt: new Date(),
+        updatedAt: new Date(),
+      },
     });
   const moved = await tx
     .update(workspaces)
@@ -113,7 +128,13 @@ async function applyEvent(tx: Tx, event: Stripe.Event): Promise<{ workspaceId: s
       if (!ws) return { workspaceId: null, outcome: "ignored: no workspace for this checkout" };
       await tx
         .update(workspaces)
-        .set({ plan: "lab", planState: "active", stripeCustomerId: idOf(s.customer) ?? ws.stripeCustomerId, stripeSubscriptionId: idOf(s.subscription) ?? ws.stripeSubscriptionId, updatedAt: new Date() })
+        .set({
+          plan: "lab",
+          planState: "active",
+          stripeCustomerId: idOf(s.customer) ?? ws.stripeCustomerId,
+          stripeSubscriptionId: idOf(s.subscription) ?? ws.stripeSubscriptionId,
+          updatedAt: new Date(),
+        })
         .where(eq(workspaces.id, ws.id));
       return { workspaceId: ws.id, outcome: "upgraded to Lab" };
     }
@@ -122,11 +143,15 @@ async function applyEvent(tx: Tx, event: Stripe.Event): Promise<{ workspaceId: s
       const sub = event.data.object;
       const ws = await findWorkspace(tx, { workspaceId: sub.metadata?.workspace_id, subscription: sub.id, customer: idOf(sub.customer) });
       if (!ws) return { workspaceId: null, outcome: "ignored: no workspace for this subscription" };
-      if (ws.stripeSubscriptionId && ws.stripeSubscriptionId !== sub.id && ws.plan === "lab") return { workspaceId: ws.id, outcome: "ignored: not the workspace's current subscription" };
+      if (ws.stripeSubscriptionId && ws.stripeSubscriptionId !== sub.id && ws.plan === "lab")
+        return { workspaceId: ws.id, outcome: "ignored: not the workspace's current subscription" };
       const seats = seatQuantity(sub);
       const base = { stripeSubscriptionId: sub.id, stripeCustomerId: idOf(sub.customer), seats, updatedAt: new Date() };
       if (sub.status === "active" || sub.status === "trialing") {
-        await tx.update(workspaces).set({ ...base, plan: "lab" }).where(eq(workspaces.id, ws.id));
+        await tx
+          .update(workspaces)
+          .set({ ...base, plan: "lab" })
+          .where(eq(workspaces.id, ws.id));
         if (ws.planState !== "active") {
           // Only a paid invoice ends grace; an update while past due keeps the state.
           const prev = (event.data.previous_attributes ?? {}) as { status?: string };
@@ -135,15 +160,24 @@ async function applyEvent(tx: Tx, event: Stripe.Event): Promise<{ workspaceId: s
         return { workspaceId: ws.id, outcome: `subscription ${sub.status}, ${seats} seats` };
       }
       if (sub.status === "past_due") {
-        await tx.update(workspaces).set({ ...base, plan: "lab" }).where(eq(workspaces.id, ws.id));
+        await tx
+          .update(workspaces)
+          .set({ ...base, plan: "lab" })
+          .where(eq(workspaces.id, ws.id));
         return { workspaceId: ws.id, outcome: `subscription past due, ${seats} seats; ${await enterGrace(tx, ws.id)}` };
       }
       if (sub.status === "unpaid" || sub.status === "incomplete_expired" || sub.status === "paused") {
-        await tx.update(workspaces).set({ ...base, planState: "suspended" }).where(eq(workspaces.id, ws.id));
+        await tx
+          .update(workspaces)
+          .set({ ...base, planState: "suspended" })
+          .where(eq(workspaces.id, ws.id));
         return { workspaceId: ws.id, outcome: `subscription ${sub.status}: Free limits` };
       }
       if (sub.status === "canceled") {
-        await tx.update(workspaces).set({ plan: "free", planState: "active", seats: 0, stripeSubscriptionId: null, updatedAt: new Date() }).where(eq(workspaces.id, ws.id));
+        await tx
+          .update(workspaces)
+          .set({ plan: "free", planState: "active", seats: 0, stripeSubscriptionId: null, updatedAt: new Date() })
+          .where(eq(workspaces.id, ws.id));
         return { workspaceId: ws.id, outcome: "subscription canceled: back to Free" };
       }
       return { workspaceId: ws.id, outcome: `subscription ${sub.status}: no change` };
@@ -152,8 +186,12 @@ async function applyEvent(tx: Tx, event: Stripe.Event): Promise<{ workspaceId: s
       const sub = event.data.object;
       const ws = await findWorkspace(tx, { subscription: sub.id, workspaceId: sub.metadata?.workspace_id, customer: idOf(sub.customer) });
       if (!ws) return { workspaceId: null, outcome: "ignored: no workspace for this subscription" };
-      if (ws.stripeSubscriptionId && ws.stripeSubscriptionId !== sub.id) return { workspaceId: ws.id, outcome: "ignored: not the workspace's current subscription" };
-      await tx.update(workspaces).set({ plan: "free", planState: "active", seats: 0, stripeSubscriptionId: null, updatedAt: new Date() }).where(eq(workspaces.id, ws.id));
+      if (ws.stripeSubscriptionId && ws.stripeSubscriptionId !== sub.id)
+        return { workspaceId: ws.id, outcome: "ignored: not the workspace's current subscription" };
+      await tx
+        .update(workspaces)
+        .set({ plan: "free", planState: "active", seats: 0, stripeSubscriptionId: null, updatedAt: new Date() })
+        .where(eq(workspaces.id, ws.id));
       await tx.delete(workspaceBilling).where(eq(workspaceBilling.workspaceId, ws.id));
       return { workspaceId: ws.id, outcome: "subscription ended: back to Free" };
     }
@@ -164,7 +202,10 @@ async function applyEvent(tx: Tx, event: Stripe.Event): Promise<{ workspaceId: s
       if (!ws) return { workspaceId: null, outcome: "ignored: no workspace for this invoice" };
       const wasInGrace = ws.planState !== "active";
       await leaveGrace(tx, ws.id);
-      return { workspaceId: ws.id, outcome: `invoice ${inv.number ?? inv.id} paid (${(inv.amount_paid / 100).toFixed(2)} ${inv.currency.toUpperCase()})${wasInGrace ? "; grace ended" : ""}` };
+      return {
+        workspaceId: ws.id,
+        outcome: `invoice ${inv.number ?? inv.id} paid (${(inv.amount_paid / 100).toFixed(2)} ${inv.currency.toUpperCase()})${wasInGrace ? "; grace ended" : ""}`,
+      };
     }
     case "invoice.payment_failed": {
       const inv = event.data.object;

@@ -12,11 +12,11 @@ import { FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM, twistFromPeriodDegrees } from "@/
 import type { PeriodAnalysis, PeriodOptions, PeriodReading } from "@/shared/api";
 export type { PeriodAnalysis, PeriodOptions, PeriodReading };
 
-
-
-
 export class PeriodAnalysisError extends Error {
-  constructor(message: string, readonly field?: string) {
+  constructor(
+    message: string,
+    readonly field?: string,
+  ) {
     super(message);
     this.name = "PeriodAnalysisError";
   }
@@ -38,7 +38,8 @@ export function readingsFromArea(areaNm2: number): { perTriangle: PeriodReading;
   const lCell = Math.sqrt((2 * areaNm2) / Math.sqrt(3));
   return {
     perTriangle: {
-      assumption: "One flux quantum h/e through each triangle of the network: A_triangle = (sqrt3/4) l^2 (the elementary plaquette of the triangular network; physics.md section 2).",
+      assumption:
+        "One flux quantum h/e through each triangle of the network: A_triangle = (sqrt3/4) l^2 (the elementary plaquette of the triangular network; physics.md section 2).",
       areaNm2,
       periodNm: lTri,
       twistDegrees: twistDegreesFromPeriodNm(lTri),
@@ -154,9 +155,12 @@ export function analysePeriod(fieldTesla: number[], conductance: number[], optio
   const backgroundDegree = options.backgroundDegree ?? 3;
   const zeroPadFactor = options.zeroPadFactor ?? 8;
   const minCyclesInWindow = options.minCyclesInWindow ?? 1.5;
-  if (!Number.isInteger(backgroundDegree) || backgroundDegree < 0 || backgroundDegree > 8) throw new PeriodAnalysisError("backgroundDegree must be an integer from 0 to 8.", "backgroundDegree");
-  if (!Number.isInteger(zeroPadFactor) || zeroPadFactor < 1 || zeroPadFactor > 64) throw new PeriodAnalysisError("zeroPadFactor must be an integer from 1 to 64.", "zeroPadFactor");
-  if (!(minCyclesInWindow > 0 && minCyclesInWindow < 100)) throw new PeriodAnalysisError("minCyclesInWindow must be above 0 and below 100.", "minCyclesInWindow");
+  if (!Number.isInteger(backgroundDegree) || backgroundDegree < 0 || backgroundDegree > 8)
+    throw new PeriodAnalysisError("backgroundDegree must be an integer from 0 to 8.", "backgroundDegree");
+  if (!Number.isInteger(zeroPadFactor) || zeroPadFactor < 1 || zeroPadFactor > 64)
+    throw new PeriodAnalysisError("zeroPadFactor must be an integer from 1 to 64.", "zeroPadFactor");
+  if (!(minCyclesInWindow > 0 && minCyclesInWindow < 100))
+    throw new PeriodAnalysisError("minCyclesInWindow must be above 0 and below 100.", "minCyclesInWindow");
   const n = fieldTesla.length;
   if (n < 16) throw new PeriodAnalysisError(`The period analysis needs at least 16 points; this curve has ${n}.`);
   const x = fieldTesla;

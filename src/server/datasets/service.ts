@@ -27,7 +27,6 @@ export const uploadFields = z.object({
   description: z.string().max(2000, "at most 2000 characters").optional(),
 });
 
-
 type Row = typeof datasets.$inferSelect;
 
 export function sha256Hex(text: string): string {
@@ -112,11 +111,17 @@ export async function createDatasetFromRequest(caller: Caller, req: Request) {
   const declared = Number(req.headers.get("content-length") ?? "0");
   // A little room over the file limit for the other form fields and the multipart framing.
   if (declared > DATASET_MAX_BYTES + 64 * 1024) {
-    throw new ApiError("payload_too_large", `The upload is ${declared} bytes; CSV files may be at most ${DATASET_MAX_BYTES} bytes (5 MB).`, { limitBytes: DATASET_MAX_BYTES });
+    throw new ApiError("payload_too_large", `The upload is ${declared} bytes; CSV files may be at most ${DATASET_MAX_BYTES} bytes (5 MB).`, {
+      limitBytes: DATASET_MAX_BYTES,
+    });
   }
   const type = req.headers.get("content-type") ?? "";
   if (!/^multipart\/form-data/i.test(type)) {
-    throw new ApiError("bad_request", "Send the dataset as multipart/form-data with fields file, name, xColumn, xUnit, yColumn, yUnit and optionally sigmaColumn.", { contentType: type || null });
+    throw new ApiError(
+      "bad_request",
+      "Send the dataset as multipart/form-data with fields file, name, xColumn, xUnit, yColumn, yUnit and optionally sigmaColumn.",
+      { contentType: type || null },
+    );
   }
   let form: FormData;
   try {
@@ -126,7 +131,11 @@ export async function createDatasetFromRequest(caller: Caller, req: Request) {
   }
   const file = form.get("file");
   if (!file || typeof file === "string") throw new ApiError("invalid_input", "file: attach the CSV file in the multipart field `file`.", { field: "file" });
-  if (file.size > DATASET_MAX_BYTES) throw new ApiError("payload_too_large", `file: ${file.size} bytes; CSV files may be at most ${DATASET_MAX_BYTES} bytes (5 MB).`, { field: "file", limitBytes: DATASET_MAX_BYTES });
+  if (file.size > DATASET_MAX_BYTES)
+    throw new ApiError("payload_too_large", `file: ${file.size} bytes; CSV files may be at most ${DATASET_MAX_BYTES} bytes (5 MB).`, {
+      field: "file",
+      limitBytes: DATASET_MAX_BYTES,
+    });
   const fields: Record<string, string> = {};
   for (const key of ["name", "xColumn", "xUnit", "yColumn", "yUnit", "sigmaColumn", "temperatureColumn", "description"]) {
     const v = form.get(key);
@@ -142,7 +151,14 @@ export async function createDatasetFromRequest(caller: Caller, req: Request) {
     throw new ApiError("invalid_input", "file: the file is not UTF-8 text; save the CSV as UTF-8.", { field: "file" });
   }
   const f = parsedFields.data;
-  const mapping: ColumnMapping = { xColumn: f.xColumn, xUnit: f.xUnit, yColumn: f.yColumn, yUnit: f.yUnit, ...(f.sigmaColumn ? { sigmaColumn: f.sigmaColumn } : {}), ...(f.temperatureColumn ? { temperatureColumn: f.temperatureColumn } : {}) };
+  const mapping: ColumnMapping = {
+    xColumn: f.xColumn,
+    xUnit: f.xUnit,
+    yColumn: f.yColumn,
+    yUnit: f.yUnit,
+    ...(f.sigmaColumn ? { sigmaColumn: f.sigmaColumn } : {}),
+    ...(f.temperatureColumn ? { temperatureColumn: f.temperatureColumn } : {}),
+  };
   const row = await insertDataset(caller.workspaceId, caller.userId, { name: f.name, csv, filename: file.name || null, mapping, description: f.description });
   return datasetSummary(row);
 }
@@ -152,7 +168,8 @@ export async function listDatasets(caller: Caller, query: URLSearchParams) {
   const limit = Math.max(1, Math.min(200, Number(query.get("limit") ?? 50) || 50));
   const before = query.get("before");
   const beforeDate = before ? new Date(before) : null;
-  if (before && Number.isNaN(beforeDate!.getTime())) throw new ApiError("invalid_input", "before: must be an ISO time (the createdAt of the last item of the previous page).", { field: "before" });
+  if (before && Number.isNaN(beforeDate!.getTime()))
+    throw new ApiError("invalid_input", "before: must be an ISO time (the createdAt of the last item of the previous page).", { field: "before" });
   const rows = await getDb()
     .select()
     .from(datasets)
@@ -168,7 +185,10 @@ const uuidRe = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i
 export async function loadDataset(caller: Caller, id: string): Promise<Row> {
   requirePermission(caller, "results.view");
   if (!uuidRe.test(id)) throw new ApiError("not_found", `No dataset ${id} in this workspace.`);
-  const [row] = await getDb().select().from(datasets).where(and(eq(datasets.id, id), eq(datasets.workspaceId, caller.workspaceId)));
+  const [row] = await getDb()
+    .select()
+    .from(datasets)
+    .where(and(eq(datasets.id, id), eq(datasets.workspaceId, caller.workspaceId)));
   if (!row) throw new ApiError("not_found", `No dataset ${id} in this workspace.`);
   return row;
 }
@@ -196,7 +216,11 @@ export async function periodOfDataset(caller: Caller, id: string, body: unknown)
   const parsed = periodOptions.safeParse(body ?? {});
   if (!parsed.success) throw zodToApiError(parsed.error);
   if (d.xQuantity !== "field") {
-    throw new ApiError("invalid_input", `The period analysis needs magnetoconductance versus field; this dataset's x is ${d.xQuantity === "gateVoltage" ? "gate voltage" : "carrier density"}.`, { field: "xUnit" });
+    throw new ApiError(
+      "invalid_input",
+      `The period analysis needs magnetoconductance versus field; this dataset's x is ${d.xQuantity === "gateVoltage" ? "gate voltage" : "carrier density"}.`,
+      { field: "xUnit" },
+    );
   }
   const p = d.points as DatasetPoints;
   try {
@@ -207,4 +231,3 @@ export async function periodOfDataset(caller: Caller, id: string, body: unknown)
     throw err;
   }
 }
-

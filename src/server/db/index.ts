@@ -40,9 +40,6 @@ export async function closeDb(): Promise<void> {
 /** Round trip to the database, for health checks; resolves with the latency in ms. */
 export async function pingDb(timeoutMs = 2000): Promise<number> {
   const started = performance.now();
-  await Promise.race([
-    getSql()`select 1`,
-    new Promise((_, reject) => setTimeout(() => reject(new Error(`no answer within ${timeoutMs} ms`)), timeoutMs)),
-  ]);
+  await Promise.race([getSql()`select 1`, new Promise((_, reject) => setTimeout(() => reject(new Error(`no answer within ${timeoutMs} ms`)), timeoutMs))]);
   return performance.now() - started;
 }

@@ -48,10 +48,14 @@ export const DEMO_NETWORKS: { name: string; definition: NetworkDefinition }[] = 
   { name: "Clean 0.11° triangular network", definition: triangularNetwork({ columns: 24, rows: 24 }, { forward: 0.6, left: 0.2, right: 0.2 }) },
   {
     name: "Disordered 0.11° triangular network",
-    definition: triangularNetwork({ columns: 24, rows: 24 }, { forward: 0.6, left: 0.2, right: 0.2 }, {
-      transverse: "open",
-      disorder: { linkPhaseWidthRad: 6.283185307179586, forwardSpread: 0.05, seed: 7 },
-    }),
+    definition: triangularNetwork(
+      { columns: 24, rows: 24 },
+      { forward: 0.6, left: 0.2, right: 0.2 },
+      {
+        transverse: "open",
+        disorder: { linkPhaseWidthRad: 6.283185307179586, forwardSpread: 0.05, seed: 7 },
+      },
+    ),
   },
   {
     name: "Square network at the critical point",

@@ -79,7 +79,8 @@ export function estimateSeconds(input: ComputeInput): number {
 /** Parameter names a sweep axis may take (the engine's list). */
 export function sweepableParameters(): string[] {
   const p = SWEEPABLE_PARAMETERS as unknown;
-  if (Array.isArray(p)) return p.map((x) => (typeof x === "string" ? x : String((x as { name?: string; parameter?: string }).name ?? (x as { parameter?: string }).parameter)));
+  if (Array.isArray(p))
+    return p.map((x) => (typeof x === "string" ? x : String((x as { name?: string; parameter?: string }).name ?? (x as { parameter?: string }).parameter)));
   if (p && typeof p === "object") return Object.keys(p);
   return [];
 }

@@ -27,14 +27,25 @@ export interface ClaimedFit {
 
 export async function claimFit(fitId: string): Promise<ClaimedFit | null> {
   const db = getDb();
-  const row = await claimJobRow<{ id: string; workspace_id: string; created_by: string | null; dataset_id: string; input: Record<string, unknown>; input_hash: string; estimated_compute_seconds: number; attempts: number }>(db, FIT, fitId, {
+  const row = await claimJobRow<{
+    id: string;
+    workspace_id: string;
+    created_by: string | null;
+    dataset_id: string;
+    input: Record<string, unknown>;
+    input_hash: string;
+    estimated_compute_seconds: number;
+    attempts: number;
+  }>(db, FIT, fitId, {
     returning: sql`id, workspace_id, created_by, dataset_id, input, input_hash, estimated_compute_seconds, attempts`,
   });
   if (!row) {
     await cancelUnstarted(db, FIT, fitId);
     return null;
   }
-  const [d] = await db.execute<{ points: ClaimedFit["points"] }>(sql`select points from datasets where id = ${row.dataset_id} and workspace_id = ${row.workspace_id}`);
+  const [d] = await db.execute<{ points: ClaimedFit["points"] }>(
+    sql`select points from datasets where id = ${row.dataset_id} and workspace_id = ${row.workspace_id}`,
+  );
   if (!d) return null;
   return {
     id: row.id,
@@ -50,12 +61,16 @@ export async function claimFit(fitId: string): Promise<ClaimedFit | null> {
 }
 
 export async function fitShouldStop(fitId: string): Promise<boolean> {
-  const [row] = await getDb().execute<{ stop: boolean }>(sql`select (status <> 'running' or cancel_requested_at is not null) as stop from fits where id = ${fitId}`);
+  const [row] = await getDb().execute<{ stop: boolean }>(
+    sql`select (status <> 'running' or cancel_requested_at is not null) as stop from fits where id = ${fitId}`,
+  );
   return row ? row.stop : true;
 }
 
 export async function writeFitProgress(fitId: string, progress: number, lastIteration: unknown): Promise<void> {
-  await getDb().execute(sql`update fits set progress = ${progress}, last_iteration = ${JSON.stringify(lastIteration)}::jsonb where id = ${fitId} and status = 'running'`);
+  await getDb().execute(
+    sql`update fits set progress = ${progress}, last_iteration = ${JSON.stringify(lastIteration)}::jsonb where id = ${fitId} and status = 'running'`,
+  );
 }
 
 export interface FitOutcome {
@@ -73,7 +88,8 @@ export async function finishFit(fit: ClaimedFit, out: FitOutcome): Promise<boole
     if (!cur) return false;
     let runId = cur.run_id;
     if (!runId) {
-      const summary = out.status === "succeeded" ? { fitId: fit.id, chi2PerDof: (out.result as { chi2PerDof?: number })?.chi2PerDof ?? null } : { fitId: fit.id };
+      const summary =
+        out.status === "succeeded" ? { fitId: fit.id, chi2PerDof: (out.result as { chi2PerDof?: number })?.chi2PerDof ?? null } : { fitId: fit.id };
       const [run] = await tx.execute<{ id: string }>(sql`
         insert into runs (workspace_id, created_by, kind, input, status, progress, result, error, estimated_compute_seconds, compute_seconds, engine_version, input_hash, attempts, started_at, finished_at)
         values (${fit.workspaceId}, ${fit.createdBy}, 'fit', ${JSON.stringify({ fitId: fit.id, ...fit.input })}::jsonb, ${out.status}, 1,
@@ -83,10 +99,16 @@ export async function finishFit(fit: ClaimedFit, out: FitOutcome): Promise<boole
       runId = run.id;
       await writeLedgerRow(tx, { workspaceId: fit.workspaceId, userId: fit.createdBy, runId, computeSeconds: out.computeSeconds });
     }
-    await finishJobRow(tx, FIT, fit.id, out.status, sql`
+    await finishJobRow(
+      tx,
+      FIT,
+      fit.id,
+      out.status,
+      sql`
       progress = ${out.status === "succeeded" ? 1 : sql`progress`}, result = ${out.result === undefined ? null : JSON.stringify(out.result)}::jsonb,
       error = ${out.error ? JSON.stringify(out.error) : null}::jsonb, compute_seconds = ${out.computeSeconds}, engine_version = ${out.engineVersion},
-      run_id = ${runId}`);
+      run_id = ${runId}`,
+    );
     return true;
   });
 }

@@ -16,7 +16,13 @@ export interface FitTask {
 
 export type FitTaskOutcome =
   | { outcome: "succeeded"; result: unknown; cpuSeconds: number; cpuSource: CpuSource; engineVersion: string }
-  | { outcome: "cancelled" | "failed"; error: { code: string; message: string; field?: string }; cpuSeconds: number; cpuSource: CpuSource; engineVersion: string };
+  | {
+      outcome: "cancelled" | "failed";
+      error: { code: string; message: string; field?: string };
+      cpuSeconds: number;
+      cpuSource: CpuSource;
+      engineVersion: string;
+    };
 
 const clock = cpuClock();
 
@@ -25,7 +31,13 @@ export default function runFitTask(task: FitTask): FitTaskOutcome {
   const floats = new Float64Array(task.control, 8, 2);
   const spent = startCpuMeter(clock);
   try {
-    const { network, computation, sweepParameter, fit, options } = task.input as { network: unknown; computation: unknown; sweepParameter: string; fit: FitJobInput["fit"]; options?: FitJobInput["options"] };
+    const { network, computation, sweepParameter, fit, options } = task.input as {
+      network: unknown;
+      computation: unknown;
+      sweepParameter: string;
+      fit: FitJobInput["fit"];
+      options?: FitJobInput["options"];
+    };
     const input = parseComputeInput({ network, computation });
     const result = runFit(
       engine,
@@ -39,7 +51,13 @@ export default function runFitTask(task: FitTask): FitTaskOutcome {
         },
       },
     );
-    return { outcome: "succeeded", result: { ...result, engineVersion: ENGINE_VERSION }, cpuSeconds: spent(), cpuSource: clock.source, engineVersion: ENGINE_VERSION };
+    return {
+      outcome: "succeeded",
+      result: { ...result, engineVersion: ENGINE_VERSION },
+      cpuSeconds: spent(),
+      cpuSource: clock.source,
+      engineVersion: ENGINE_VERSION,
+    };
   } catch (err) {
     const base = { cpuSeconds: spent(), cpuSource: clock.source, engineVersion: ENGINE_VERSION };
     if (err instanceof FitCancelled) return { outcome: "cancelled", error: { code: "cancelled", message: err.message }, ...base };

@@ -59,7 +59,10 @@ export class FitCancelled extends Error {
 }
 
 export class FitInputError extends Error {
-  constructor(message: string, readonly field: string) {
+  constructor(
+    message: string,
+    readonly field: string,
+  ) {
     super(message);
     this.name = "FitInputError";
   }
@@ -76,7 +79,8 @@ export function validateSpecs(specs: FitParameterSpec[], points: number): void {
     if (!(s.min < s.max)) throw new FitInputError(`${f}: min (${s.min}) must be below max (${s.max}).`, `${f}.min`);
     if (s.initial < s.min || s.initial > s.max) throw new FitInputError(`${f}.initial: ${s.initial} is outside [${s.min}, ${s.max}].`, `${f}.initial`);
   });
-  if (points <= specs.length) throw new FitInputError(`The dataset has ${points} points; fitting ${specs.length} parameters needs more points than parameters.`, "fit");
+  if (points <= specs.length)
+    throw new FitInputError(`The dataset has ${points} points; fitting ${specs.length} parameters needs more points than parameters.`, "fit");
 }
 
 /** Deterministic generator for the multi-start points (mulberry32). */

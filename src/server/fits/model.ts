@@ -52,7 +52,14 @@ export interface FitJobInput {
 }
 
 /** The model curve for given parameter values: one engine computation per data point. */
-export function engineCurve(engine: EngineLike, base: unknown, sweepParameter: string, x: number[], values: Record<string, number>, shouldCancel?: () => boolean): number[] {
+export function engineCurve(
+  engine: EngineLike,
+  base: unknown,
+  sweepParameter: string,
+  x: number[],
+  values: Record<string, number>,
+  shouldCancel?: () => boolean,
+): number[] {
   let input = base;
   for (const [p, v] of Object.entries(values)) input = engine.applyParameter(input as never, p, v);
   return x.map((xi) => conductanceOf(engine.compute(engine.applyParameter(input as never, sweepParameter, xi) as never, { shouldCancel })));

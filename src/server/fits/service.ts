@@ -34,7 +34,12 @@ export const fitBody = z
       .object({
         multiStart: z.number().int().min(1).max(16).optional(),
         maxIterations: z.number().int().min(1).max(200).optional(),
-        seed: z.number().int().min(0).max(2 ** 31 - 1).optional(),
+        seed: z
+          .number()
+          .int()
+          .min(0)
+          .max(2 ** 31 - 1)
+          .optional(),
       })
       .strict()
       .optional(),
@@ -53,7 +58,10 @@ export async function createFit(caller: Caller, raw: unknown): Promise<FitCreate
   const body = parsed.data;
   if (!uuidRe.test(body.datasetId)) throw new ApiError("not_found", `datasetId: no dataset ${body.datasetId} in this workspace.`, { field: "datasetId" });
   const db = getDb();
-  const [dataset] = await db.select().from(datasets).where(and(eq(datasets.id, body.datasetId), eq(datasets.workspaceId, caller.workspaceId)));
+  const [dataset] = await db
+    .select()
+    .from(datasets)
+    .where(and(eq(datasets.id, body.datasetId), eq(datasets.workspaceId, caller.workspaceId)));
   if (!dataset) throw new ApiError("not_found", `datasetId: no dataset ${body.datasetId} in this workspace.`, { field: "datasetId" });
   const allowed = SWEEP_FOR_QUANTITY[dataset.xQuantity] ?? [];
   if (!allowed.includes(body.sweepParameter)) {
@@ -70,7 +78,8 @@ export async function createFit(caller: Caller, raw: unknown): Promise<FitCreate
   const sent = raw as { network?: unknown; computation?: Record<string, unknown> };
   const computation: Record<string, unknown> = Object.create(null);
   for (const key of Object.keys(sent.computation ?? {})) computation[key] = (sent.computation as Record<string, unknown>)[key];
-  if (computation.kind !== undefined && computation.kind !== "conductance") throw new ApiError("invalid_input", "computation.kind: fits compare conductance; use \"conductance\".", { field: "computation.kind" });
+  if (computation.kind !== undefined && computation.kind !== "conductance")
+    throw new ApiError("invalid_input", 'computation.kind: fits compare conductance; use "conductance".', { field: "computation.kind" });
   computation.kind = "conductance";
   // The same network resolution and engine validation as runs (saved network in this workspace or
   // inline; engine errors answer 422 with the field through the engine door's mapper; plan limits).
@@ -131,7 +140,11 @@ export async function createFit(caller: Caller, raw: unknown): Promise<FitCreate
   return {
     id: row.id,
     status: row.status,
-    estimate: { computeSeconds: round(estimatedComputeSeconds, 3), costUsd: round(computeCostUsd(caller.plan, estimatedComputeSeconds), 4), engineEvaluations: evaluations * points.x.length },
+    estimate: {
+      computeSeconds: round(estimatedComputeSeconds, 3),
+      costUsd: round(computeCostUsd(caller.plan, estimatedComputeSeconds), 4),
+      engineEvaluations: evaluations * points.x.length,
+    },
   };
 }
 
@@ -147,7 +160,13 @@ export function fitView(f: FitRow, datasetName?: string): Omit<FitDetail, "datas
     lastIteration: f.lastIteration,
     result: f.result,
     error: f.error,
-    settings: { network: f.input.network, computation: f.input.computation, sweepParameter: f.input.sweepParameter, fit: f.input.fit, options: f.input.options },
+    settings: {
+      network: f.input.network,
+      computation: f.input.computation,
+      sweepParameter: f.input.sweepParameter,
+      fit: f.input.fit,
+      options: f.input.options,
+    },
     estimatedComputeSeconds: f.estimatedComputeSeconds,
     computeSeconds: f.computeSeconds,
     engineVersion: f.engineVersion,
@@ -181,14 +200,21 @@ export async function listFits(caller: Caller, query: URLSearchParams): Promise<
   const limit = Math.max(1, Math.min(200, Number(query.get("limit") ?? 50) || 50));
   const before = query.get("before");
   const beforeDate = before ? new Date(before) : null;
-  if (before && Number.isNaN(beforeDate!.getTime())) throw new ApiError("invalid_input", "before: must be an ISO time (createdAt of the last item of the previous page).", { field: "before" });
+  if (before && Number.isNaN(beforeDate!.getTime()))
+    throw new ApiError("invalid_input", "before: must be an ISO time (createdAt of the last item of the previous page).", { field: "before" });
   const datasetId = query.get("datasetId");
   if (datasetId && !uuidRe.test(datasetId)) throw new ApiError("invalid_input", "datasetId: must be a dataset id.", { field: "datasetId" });
   const rows = await getDb()
     .select({ fit: fits, datasetName: datasets.name })
     .from(fits)
     .innerJoin(datasets, eq(datasets.id, fits.datasetId))
-    .where(and(eq(fits.workspaceId, caller.workspaceId), beforeDate ? lt(fits.createdAt, beforeDate) : undefined, datasetId ? eq(fits.datasetId, datasetId) : undefined))
+    .where(
+      and(
+        eq(fits.workspaceId, caller.workspaceId),
+        beforeDate ? lt(fits.createdAt, beforeDate) : undefined,
+        datasetId ? eq(fits.datasetId, datasetId) : undefined,
+      ),
+    )
     .orderBy(desc(fits.createdAt), desc(fits.id))
     .limit(limit + 1);
   const items = rows.slice(0, limit).map((r) => {
@@ -215,7 +241,10 @@ export async function cancelFit(caller: Caller, id: string): Promise<FitDetail> 
 /** The export: every setting, the engine version, the data hash, the result. */
 export async function exportFit(caller: Caller, id: string): Promise<FitExport> {
   const r = await loadFit(caller, id);
-  const [d] = await getDb().select().from(datasets).where(and(eq(datasets.id, r.fit.datasetId), eq(datasets.workspaceId, caller.workspaceId)));
+  const [d] = await getDb()
+    .select()
+    .from(datasets)
+    .where(and(eq(datasets.id, r.fit.datasetId), eq(datasets.workspaceId, caller.workspaceId)));
   const v = fitView(r.fit, r.datasetName);
   return {
     format: "triskel-fit-report/1",
@@ -223,7 +252,18 @@ export async function exportFit(caller: Caller, id: string): Promise<FitExport> 
     fit: { id: v.id, status: v.status, createdAt: v.createdAt, finishedAt: v.finishedAt, computeSeconds: v.computeSeconds },
     engineVersion: v.engineVersion,
     inputHash: v.inputHash,
-    dataset: { id: d.id, name: d.name, synthetic: d.synthetic, dataHash: d.dataHash, dataHashAlgorithm: "sha256 of the original file", mapping: d.mapping, rows: d.rows, xUnit: d.xUnit, yUnit: "e2/h", originalFilename: d.originalFilename },
+    dataset: {
+      id: d.id,
+      name: d.name,
+      synthetic: d.synthetic,
+      dataHash: d.dataHash,
+      dataHashAlgorithm: "sha256 of the original file",
+      mapping: d.mapping,
+      rows: d.rows,
+      xUnit: d.xUnit,
+      yUnit: "e2/h",
+      originalFilename: d.originalFilename,
+    },
     settings: v.settings,
     algorithm: {
       method: "Levenberg-Marquardt (ml-levenberg-marquardt 5.1 steps; bounded, in coordinates scaled to the bounds)",
@@ -231,7 +271,8 @@ export async function exportFit(caller: Caller, id: string): Promise<FitExport> 
       model: "engine two-terminal conductance, total over valleys and spins, in e2/h, at every data x",
     },
     result: v.result,
-    caution: "Results are predictions of a phenomenological model, not measurements; node probabilities and mode velocity are model parameters, not material constants.",
+    caution:
+      "Results are predictions of a phenomenological model, not measurements; node probabilities and mode velocity are model parameters, not material constants.",
   };
 }
 

@@ -39,6 +39,7 @@ export function beforeCursor(createdAt: AnyColumn, id: AnyColumn, cursor: Cursor
 export function pageLimit(raw: string | null, fallback = 50): number {
   if (raw === null || raw === "") return fallback;
   const n = Number(raw);
-  if (!Number.isInteger(n) || n < 1 || n > 200) throw new ApiError("bad_request", `limit: must be a whole number from 1 to 200 (got "${raw}").`, { field: "limit" });
+  if (!Number.isInteger(n) || n < 1 || n > 200)
+    throw new ApiError("bad_request", `limit: must be a whole number from 1 to 200 (got "${raw}").`, { field: "limit" });
   return n;
 }

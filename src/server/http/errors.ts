@@ -84,8 +84,27 @@ function mapKnownError(err: unknown): ApiError | undefined {
  * PostgreSQL or Redis unreachable (refused, reset, closed, starting up or shutting down): 503
  * with a message instead of a 500, so clients retry; the connection pools reconnect by themselves.
  */
-const DOWN_CODES = new Set(["ECONNREFUSED", "ECONNRESET", "EPIPE", "ETIMEDOUT", "EHOSTUNREACH", "CONNECTION_CLOSED", "CONNECTION_ENDED", "CONNECTION_DESTROYED", "CONNECT_TIMEOUT", "57P01", "57P02", "57P03", "08000", "08001", "08003", "08004", "08006"]);
-const DOWN_MESSAGE = /ECONNREFUSED|ECONNRESET|Connection is closed|Stream isn't writeable|connection (terminated|ended|closed|destroyed)|write CONNECTION_|the database system is (starting up|shutting down|in recovery)|terminating connection due to administrator command|Reached the max retries per request limit/i;
+const DOWN_CODES = new Set([
+  "ECONNREFUSED",
+  "ECONNRESET",
+  "EPIPE",
+  "ETIMEDOUT",
+  "EHOSTUNREACH",
+  "CONNECTION_CLOSED",
+  "CONNECTION_ENDED",
+  "CONNECTION_DESTROYED",
+  "CONNECT_TIMEOUT",
+  "57P01",
+  "57P02",
+  "57P03",
+  "08000",
+  "08001",
+  "08003",
+  "08004",
+  "08006",
+]);
+const DOWN_MESSAGE =
+  /ECONNREFUSED|ECONNRESET|Connection is closed|Stream isn't writeable|connection (terminated|ended|closed|destroyed)|write CONNECTION_|the database system is (starting up|shutting down|in recovery)|terminating connection due to administrator command|Reached the max retries per request limit/i;
 function dependencyDown(err: unknown): ApiError | undefined {
   for (let e: unknown = err, depth = 0; e && typeof e === "object" && depth < 5; e = (e as { cause?: unknown }).cause, depth++) {
     const { code, message, errors } = e as { code?: unknown; message?: unknown; errors?: unknown };
@@ -93,7 +112,13 @@ function dependencyDown(err: unknown): ApiError | undefined {
       (typeof code === "string" && DOWN_CODES.has(code)) ||
       (typeof message === "string" && DOWN_MESSAGE.test(message)) ||
       (Array.isArray(errors) && errors.some((x) => DOWN_CODES.has((x as { code?: string })?.code ?? "")));
-    if (isDown) return new ApiError("unavailable", "A service Triskel depends on (database, queue or mail) is unreachable right now; retry in a few seconds.", { retryable: true }, { "Retry-After": "5" });
+    if (isDown)
+      return new ApiError(
+        "unavailable",
+        "A service Triskel depends on (database, queue or mail) is unreachable right now; retry in a few seconds.",
+        { retryable: true },
+        { "Retry-After": "5" },
+      );
   }
   return undefined;
 }

@@ -6,5 +6,16 @@
  */
 export { ENGINE_RUN_KINDS, JOB_KINDS, jobData, jobOptions, rowIdOf, type JobItem, type JobKind, type JobKindName } from "./kinds";
 export { ENQUEUE_TIMEOUT_MS, enqueueAfterCommit, enqueueJobs, withTimeout } from "./enqueue";
-export { cancelUnstarted, claimJobRow, finishJobRow, lockRunningRow, markJobFailed, requeueStaleRunning, unfinishedJobs, writeLedgerRow, type Executor, type UnfinishedJob } from "./lifecycle";
+export {
+  cancelUnstarted,
+  claimJobRow,
+  finishJobRow,
+  lockRunningRow,
+  markJobFailed,
+  requeueStaleRunning,
+  unfinishedJobs,
+  writeLedgerRow,
+  type Executor,
+  type UnfinishedJob,
+} from "./lifecycle";
 export { recoverLostJobs, type RecoveryOptions } from "./recovery";

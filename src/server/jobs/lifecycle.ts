@@ -113,7 +113,10 @@ export async function requeueStaleRunning(kind: JobKind, ids: string[], staleAft
   if (ids.length === 0 || !kind.heartbeats) return [];
   const rows = await getDb().execute<{ id: string }>(sql`
     update ${tableOf(kind)} set status = 'queued', worker_id = null, progress = 0
-    where id in (${sql.join(ids.map((id) => sql`${id}::uuid`), sql`, `)}) and status = 'running' and ${kind.scope}
+    where id in (${sql.join(
+      ids.map((id) => sql`${id}::uuid`),
+      sql`, `,
+    )}) and status = 'running' and ${kind.scope}
       and (heartbeat_at is null or heartbeat_at < now() - make_interval(secs => ${staleAfterMs / 1000}))
     returning id`);
   return rows.map((r) => r.id);

@@ -1,7 +1,14 @@
 import { escapeHtml, type OutgoingMail } from "./index";
 
 /** The invitation e-mail: who invites, to which workspace, with which role, and the one link. */
-export function invitationMail(input: { to: string; inviterName: string; workspaceName: string; roleLabel: string; link: string; expiresAt: Date }): OutgoingMail {
+export function invitationMail(input: {
+  to: string;
+  inviterName: string;
+  workspaceName: string;
+  roleLabel: string;
+  link: string;
+  expiresAt: Date;
+}): OutgoingMail {
   const until = input.expiresAt.toUTCString().replace(/:\d\d GMT$/, " UTC");
   const subject = `${input.inviterName} invites you to ${input.workspaceName} on Triskel`;
   const text = [

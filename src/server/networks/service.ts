@@ -70,13 +70,19 @@ export async function createNetwork(caller: Caller, body: unknown) {
 
 async function loadNetwork(caller: Caller, id: string): Promise<NetworkRow> {
   if (!uuidLike.test(id)) notFound(id);
-  const [n] = await getDb().select().from(networks).where(and(eq(networks.id, id), eq(networks.workspaceId, caller.workspaceId)));
+  const [n] = await getDb()
+    .select()
+    .from(networks)
+    .where(and(eq(networks.id, id), eq(networks.workspaceId, caller.workspaceId)));
   if (!n) notFound(id);
   return n;
 }
 
 async function loadVersion(networkId: string, version: number): Promise<VersionRow> {
-  const [v] = await getDb().select().from(networkVersions).where(and(eq(networkVersions.networkId, networkId), eq(networkVersions.version, version)));
+  const [v] = await getDb()
+    .select()
+    .from(networkVersions)
+    .where(and(eq(networkVersions.networkId, networkId), eq(networkVersions.version, version)));
   if (!v) throw new ApiError("not_found", `Network ${networkId} has no version ${version}.`, { networkId, version });
   return v;
 }
@@ -84,8 +90,14 @@ async function loadVersion(networkId: string, version: number): Promise<VersionR
 async function usage(networkId: string) {
   const db = getDb();
   const versionIds = db.select({ id: networkVersions.id }).from(networkVersions).where(eq(networkVersions.networkId, networkId));
-  const [r] = await db.select({ n: sql<number>`count(*)::int` }).from(runs).where(inArray(runs.networkVersionId, versionIds));
-  const [s] = await db.select({ n: sql<number>`count(*)::int` }).from(sweeps).where(inArray(sweeps.networkVersionId, versionIds));
+  const [r] = await db
+    .select({ n: sql<number>`count(*)::int` })
+    .from(runs)
+    .where(inArray(runs.networkVersionId, versionIds));
+  const [s] = await db
+    .select({ n: sql<number>`count(*)::int` })
+    .from(sweeps)
+    .where(inArray(sweeps.networkVersionId, versionIds));
   return { runs: r?.n ?? 0, sweeps: s?.n ?? 0 };
 }
 
@@ -110,12 +122,7 @@ export async function listNetworks(caller: Caller, query: URLSearchParams) {
     .select({ n: networks, v: networkVersions, at: createdAtText(networks.createdAt) })
     .from(networks)
     .innerJoin(networkVersions, and(eq(networkVersions.networkId, networks.id), eq(networkVersions.version, networks.currentVersion)))
-    .where(
-      and(
-        eq(networks.workspaceId, caller.workspaceId),
-        beforeCursor(networks.createdAt, networks.id, cursor),
-      ),
-    )
+    .where(and(eq(networks.workspaceId, caller.workspaceId), beforeCursor(networks.createdAt, networks.id, cursor)))
     .orderBy(desc(networks.createdAt), desc(networks.id))
     .limit(limit + 1);
   const page = rows.slice(0, limit);
@@ -131,7 +138,8 @@ function deepMerge(base: Record<string, unknown>, patch: Record<string, unknown>
   for (const [k, v] of Object.entries(patch)) {
     const b = out[k];
     if (v === null) delete out[k];
-    else if (v && typeof v === "object" && !Array.isArray(v) && b && typeof b === "object" && !Array.isArray(b)) out[k] = deepMerge(b as Record<string, unknown>, v as Record<string, unknown>);
+    else if (v && typeof v === "object" && !Array.isArray(v) && b && typeof b === "object" && !Array.isArray(b))
+      out[k] = deepMerge(b as Record<string, unknown>, v as Record<string, unknown>);
     else out[k] = v;
   }
   return out;
@@ -167,7 +175,10 @@ export async function updateNetwork(caller: Caller, id: string, body: unknown, m
       version += 1;
       [v] = await tx.insert(networkVersions).values({ networkId: n.id, version, definition: next, createdBy: caller.userId }).returning();
     } else {
-      [v] = await tx.select().from(networkVersions).where(and(eq(networkVersions.networkId, n.id), eq(networkVersions.version, version)));
+      [v] = await tx
+        .select()
+        .from(networkVersions)
+        .where(and(eq(networkVersions.networkId, n.id), eq(networkVersions.version, version)));
     }
     const [updated] = await tx
       .update(networks)
@@ -191,10 +202,13 @@ export async function deleteNetwork(caller: Caller, id: string): Promise<void> {
     );
   }
   try {
-    await getDb().delete(networks).where(and(eq(networks.id, n.id), eq(networks.workspaceId, caller.workspaceId)));
+    await getDb()
+      .delete(networks)
+      .where(and(eq(networks.id, n.id), eq(networks.workspaceId, caller.workspaceId)));
   } catch (err) {
     // A run submitted between the check and the delete: the foreign key (restrict) refuses it.
-    if ((err as { code?: string }).code === "23503") throw new ApiError("conflict", `Network "${n.name}" is now used by a run; it cannot be deleted.`, { networkId: n.id });
+    if ((err as { code?: string }).code === "23503")
+      throw new ApiError("conflict", `Network "${n.name}" is now used by a run; it cannot be deleted.`, { networkId: n.id });
     throw err;
   }
 }

@@ -34,7 +34,13 @@ export function getQueue(name: QueueName): Queue {
 /** Round trip to Redis for health checks; a fresh short-lived connection so a dead server fails fast. */
 export async function pingRedis(timeoutMs = 2000): Promise<number> {
   const started = performance.now();
-  const probe = new Redis(env().REDIS_URL, { maxRetriesPerRequest: 0, connectTimeout: timeoutMs, lazyConnect: true, enableOfflineQueue: false, retryStrategy: () => null });
+  const probe = new Redis(env().REDIS_URL, {
+    maxRetriesPerRequest: 0,
+    connectTimeout: timeoutMs,
+    lazyConnect: true,
+    enableOfflineQueue: false,
+    retryStrategy: () => null,
+  });
   probe.on("error", () => {});
   try {
     await Promise.race([

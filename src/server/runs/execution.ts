@@ -34,11 +34,16 @@ export async function claimRun(runId: string, workerId: string): Promise<Claimed
     const [pre] = await tx.execute<{ sweep_id: string | null }>(sql`select sweep_id from runs where id = ${runId}`);
     if (!pre) return null;
     if (pre.sweep_id) await tx.execute(sql`select 1 from sweeps where id = ${pre.sweep_id} for update`);
-    const row = await claimJobRow<{ id: string; workspace_id: string; created_by: string | null; sweep_id: string | null; input: unknown; attempts: number }>(tx, RUN, runId, {
-      set: sql`heartbeat_at = now(), worker_id = ${workerId}, progress = 0`,
-      where: sql`not ${sweepCancelled}`,
-      returning: sql`id, workspace_id, created_by, sweep_id, input, attempts`,
-    });
+    const row = await claimJobRow<{ id: string; workspace_id: string; created_by: string | null; sweep_id: string | null; input: unknown; attempts: number }>(
+      tx,
+      RUN,
+      runId,
+      {
+        set: sql`heartbeat_at = now(), worker_id = ${workerId}, progress = 0`,
+        where: sql`not ${sweepCancelled}`,
+        returning: sql`id, workspace_id, created_by, sweep_id, input, attempts`,
+      },
+    );
     if (!row) {
       // Cancellation requested before it started (or its sweep was cancelled): cancelled, nothing spent.
       const cancelled = await cancelUnstarted(tx, RUN, runId, sweepCancelled);
@@ -82,10 +87,16 @@ export async function finishRun(run: ClaimedRun, out: RunOutcome): Promise<boole
     if (run.sweepId) await tx.execute(sql`select 1 from sweeps where id = ${run.sweepId} for update`);
     const result = out.outcome === "succeeded" && out.resultJson !== undefined ? sql`${out.resultJson}::json` : sql`null`;
     const error = out.error ? sql`${JSON.stringify(out.error)}::jsonb` : sql`null`;
-    const written = await finishJobRow(tx, RUN, run.id, out.outcome, sql`
+    const written = await finishJobRow(
+      tx,
+      RUN,
+      run.id,
+      out.outcome,
+      sql`
       result = ${result}, error = ${error}, compute_seconds = ${out.cpuSeconds}, engine_version = ${out.engineVersion},
       input_hash = coalesce(${out.inputHash}, input_hash),
-      progress = case when ${out.outcome === "succeeded"} then 1 else progress end, heartbeat_at = now()`);
+      progress = case when ${out.outcome === "succeeded"} then 1 else progress end, heartbeat_at = now()`,
+    );
     if (!written) return false;
     // Every succeeded run has its row (a sweep's points each have one); a cancelled run has one when it spent compute.
     if (out.outcome === "succeeded" || (out.outcome === "cancelled" && out.cpuSeconds > 0)) {

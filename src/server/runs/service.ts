@@ -46,10 +46,13 @@ export async function resolveSubmission(
   const hasInline = body.network !== undefined;
   const hasId = body.networkId !== undefined;
   if (hasInline === hasId) {
-    throw new ApiError("invalid_input", "Send exactly one of `network` (an inline network description) or `networkId` (a saved network).", { field: hasInline ? "networkId" : "network" });
+    throw new ApiError("invalid_input", "Send exactly one of `network` (an inline network description) or `networkId` (a saved network).", {
+      field: hasInline ? "networkId" : "network",
+    });
   }
   if (body.networkVersion !== undefined && !hasId) throw new ApiError("invalid_input", "networkVersion: only with networkId.", { field: "networkVersion" });
-  if (body.computation === undefined) throw new ApiError("invalid_input", "computation: required; say what to compute (engine schema).", { field: "computation" });
+  if (body.computation === undefined)
+    throw new ApiError("invalid_input", "computation: required; say what to compute (engine schema).", { field: "computation" });
   let network = body.network;
   let networkVersionId: string | null = null;
   if (hasId) {
@@ -104,7 +107,14 @@ export async function createRun(caller: Caller, body: unknown): Promise<RunCreat
     })
     .returning();
   await enqueueAfterCommit("run", [{ id: row.id, priority }]);
-  return { id: row.id, status: row.status, estimate: estimateView(caller.plan, estimated), kind: row.kind, inputHash: row.inputHash, createdAt: row.createdAt.toISOString() };
+  return {
+    id: row.id,
+    status: row.status,
+    estimate: estimateView(caller.plan, estimated),
+    kind: row.kind,
+    inputHash: row.inputHash,
+    createdAt: row.createdAt.toISOString(),
+  };
 }
 
 const runColumns = {
@@ -149,8 +159,14 @@ export function runDetail(r: RunJoined, plan: Caller["plan"]): RunDetail {
 const listQuery = z.object({
   status: z.enum(RUN_STATUSES).optional(),
   kind: z.string().min(1).max(40).optional(),
-  networkId: z.string().regex(/^[0-9a-f-]{36}$/i, "must be a network id").optional(),
-  sweepId: z.string().regex(/^[0-9a-f-]{36}$/i, "must be a sweep id").optional(),
+  networkId: z
+    .string()
+    .regex(/^[0-9a-f-]{36}$/i, "must be a network id")
+    .optional(),
+  sweepId: z
+    .string()
+    .regex(/^[0-9a-f-]{36}$/i, "must be a sweep id")
+    .optional(),
   includeSweepPoints: z.enum(["true", "false"]).optional(),
 });
 
@@ -165,7 +181,10 @@ export async function listRuns(caller: Caller, query: URLSearchParams): Promise<
   const where: (SQL | undefined)[] = [eq(runs.workspaceId, caller.workspaceId), beforeCursor(runs.createdAt, runs.id, cursor)];
   if (f.status) where.push(eq(runs.status, f.status));
   if (f.kind) where.push(eq(runs.kind, f.kind));
-  if (f.networkId) where.push(inArray(runs.networkVersionId, getDb().select({ id: networkVersions.id }).from(networkVersions).where(eq(networkVersions.networkId, f.networkId))));
+  if (f.networkId)
+    where.push(
+      inArray(runs.networkVersionId, getDb().select({ id: networkVersions.id }).from(networkVersions).where(eq(networkVersions.networkId, f.networkId))),
+    );
   if (f.sweepId) where.push(eq(runs.sweepId, f.sweepId));
   else if (f.includeSweepPoints !== "true") where.push(isNull(runs.sweepId));
   const rows = await getDb()
@@ -223,7 +242,9 @@ export async function cancelRun(caller: Caller, id: string): Promise<RunDetail> 
     where id = ${id} and workspace_id = ${caller.workspaceId} and status in ('queued', 'running')
     returning status`);
   if (updated.length === 0) {
-    throw new ApiError("conflict", `Run ${id} has already ${r.run.status === "cancelled" ? "been cancelled" : r.run.status}; nothing to cancel.`, { status: r.run.status });
+    throw new ApiError("conflict", `Run ${id} has already ${r.run.status === "cancelled" ? "been cancelled" : r.run.status}; nothing to cancel.`, {
+      status: r.run.status,
+    });
   }
   if (r.run.sweepId) await refreshSweepAfterCancel(r.run.sweepId);
   return getRun(caller, id);

@@ -12,7 +12,6 @@ export type { SweepCounts };
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 type Executor = Db | Tx;
 
-
 /** Status of a sweep from its points' counts. */
 export function deriveSweepStatus(c: SweepCounts, cancelRequested: boolean): "queued" | "running" | "succeeded" | "failed" | "cancelled" {
   const unfinished = c.queued + c.running;

@@ -20,9 +20,7 @@ const finite = z.number().refine(Number.isFinite, "must be a finite number");
 
 export const axisSchema = z.union([
   z.object({ parameter: parameterName, values: z.array(finite).min(1, "needs at least one value") }).strict(),
-  z
-    .object({ parameter: parameterName, from: finite, to: finite, points: z.number().int().min(1, "must be at least 1").max(1_000_000) })
-    .strict(),
+  z.object({ parameter: parameterName, from: finite, to: finite, points: z.number().int().min(1, "must be at least 1").max(1_000_000) }).strict(),
 ]);
 
 export const axesSchema = z.array(axisSchema).min(1, "needs one or two axes").max(2, "at most two axes");

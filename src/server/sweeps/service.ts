@@ -16,7 +16,17 @@ import { assertWithinBudget } from "@/server/billing/budget";
 import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/billing/limits";
 import { getDb } from "@/server/db";
 import { networkVersions, runs, sweeps } from "@/server/db/schema";
-import { ENGINE_VERSION, applyParameter, estimateSeconds, inputHash, kindOf, networkSize, parseInput, sweepableParameters, type ComputeInput } from "@/server/engine";
+import {
+  ENGINE_VERSION,
+  applyParameter,
+  estimateSeconds,
+  inputHash,
+  kindOf,
+  networkSize,
+  parseInput,
+  sweepableParameters,
+  type ComputeInput,
+} from "@/server/engine";
 import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
 import { isUuid } from "@/server/networks/service";
@@ -49,9 +59,14 @@ function checkParameters(axes: ResolvedAxis[]) {
   const allowed = sweepableParameters();
   axes.forEach((a, k) => {
     const known = allowed.length === 0 || allowed.includes(a.parameter) || allowed.some((p) => p.endsWith(".*") && a.parameter.startsWith(p.slice(0, -1)));
-    if (!known) throw new ApiError("invalid_input", `axes.${k}.parameter: "${a.parameter}" cannot be swept; allowed: ${allowed.join(", ")}.`, { field: `axes.${k}.parameter`, allowed });
+    if (!known)
+      throw new ApiError("invalid_input", `axes.${k}.parameter: "${a.parameter}" cannot be swept; allowed: ${allowed.join(", ")}.`, {
+        field: `axes.${k}.parameter`,
+        allowed,
+      });
   });
-  if (axes.length === 2 && axes[0].parameter === axes[1].parameter) throw new ApiError("invalid_input", "axes.1.parameter: the two axes must sweep different parameters.", { field: "axes.1.parameter" });
+  if (axes.length === 2 && axes[0].parameter === axes[1].parameter)
+    throw new ApiError("invalid_input", "axes.1.parameter: the two axes must sweep different parameters.", { field: "axes.1.parameter" });
 }
 
 async function prepareSweep(caller: Caller, body: unknown) {
@@ -73,7 +88,9 @@ async function prepareSweep(caller: Caller, body: unknown) {
   for (let i = 0; i < pointCount; i++) {
     let input: ComputeInput;
     const coordinates = pointCoordinates(axes, i);
-    const where = `sweep point ${i} (${Object.entries(coordinates).map(([k, v]) => `${k} = ${v}`).join(", ")})`;
+    const where = `sweep point ${i} (${Object.entries(coordinates)
+      .map(([k, v]) => `${k} = ${v}`)
+      .join(", ")})`;
     try {
       input = parseInput(pointInput(base, axes, i));
     } catch (err) {
@@ -98,7 +115,13 @@ async function prepareSweep(caller: Caller, body: unknown) {
 /** Every check of a sweep (the budget's for the sum of its points) and the estimate, writing nothing. */
 export async function estimateSweep(caller: Caller, body: unknown): Promise<SweepDryRun> {
   const { b, axes, pointCount, total } = await prepareSweep(caller, body);
-  return { dryRun: true as const, pointCount, axes, ensemble: b.ensemble ?? null, estimate: { computeSeconds: round(total, 3), costUsd: round(computeCostUsd(caller.plan, total), 4) } };
+  return {
+    dryRun: true as const,
+    pointCount,
+    axes,
+    ensemble: b.ensemble ?? null,
+    estimate: { computeSeconds: round(total, 3), costUsd: round(computeCostUsd(caller.plan, total), 4) },
+  };
 }
 
 export async function createSweep(caller: Caller, body: unknown): Promise<SweepCreated> {
@@ -146,7 +169,10 @@ export async function createSweep(caller: Caller, body: unknown): Promise<SweepC
     }
     return { sweep, ids };
   });
-  await enqueueAfterCommit("run", ids.map((id) => ({ id, priority })));
+  await enqueueAfterCommit(
+    "run",
+    ids.map((id) => ({ id, priority })),
+  );
   return {
     id: sweep.id,
     name: sweep.name,
@@ -299,11 +325,15 @@ export async function cancelSweep(caller: Caller, id: string): Promise<SweepDeta
   else requirePermission(caller, "work.create");
   const live = await getSweep(caller, id);
   if (live.status === "succeeded" || live.status === "failed" || live.status === "cancelled") {
-    throw new ApiError("conflict", `Sweep ${id} has already ${live.status === "cancelled" ? "been cancelled" : live.status}; nothing to cancel.`, { status: live.status });
+    throw new ApiError("conflict", `Sweep ${id} has already ${live.status === "cancelled" ? "been cancelled" : live.status}; nothing to cancel.`, {
+      status: live.status,
+    });
   }
   await getDb().transaction(async (tx) => {
     await tx.execute(sql`update sweeps set cancel_requested_at = coalesce(cancel_requested_at, now()) where id = ${sweep.id}`);
-    await tx.execute(sql`update runs set status = 'cancelled', cancel_requested_at = now(), finished_at = now() where sweep_id = ${sweep.id} and status = 'queued'`);
+    await tx.execute(
+      sql`update runs set status = 'cancelled', cancel_requested_at = now(), finished_at = now() where sweep_id = ${sweep.id} and status = 'queued'`,
+    );
     await tx.execute(sql`update runs set cancel_requested_at = coalesce(cancel_requested_at, now()) where sweep_id = ${sweep.id} and status = 'running'`);
     await refreshSweep(tx, sweep.id);
   });
@@ -331,7 +361,14 @@ export async function sweepResultsCsv(caller: Caller, id: string): Promise<{ fil
     columns.join(","),
   ];
   for (const p of s.points) {
-    const row: unknown[] = [p.index, ...axisNames.map((a) => p.coordinates[a]), p.status, p.runId, p.computeSeconds, ...quantityNames.map((q) => p.quantities?.[q])];
+    const row: unknown[] = [
+      p.index,
+      ...axisNames.map((a) => p.coordinates[a]),
+      p.status,
+      p.runId,
+      p.computeSeconds,
+      ...quantityNames.map((q) => p.quantities?.[q]),
+    ];
     lines.push(row.map(csvCell).join(","));
   }
   return { filename: `triskel-sweep-${s.id}.csv`, body: lines.join("\n") + "\n" };

@@ -24,7 +24,6 @@ export type { InvitationView };
 const SECRET_PREFIX = "inv_";
 const hashSecret = (s: string) => createHash("sha256").update(s, "utf8").digest("hex");
 
-
 function statusOf(row: typeof invitations.$inferSelect): InvitationView["status"] {
   if (row.acceptedAt) return "accepted";
   if (row.revokedAt) return "revoked";
@@ -75,17 +74,33 @@ export async function invite(caller: Caller, input: { email: string; role: Role 
     .returning();
   const [inviter] = await db.select({ name: users.name, email: users.email }).from(users).where(eq(users.id, caller.userId));
   const link = `${env().APP_URL.replace(/\/$/, "")}/accept-invitation?token=${encodeURIComponent(secret)}`;
-  await sendMail(invitationMail({ to: email, inviterName: inviter?.name || inviter?.email || "A colleague", workspaceName: ws.name, roleLabel: ROLE_LABELS[input.role], link, expiresAt }));
+  await sendMail(
+    invitationMail({
+      to: email,
+      inviterName: inviter?.name || inviter?.email || "A colleague",
+      workspaceName: ws.name,
+      roleLabel: ROLE_LABELS[input.role],
+      link,
+      expiresAt,
+    }),
+  );
   return { invitation: view(row), delivered: true };
 }
 
 export async function revokeInvitation(caller: Caller, id: string): Promise<InvitationView> {
   const db = getDb();
-  const [row] = await db.select().from(invitations).where(and(eq(invitations.id, id), eq(invitations.workspaceId, caller.workspaceId)));
+  const [row] = await db
+    .select()
+    .from(invitations)
+    .where(and(eq(invitations.id, id), eq(invitations.workspaceId, caller.workspaceId)));
   if (!row) throw new ApiError("not_found", `No invitation with id ${id} in this workspace.`);
   requireMemberChange(caller, row.role);
   if (row.acceptedAt) throw new ApiError("conflict", "This invitation was already accepted; remove the member instead.");
-  const [updated] = await db.update(invitations).set({ revokedAt: row.revokedAt ?? new Date() }).where(eq(invitations.id, id)).returning();
+  const [updated] = await db
+    .update(invitations)
+    .set({ revokedAt: row.revokedAt ?? new Date() })
+    .where(eq(invitations.id, id))
+    .returning();
   return view(updated);
 }
 
@@ -99,7 +114,10 @@ export async function previewInvitation(secret: string) {
 
 async function findBySecret(secret: string) {
   if (!secret.startsWith(SECRET_PREFIX) || secret.length > 200) return undefined;
-  const [row] = await getDb().select().from(invitations).where(eq(invitations.secretHash, hashSecret(secret)));
+  const [row] = await getDb()
+    .select()
+    .from(invitations)
+    .where(eq(invitations.secretHash, hashSecret(secret)));
   return row;
 }
 

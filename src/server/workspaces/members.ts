@@ -38,7 +38,6 @@ export async function describeWorkspace(caller: Caller): Promise<WorkspaceDescri
   };
 }
 
-
 export async function listMembers(caller: Caller): Promise<MemberView[]> {
   requirePermission(caller, "results.view");
   const rows = await getDb()
@@ -56,11 +55,15 @@ export function requireMemberChange(caller: Caller, ...roles: Role[]): void {
   requirePermission(caller, "members.seats");
   const outside = roles.find((r) => !SEAT_ROLES.includes(r));
   if (outside) {
-    throw new ApiError("forbidden", `Your role (${ROLE_LABELS[caller.role]}) may invite or remove Researchers and Viewers only, not ${ROLE_LABELS[outside]}s; ask an Owner.`, {
-      action: "members.manage",
-      role: caller.role,
-      allowed: rolesAllowed("members.manage"),
-    });
+    throw new ApiError(
+      "forbidden",
+      `Your role (${ROLE_LABELS[caller.role]}) may invite or remove Researchers and Viewers only, not ${ROLE_LABELS[outside]}s; ask an Owner.`,
+      {
+        action: "members.manage",
+        role: caller.role,
+        allowed: rolesAllowed("members.manage"),
+      },
+    );
   }
 }
 
@@ -95,7 +98,10 @@ export async function changeRole(caller: Caller, userId: string, role: Role): Pr
       const clerk = await clerkClient();
       await clerk.organizations.updateOrganizationMembership({ organizationId: ws.clerkOrgId, userId: m.clerkUserId, role: CLERK_ROLE_FOR[role] });
     }
-    await getDb().update(memberships).set({ role }).where(and(eq(memberships.workspaceId, ws.id), eq(memberships.userId, userId)));
+    await getDb()
+      .update(memberships)
+      .set({ role })
+      .where(and(eq(memberships.workspaceId, ws.id), eq(memberships.userId, userId)));
   }
   const all = await listMembers(caller);
   return all.find((x) => x.userId === userId)!;
@@ -115,14 +121,19 @@ export async function removeMember(caller: Caller, userId: string): Promise<void
       if ((err as { status?: number }).status !== 404) throw err;
     }
   }
-  await getDb().delete(memberships).where(and(eq(memberships.workspaceId, ws.id), eq(memberships.userId, userId)));
+  await getDb()
+    .delete(memberships)
+    .where(and(eq(memberships.workspaceId, ws.id), eq(memberships.userId, userId)));
 }
 
 /** Members plus open invitations against the plan's member limit (Free: 1; Lab: seats bought). */
 export async function seatUse(workspaceId: string): Promise<SeatUse> {
   const db = getDb();
   const [ws] = await db.select().from(workspaces).where(eq(workspaces.id, workspaceId));
-  const [{ members }] = await db.select({ members: sql<number>`count(*)::int` }).from(memberships).where(eq(memberships.workspaceId, workspaceId));
+  const [{ members }] = await db
+    .select({ members: sql<number>`count(*)::int` })
+    .from(memberships)
+    .where(eq(memberships.workspaceId, workspaceId));
   const [{ pending }] = await db
     .select({ pending: sql<number>`count(*)::int` })
     .from(invitations)

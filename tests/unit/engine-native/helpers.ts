@@ -27,7 +27,10 @@ export function randomHermitian(rand: () => number, n: number): Float64Array {
   const a = randomComplex(rand, n * n);
   for (let i = 0; i < n; i++) {
     a[2 * (i * n + i) + 1] = 0;
-    for (let j = 0; j < i; j++) { a[2 * (j * n + i)] = a[2 * (i * n + j)]; a[2 * (j * n + i) + 1] = -a[2 * (i * n + j) + 1]; }
+    for (let j = 0; j < i; j++) {
+      a[2 * (j * n + i)] = a[2 * (i * n + j)];
+      a[2 * (j * n + i) + 1] = -a[2 * (i * n + j) + 1];
+    }
   }
   return a;
 }
@@ -40,7 +43,9 @@ export function identity(n: number): Float64Array {
 
 export function realToComplex(x: Float64Array): Float64Array {
   const out = new Float64Array(2 * x.length);
-  x.forEach((v, i) => { out[2 * i] = v; });
+  x.forEach((v, i) => {
+    out[2 * i] = v;
+  });
   return out;
 }
 

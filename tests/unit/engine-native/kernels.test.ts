@@ -7,8 +7,16 @@ import { describe, expect, it } from "vitest";
 import { SingularMatrixError } from "@/engine/errors";
 import { tsKernels } from "@/engine/linalg/kernels";
 import {
-  eigenvectorResidual, identity, nativeKernels, numpyEval, randomComplex, randomHermitian, randomSquare, realToComplex,
-  relativeDifference, unorderedDifference,
+  eigenvectorResidual,
+  identity,
+  nativeKernels,
+  numpyEval,
+  randomComplex,
+  randomHermitian,
+  randomSquare,
+  realToComplex,
+  relativeDifference,
+  unorderedDifference,
 } from "./helpers";
 import { seededUniform } from "../../support/random";
 
@@ -22,12 +30,24 @@ describe("native kernels: identity", () => {
 });
 
 describe("matmul (cblas_zgemm) agrees with the TypeScript kernels", () => {
-  const shapes: [number, number, number][] = [[1, 1, 1], [2, 3, 1], [1, 5, 4], [7, 13, 5], [8, 12, 8], [16, 8, 16], [64, 64, 64], [100, 3, 90], [33, 70, 17]];
+  const shapes: [number, number, number][] = [
+    [1, 1, 1],
+    [2, 3, 1],
+    [1, 5, 4],
+    [7, 13, 5],
+    [8, 12, 8],
+    [16, 8, 16],
+    [64, 64, 64],
+    [100, 3, 90],
+    [33, 70, 17],
+  ];
   for (const [m, k, n] of shapes) {
     it(`${m}x${k} times ${k}x${n}`, () => {
       const rand = seededUniform(m * 1000 + k * 10 + n);
-      const a = randomComplex(rand, m * k), b = randomComplex(rand, k * n);
-      const a0 = a.slice(), b0 = b.slice();
+      const a = randomComplex(rand, m * k),
+        b = randomComplex(rand, k * n);
+      const a0 = a.slice(),
+        b0 = b.slice();
       const c = nat.matmul(a, b, m, k, n);
       expect(c.length).toBe(2 * m * n);
       expect(relativeDifference(c, tsKernels.matmul(a, b, m, k, n))).toBeLessThan(TOL);
@@ -39,7 +59,8 @@ describe("matmul (cblas_zgemm) agrees with the TypeScript kernels", () => {
   it("accepts arrays longer than needed and views into a larger buffer (subarray)", () => {
     const rand = seededUniform(5);
     const big = randomComplex(rand, 200);
-    const a = big.subarray(6, 6 + 2 * 12), b = big.subarray(40, 40 + 2 * 12 + 10);
+    const a = big.subarray(6, 6 + 2 * 12),
+      b = big.subarray(40, 40 + 2 * 12 + 10);
     expect(relativeDifference(nat.matmul(a, b, 3, 4, 3), tsKernels.matmul(a, b, 3, 4, 3))).toBeLessThan(TOL);
   });
 
@@ -62,7 +83,8 @@ describe("gemmAccumulate (C += A B in place, offsets and leading dimensions)", (
       const a = randomComplex(rand, cs.aOff / 2 + cs.m * cs.lda + 1);
       const b = randomComplex(rand, cs.bOff / 2 + cs.k * cs.ldb + 1);
       const c0 = randomComplex(rand, cs.cOff / 2 + cs.m * cs.ldc + 3);
-      const c1 = c0.slice(), c2 = c0.slice();
+      const c1 = c0.slice(),
+        c2 = c0.slice();
       nat.gemmAccumulate(cs.m, cs.n, cs.k, a, cs.aOff, cs.lda, b, cs.bOff, cs.ldb, c1, cs.cOff, cs.ldc);
       tsKernels.gemmAccumulate(cs.m, cs.n, cs.k, a, cs.aOff, cs.lda, b, cs.bOff, cs.ldb, c2, cs.cOff, cs.ldc);
       expect(relativeDifference(c1, c2)).toBeLessThan(TOL);
@@ -70,7 +92,10 @@ describe("gemmAccumulate (C += A B in place, offsets and leading dimensions)", (
       for (let i = 0; i < c0.length; i += 2) {
         const rel = (i - cs.cOff) / 2;
         const inside = rel >= 0 && Math.floor(rel / cs.ldc) < cs.m && rel % cs.ldc < cs.n;
-        if (!inside) { expect(c1[i]).toBe(c0[i]); expect(c1[i + 1]).toBe(c0[i + 1]); }
+        if (!inside) {
+          expect(c1[i]).toBe(c0[i]);
+          expect(c1[i + 1]).toBe(c0[i + 1]);
+        }
       }
     });
   }
@@ -84,7 +109,8 @@ describe("gemmAccumulate (C += A B in place, offsets and leading dimensions)", (
 
   it("accumulates twice into the same block (a true +=)", () => {
     const rand = seededUniform(99);
-    const a = randomComplex(rand, 9), b = randomComplex(rand, 9);
+    const a = randomComplex(rand, 9),
+      b = randomComplex(rand, 9);
     const c = new Float64Array(18);
     nat.gemmAccumulate(3, 3, 3, a, 0, 3, b, 0, 3, c, 0, 3);
     nat.gemmAccumulate(3, 3, 3, a, 0, 3, b, 0, 3, c, 0, 3);
@@ -94,11 +120,20 @@ describe("gemmAccumulate (C += A B in place, offsets and leading dimensions)", (
 });
 
 describe("solve (zgetrf + triangular solves) with several right-hand sides", () => {
-  for (const [n, nrhs] of [[1, 1], [3, 4], [17, 1], [17, 25], [40, 7], [64, 64]]) {
+  for (const [n, nrhs] of [
+    [1, 1],
+    [3, 4],
+    [17, 1],
+    [17, 25],
+    [40, 7],
+    [64, 64],
+  ]) {
     it(`n=${n}, nrhs=${nrhs}`, () => {
       const rand = seededUniform(31 * n + nrhs);
-      const a = randomSquare(rand, n, 1.5), b = randomComplex(rand, n * nrhs);
-      const a0 = a.slice(), b0 = b.slice();
+      const a = randomSquare(rand, n, 1.5),
+        b = randomComplex(rand, n * nrhs);
+      const a0 = a.slice(),
+        b0 = b.slice();
       const x = nat.solve(a, b, n, nrhs);
       expect(x.length).toBe(2 * n * nrhs);
       expect(relativeDifference(x, tsKernels.solve(a, b, n, nrhs))).toBeLessThan(TOL);
@@ -144,11 +179,15 @@ describe("eigHermitian (zheevd)", () => {
       expect(eigenvectorResidual(a, n, mine.values, mine.vectors!)).toBeLessThan(TOL);
       // Same eigenvectors up to a phase (random spectra are not degenerate): |<v_ts, v_native>| = 1.
       for (let c = 0; c < n; c++) {
-        let re = 0, im = 0;
+        let re = 0,
+          im = 0;
         for (let r = 0; r < n; r++) {
-          const xr = ref.vectors![2 * (r * n + c)], xi = ref.vectors![2 * (r * n + c) + 1];
-          const yr = mine.vectors![2 * (r * n + c)], yi = mine.vectors![2 * (r * n + c) + 1];
-          re += xr * yr + xi * yi; im += xr * yi - xi * yr;
+          const xr = ref.vectors![2 * (r * n + c)],
+            xi = ref.vectors![2 * (r * n + c) + 1];
+          const yr = mine.vectors![2 * (r * n + c)],
+            yi = mine.vectors![2 * (r * n + c) + 1];
+          re += xr * yr + xi * yi;
+          im += xr * yi - xi * yr;
         }
         expect(Math.abs(Math.hypot(re, im) - 1)).toBeLessThan(1e-9);
       }
@@ -166,7 +205,11 @@ describe("eigHermitian (zheevd)", () => {
     const n = 6;
     const a = randomHermitian(seededUniform(8), n);
     const dirty = a.slice();
-    for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) { dirty[2 * (i * n + j)] = 100 + i; dirty[2 * (i * n + j) + 1] = -50 * j; }
+    for (let i = 0; i < n; i++)
+      for (let j = i + 1; j < n; j++) {
+        dirty[2 * (i * n + j)] = 100 + i;
+        dirty[2 * (i * n + j) + 1] = -50 * j;
+      }
     expect(relativeDifference(realToComplex(nat.eigHermitian(dirty, n, false).values), realToComplex(nat.eigHermitian(a, n, false).values))).toBeLessThan(TOL);
   });
 
@@ -194,26 +237,37 @@ describe("eigGeneral (zgeev)", () => {
   it("a unitary matrix has eigenvalues on the unit circle; a triangular one its diagonal", () => {
     const n = 5;
     const tri = new Float64Array(2 * n * n);
-    for (let i = 0; i < n; i++) for (let j = i; j < n; j++) { tri[2 * (i * n + j)] = i === j ? i + 1 : 0.3; tri[2 * (i * n + j) + 1] = i === j ? -i : 0.1; }
+    for (let i = 0; i < n; i++)
+      for (let j = i; j < n; j++) {
+        tri[2 * (i * n + j)] = i === j ? i + 1 : 0.3;
+        tri[2 * (i * n + j) + 1] = i === j ? -i : 0.1;
+      }
     const diag = new Float64Array(2 * n);
-    for (let i = 0; i < n; i++) { diag[2 * i] = i + 1; diag[2 * i + 1] = -i; }
+    for (let i = 0; i < n; i++) {
+      diag[2 * i] = i + 1;
+      diag[2 * i + 1] = -i;
+    }
     expect(unorderedDifference(nat.eigGeneral(tri, n), diag)).toBeLessThan(TOL);
     // Householder reflector I - 2 v v^H / |v|^2: unitary.
     const v = randomComplex(seededUniform(4), n);
     const vn = v.reduce((s, x) => s + x * x, 0);
     const u = identity(n);
-    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) {
-      u[2 * (i * n + j)] -= (2 / vn) * (v[2 * i] * v[2 * j] + v[2 * i + 1] * v[2 * j + 1]);
-      u[2 * (i * n + j) + 1] -= (2 / vn) * (v[2 * i + 1] * v[2 * j] - v[2 * i] * v[2 * j + 1]);
-    }
+    for (let i = 0; i < n; i++)
+      for (let j = 0; j < n; j++) {
+        u[2 * (i * n + j)] -= (2 / vn) * (v[2 * i] * v[2 * j] + v[2 * i + 1] * v[2 * j + 1]);
+        u[2 * (i * n + j) + 1] -= (2 / vn) * (v[2 * i + 1] * v[2 * j] - v[2 * i] * v[2 * j + 1]);
+      }
     const ev = nat.eigGeneral(u, n);
     for (let i = 0; i < n; i++) expect(Math.abs(Math.hypot(ev[2 * i], ev[2 * i + 1]) - 1)).toBeLessThan(1e-12);
   });
 });
 
 describe("agreement with numpy (Debian python3-numpy, independent of both backends)", () => {
-  const n = 12, rand = seededUniform(2024);
-  const a = randomSquare(rand, n, 1), b = randomComplex(rand, n * 3), h = randomHermitian(rand, n);
+  const n = 12,
+    rand = seededUniform(2024);
+  const a = randomSquare(rand, n, 1),
+    b = randomComplex(rand, n * 3),
+    h = randomHermitian(rand, n);
   it("matmul, solve, inverse", () => {
     const sq = { data: a, shape: [n, n] };
     expect(relativeDifference(nat.matmul(a, a, n, n, n), numpyEval({ a: sq }, "out = a @ a"))).toBeLessThan(TOL);
@@ -242,7 +296,9 @@ describe("errors are JavaScript errors with a message", () => {
   });
 
   it("gemmAccumulate: leading dimension too small or block outside its array", () => {
-    const a = new Float64Array(18), b = new Float64Array(18), c = new Float64Array(18);
+    const a = new Float64Array(18),
+      b = new Float64Array(18),
+      c = new Float64Array(18);
     expect(() => nat.gemmAccumulate(3, 3, 3, a, 0, 2, b, 0, 3, c, 0, 3)).toThrow(/leading dimension too small/);
     expect(() => nat.gemmAccumulate(3, 3, 3, a, 2, 3, b, 0, 3, c, 0, 3)).toThrow(/exceeds its array/);
     expect(() => nat.gemmAccumulate(3, 3, 3, a, 0, 3, b, 0, 3, c, 0, 4)).toThrow(RangeError);

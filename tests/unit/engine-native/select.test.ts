@@ -16,10 +16,13 @@ import { nativeKernels } from "./helpers";
 
 const nat = nativeKernels();
 const before = getKernels();
-afterEach(() => { setKernels(before); });
+afterEach(() => {
+  setKernels(before);
+});
 
 const FLAGS_SPR = "fpu vme sse sse2 ssse3 sse4_1 sse4_2 avx f16c fma avx2 bmi2 avx512f avx512dq avx512ifma avx512cd avx512bw avx512vl avx512_bf16 avx512_fp16";
-const cpuinfo = (flags: string) => `processor\t: 0\nvendor_id\t: GenuineIntel\nmodel name\t: Some Xeon\nflags\t\t: ${flags}\nbugs\t\t: spectre_v1\n\nprocessor\t: 1\nflags\t\t: ${flags}\n`;
+const cpuinfo = (flags: string) =>
+  `processor\t: 0\nvendor_id\t: GenuineIntel\nmodel name\t: Some Xeon\nflags\t\t: ${flags}\nbugs\t\t: spectre_v1\n\nprocessor\t: 1\nflags\t\t: ${flags}\n`;
 
 describe("OpenBLAS core type from /proc/cpuinfo", () => {
   it("AVX-512 (F, DQ, BW, VL) -> SkylakeX", () => {
@@ -51,7 +54,14 @@ describe("TRISKEL_KERNELS", () => {
   it("ts forces the TypeScript kernels without loading anything", () => {
     const lines: string[] = [];
     let loads = 0;
-    const sel = selectKernels({ TRISKEL_KERNELS: "ts" }, (l) => lines.push(l), () => { loads++; return loadNativeKernels(); });
+    const sel = selectKernels(
+      { TRISKEL_KERNELS: "ts" },
+      (l) => lines.push(l),
+      () => {
+        loads++;
+        return loadNativeKernels();
+      },
+    );
     expect(sel.backend).toBe("ts");
     expect(getKernels()).toBe(tsKernels);
     expect(engineVersion()).toMatch(/\+ts$/);
@@ -60,7 +70,9 @@ describe("TRISKEL_KERNELS", () => {
   });
 
   it("openblas forces the native kernels", () => {
-    const sel = selectKernels({ TRISKEL_KERNELS: "openblas" }, () => { throw new Error("no log expected"); });
+    const sel = selectKernels({ TRISKEL_KERNELS: "openblas" }, () => {
+      throw new Error("no log expected");
+    });
     expect(sel.backend).toBe("openblas");
     expect(getKernels().name).toBe("openblas");
     expect(engineVersion()).toMatch(/\+openblas$/);
@@ -68,8 +80,13 @@ describe("TRISKEL_KERNELS", () => {
   });
 
   it("openblas throws (does not fall back) when the native kernels cannot load", () => {
-    expect(() => selectKernels({ TRISKEL_KERNELS: "openblas" }, () => {}, () => ({ ok: false, reason: "addon not built" })))
-      .toThrow(/TRISKEL_KERNELS=openblas, but the native kernels are unusable: addon not built/);
+    expect(() =>
+      selectKernels(
+        { TRISKEL_KERNELS: "openblas" },
+        () => {},
+        () => ({ ok: false, reason: "addon not built" }),
+      ),
+    ).toThrow(/TRISKEL_KERNELS=openblas, but the native kernels are unusable: addon not built/);
   });
 });
 
@@ -95,7 +112,11 @@ describe("auto: native when it loads and passes the self-test, else TypeScript w
 
   it("addon missing: TypeScript kernels and exactly one line saying why", () => {
     const lines: string[] = [];
-    const sel = selectKernels({ TRISKEL_KERNELS: "auto" }, (l) => lines.push(l), () => ({ ok: false, reason: "addon not built (triskel_kernels.node not found)" }));
+    const sel = selectKernels(
+      { TRISKEL_KERNELS: "auto" },
+      (l) => lines.push(l),
+      () => ({ ok: false, reason: "addon not built (triskel_kernels.node not found)" }),
+    );
     expect(sel.backend).toBe("ts");
     expect(getKernels()).toBe(tsKernels);
     expect(lines).toHaveLength(1);
@@ -106,10 +127,21 @@ describe("auto: native when it loads and passes the self-test, else TypeScript w
   it("a backend that disagrees with the TypeScript kernels is refused by the self-test", () => {
     const loaded = loadNativeKernels();
     if (!loaded.ok) throw new Error(loaded.reason);
-    const skewed: ComplexKernels = { ...nat, matmul: (a, b, m, k, n) => { const c = nat.matmul(a, b, m, k, n); c[0] += 1e-8; return c; } };
+    const skewed: ComplexKernels = {
+      ...nat,
+      matmul: (a, b, m, k, n) => {
+        const c = nat.matmul(a, b, m, k, n);
+        c[0] += 1e-8;
+        return c;
+      },
+    };
     const lines: string[] = [];
     const fake: NativeLoad = { ...loaded, kernels: skewed };
-    const sel = selectKernels({}, (l) => lines.push(l), () => fake);
+    const sel = selectKernels(
+      {},
+      (l) => lines.push(l),
+      () => fake,
+    );
     expect(sel.backend).toBe("ts");
     expect(lines).toHaveLength(1);
     expect(lines[0]).toMatch(/self-test failed: matmul 1x1x1 differs from the ts kernels by 1\.00e-8/);
@@ -123,13 +155,38 @@ describe("selfTest", () => {
   });
 
   it("catches wrong eigenvectors, a missed singular matrix, a wrong gemm offset and a throwing method", () => {
-    const badVectors: ComplexKernels = { ...nat, eigHermitian: (a, n, v) => { const r = nat.eigHermitian(a, n, v); if (r.vectors && n > 1) r.vectors.reverse(); return r; } };
+    const badVectors: ComplexKernels = {
+      ...nat,
+      eigHermitian: (a, n, v) => {
+        const r = nat.eigHermitian(a, n, v);
+        if (r.vectors && n > 1) r.vectors.reverse();
+        return r;
+      },
+    };
     expect(selfTest(badVectors)).toMatch(/eigHermitian \d+x\d+ eigenvectors have residual/);
-    const noSingular: ComplexKernels = { ...nat, solve: (a, b, n, r) => { try { return nat.solve(a, b, n, r); } catch (e) { if (e instanceof SingularMatrixError) return new Float64Array(2 * n * r); throw e; } } };
+    const noSingular: ComplexKernels = {
+      ...nat,
+      solve: (a, b, n, r) => {
+        try {
+          return nat.solve(a, b, n, r);
+        } catch (e) {
+          if (e instanceof SingularMatrixError) return new Float64Array(2 * n * r);
+          throw e;
+        }
+      },
+    };
     expect(selfTest(noSingular)).toMatch(/singular matrix did not throw SingularMatrixError/);
-    const ignoresOffset: ComplexKernels = { ...nat, gemmAccumulate: (m, n, k, a, _ao, lda, b, bo, ldb, c, co, ldc) => nat.gemmAccumulate(m, n, k, a, 0, lda, b, bo, ldb, c, co, ldc) };
+    const ignoresOffset: ComplexKernels = {
+      ...nat,
+      gemmAccumulate: (m, n, k, a, _ao, lda, b, bo, ldb, c, co, ldc) => nat.gemmAccumulate(m, n, k, a, 0, lda, b, bo, ldb, c, co, ldc),
+    };
     expect(selfTest(ignoresOffset)).toMatch(/gemmAccumulate with offsets differs/);
-    const throws: ComplexKernels = { ...nat, eigGeneral: () => { throw new Error("boom\nsecond line"); } };
+    const throws: ComplexKernels = {
+      ...nat,
+      eigGeneral: () => {
+        throw new Error("boom\nsecond line");
+      },
+    };
     expect(selfTest(throws)).toBe("self-test threw: boom");
   });
 });
@@ -140,9 +197,23 @@ describe("OpenBLAS environment is set before the library loads (fresh processes)
   const run = (args: string[], env: Record<string, string | undefined>) => {
     const childEnv: Record<string, string> = {};
     for (const [k, v] of Object.entries({ ...process.env, ...env })) if (v !== undefined) childEnv[k] = v;
-    const r = spawnSync(path.join(root, "node_modules", ".bin", "tsx"), [fixture, ...args], { cwd: root, env: childEnv as NodeJS.ProcessEnv, encoding: "utf8", timeout: 60_000 });
+    const r = spawnSync(path.join(root, "node_modules", ".bin", "tsx"), [fixture, ...args], {
+      cwd: root,
+      env: childEnv as NodeJS.ProcessEnv,
+      encoding: "utf8",
+      timeout: 60_000,
+    });
     if (r.status !== 0) throw new Error(`fixture failed: ${r.stderr}`);
-    return JSON.parse(r.stdout.trim().split("\n").pop()!) as { ok: boolean; isMainThread: boolean; coreName: string; coreType: string | null; coreTypeSource: string; threads: number; mallocTuned: boolean; product: number[] };
+    return JSON.parse(r.stdout.trim().split("\n").pop()!) as {
+      ok: boolean;
+      isMainThread: boolean;
+      coreName: string;
+      coreType: string | null;
+      coreTypeSource: string;
+      threads: number;
+      mallocTuned: boolean;
+      product: number[];
+    };
   };
   const chosen = chooseCoreType(readFileSync("/proc/cpuinfo", "utf8"));
 
@@ -166,7 +237,10 @@ describe("OpenBLAS environment is set before the library loads (fresh processes)
   });
 
   it("glibc malloc keeps freed result buffers (page faults per product) unless TRISKEL_MALLOC_TUNING=0", () => {
-    expect(run([], { TRISKEL_MALLOC_TUNING: undefined, GLIBC_TUNABLES: undefined, MALLOC_TRIM_THRESHOLD_: undefined, MALLOC_MMAP_THRESHOLD_: undefined }).mallocTuned).toBe(true);
+    expect(
+      run([], { TRISKEL_MALLOC_TUNING: undefined, GLIBC_TUNABLES: undefined, MALLOC_TRIM_THRESHOLD_: undefined, MALLOC_MMAP_THRESHOLD_: undefined })
+        .mallocTuned,
+    ).toBe(true);
     expect(run([], { TRISKEL_MALLOC_TUNING: "0" }).mallocTuned).toBe(false);
   });
 

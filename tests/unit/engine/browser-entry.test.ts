@@ -15,7 +15,15 @@ describe("browser-safe engine entry", () => {
   it("imports no Node built-in (node:*, fs, path, worker_threads, module, os, child_process, ...) and not the native addon", () => {
     const modules = [...walk(ENTRY).keys()].map(relative);
     // The entry really reaches the schema, the cost model and the parameters (the walk follows imports).
-    expect(modules).toEqual(expect.arrayContaining(["src/engine/schema.ts", "src/engine/cost.ts", "src/engine/cost-constants.ts", "src/engine/parameters.ts", "src/engine/network/lattice.ts"]));
+    expect(modules).toEqual(
+      expect.arrayContaining([
+        "src/engine/schema.ts",
+        "src/engine/cost.ts",
+        "src/engine/cost-constants.ts",
+        "src/engine/parameters.ts",
+        "src/engine/network/lattice.ts",
+      ]),
+    );
     const problems = browserEntryProblems(ENTRY);
     expect(problems, describeProblems(problems)).toEqual([]);
   });
@@ -28,7 +36,20 @@ describe("browser-safe engine entry", () => {
 
   it("exports what the browser needs and nothing that loads the kernels", async () => {
     const browser = await import("@/engine/browser");
-    for (const name of ["networkSchema", "computationSchema", "computeInputSchema", "parseComputeInput", "parseNetwork", "EngineInputError", "estimateCost", "checkResourceLimits", "COST_CONSTANTS", "applyParameter", "SWEEPABLE_PARAMETERS", "constants"]) {
+    for (const name of [
+      "networkSchema",
+      "computationSchema",
+      "computeInputSchema",
+      "parseComputeInput",
+      "parseNetwork",
+      "EngineInputError",
+      "estimateCost",
+      "checkResourceLimits",
+      "COST_CONSTANTS",
+      "applyParameter",
+      "SWEEPABLE_PARAMETERS",
+      "constants",
+    ]) {
       expect(browser, name).toHaveProperty(name);
     }
     for (const name of ["compute", "inputHash", "ENGINE_VERSION", "getKernels", "setKernels", "tsKernels"]) expect(browser, name).not.toHaveProperty(name);
@@ -37,7 +58,7 @@ describe("browser-safe engine entry", () => {
     for (const [name, value] of Object.entries(browser)) expect((index as Record<string, unknown>)[name], name).toBe(value);
   });
 
-  it("browser code (the import graphs of every \"use client\" module) reaches the engine only through src/engine/browser.ts", () => {
+  it('browser code (the import graphs of every "use client" module) reaches the engine only through src/engine/browser.ts', () => {
     const roots = clientModules();
     expect(roots.length).toBeGreaterThan(10);
     const wrong: string[] = [];

@@ -15,11 +15,23 @@ function at(obj: unknown, dotted: string): unknown {
 }
 
 describe("command line on the fixtures (tests/fixtures/expected.json)", () => {
-  const files = readdirSync(FIX).filter((f) => f.endsWith(".json") && f !== "expected.json").sort();
-  it("every fixture has an expectation", () => { for (const f of files) expect(expected[f], f).toBeDefined(); });
+  const files = readdirSync(FIX)
+    .filter((f) => f.endsWith(".json") && f !== "expected.json")
+    .sort();
+  it("every fixture has an expectation", () => {
+    for (const f of files) expect(expected[f], f).toBeDefined();
+  });
   for (const f of files) {
     it(f, () => {
-      const exp = expected[f] as { exit: number; stderr?: string; equals?: Record<string, unknown>; closeTo?: Record<string, [number, number]>; lessThan?: Record<string, number>; greaterThan?: Record<string, number>; lengthOf?: Record<string, number> };
+      const exp = expected[f] as {
+        exit: number;
+        stderr?: string;
+        equals?: Record<string, unknown>;
+        closeTo?: Record<string, [number, number]>;
+        lessThan?: Record<string, number>;
+        greaterThan?: Record<string, number>;
+        lengthOf?: Record<string, number>;
+      };
       const r = run(["compute", path.join(FIX, f)]);
       expect(r.status, r.stderr).toBe(exp.exit);
       if (exp.exit !== 0) {

@@ -8,19 +8,29 @@ import { channelPhases, reverseGraph } from "@/engine/network/graph";
 import { graphJson, numpy, randomUnitary } from "./helpers/reference";
 import { seededUniform } from "../../support/random";
 
-const make = (network: object, computation: object) => parseComputeInput({ network: { lattice: "triangular", size: { columns: 4, rows: 4 }, periodNm: 130, node: { forward: 0.5, left: 0.3, right: 0.2 }, ...network }, computation });
+const make = (network: object, computation: object) =>
+  parseComputeInput({
+    network: { lattice: "triangular", size: { columns: 4, rows: 4 }, periodNm: 130, node: { forward: 0.5, left: 0.3, right: 0.2 }, ...network },
+    computation,
+  });
 
 describe("check 6: DOS sum rule, 3 states per channel per cell per energy period", () => {
   // Source: trace formula, physics.md section 3: each eigenphase of U contributes one state per period (exact).
   const rand = seededUniform(77);
-  const nodes: object[] = [{ forward: 0.5, left: 0.3, right: 0.2 }, { forward: 1 }, { matrix: randomUnitary(3, rand) }, { forward: 0.2, left: 0.1, right: 0.7, branch: -1, phaseRad: 2 }];
+  const nodes: object[] = [
+    { forward: 0.5, left: 0.3, right: 0.2 },
+    { forward: 1 },
+    { matrix: randomUnitary(3, rand) },
+    { forward: 0.2, left: 0.1, right: 0.7, branch: -1, phaseRad: 2 },
+  ];
   for (const node of nodes) {
     it(`Bloch DOS integrates to 3 per cell for node ${JSON.stringify(node).slice(0, 60)}`, () => {
       const inp = make({ node }, { kind: "dos", kMesh: 6, energies: { fromMeV: 0, toMeV: 1, points: 2 } });
       const r = computeDos(inp.network, inp.computation as DosComputation);
       expect(Math.abs(r.checks.statesPerCellPerPeriod - 3)).toBeLessThan(1e-9);
       // and by integrating the reported DOS over one period on a uniform periodic grid
-      const period = r.energyPeriodMeV, N = 400;
+      const period = r.energyPeriodMeV,
+        N = 400;
       const full = computeDos(inp.network, { ...(inp.computation as DosComputation), energies: { fromMeV: 0, toMeV: period * (1 - 1 / N), points: N } });
       const integral = full.dosPerMeVPerCell.valleyK.reduce((a, b) => a + b, 0) * (period / N);
       expect(Math.abs(integral - 3)).toBeLessThan(1e-9);
@@ -36,7 +46,8 @@ describe("check 6: DOS sum rule, 3 states per channel per cell per energy period
   it("finite closed sample: the trace formula integrates to the link count per cell", () => {
     const inp = make({ size: { columns: 3, rows: 2 }, disorder: { linkPhaseWidthRad: 6, seed: 3 } }, { kind: "dos", source: "sample", broadeningMeV: 2 });
     const scale = networkScale(inp.network);
-    const N = 64, period = scale.energyPeriodMeV;
+    const N = 64,
+      period = scale.energyPeriodMeV;
     const r = computeDos(inp.network, { ...(inp.computation as DosComputation), energies: { fromMeV: 0, toMeV: period * (1 - 1 / N), points: N } });
     const integral = r.dosPerMeVPerCell.valleyK.reduce((a, b) => a + b, 0) * (period / N);
     expect(Math.abs(integral - 3)).toBeLessThan(1e-6);
@@ -47,14 +58,22 @@ describe("check 6: DOS sum rule, 3 states per channel per cell per energy period
 describe("trace formula on finite closed networks against numpy", () => {
   // Source: numpy.linalg.eigvals of the whole link-to-link operator U0; rho(E) = (tau/2pi) sum_n P_r(E tau + alpha_n).
   it("sample DOS from the determinant sweep equals the eigenphase sum (ring with open edges, field)", () => {
-    const inp = make({ transverse: "open", size: { columns: 4, rows: 3 }, disorder: { linkPhaseWidthRad: 5, forwardSpread: 0.2, seed: 5 } }, { kind: "dos", source: "sample", fieldTesla: 0.3 });
+    const inp = make(
+      { transverse: "open", size: { columns: 4, rows: 3 }, disorder: { linkPhaseWidthRad: 5, forwardSpread: 0.2, seed: 5 } },
+      { kind: "dos", source: "sample", fieldTesla: 0.3 },
+    );
     const scale = networkScale(inp.network);
     const g = buildClosedSample(inp.network, scale, 0.3, 0, "computation.fieldTesla");
     const ref = numpy({ op: "link_eigvals", graph: graphJson(g, channelPhases(g, 0, 0)) });
     const alphas = ref.re.map((re, i) => Math.atan2(ref.im[i], re));
     for (const gg of [g]) {
-      for (const [E, broad] of [[1.3, 0.5], [7.7, 0.2]]) {
-        const eta = broad / scale.energyScaleMeV, r = Math.exp(-eta), th = E / scale.energyScaleMeV;
+      for (const [E, broad] of [
+        [1.3, 0.5],
+        [7.7, 0.2],
+      ]) {
+        const eta = broad / scale.energyScaleMeV,
+          r = Math.exp(-eta),
+          th = E / scale.energyScaleMeV;
         const exact = alphas.reduce((a, al) => a + (1 - r * r) / (1 - 2 * r * Math.cos(th + al) + r * r), 0) / (2 * Math.PI * scale.energyScaleMeV);
         const got = sampleDos(gg, scale, E, eta);
         expect(Math.abs(got - exact) / exact).toBeLessThan(1e-7);
@@ -63,11 +82,15 @@ describe("trace formula on finite closed networks against numpy", () => {
   });
   it("LDOS on every link equals the diagonal of (1 - U)^-1 from numpy, and sums to the DOS", () => {
     for (const transverse of ["open", "periodic"] as const) {
-      const inp = make({ transverse, size: { columns: 4, rows: transverse === "open" ? 3 : 4 }, disorder: { linkPhaseWidthRad: 6, seed: 12 } }, { kind: "ldos", energyMeV: 2.5, broadeningMeV: 0.4 });
+      const inp = make(
+        { transverse, size: { columns: 4, rows: transverse === "open" ? 3 : 4 }, disorder: { linkPhaseWidthRad: 6, seed: 12 } },
+        { kind: "ldos", energyMeV: 2.5, broadeningMeV: 0.4 },
+      );
       const scale = networkScale(inp.network);
       const g = buildClosedSample(inp.network, scale, 0, 0, "computation.fieldTesla");
       for (const gg of [g, reverseGraph(g)]) {
-        const eta = 0.4 / scale.energyScaleMeV, th = 2.5 / scale.energyScaleMeV;
+        const eta = 0.4 / scale.energyScaleMeV,
+          th = 2.5 / scale.energyScaleMeV;
         const diag = linkResolventDiagonal(gg, th, eta);
         const ref = numpy({ op: "resolvent_diag", graph: graphJson(gg, channelPhases(gg, th, eta)) });
         let worst = 0;
@@ -83,6 +106,8 @@ describe("trace formula on finite closed networks against numpy", () => {
   });
   it("a torus refuses a field that is not a whole number of flux quanta", () => {
     const inp = make({ size: { columns: 4, rows: 4 } }, { kind: "ldos", fieldTesla: 0.1 });
-    expect(() => computeLdos(inp.network, inp.computation as LdosComputation)).toThrow(/computation.fieldTesla: a closed periodic sample \(a torus\) holds a whole number of flux quanta/);
+    expect(() => computeLdos(inp.network, inp.computation as LdosComputation)).toThrow(
+      /computation.fieldTesla: a closed periodic sample \(a torus\) holds a whole number of flux quanta/,
+    );
   });
 });

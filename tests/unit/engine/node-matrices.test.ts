@@ -1,6 +1,14 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
-import { checkTriangularNode, circulantAmplitudes, reachableForwardRange, triangularNodeMatrix, unitarityError, squareNodeMatrix, checkExplicitNodeMatrix } from "@/engine/network/node-matrices";
+import {
+  checkTriangularNode,
+  circulantAmplitudes,
+  reachableForwardRange,
+  triangularNodeMatrix,
+  unitarityError,
+  squareNodeMatrix,
+  checkExplicitNodeMatrix,
+} from "@/engine/network/node-matrices";
 import { getKernels } from "@/engine/linalg/kernels";
 
 const prob = (m: Float64Array, i: number, j: number) => m[2 * (i * 3 + j)] ** 2 + m[2 * (i * 3 + j) + 1] ** 2;
@@ -15,39 +23,47 @@ const reachableTriple = fc.tuple(fc.double({ min: 0, max: 1, noNaN: true }), fc.
 describe("check 2: unitarity of every node matrix", () => {
   // Source: column orthogonality of a 3x3 circulant unitary, physics.md section 2 (exact law).
   it("circulant nodes from reachable triples are unitary to 1e-12 with |S_mj|^2 = the probabilities (fast-check)", () => {
-    fc.assert(fc.property(reachableTriple, fc.constantFrom(1 as const, -1 as const), fc.double({ min: -7, max: 7, noNaN: true }), ({ f, l, r }, branch, phase) => {
-      const m = triangularNodeMatrix(f, l, r, branch, phase);
-      expect(unitarityError(m, 3)).toBeLessThan(1e-12);
-      for (let j = 0; j < 3; j++) {
-        expect(Math.abs(prob(m, j, j) - f)).toBeLessThan(1e-12); // forward m = j
-        expect(Math.abs(prob(m, (j + 1) % 3, j) - l)).toBeLessThan(1e-12); // left m = j + 1
-        expect(Math.abs(prob(m, (j + 2) % 3, j) - r)).toBeLessThan(1e-12); // right m = j - 1
-      }
-    }), { numRuns: 300 });
+    fc.assert(
+      fc.property(reachableTriple, fc.constantFrom(1 as const, -1 as const), fc.double({ min: -7, max: 7, noNaN: true }), ({ f, l, r }, branch, phase) => {
+        const m = triangularNodeMatrix(f, l, r, branch, phase);
+        expect(unitarityError(m, 3)).toBeLessThan(1e-12);
+        for (let j = 0; j < 3; j++) {
+          expect(Math.abs(prob(m, j, j) - f)).toBeLessThan(1e-12); // forward m = j
+          expect(Math.abs(prob(m, (j + 1) % 3, j) - l)).toBeLessThan(1e-12); // left m = j + 1
+          expect(Math.abs(prob(m, (j + 2) % 3, j) - r)).toBeLessThan(1e-12); // right m = j - 1
+        }
+      }),
+      { numRuns: 300 },
+    );
   });
   it("branch +1 has Im(s_l s_r conj(s_f)^2) >= 0, branch -1 the conjugate relative phases, chi = arg(s_f)", () => {
-    fc.assert(fc.property(reachableTriple, fc.double({ min: -3, max: 3, noNaN: true }), ({ f, l, r }, chi) => {
-      const p = circulantAmplitudes(f, l, r, 1, chi), m = circulantAmplitudes(f, l, r, -1, chi);
-      const inv = (a: { sf: number[]; sl: number[]; sr: number[] }) => {
-        // s_l s_r conj(s_f)^2
-        const slr = [a.sl[0] * a.sr[0] - a.sl[1] * a.sr[1], a.sl[0] * a.sr[1] + a.sl[1] * a.sr[0]];
-        const cf2 = [a.sf[0] ** 2 - a.sf[1] ** 2, -2 * a.sf[0] * a.sf[1]];
-        return slr[0] * cf2[1] + slr[1] * cf2[0];
-      };
-      expect(inv(p)).toBeGreaterThanOrEqual(-1e-12);
-      expect(inv(m)).toBeLessThanOrEqual(1e-12);
-      if (f > 1e-9) {
-        expect(Math.abs(Math.atan2(Math.sin(Math.atan2(p.sf[1], p.sf[0]) - chi), Math.cos(Math.atan2(p.sf[1], p.sf[0]) - chi)))).toBeLessThan(1e-9);
-        expect(Math.abs(Math.atan2(Math.sin(Math.atan2(m.sf[1], m.sf[0]) - chi), Math.cos(Math.atan2(m.sf[1], m.sf[0]) - chi)))).toBeLessThan(1e-9);
-      }
-    }), { numRuns: 200 });
+    fc.assert(
+      fc.property(reachableTriple, fc.double({ min: -3, max: 3, noNaN: true }), ({ f, l, r }, chi) => {
+        const p = circulantAmplitudes(f, l, r, 1, chi),
+          m = circulantAmplitudes(f, l, r, -1, chi);
+        const inv = (a: { sf: number[]; sl: number[]; sr: number[] }) => {
+          // s_l s_r conj(s_f)^2
+          const slr = [a.sl[0] * a.sr[0] - a.sl[1] * a.sr[1], a.sl[0] * a.sr[1] + a.sl[1] * a.sr[0]];
+          const cf2 = [a.sf[0] ** 2 - a.sf[1] ** 2, -2 * a.sf[0] * a.sf[1]];
+          return slr[0] * cf2[1] + slr[1] * cf2[0];
+        };
+        expect(inv(p)).toBeGreaterThanOrEqual(-1e-12);
+        expect(inv(m)).toBeLessThanOrEqual(1e-12);
+        if (f > 1e-9) {
+          expect(Math.abs(Math.atan2(Math.sin(Math.atan2(p.sf[1], p.sf[0]) - chi), Math.cos(Math.atan2(p.sf[1], p.sf[0]) - chi)))).toBeLessThan(1e-9);
+          expect(Math.abs(Math.atan2(Math.sin(Math.atan2(m.sf[1], m.sf[0]) - chi), Math.cos(Math.atan2(m.sf[1], m.sf[0]) - chi)))).toBeLessThan(1e-9);
+        }
+      }),
+      { numRuns: 200 },
+    );
   });
   it("eigenvalues of S are on the unit circle and the two branches are not gauge copies of each other", () => {
     const a = getKernels().eigGeneral(triangularNodeMatrix(0.5, 0.3, 0.2, 1, 0), 3);
     const b = getKernels().eigGeneral(triangularNodeMatrix(0.5, 0.3, 0.2, -1, 0), 3);
     const phases = (e: Float64Array) => [0, 1, 2].map((i) => Math.atan2(e[2 * i + 1], e[2 * i])).sort((x, y) => x - y);
     for (let i = 0; i < 3; i++) expect(Math.hypot(a[2 * i], a[2 * i + 1])).toBeCloseTo(1, 12);
-    const pa = phases(a), pb = phases(b);
+    const pa = phases(a),
+      pb = phases(b);
     expect(Math.max(...pa.map((x, i) => Math.abs(x - pb[i])))).toBeGreaterThan(1e-3);
   });
   // Source: triangle inequality on sqrt(f r), sqrt(l f), sqrt(r l) (physics.md section 2, derived):
@@ -69,10 +85,70 @@ describe("check 2: unitarity of every node matrix", () => {
     expect(prob(left, 0, 2)).toBe(1);
   });
   it("square nodes are unitary; explicit matrices are checked to 1e-9", () => {
-    fc.assert(fc.property(fc.double({ min: 0, max: 1, noNaN: true }), (p) => { expect(unitarityError(squareNodeMatrix(p), 2)).toBeLessThan(1e-14); }));
-    expect(checkExplicitNodeMatrix([[[1, 0], [0, 0], [0, 0]], [[0, 0], [1, 0], [0, 0]], [[0, 0], [0, 0], [1 + 1e-8, 0]]], 3)).toMatch(/not unitary/);
-    expect(checkExplicitNodeMatrix([[[1, 0], [0, 0], [0, 0]], [[0, 0], [1, 0], [0, 0]], [[0, 0], [0, 0], [1 + 1e-10, 0]]], 3)).toBeNull();
-    expect(checkExplicitNodeMatrix([[[1, 0], [0, 0]], [[0, 0], [1, 0]]], 3)).toMatch(/3 x 3/);
+    fc.assert(
+      fc.property(fc.double({ min: 0, max: 1, noNaN: true }), (p) => {
+        expect(unitarityError(squareNodeMatrix(p), 2)).toBeLessThan(1e-14);
+      }),
+    );
+    expect(
+      checkExplicitNodeMatrix(
+        [
+          [
+            [1, 0],
+            [0, 0],
+            [0, 0],
+          ],
+          [
+            [0, 0],
+            [1, 0],
+            [0, 0],
+          ],
+          [
+            [0, 0],
+            [0, 0],
+            [1 + 1e-8, 0],
+          ],
+        ],
+        3,
+      ),
+    ).toMatch(/not unitary/);
+    expect(
+      checkExplicitNodeMatrix(
+        [
+          [
+            [1, 0],
+            [0, 0],
+            [0, 0],
+          ],
+          [
+            [0, 0],
+            [1, 0],
+            [0, 0],
+          ],
+          [
+            [0, 0],
+            [0, 0],
+            [1 + 1e-10, 0],
+          ],
+        ],
+        3,
+      ),
+    ).toBeNull();
+    expect(
+      checkExplicitNodeMatrix(
+        [
+          [
+            [1, 0],
+            [0, 0],
+          ],
+          [
+            [0, 0],
+            [1, 0],
+          ],
+        ],
+        3,
+      ),
+    ).toMatch(/3 x 3/);
   });
 });
 

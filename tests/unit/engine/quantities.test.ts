@@ -5,7 +5,18 @@ import { computeLocalization } from "@/engine/compute/localization";
 import { gaussLegendre, thermalNodes } from "@/engine/compute/quadrature";
 import { BOLTZMANN_J_PER_K, JOULE_PER_MEV, CONDUCTANCE_QUANTUM_S } from "@/engine/constants";
 
-const inp = (network: object, computation: object) => parseComputeInput({ network: { lattice: "triangular", size: { columns: 6, rows: 4 }, periodNm: 140, node: { forward: 0.5, left: 0.3, right: 0.2 }, disorder: { linkPhaseWidthRad: 4, seed: 3 }, ...network }, computation });
+const inp = (network: object, computation: object) =>
+  parseComputeInput({
+    network: {
+      lattice: "triangular",
+      size: { columns: 6, rows: 4 },
+      periodNm: 140,
+      node: { forward: 0.5, left: 0.3, right: 0.2 },
+      disorder: { linkPhaseWidthRad: 4, seed: 3 },
+      ...network,
+    },
+    computation,
+  });
 
 describe("thermal smearing, contact resistance, Fano factor", () => {
   it("Gauss-Legendre integrates polynomials exactly; thermal weights sum to 1", () => {
@@ -23,8 +34,14 @@ describe("thermal smearing, contact resistance, Fano factor", () => {
     const c0 = inp({}, { kind: "conductance", energyMeV: 2 });
     const at = (E: number) => computeConductance(c0.network, { ...(c0.computation as ConductanceComputation), energyMeV: E }).conductance.total;
     let ref = 0;
-    const N = 300, lo = 2 - 30 * kT, h = (60 * kT) / N;
-    for (let i = 0; i < N; i++) { const E = lo + (i + 0.5) * h; const x = (E - 2) / kT; ref += at(E) * (1 / (4 * kT * Math.cosh(x / 2) ** 2)) * h; }
+    const N = 300,
+      lo = 2 - 30 * kT,
+      h = (60 * kT) / N;
+    for (let i = 0; i < N; i++) {
+      const E = lo + (i + 0.5) * h;
+      const x = (E - 2) / kT;
+      ref += at(E) * (1 / (4 * kT * Math.cosh(x / 2) ** 2)) * h;
+    }
     const got = computeConductance(c0.network, { ...(c0.computation as ConductanceComputation), temperatureK: T, temperaturePoints: 64 }).conductance.total;
     expect(Math.abs(got - ref) / ref).toBeLessThan(3e-4);
     const cold = computeConductance(c0.network, { ...(c0.computation as ConductanceComputation), temperatureK: 0.001 }).conductance.total;
@@ -42,7 +59,8 @@ describe("thermal smearing, contact resistance, Fano factor", () => {
   });
   it("ensembles: seeds are reproducible, mean/std/stderr are consistent", () => {
     const c = inp({}, { kind: "conductance", ensemble: { samples: 5 } });
-    const a = computeConductance(c.network, c.computation as ConductanceComputation), b = computeConductance(c.network, c.computation as ConductanceComputation);
+    const a = computeConductance(c.network, c.computation as ConductanceComputation),
+      b = computeConductance(c.network, c.computation as ConductanceComputation);
     expect(a.ensemble).toEqual(b.ensemble);
     const e = a.ensemble as NonNullable<typeof a.ensemble>;
     expect(e.stderr.total).toBeCloseTo(e.std.total / Math.sqrt(5), 14);
@@ -56,7 +74,8 @@ describe("localization", () => {
     // Source: time reversal maps valley K onto K' (T_K'(L) = T_K(L) at B = 0 on a cylinder, exact).
     const c = inp({ size: { columns: 40, rows: 4 }, disorder: { linkPhaseWidthRad: 6.28, seed: 4 } }, { kind: "localization", ensemble: { samples: 4 } });
     const r = computeLocalization(c.network, c.computation as LocalizationComputation);
-    const xiK = r.localizationLength.valleyK, xiKp = r.localizationLength.valleyKPrime;
+    const xiK = r.localizationLength.valleyK,
+      xiKp = r.localizationLength.valleyKPrime;
     expect(xiK).not.toBeNull();
     expect(Math.abs((xiK?.nm as number) - (xiKp?.nm as number)) / (xiK?.nm as number)).toBeLessThan(1e-9);
     expect(r.lambda.valleyK as number).toBeCloseTo((xiK?.nm as number) / r.widthNm, 12);

@@ -41,14 +41,26 @@ describe("parseDatasetCsv", () => {
       ['# synthetic\nB,G\n0.1,2\n"0.2,3\n0.3,4\n', 4],
       ['B,G\n0.1,2\n0.2,"3\n0.3,4', 3],
     ] as const) {
-      const err = (() => { try { parseDatasetCsv(text, fieldMap); } catch (e) { return e; } })();
+      const err = (() => {
+        try {
+          parseDatasetCsv(text, fieldMap);
+        } catch (e) {
+          return e;
+        }
+      })();
       expect(err).toBeInstanceOf(DatasetCsvError);
       expect((err as DatasetCsvError).issues).toEqual([expect.objectContaining({ code: "malformed_row", row: line, column: null })]);
       expect((err as DatasetCsvError).issues[0].message).toMatch(new RegExp(`^Row ${line}: a quote`));
     }
   });
   it("a closed quoted cell holding a line break keeps the line numbers of the rows after it", () => {
-    const err = (() => { try { parseDatasetCsv('B,G\n"0.1\n",2\nx,3\n', fieldMap); } catch (e) { return e; } })();
+    const err = (() => {
+      try {
+        parseDatasetCsv('B,G\n"0.1\n",2\nx,3\n', fieldMap);
+      } catch (e) {
+        return e;
+      }
+    })();
     expect((err as DatasetCsvError).issues.map((i) => i.row)).toContain(4);
   });
   it("parses, converts mT to T, skips comments, keeps file line numbers, sorts a descending sweep", () => {
@@ -58,7 +70,7 @@ describe("parseDatasetCsv", () => {
     expect(d.y[0]).toBeCloseTo(2, 7);
     expect(d.y[1]).toBeCloseTo(1, 7);
     expect(d.xDescending).toBe(true);
-    expect(d.sigma![0]).toBeCloseTo((10 / 12906.4037 ** 2) / CONDUCTANCE_QUANTUM_S, 9);
+    expect(d.sigma![0]).toBeCloseTo(10 / 12906.4037 ** 2 / CONDUCTANCE_QUANTUM_S, 9);
     expect(d.xQuantity).toBe("field");
   });
 
@@ -88,13 +100,21 @@ describe("parseDatasetCsv", () => {
 
   it("reports mixed units inside a column and a header unit that contradicts the mapping", () => {
     expect(issuesOf("B,G\n1 T,1\n2 T,1\n3 mT,1\n4 T,1\n")[0]).toMatchObject({ code: "mixed_units", row: 4, column: "B" });
-    expect(issuesOf("B (mT),G\n1,1\n2,1\n3,1\n4,1\n", { ...fieldMap, xColumn: "B (mT)" })[0]).toMatchObject({ code: "unit_mismatch", row: 1, column: "B (mT)" });
+    expect(issuesOf("B (mT),G\n1,1\n2,1\n3,1\n4,1\n", { ...fieldMap, xColumn: "B (mT)" })[0]).toMatchObject({
+      code: "unit_mismatch",
+      row: 1,
+      column: "B (mT)",
+    });
   });
 
   it("refuses empty cells, non-positive resistance and sigma, too few rows, an empty file", () => {
     expect(issuesOf("B,G\n0,1\n1,\n2,1\n3,1\n")[0]).toMatchObject({ code: "missing_value", row: 3, column: "G" });
     expect(issuesOf("B,R\n0,1\n1,-2\n2,1\n3,1\n", { ...fieldMap, yColumn: "R", yUnit: "ohm" })[0]).toMatchObject({ code: "nonpositive_resistance", row: 3 });
-    expect(issuesOf("B,G,s\n0,1,0\n1,1,1\n2,1,1\n3,1,1\n", { ...fieldMap, sigmaColumn: "s" })[0]).toMatchObject({ code: "nonpositive_sigma", row: 2, column: "s" });
+    expect(issuesOf("B,G,s\n0,1,0\n1,1,1\n2,1,1\n3,1,1\n", { ...fieldMap, sigmaColumn: "s" })[0]).toMatchObject({
+      code: "nonpositive_sigma",
+      row: 2,
+      column: "s",
+    });
     expect(issuesOf("B,G\n0,1\n1,1\n")[0].code).toBe("too_few_rows");
     expect(issuesOf("")[0].code).toBe("empty_file");
     expect(issuesOf("B,G\nNaN,1\n1,1\n2,1\n3,1\n")[0]).toMatchObject({ code: "not_finite", row: 2 });
@@ -117,7 +137,9 @@ describe("parseDatasetCsv", () => {
       fc.string({ maxLength: 6 }),
     );
     const row = fc.tuple(fc.array(cell, { minLength: 0, maxLength: 4 }), fc.constantFrom(",", ";", "\t")).map(([cs, sep]) => cs.join(sep));
-    const file = fc.tuple(fc.constantFrom("B,G", "B,G,s", "x,y", "B;G", ""), fc.array(row, { maxLength: 25 }), fc.constantFrom("\n", "\r\n")).map(([h, rows, nl]) => [h, ...rows].join(nl));
+    const file = fc
+      .tuple(fc.constantFrom("B,G", "B,G,s", "x,y", "B;G", ""), fc.array(row, { maxLength: 25 }), fc.constantFrom("\n", "\r\n"))
+      .map(([h, rows, nl]) => [h, ...rows].join(nl));
     fc.assert(
       fc.property(file, fc.boolean(), (text, withSigma) => {
         const lines = text.split(/\r?\n/).length;
@@ -147,7 +169,10 @@ describe("parseDatasetCsv", () => {
       fc.property(fc.uniqueArray(fc.double({ min: -10, max: 10, noNaN: true, noDefaultInfinity: true }), { minLength: 4, maxLength: 40 }), (xsRaw) => {
         const xs = [...xsRaw].map((v) => (Object.is(v, -0) ? 0 : v)).sort((a, b) => a - b);
         if (new Set(xs).size !== xs.length) return;
-        const text = csvText(["B", "G"], xs.map((v, i) => [v, i + 1]));
+        const text = csvText(
+          ["B", "G"],
+          xs.map((v, i) => [v, i + 1]),
+        );
         const d = parseDatasetCsv(text, fieldMap);
         expect(d.x).toEqual(xs);
         expect(d.y).toEqual(xs.map((_, i) => i + 1));

@@ -25,7 +25,10 @@ describe("role permissions (product.md, Roles)", () => {
     expect(ACTIONS.length).toBe(9);
     for (const a of ACTIONS) {
       expect(can("owner", a), a).toBe(true);
-      expect(rolesAllowed(a).every((r) => ROLES.includes(r)), a).toBe(true);
+      expect(
+        rolesAllowed(a).every((r) => ROLES.includes(r)),
+        a,
+      ).toBe(true);
       expect(describeAction(a), a).toMatch(/\w/);
     }
     expect(ACTIONS.filter((a) => can("viewer", a))).toEqual(["results.view", "usage.view", "tokens.own"]);

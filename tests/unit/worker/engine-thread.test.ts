@@ -4,7 +4,13 @@ import { describe, expect, it } from "vitest";
 import { compute, parseComputeInput } from "@/engine";
 import runEngine from "../../../worker/engine-thread";
 
-const network = { lattice: "triangular", size: { columns: 6, rows: 6 }, transverse: "periodic", twistDegrees: 0.11, node: { forward: 0.6, left: 0.2, right: 0.2 } };
+const network = {
+  lattice: "triangular",
+  size: { columns: 6, rows: 6 },
+  transverse: "periodic",
+  twistDegrees: 0.11,
+  node: { forward: 0.6, left: 0.2, right: 0.2 },
+};
 
 function control() {
   const sab = new SharedArrayBuffer(16);

@@ -16,8 +16,13 @@ export const meterOutbox = pgTable(
   "meter_outbox",
   {
     id: uuid("id").primaryKey().defaultRandom(),
-    ledgerId: uuid("ledger_id").notNull().unique().references(() => usageLedger.id, { onDelete: "cascade" }),
-    workspaceId: uuid("workspace_id").notNull().references(() => workspaces.id, { onDelete: "cascade" }),
+    ledgerId: uuid("ledger_id")
+      .notNull()
+      .unique()
+      .references(() => usageLedger.id, { onDelete: "cascade" }),
+    workspaceId: uuid("workspace_id")
+      .notNull()
+      .references(() => workspaces.id, { onDelete: "cascade" }),
     computeSeconds: real("compute_seconds").notNull(),
     /** When the usage happened (the ledger row's time): the meter event's timestamp. */
     usageAt: timestamp("usage_at", { withTimezone: true }).notNull(),
@@ -53,7 +58,9 @@ export const stripeEvents = pgTable(
 
 /** Billing facts of a workspace that Stripe does not keep for us: the grace period after a failed payment. */
 export const workspaceBilling = pgTable("workspace_billing", {
-  workspaceId: uuid("workspace_id").primaryKey().references(() => workspaces.id, { onDelete: "cascade" }),
+  workspaceId: uuid("workspace_id")
+    .primaryKey()
+    .references(() => workspaces.id, { onDelete: "cascade" }),
   /** Set when a payment fails; past it, the workspace works under Free limits until paid. */
   graceEndsAt: timestamp("grace_ends_at", { withTimezone: true }),
   lastPaymentFailedAt: timestamp("last_payment_failed_at", { withTimezone: true }),
@@ -66,7 +73,9 @@ export const spendCapNotices = pgTable(
   "spend_cap_notices",
   {
     id: uuid("id").primaryKey().defaultRandom(),
-    workspaceId: uuid("workspace_id").notNull().references(() => workspaces.id, { onDelete: "cascade" }),
+    workspaceId: uuid("workspace_id")
+      .notNull()
+      .references(() => workspaces.id, { onDelete: "cascade" }),
     /** Billing period YYYY-MM (UTC). */
     period: text("period").notNull(),
     thresholdPercent: integer("threshold_percent").notNull(),

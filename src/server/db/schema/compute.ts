@@ -13,7 +13,9 @@ export const networks = pgTable(
   "networks",
   {
     id: uuid("id").primaryKey().defaultRandom(),
-    workspaceId: uuid("workspace_id").notNull().references(() => workspaces.id, { onDelete: "cascade" }),
+    workspaceId: uuid("workspace_id")
+      .notNull()
+      .references(() => workspaces.id, { onDelete: "cascade" }),
     name: text("name").notNull(),
     currentVersion: integer("current_version").notNull().default(1),
     createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
@@ -27,7 +29,9 @@ export const networkVersions = pgTable(
   "network_versions",
   {
     id: uuid("id").primaryKey().defaultRandom(),
-    networkId: uuid("network_id").notNull().references(() => networks.id, { onDelete: "cascade" }),
+    networkId: uuid("network_id")
+      .notNull()
+      .references(() => networks.id, { onDelete: "cascade" }),
     version: integer("version").notNull(),
     /** The network description, validated by the engine's zod schema (src/engine). */
     definition: jsonb("definition").$type<Network>().notNull(),
@@ -42,7 +46,9 @@ export const sweeps = pgTable(
   "sweeps",
   {
     id: uuid("id").primaryKey().defaultRandom(),
-    workspaceId: uuid("workspace_id").notNull().references(() => workspaces.id, { onDelete: "cascade" }),
+    workspaceId: uuid("workspace_id")
+      .notNull()
+      .references(() => workspaces.id, { onDelete: "cascade" }),
     createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
     networkVersionId: uuid("network_version_id").references(() => networkVersions.id, { onDelete: "restrict" }),
     /** A title for lists, e.g. "conductance versus field". */
@@ -71,7 +77,9 @@ export const runs = pgTable(
   "runs",
   {
     id: uuid("id").primaryKey().defaultRandom(),
-    workspaceId: uuid("workspace_id").notNull().references(() => workspaces.id, { onDelete: "cascade" }),
+    workspaceId: uuid("workspace_id")
+      .notNull()
+      .references(() => workspaces.id, { onDelete: "cascade" }),
     createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
     networkVersionId: uuid("network_version_id").references(() => networkVersions.id, { onDelete: "restrict" }),
     sweepId: uuid("sweep_id").references(() => sweeps.id, { onDelete: "cascade" }),
@@ -103,7 +111,9 @@ export const runs = pgTable(
   (t) => [
     index("runs_workspace_created").on(t.workspaceId, t.createdAt),
     index("runs_network_version").on(t.networkVersionId),
-    index("runs_unfinished").on(t.createdAt).where(sql`status in ('queued', 'running')`),
+    index("runs_unfinished")
+      .on(t.createdAt)
+      .where(sql`status in ('queued', 'running')`),
     index("runs_workspace_status").on(t.workspaceId, t.status),
     uniqueIndex("runs_sweep_point").on(t.sweepId, t.sweepPointIndex),
   ],
@@ -117,9 +127,14 @@ export const usageLedger = pgTable(
   "usage_ledger",
   {
     id: uuid("id").primaryKey().defaultRandom(),
-    workspaceId: uuid("workspace_id").notNull().references(() => workspaces.id, { onDelete: "cascade" }),
+    workspaceId: uuid("workspace_id")
+      .notNull()
+      .references(() => workspaces.id, { onDelete: "cascade" }),
     userId: uuid("user_id").references(() => users.id, { onDelete: "set null" }),
-    runId: uuid("run_id").notNull().unique().references(() => runs.id, { onDelete: "restrict" }),
+    runId: uuid("run_id")
+      .notNull()
+      .unique()
+      .references(() => runs.id, { onDelete: "restrict" }),
     computeSeconds: real("compute_seconds").notNull(),
     plan: planName("plan").notNull(),
     /** Billing period as YYYY-MM (UTC). */

@@ -13,7 +13,9 @@ export const datasets = pgTable(
   "datasets",
   {
     id: uuid("id").primaryKey().defaultRandom(),
-    workspaceId: uuid("workspace_id").notNull().references(() => workspaces.id, { onDelete: "cascade" }),
+    workspaceId: uuid("workspace_id")
+      .notNull()
+      .references(() => workspaces.id, { onDelete: "cascade" }),
     createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
     name: text("name").notNull(),
     /** Made by the model, not measured (the demo dataset): shown with a mark everywhere. */
@@ -47,9 +49,13 @@ export const fits = pgTable(
   "fits",
   {
     id: uuid("id").primaryKey().defaultRandom(),
-    workspaceId: uuid("workspace_id").notNull().references(() => workspaces.id, { onDelete: "cascade" }),
+    workspaceId: uuid("workspace_id")
+      .notNull()
+      .references(() => workspaces.id, { onDelete: "cascade" }),
     createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
-    datasetId: uuid("dataset_id").notNull().references(() => datasets.id, { onDelete: "restrict" }),
+    datasetId: uuid("dataset_id")
+      .notNull()
+      .references(() => datasets.id, { onDelete: "restrict" }),
     runId: uuid("run_id").references(() => runs.id, { onDelete: "set null" }),
     /** { network, computation, sweepParameter, fit, options } after validation. */
     input: jsonb("input").$type<FitSettings>().notNull(),

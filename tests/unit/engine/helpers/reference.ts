@@ -14,20 +14,26 @@ export function numpy<T = { re: number[]; im: number[]; shape: number[] }>(reque
 }
 
 export function split(a: Float64Array): { re: number[]; im: number[] } {
-  const re: number[] = [], im: number[] = [];
-  for (let i = 0; i < a.length; i += 2) { re.push(a[i]); im.push(a[i + 1]); }
+  const re: number[] = [],
+    im: number[] = [];
+  for (let i = 0; i < a.length; i += 2) {
+    re.push(a[i]);
+    im.push(a[i + 1]);
+  }
   return { re, im };
 }
 
 export function graphJson(g: NetworkGraph, z: Float64Array): object {
   const nodes = [];
   for (let n = 0; n < g.nodeCount; n++) {
-    const k = g.slotCount[n], o = 2 * g.matrixOffset[n];
+    const k = g.slotCount[n],
+      o = 2 * g.matrixOffset[n];
     const m = split(g.matrices.subarray(o, o + 2 * k * k));
     nodes.push({ k, ...m, inChannel: Array.from(g.inChannel.subarray(g.slotOffset[n], g.slotOffset[n] + k)) });
   }
   const channels = [];
-  for (let c = 0; c < g.channelCount; c++) channels.push({ from: g.chFromNode[c], fromSlot: g.chFromSlot[c], to: g.chToNode[c], zr: z[2 * c], zi: z[2 * c + 1] });
+  for (let c = 0; c < g.channelCount; c++)
+    channels.push({ from: g.chFromNode[c], fromSlot: g.chFromSlot[c], to: g.chToNode[c], zr: z[2 * c], zi: z[2 * c + 1] });
   return { nodes, channels };
 }
 
@@ -37,8 +43,12 @@ export function randomUnitary(n: number, rand: () => number): [number, number][]
   for (let j = 0; j < n; j++) {
     let v: [number, number][] = Array.from({ length: n }, () => [rand() - 0.5, rand() - 0.5]);
     for (const u of cols) {
-      let pr = 0, pi = 0;
-      for (let i = 0; i < n; i++) { pr += u[i][0] * v[i][0] + u[i][1] * v[i][1]; pi += u[i][0] * v[i][1] - u[i][1] * v[i][0]; }
+      let pr = 0,
+        pi = 0;
+      for (let i = 0; i < n; i++) {
+        pr += u[i][0] * v[i][0] + u[i][1] * v[i][1];
+        pi += u[i][0] * v[i][1] - u[i][1] * v[i][0];
+      }
       v = v.map((x, i) => [x[0] - (pr * u[i][0] - pi * u[i][1]), x[1] - (pr * u[i][1] + pi * u[i][0])]);
     }
     const nrm = Math.sqrt(v.reduce((a, x) => a + x[0] * x[0] + x[1] * x[1], 0));

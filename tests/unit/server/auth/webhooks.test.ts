@@ -5,7 +5,10 @@ import { roleFromClerk } from "@/server/auth/roles";
 
 const SECRET = "whsec_" + Buffer.from("unit-test-secret").toString("base64");
 const sign = (id: string, ts: number, body: string, secret = SECRET) =>
-  "v1," + createHmac("sha256", Buffer.from(secret.slice(6), "base64")).update(`${id}.${ts}.${body}`).digest("base64");
+  "v1," +
+  createHmac("sha256", Buffer.from(secret.slice(6), "base64"))
+    .update(`${id}.${ts}.${body}`)
+    .digest("base64");
 
 describe("webhook signatures (Standard Webhooks)", () => {
   const now = 1_800_000_000;

@@ -24,7 +24,9 @@ describe("plan limits", () => {
     expect(e.message).toContain("maxSweepPoints");
   });
   it("checks the engine's ensemble size", () => {
-    const e = thrown(() => assertEnsembleWithinPlan("free", { computation: { kind: "conductance", ensemble: { samples: PLANS.free.maxEnsembleSamples + 1 } } }));
+    const e = thrown(() =>
+      assertEnsembleWithinPlan("free", { computation: { kind: "conductance", ensemble: { samples: PLANS.free.maxEnsembleSamples + 1 } } }),
+    );
     expect(e.details).toMatchObject({ limit: "maxEnsembleSamples" });
     expect(() => assertEnsembleWithinPlan("free", { computation: { kind: "conductance" } })).not.toThrow();
     expect(() => assertNetworkWithinPlan("free", { columns: 40, rows: 40 })).not.toThrow();

@@ -28,7 +28,8 @@ describe("backoffMs", () => {
 });
 
 describe("classifyStripeError", () => {
-  const invalid = (raw: Record<string, unknown>) => new Stripe.errors.StripeInvalidRequestError({ type: "invalid_request_error", statusCode: 400, ...raw } as never);
+  const invalid = (raw: Record<string, unknown>) =>
+    new Stripe.errors.StripeInvalidRequestError({ type: "invalid_request_error", statusCode: 400, ...raw } as never);
   it("treats a duplicate identifier as already recorded (counted once)", () => {
     const err = invalid({ code: "resource_already_exists", param: "identifier", message: "An event already exists with identifier x." });
     expect(classifyStripeError(err)).toEqual({ kind: "already" });
@@ -39,7 +40,9 @@ describe("classifyStripeError", () => {
     expect(classifyStripeError(new Stripe.errors.StripeRateLimitError({ message: "slow down" } as never)).kind).toBe("retry");
   });
   it("fails for good, with Stripe's reason, when the event itself is refused", () => {
-    const out = classifyStripeError(invalid({ code: "timestamp_too_far_in_past", param: "timestamp", message: "Timestamp must be within the past 35 calendar days." }));
+    const out = classifyStripeError(
+      invalid({ code: "timestamp_too_far_in_past", param: "timestamp", message: "Timestamp must be within the past 35 calendar days." }),
+    );
     expect(out.kind).toBe("failed");
     expect(out.kind === "failed" && out.reason).toContain("35 calendar days");
     expect(out.kind === "failed" && out.reason).toContain("timestamp");

@@ -59,7 +59,12 @@ describe("engine-backed fit model", () => {
 
   it("refuses parameters it cannot fit and period with twist together", () => {
     expect(() => checkFitSpecs([{ parameter: "energyMeV", initial: 1, min: 0, max: 2 }])).toThrow(/cannot be fitted/);
-    expect(() => checkFitSpecs([{ parameter: "periodNm", initial: 100, min: 50, max: 200 }, { parameter: "twistDegrees", initial: 0.1, min: 0.05, max: 0.2 }])).toThrow(/fit one of them/);
+    expect(() =>
+      checkFitSpecs([
+        { parameter: "periodNm", initial: 100, min: 50, max: 200 },
+        { parameter: "twistDegrees", initial: 0.1, min: 0.05, max: 0.2 },
+      ]),
+    ).toThrow(/fit one of them/);
     expect(expectedEvaluations(2)).toBeGreaterThan(2);
   });
 });

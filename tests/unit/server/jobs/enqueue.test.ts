@@ -28,10 +28,20 @@ afterEach(() => {
 describe("enqueue after commit", () => {
   it("adds one job per row on the kind's queue, job id = row id, the id under the kind's key", async () => {
     expect(await enqueueAfterCommit("fit", [{ id: "f-1", priority: 10 }])).toBe(true);
-    expect(await enqueueAfterCommit("run", [{ id: "r-1", priority: 1 }, { id: "r-2", priority: 1 }])).toBe(true);
+    expect(
+      await enqueueAfterCommit("run", [
+        { id: "r-1", priority: 1 },
+        { id: "r-2", priority: 1 },
+      ]),
+    ).toBe(true);
     expect(added.map((a) => a.queue)).toEqual(["fits", "runs"]);
-    expect(added[0].jobs).toEqual([expect.objectContaining({ name: "fit", data: { fitId: "f-1" }, opts: expect.objectContaining({ jobId: "f-1", priority: 10, attempts: 3 }) })]);
-    expect(added[1].jobs.map((j) => [j.name, j.data, j.opts.jobId])).toEqual([["run", { runId: "r-1" }, "r-1"], ["run", { runId: "r-2" }, "r-2"]]);
+    expect(added[0].jobs).toEqual([
+      expect.objectContaining({ name: "fit", data: { fitId: "f-1" }, opts: expect.objectContaining({ jobId: "f-1", priority: 10, attempts: 3 }) }),
+    ]);
+    expect(added[1].jobs.map((j) => [j.name, j.data, j.opts.jobId])).toEqual([
+      ["run", { runId: "r-1" }, "r-1"],
+      ["run", { runId: "r-2" }, "r-2"],
+    ]);
     expect(rowIdOf(JOB_KINDS.fit, { id: "x", data: { fitId: "f-1" } })).toBe("f-1");
     expect(rowIdOf(JOB_KINDS.run, { id: "r-9", data: {} })).toBe("r-9");
   });

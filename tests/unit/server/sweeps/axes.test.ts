@@ -23,7 +23,11 @@ describe("sweep axes", () => {
   });
 
   it("refuses malformed axes with the field named", () => {
-    const three = axesSchema.safeParse([{ parameter: "a", values: [1] }, { parameter: "b", values: [1] }, { parameter: "c", values: [1] }]);
+    const three = axesSchema.safeParse([
+      { parameter: "a", values: [1] },
+      { parameter: "b", values: [1] },
+      { parameter: "c", values: [1] },
+    ]);
     expect(three.success).toBe(false);
     expect(axesSchema.safeParse([]).success).toBe(false);
     expect(axesSchema.safeParse([{ parameter: "node.forward", from: 0.2, to: 0.9, points: 0 }]).success).toBe(false);

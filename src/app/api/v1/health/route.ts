@@ -17,7 +17,8 @@ async function check(probe: () => Promise<number>) {
 export async function GET() {
   const [database, queue] = await Promise.all([check(() => pingDb()), check(() => pingRedis())]);
   const ok = database.status === "ok" && queue.status === "ok";
-  return reply("GET /api/v1/health", 
+  return reply(
+    "GET /api/v1/health",
     { status: ok ? "ok" : "degraded", database, queue, time: new Date().toISOString() },
     { status: ok ? 200 : 503, headers: { "cache-control": "no-store" } },
   );

@@ -11,5 +11,7 @@ export const GET = route(async (req: Request, ctx: Ctx) => {
   const caller = await getCaller(req);
   const { id } = await ctx.params;
   const { filename, csv } = await getOriginalCsv(caller, id);
-  return new Response(csv, { headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="${filename.replace(/"/g, "")}"` } });
+  return new Response(csv, {
+    headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="${filename.replace(/"/g, "")}"` },
+  });
 });

@@ -10,5 +10,7 @@ type Ctx = { params: Promise<{ id: string }> };
 export const GET = route(async (req: Request, ctx: Ctx) => {
   const caller = await getCaller(req);
   const { id } = await ctx.params;
-  return reply("GET /api/v1/fits/{id}/export", await exportFit(caller, id), { headers: { "content-disposition": `attachment; filename="fit-${id.slice(0, 8)}-report.json"` } });
+  return reply("GET /api/v1/fits/{id}/export", await exportFit(caller, id), {
+    headers: { "content-disposition": `attachment; filename="fit-${id.slice(0, 8)}-report.json"` },
+  });
 });
