@@ -156,42 +156,19 @@ type Cell = { ok: true; value: number; unit?: string } | { ok: false; issue: Csv
 
 function readCell(raw: string | undefined, line: number, column: string): Cell {
   const text = (raw ?? "").trim();
-  if (text === "")
-    return {
-      ok: false,
-      issue: { code: "missing_value", row: line, column, message: `Row ${line}, column "${column}": the cell is empty; every point needs a number here.` },
-    };
-  if (/^[+-]?(nan|inf|infinity)$/i.test(text)) {
-    return { ok: false, issue: { code: "not_finite", row: line, column, message: `Row ${line}, column "${column}": "${clip(text)}" is not a finite number.` } };
-  }
+  const refuse = (code: CsvIssueCode, problem: string): Cell => ({
+    ok: false,
+    issue: { code, row: line, column, message: `Row ${line}, column "${column}": ${problem}` },
+  });
+  if (text === "") return refuse("missing_value", "the cell is empty; every point needs a number here.");
+  if (/^[+-]?(nan|inf|infinity)$/i.test(text)) return refuse("not_finite", `"${clip(text)}" is not a finite number.`);
   const m = NUMBER.exec(text);
-  if (!m) {
-    return {
-      ok: false,
-      issue: {
-        code: "non_numeric",
-        row: line,
-        column,
-        message: `Row ${line}, column "${column}": "${clip(text)}" is not a number (expected e.g. 0.125 or 1.5e-3, optionally followed by its unit).`,
-      },
-    };
-  }
+  if (!m) return refuse("non_numeric", `"${clip(text)}" is not a number (expected e.g. 0.125 or 1.5e-3, optionally followed by its unit).`);
   const value = Number(m[1]);
-  if (!Number.isFinite(value))
-    return { ok: false, issue: { code: "not_finite", row: line, column, message: `Row ${line}, column "${column}": "${clip(text)}" is out of range.` } };
+  if (!Number.isFinite(value)) return refuse("not_finite", `"${clip(text)}" is out of range.`);
   if (m[2]) {
     const unit = recogniseUnit(m[2]);
-    if (!unit) {
-      return {
-        ok: false,
-        issue: {
-          code: "non_numeric",
-          row: line,
-          column,
-          message: `Row ${line}, column "${column}": "${clip(text)}" is not a number (the text after it, "${clip(m[2])}", is not a unit we know).`,
-        },
-      };
-    }
+    if (!unit) return refuse("non_numeric", `"${clip(text)}" is not a number (the text after it, "${clip(m[2])}", is not a unit we know).`);
     return { ok: true, value, unit };
   }
   return { ok: true, value };

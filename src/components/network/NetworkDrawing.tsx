@@ -93,15 +93,8 @@ function fitTransform(g: NetworkGeometry, width: number, height: number) {
   return { k, x: (u: number) => width / 2 + (u - cx) * k, y: (v: number) => height / 2 - (v - cy) * k };
 }
 
-function SvgNetwork({
-  shape,
-  custom,
-  width,
-  height,
-  palette,
-  linkValues,
-  description,
-}: {
+/** What the SVG and the canvas renderers both draw from. */
+interface RendererProps {
   shape: NetworkShape;
   custom?: NetworkGeometry;
   width: number;
@@ -109,7 +102,9 @@ function SvgNetwork({
   palette: Palette;
   linkValues?: LinkValues;
   description: string;
-}) {
+}
+
+function SvgNetwork({ shape, custom, width, height, palette, linkValues, description }: RendererProps) {
   const svgRef = useRef<SVGSVGElement>(null);
   const gRef = useRef<SVGGElement>(null);
   const geometry = useMemo(() => custom ?? networkGeometry(shape), [custom, shape]);
@@ -351,23 +346,7 @@ export function paintNetwork(
   return painted;
 }
 
-function CanvasNetwork({
-  shape,
-  custom,
-  width,
-  height,
-  palette,
-  linkValues,
-  description,
-}: {
-  shape: NetworkShape;
-  custom?: NetworkGeometry;
-  width: number;
-  height: number;
-  palette: Palette;
-  linkValues?: LinkValues;
-  description: string;
-}) {
+function CanvasNetwork({ shape, custom, width, height, palette, linkValues, description }: RendererProps) {
   const canvasRef = useRef<HTMLCanvasElement>(null);
   const transformRef = useRef(d3.zoomIdentity);
   const geometryMsRef = useRef(0);
