@@ -340,6 +340,127 @@ describe("webhooks", () => {
   });
 });
 
+let forgedCount = 0;
+/** A correctly signed event whose object says whatever the sender wants (a leaked secret, a replay). */
+async function sendSignedEvent(type: string, object: Record<string, unknown>) {
+  const payload = JSON.stringify({
+    id: `evt_forged_${tag}_${++forgedCount}`,
+    object: "event",
+    type,
+    created: Math.floor(Date.now() / 1000),
+    livemode: false,
+    data: { object },
+  });
+  const header = stripe.webhooks.generateTestHeaderString({ payload, secret: process.env.STRIPE_WEBHOOK_SECRET! });
+  const res = await fetch(new URL("/api/webhooks/stripe", appUrl()), {
+    method: "POST",
+    headers: { "stripe-signature": header, "content-type": "application/json" },
+    body: payload,
+  });
+  return { status: res.status, body: await res.json() };
+}
+const planOf = async (ws: TestWorkspace) =>
+  (await sql`select plan, plan_state, seats, stripe_customer_id, stripe_subscription_id from workspaces where id = ${ws.id}`)[0];
+const seatItems = (quantity: number) => ({
+  object: "list",
+  data: [{ id: "si_forged", quantity, price: { id: "price_forged", lookup_key: "triskel_lab_seat_monthly", recurring: { usage_type: "licensed" } } }],
+});
+
+describe("webhooks are confirmed with Stripe before a plan changes", () => {
+  it("ignores checkout and subscription events whose objects Stripe does not know (200, nothing changed)", async () => {
+    const ws = await createWorkspace("Oakhollow Spin Lab (billing test)");
+    const checkout = await sendSignedEvent("checkout.session.completed", {
+      id: `cs_test_forged_${tag}`,
+      object: "checkout.session",
+      mode: "subscription",
+      status: "complete",
+      payment_status: "paid",
+      customer: `cus_forged_${tag}`,
+      subscription: `sub_forged_${tag}`,
+      client_reference_id: ws.id,
+      metadata: { workspace_id: ws.id },
+    });
+    expect(checkout.status).toBe(200);
+    expect(checkout.body.outcome).toMatch(/^ignored: Stripe does not know Checkout Session cs_test_forged_/);
+    const created = await sendSignedEvent("customer.subscription.created", {
+      id: `sub_forged_${tag}`,
+      object: "subscription",
+      status: "active",
+      customer: `cus_forged_${tag}`,
+      metadata: { workspace_id: ws.id },
+      items: seatItems(50),
+    });
+    expect(created.status).toBe(200);
+    expect(created.body.outcome).toMatch(/^ignored: Stripe does not know subscription sub_forged_/);
+    expect(await planOf(ws)).toMatchObject({ plan: "free", seats: 0, stripe_customer_id: null, stripe_subscription_id: null });
+    const [stored] = await sql`select outcome from stripe_events where id = ${checkout.body.eventId}`;
+    expect(stored.outcome).toMatch(/^ignored: Stripe does not know/);
+  });
+
+  it("does not take a started but unpaid checkout as paid, whatever the event says", async () => {
+    const ws = await createWorkspace("Saltmarsh Interferometry (billing test)");
+    const start = await call(ws, "billingAdmin", "/api/v1/billing/checkout", { method: "POST" });
+    expect(start.status).toBe(201);
+    const { stripe_customer_id: customer } = await planOf(ws);
+    expect(customer).toMatch(/^cus_/);
+    const res = await sendSignedEvent("checkout.session.completed", {
+      id: start.body.sessionId,
+      object: "checkout.session",
+      mode: "subscription",
+      status: "complete",
+      payment_status: "paid",
+      customer,
+      subscription: `sub_forged_${tag}`,
+      client_reference_id: ws.id,
+      metadata: { workspace_id: ws.id },
+    });
+    expect(res.status).toBe(200);
+    expect(res.body.outcome).toBe(`ignored: Stripe says Checkout Session ${start.body.sessionId} is open (unpaid)`);
+    expect(await planOf(ws)).toMatchObject({ plan: "free", stripe_subscription_id: null });
+  });
+
+  it("does not upgrade a workspace named by a paid checkout of another customer", async () => {
+    const ws = await createWorkspace("Thornbury Hall Lab (billing test)");
+    // The workspace's own payment customer exists (a checkout was started, never paid).
+    expect((await call(ws, "billingAdmin", "/api/v1/billing/checkout", { method: "POST" })).status).toBe(201);
+    const prices = await stripe.prices.list({ lookup_keys: ["triskel_lab_seat_monthly", "triskel_compute_seconds_metered"] });
+    const seat = prices.data.find((p) => p.lookup_key === "triskel_lab_seat_monthly")!;
+    const stranger = await stripe.customers.create({ name: "Someone else (billing test)" });
+    const session = await stripe.checkout.sessions.create({
+      mode: "subscription",
+      customer: stranger.id,
+      client_reference_id: ws.id,
+      metadata: { workspace_id: ws.id },
+      subscription_data: { metadata: { workspace_id: ws.id } },
+      line_items: [{ price: seat.id, quantity: 1 }],
+      success_url: `${appUrl()}/billing`,
+    });
+    // Paid for real at the stand-in, which delivers its signed events to the app before answering.
+    const pay = await fetch(`${session.url}/pay`, { method: "POST", redirect: "manual" });
+    expect(pay.status).toBe(303);
+    const outcomes = await sql`select type, outcome from stripe_events where workspace_id = ${ws.id} order by received_at`;
+    const checkoutOutcome = outcomes.find((o) => o.type === "checkout.session.completed")?.outcome;
+    expect(checkoutOutcome).toMatch(new RegExp(`^ignored: Stripe's customer ${stranger.id} is not the payment customer of workspace ${ws.id}`));
+    const subOutcome = outcomes.find((o) => o.type === "customer.subscription.created")?.outcome;
+    expect(subOutcome).toMatch(/^ignored: Stripe's customer/);
+    expect(await planOf(ws)).toMatchObject({ plan: "free", seats: 0, stripe_subscription_id: null });
+  });
+
+  it("acts on the subscription as Stripe has it, not as the event describes it", async () => {
+    const ws = await createWorkspace("Hawkridge Quantum Wires (billing test)");
+    const { row } = await upgrade(ws);
+    expect(row).toMatchObject({ plan: "lab", seats: 3 });
+    const sub = { id: row.stripe_subscription_id, object: "subscription", customer: row.stripe_customer_id, metadata: { workspace_id: ws.id } };
+    const updated = await sendSignedEvent("customer.subscription.updated", { ...sub, status: "canceled", items: seatItems(99) });
+    expect(updated.status).toBe(200);
+    expect(updated.body.outcome).toBe("subscription active, 3 seats");
+    const deleted = await sendSignedEvent("customer.subscription.deleted", { ...sub, status: "canceled", items: seatItems(0) });
+    expect(deleted.status).toBe(200);
+    expect(deleted.body.outcome).toBe(`ignored: Stripe says subscription ${row.stripe_subscription_id} is active, not ended`);
+    expect(await planOf(ws)).toMatchObject({ plan: "lab", plan_state: "active", seats: 3, stripe_subscription_id: row.stripe_subscription_id });
+  });
+});
+
 const smallRun = {
   network: {
     lattice: "triangular",

@@ -79,6 +79,18 @@ describe("Stripe stand-in through the SDK", () => {
     expect(old.param).toBe("timestamp");
   });
 
+  it("answers the retrieve calls the webhook handler confirms events with (unknown ids: 404 resource_missing)", async () => {
+    for (const get of [
+      () => stripe.checkout.sessions.retrieve("cs_test_doesnotexist"),
+      () => stripe.subscriptions.retrieve("sub_doesnotexist"),
+      () => stripe.invoices.retrieve("in_doesnotexist"),
+    ]) {
+      const err = await get().catch((e) => e);
+      expect(err).toBeInstanceOf(Stripe.errors.StripeInvalidRequestError);
+      expect([err.statusCode, err.code]).toEqual([404, "resource_missing"]);
+    }
+  });
+
   it("decodes nested brackets and indexed arrays (checkout line items) and previews an invoice", async () => {
     const prices = await stripe.prices.list({ lookup_keys: ["triskel_lab_seat_monthly", "triskel_compute_seconds_metered"] });
     const seat = prices.data.find((p) => p.lookup_key === "triskel_lab_seat_monthly")!;

@@ -6,13 +6,21 @@ import { getDb } from "@/server/db";
 import { stripeEvents, workspaceBilling, workspaces } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
 import { BILLING_RULES, STRIPE_OBJECTS } from "./config";
-import { getStripe } from "./stripe";
+import { getStripe, stripeToApiError } from "./stripe";
 
 /**
  * Stripe webhooks: the raw body's signature is verified with the SDK, the event is stored once
  * (its id is the primary key) and applied in the same transaction, so a replayed or retried
  * event changes nothing the second time, and an event that fails to apply is not stored (Stripe
  * retries it).
+ *
+ * A signature proves who sent the event, not that what it says is still true (a leaked secret,
+ * an old event replayed). So before a checkout, subscription or invoice event changes a plan,
+ * its object is retrieved through the SDK and only what Stripe answers is used: status,
+ * customer, workspace id (metadata), seat quantity. An object Stripe does not know, or whose
+ * customer is not the workspace's payment customer, changes nothing: the event is stored and
+ * answered 200 with an `ignored: ...` outcome (Stripe need not retry it). Stripe unreachable
+ * while confirming: 503 and nothing stored, so Stripe delivers it again.
  */
 
 type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
@@ -38,6 +46,10 @@ export function verifyStripeEvent(rawBody: string, signature: string | null): St
 export async function handleStripeWebhook(rawBody: string, signature: string | null): Promise<WebhookResult> {
   const event = verifyStripeEvent(rawBody, signature);
   const db = getDb();
+  const [seen] = await db.select({ outcome: stripeEvents.outcome }).from(stripeEvents).where(eq(stripeEvents.id, event.id));
+  if (seen) return { received: true, eventId: event.id, type: event.type, duplicate: true, outcome: `already applied: ${seen.outcome}` };
+  // Asked before the transaction: no database connection is held while Stripe answers.
+  const confirmed = await confirmWithStripe(event);
   return db.transaction(async (tx) => {
     const inserted = await tx
       .insert(stripeEvents)
@@ -54,13 +66,68 @@ export async function handleStripeWebhook(rawBody: string, signature: string | n
       const [prior] = await tx.select({ outcome: stripeEvents.outcome }).from(stripeEvents).where(eq(stripeEvents.id, event.id));
       return { received: true, eventId: event.id, type: event.type, duplicate: true, outcome: `already applied: ${prior?.outcome ?? "?"}` };
     }
-    const { workspaceId, outcome } = await applyEvent(tx, event);
+    const { workspaceId, outcome } = await applyEvent(tx, event, confirmed);
     await tx.update(stripeEvents).set({ outcome, workspaceId }).where(eq(stripeEvents.id, event.id));
     return { received: true, eventId: event.id, type: event.type, duplicate: false, outcome };
   });
 }
 
 const idOf = (v: string | { id: string } | null | undefined): string | null => (v == null ? null : typeof v === "string" ? v : v.id);
+
+/** What Stripe itself says about an event's object, retrieved through the SDK. */
+export type Confirmed =
+  | { kind: "checkout"; session: Stripe.Checkout.Session; subscription: Stripe.Subscription | null }
+  | { kind: "subscription"; subscription: Stripe.Subscription }
+  | { kind: "invoice"; invoice: Stripe.Invoice }
+  /** Stripe does not know the object (or the event names none): the event changes nothing. */
+  | { kind: "unknown"; reason: string }
+  /** An event type that changes no plan: nothing to confirm. */
+  | { kind: "none" };
+
+const isMissing = (err: unknown) =>
+  err instanceof Stripe.errors.StripeError && (err.code === "resource_missing" || (err.statusCode === 404 && err.type === "StripeInvalidRequestError"));
+
+/** Retrieves `id` through `get`; null when Stripe answers that no such object exists. Unreachable: 503. */
+async function retrieve<T>(what: string, id: string, get: (id: string) => Promise<T>): Promise<T | null> {
+  try {
+    return await get(id);
+  } catch (err) {
+    if (isMissing(err)) return null;
+    throw stripeToApiError(err, `confirm the ${what} ${id} of a webhook event`);
+  }
+}
+
+const STRIPE_ID = /^[A-Za-z0-9_]{3,255}$/;
+/** The events that change a plan, seats or plan state: each is confirmed with Stripe first. */
+const CONFIRMED_TYPES = new Set([
+  "checkout.session.completed",
+  "customer.subscription.created",
+  "customer.subscription.updated",
+  "customer.subscription.deleted",
+  "invoice.paid",
+  "invoice.payment_failed",
+]);
+
+export async function confirmWithStripe(event: Stripe.Event): Promise<Confirmed> {
+  const object = event.data.object as { id?: unknown };
+  const id = typeof object?.id === "string" ? object.id : "";
+  if (!CONFIRMED_TYPES.has(event.type)) return { kind: "none" };
+  if (!STRIPE_ID.test(id)) return { kind: "unknown", reason: `the event names no ${event.type.split(".")[0]} id Stripe could know` };
+  const stripe = getStripe();
+  if (event.type === "checkout.session.completed") {
+    const session = await retrieve("Checkout Session", id, (x) => stripe.checkout.sessions.retrieve(x));
+    if (!session) return { kind: "unknown", reason: `Stripe does not know Checkout Session ${id}` };
+    const subId = idOf(session.subscription);
+    const subscription = subId ? await retrieve("subscription", subId, (x) => stripe.subscriptions.retrieve(x)) : null;
+    return { kind: "checkout", session, subscription };
+  }
+  if (event.type.startsWith("customer.subscription.")) {
+    const subscription = await retrieve("subscription", id, (x) => stripe.subscriptions.retrieve(x));
+    return subscription ? { kind: "subscription", subscription } : { kind: "unknown", reason: `Stripe does not know subscription ${id}` };
+  }
+  const invoice = await retrieve("invoice", id, (x) => stripe.invoices.retrieve(x));
+  return invoice ? { kind: "invoice", invoice } : { kind: "unknown", reason: `Stripe does not know invoice ${id}` };
+}
 
 async function findWorkspace(
   tx: Tx,
@@ -119,34 +186,59 @@ async function leaveGrace(tx: Tx, workspaceId: string): Promise<void> {
   await tx.update(workspaces).set({ planState: "active", updatedAt: new Date() }).where(eq(workspaces.id, workspaceId));
 }
 
-async function applyEvent(tx: Tx, event: Stripe.Event): Promise<{ workspaceId: string | null; outcome: string }> {
+type Applied = { workspaceId: string | null; outcome: string };
+type Workspace = typeof workspaces.$inferSelect;
+
+/** The workspace must already know this customer (it is created before any checkout starts). */
+function customerMismatch(ws: Workspace, customer: string | null): Applied | null {
+  if (customer && ws.stripeCustomerId === customer) return null;
+  return {
+    workspaceId: ws.id,
+    outcome: `ignored: Stripe's customer ${customer ?? "(none)"} is not the payment customer of workspace ${ws.id} (${ws.stripeCustomerId ?? "none on record"})`,
+  };
+}
+
+async function applyEvent(tx: Tx, event: Stripe.Event, confirmed: Confirmed): Promise<Applied> {
+  if (confirmed.kind === "unknown") return { workspaceId: null, outcome: `ignored: ${confirmed.reason}` };
   switch (event.type) {
     case "checkout.session.completed": {
-      const s = event.data.object;
+      if (confirmed.kind !== "checkout") break;
+      const s = confirmed.session;
       if (s.mode !== "subscription") return { workspaceId: null, outcome: "ignored: not a subscription checkout" };
-      const ws = await findWorkspace(tx, { workspaceId: s.client_reference_id ?? s.metadata?.workspace_id, customer: idOf(s.customer) });
+      const customer = idOf(s.customer);
+      const ws = await findWorkspace(tx, { workspaceId: s.metadata?.workspace_id ?? s.client_reference_id, customer });
       if (!ws) return { workspaceId: null, outcome: "ignored: no workspace for this checkout" };
+      const mismatch = customerMismatch(ws, customer);
+      if (mismatch) return mismatch;
+      if (s.status !== "complete" || s.payment_status === "unpaid")
+        return { workspaceId: ws.id, outcome: `ignored: Stripe says Checkout Session ${s.id} is ${s.status} (${s.payment_status})` };
+      const sub = confirmed.subscription;
+      if (!sub || idOf(sub.customer) !== customer)
+        return { workspaceId: ws.id, outcome: `ignored: Checkout Session ${s.id} has no subscription of this customer` };
+      if (sub.status !== "active" && sub.status !== "trialing")
+        return { workspaceId: ws.id, outcome: `ignored: subscription ${sub.id} is ${sub.status}; its own events decide the plan` };
+      if (ws.plan === "lab" && ws.stripeSubscriptionId && ws.stripeSubscriptionId !== sub.id)
+        return { workspaceId: ws.id, outcome: "ignored: the workspace is on another subscription" };
+      const seats = seatQuantity(sub);
       await tx
         .update(workspaces)
-        .set({
-          plan: "lab",
-          planState: "active",
-          stripeCustomerId: idOf(s.customer) ?? ws.stripeCustomerId,
-          stripeSubscriptionId: idOf(s.subscription) ?? ws.stripeSubscriptionId,
-          updatedAt: new Date(),
-        })
+        .set({ plan: "lab", planState: "active", stripeSubscriptionId: sub.id, seats, updatedAt: new Date() })
         .where(eq(workspaces.id, ws.id));
-      return { workspaceId: ws.id, outcome: "upgraded to Lab" };
+      return { workspaceId: ws.id, outcome: `upgraded to Lab, ${seats} seats` };
     }
     case "customer.subscription.created":
     case "customer.subscription.updated": {
-      const sub = event.data.object;
-      const ws = await findWorkspace(tx, { workspaceId: sub.metadata?.workspace_id, subscription: sub.id, customer: idOf(sub.customer) });
+      if (confirmed.kind !== "subscription") break;
+      const sub = confirmed.subscription;
+      const customer = idOf(sub.customer);
+      const ws = await findWorkspace(tx, { subscription: sub.id, workspaceId: sub.metadata?.workspace_id, customer });
       if (!ws) return { workspaceId: null, outcome: "ignored: no workspace for this subscription" };
+      const mismatch = customerMismatch(ws, customer);
+      if (mismatch) return mismatch;
       if (ws.stripeSubscriptionId && ws.stripeSubscriptionId !== sub.id && ws.plan === "lab")
         return { workspaceId: ws.id, outcome: "ignored: not the workspace's current subscription" };
       const seats = seatQuantity(sub);
-      const base = { stripeSubscriptionId: sub.id, stripeCustomerId: idOf(sub.customer), seats, updatedAt: new Date() };
+      const base = { stripeSubscriptionId: sub.id, stripeCustomerId: customer, seats, updatedAt: new Date() };
       if (sub.status === "active" || sub.status === "trialing") {
         await tx
           .update(workspaces)
@@ -183,11 +275,17 @@ async function applyEvent(tx: Tx, event: Stripe.Event): Promise<{ workspaceId: s
       return { workspaceId: ws.id, outcome: `subscription ${sub.status}: no change` };
     }
     case "customer.subscription.deleted": {
-      const sub = event.data.object;
-      const ws = await findWorkspace(tx, { subscription: sub.id, workspaceId: sub.metadata?.workspace_id, customer: idOf(sub.customer) });
+      if (confirmed.kind !== "subscription") break;
+      const sub = confirmed.subscription;
+      const customer = idOf(sub.customer);
+      const ws = await findWorkspace(tx, { subscription: sub.id, workspaceId: sub.metadata?.workspace_id, customer });
       if (!ws) return { workspaceId: null, outcome: "ignored: no workspace for this subscription" };
+      const mismatch = customerMismatch(ws, customer);
+      if (mismatch) return mismatch;
       if (ws.stripeSubscriptionId && ws.stripeSubscriptionId !== sub.id)
         return { workspaceId: ws.id, outcome: "ignored: not the workspace's current subscription" };
+      if (sub.status !== "canceled" && sub.status !== "incomplete_expired")
+        return { workspaceId: ws.id, outcome: `ignored: Stripe says subscription ${sub.id} is ${sub.status}, not ended` };
       await tx
         .update(workspaces)
         .set({ plan: "free", planState: "active", seats: 0, stripeSubscriptionId: null, updatedAt: new Date() })
@@ -195,28 +293,33 @@ async function applyEvent(tx: Tx, event: Stripe.Event): Promise<{ workspaceId: s
       await tx.delete(workspaceBilling).where(eq(workspaceBilling.workspaceId, ws.id));
       return { workspaceId: ws.id, outcome: "subscription ended: back to Free" };
     }
-    case "invoice.paid": {
-      const inv = event.data.object;
-      const subId = inv.parent?.subscription_details?.subscription;
-      const ws = await findWorkspace(tx, { subscription: idOf(subId ?? null), customer: idOf(inv.customer) });
-      if (!ws) return { workspaceId: null, outcome: "ignored: no workspace for this invoice" };
-      const wasInGrace = ws.planState !== "active";
-      await leaveGrace(tx, ws.id);
-      return {
-        workspaceId: ws.id,
-        outcome: `invoice ${inv.number ?? inv.id} paid (${(inv.amount_paid / 100).toFixed(2)} ${inv.currency.toUpperCase()})${wasInGrace ? "; grace ended" : ""}`,
-      };
-    }
+    case "invoice.paid":
     case "invoice.payment_failed": {
-      const inv = event.data.object;
+      if (confirmed.kind !== "invoice") break;
+      const inv = confirmed.invoice;
       const subId = inv.parent?.subscription_details?.subscription;
-      const ws = await findWorkspace(tx, { subscription: idOf(subId ?? null), customer: idOf(inv.customer) });
+      const customer = idOf(inv.customer);
+      const ws = await findWorkspace(tx, { subscription: idOf(subId ?? null), customer });
       if (!ws) return { workspaceId: null, outcome: "ignored: no workspace for this invoice" };
-      return { workspaceId: ws.id, outcome: `invoice ${inv.number ?? inv.id} payment failed; ${await enterGrace(tx, ws.id)}` };
+      const mismatch = customerMismatch(ws, customer);
+      if (mismatch) return mismatch;
+      const name = inv.number ?? inv.id;
+      if (event.type === "invoice.paid") {
+        if (inv.status !== "paid") return { workspaceId: ws.id, outcome: `ignored: Stripe says invoice ${name} is ${inv.status}, not paid` };
+        const wasInGrace = ws.planState !== "active";
+        await leaveGrace(tx, ws.id);
+        return {
+          workspaceId: ws.id,
+          outcome: `invoice ${name} paid (${(inv.amount_paid / 100).toFixed(2)} ${inv.currency.toUpperCase()})${wasInGrace ? "; grace ended" : ""}`,
+        };
+      }
+      if (inv.status === "paid" || inv.status === "void") return { workspaceId: ws.id, outcome: `ignored: Stripe says invoice ${name} is ${inv.status}` };
+      return { workspaceId: ws.id, outcome: `invoice ${name} payment failed; ${await enterGrace(tx, ws.id)}` };
     }
     default:
       return { workspaceId: null, outcome: `ignored: ${event.type} is not used` };
   }
+  return { workspaceId: null, outcome: `ignored: ${event.type} is not used` };
 }
 
 /** Grace periods that ended: those workspaces work under Free limits until an invoice is paid. */
