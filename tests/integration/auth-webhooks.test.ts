@@ -4,6 +4,7 @@ import { createHmac, randomUUID } from "node:crypto";
 import postgres from "postgres";
 import { afterAll, describe, expect, it } from "vitest";
 import { appUrl, databaseUrl } from "../support/services";
+import { createStandInUser, sessionFetch } from "../support/session";
 
 const sql = postgres(databaseUrl(), { max: 2, onnotice: () => {} });
 afterAll(async () => {
@@ -118,5 +119,98 @@ describe("Clerk webhooks", () => {
       if (!found) await new Promise((r) => setTimeout(r, 250));
     }
     expect(found).toBe(email);
+  });
+});
+
+describe("accounts are linked by Clerk user id, never by e-mail alone", () => {
+  const stamp = () => `${Date.now()}-${Math.random().toString(36).slice(2, 7)}`;
+  async function mirrored(clerkId: string, email: string) {
+    const body = userCreated(clerkId, email);
+    const res = await post(body, signed(body).headers);
+    expect(res.status).toBe(200);
+    expect((await res.json()).outcome).toBe("applied");
+    const [row] = await sql`select id, clerk_user_id, email from users where clerk_user_id = ${clerkId}`;
+    return row;
+  }
+  const membershipsOf = (userId: string) =>
+    sql`select workspace_id, role from memberships where user_id = ${userId} order by workspace_id`.then((rows) => rows.map((r) => ({ ...r })));
+
+  it("user.created with another Clerk id and an existing e-mail takes nothing over (200, outcome conflict)", async () => {
+    const s = stamp();
+    const email = `holder-${s}@webhook.example`;
+    const holder = await mirrored(`user_wh_holder_${s}`, email);
+    const before = await membershipsOf(holder.id);
+    expect(before).toHaveLength(1);
+    const intruder = `user_wh_intruder_${s}`;
+    const body = userCreated(intruder, email.toUpperCase());
+    const res = await post(body, signed(body).headers);
+    expect(res.status).toBe(200);
+    expect((await res.json()).outcome).toBe("conflict");
+    const [row] = await sql`select clerk_user_id, email from users where id = ${holder.id}`;
+    expect(row).toEqual({ clerk_user_id: `user_wh_holder_${s}`, email });
+    expect(await sql`select id from users where clerk_user_id = ${intruder}`).toHaveLength(0);
+    expect(await sql`select id from workspaces where slug = ${`personal-${intruder}`}`).toHaveLength(0);
+    expect(await membershipsOf(holder.id)).toEqual(before);
+  });
+
+  it("a membership event for an unknown Clerk id whose address is taken gives the holder no membership", async () => {
+    const s = stamp();
+    const email = `member-holder-${s}@webhook.example`;
+    const holder = await mirrored(`user_wh_mholder_${s}`, email);
+    const before = await membershipsOf(holder.id);
+    const intruder = `user_wh_mintruder_${s}`;
+    const body = JSON.stringify({
+      type: "organizationMembership.created",
+      object: "event",
+      data: {
+        id: `orgmem_wh_${s}`,
+        role: "org:owner",
+        organization: { id: "org_demo_larkspur", name: "Larkspur Devices Lab", slug: "larkspur-devices-lab" },
+        public_user_data: { user_id: intruder, identifier: email, first_name: "Not", last_name: "Them" },
+      },
+    });
+    const res = await post(body, signed(body).headers);
+    expect(res.status).toBe(200);
+    expect((await res.json()).outcome).toBe("conflict");
+    expect(await membershipsOf(holder.id)).toEqual(before);
+    const [row] = await sql`select clerk_user_id from users where id = ${holder.id}`;
+    expect(row.clerk_user_id).toBe(`user_wh_mholder_${s}`);
+    expect(await sql`select id from users where clerk_user_id = ${intruder}`).toHaveLength(0);
+  });
+
+  it("user.updated to an address another row holds keeps the user's own address and the other row untouched", async () => {
+    const s = stamp();
+    const a = await mirrored(`user_wh_a_${s}`, `a-${s}@webhook.example`);
+    const b = await mirrored(`user_wh_b_${s}`, `b-${s}@webhook.example`);
+    const body = JSON.stringify({ ...JSON.parse(userCreated(`user_wh_a_${s}`, `b-${s}@webhook.example`)), type: "user.updated" });
+    const res = await post(body, signed(body).headers);
+    expect(res.status).toBe(200);
+    expect((await res.json()).outcome).toBe("conflict");
+    expect((await sql`select email from users where id = ${a.id}`)[0].email).toBe(`a-${s}@webhook.example`);
+    expect((await sql`select clerk_user_id, email from users where id = ${b.id}`)[0]).toEqual({
+      clerk_user_id: `user_wh_b_${s}`,
+      email: `b-${s}@webhook.example`,
+    });
+  });
+
+  it("a stand-in sign-up with an address already on another row: its webhook and its session both leave that row alone (409)", async () => {
+    const s = stamp();
+    const email = `taken-${s}@webhook.example`;
+    const [row] = await sql`insert into users (email, name, clerk_user_id) values (${email}, 'Earlier Person', ${`user_elsewhere_${s}`}) returning id`;
+    const [{ t0 }] = await sql`select now() as t0`;
+    const person = await createStandInUser({ email, name: "Later Person" });
+    const res = await sessionFetch(person, "/api/v1/workspace");
+    expect(res.status).toBe(409);
+    expect((await res.json()).error.message).toContain("already belongs to another Triskel account");
+    // The stand-in's own user.created delivery for the new person has been handled by now too.
+    for (let i = 0; i < 60; i++) {
+      if ((await sql`select 1 from clerk_webhook_events where type = 'user.created' and received_at >= ${t0}`).length) break;
+      await new Promise((r) => setTimeout(r, 250));
+    }
+    expect((await sql`select clerk_user_id, name from users where id = ${row.id}`)[0]).toEqual({
+      clerk_user_id: `user_elsewhere_${s}`,
+      name: "Earlier Person",
+    });
+    expect(await sql`select id from users where clerk_user_id = ${person.clerkUserId}`).toHaveLength(0);
   });
 });

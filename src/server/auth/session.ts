@@ -44,7 +44,13 @@ async function ensureUserMirrored(clerkUserId: string): Promise<UserRow> {
   const u = await clerk.users.getUser(clerkUserId);
   const email = u.emailAddresses.find((e) => e.id === u.primaryEmailAddressId)?.emailAddress ?? u.emailAddresses[0]?.emailAddress;
   if (!email) throw new ApiError("forbidden", "Your account has no e-mail address; add one to use Triskel.");
-  const row = await upsertUser({ clerkUserId, email, name: nameOf(u.firstName, u.lastName) });
+  const { user: row } = await upsertUser({ clerkUserId, email, name: nameOf(u.firstName, u.lastName) });
+  // Linked by Clerk user id only: an address already on another row never takes that row over.
+  if (!row)
+    throw new ApiError(
+      "conflict",
+      `The e-mail address ${email} already belongs to another Triskel account, which stays with its owner; sign in with that account, or ask support to move it.`,
+    );
   await ensurePersonalWorkspace(row);
   return row;
 }

@@ -25,28 +25,40 @@ export interface ClerkOrgFacts {
 
 export const personalSlug = (clerkUserId: string) => `personal-${clerkUserId}`;
 
-/** Insert or update the user by Clerk id (or link an existing row with the same e-mail). */
-export async function upsertUser(facts: ClerkUserFacts): Promise<UserRow> {
+/**
+ * The outcome of mirroring a Clerk user. `conflict`: the e-mail address belongs to another row
+ * (another Clerk user, or a row no Clerk user was ever linked to); that row is left alone.
+ */
+export type UpsertUserResult = { user: UserRow; emailTaken: boolean } | { user: null; emailTaken: true };
+
+/**
+ * Insert or update the user by Clerk user id, the only link between a Clerk user and our row.
+ * An e-mail address never links: a new Clerk id whose address is already on another row gets
+ * no row (the existing row, its memberships and its work stay with whoever has them), and a
+ * known Clerk user whose new address is taken keeps its old one.
+ */
+export async function upsertUser(facts: ClerkUserFacts): Promise<UpsertUserResult> {
   const db = getDb();
   const email = facts.email.trim().toLowerCase();
-  const [byClerk] = await db.select().from(users).where(eq(users.clerkUserId, facts.clerkUserId));
+  const byClerk = await userByClerkId(facts.clerkUserId);
   if (byClerk) {
-    if (byClerk.email !== email || (facts.name && byClerk.name !== facts.name)) {
-      const [row] = await db
-        .update(users)
-        .set({ email, name: facts.name || byClerk.name, updatedAt: new Date() })
-        .where(eq(users.id, byClerk.id))
-        .returning();
-      return row;
-    }
-    return byClerk;
+    const name = facts.name || byClerk.name;
+    if (byClerk.email === email && byClerk.name === name) return { user: byClerk, emailTaken: false };
+    const [holder] = byClerk.email === email ? [] : await db.select({ id: users.id }).from(users).where(eq(users.email, email));
+    const emailTaken = Boolean(holder && holder.id !== byClerk.id);
+    const [row] = await db
+      .update(users)
+      .set({ ...(emailTaken ? {} : { email }), name, updatedAt: new Date() })
+      .where(eq(users.id, byClerk.id))
+      .returning();
+    return { user: row, emailTaken };
   }
-  const [row] = await db
-    .insert(users)
-    .values({ clerkUserId: facts.clerkUserId, email, name: facts.name })
-    .onConflictDoUpdate({ target: users.email, set: { clerkUserId: facts.clerkUserId, updatedAt: new Date() } })
-    .returning();
-  return row;
+  // Both the Clerk id and the e-mail are unique: a row is inserted only when neither is taken.
+  const [row] = await db.insert(users).values({ clerkUserId: facts.clerkUserId, email, name: facts.name }).onConflictDoNothing().returning();
+  if (row) return { user: row, emailTaken: false };
+  // A concurrent insert for the same Clerk user (webhook and lazy sync at once) is that user.
+  const again = await userByClerkId(facts.clerkUserId);
+  return again ? { user: again, emailTaken: false } : { user: null, emailTaken: true };
 }
 
 /** Every user has a personal workspace on the Free plan, where they are the Owner. */

@@ -74,17 +74,25 @@ function primaryEmail(data: ClerkEventData): string | undefined {
   return (emails.find((e) => e.id === data.primary_email_address_id) ?? emails[0])?.email_address;
 }
 
+/**
+ * What applying an event did. `conflict`: the event's e-mail address belongs to another row
+ * (see upsertUser); nothing was linked to that row, and the message is acknowledged (200) so
+ * Clerk does not retry it.
+ */
+export type ClerkEventOutcome = "applied" | "ignored" | "conflict";
+
 /** Applies one event to the mirror; unknown event types are acknowledged and ignored. */
-export async function applyClerkEvent(evt: ClerkEvent): Promise<"applied" | "ignored"> {
+export async function applyClerkEvent(evt: ClerkEvent): Promise<ClerkEventOutcome> {
   const d = evt.data ?? {};
   switch (evt.type) {
     case "user.created":
     case "user.updated": {
       const email = primaryEmail(d);
       if (!email || !d.id) return "ignored";
-      const user = await upsertUser({ clerkUserId: d.id, email, name: nameOf(d.first_name, d.last_name) });
+      const { user, emailTaken } = await upsertUser({ clerkUserId: d.id, email, name: nameOf(d.first_name, d.last_name) });
+      if (!user) return "conflict";
       await ensurePersonalWorkspace(user);
-      return "applied";
+      return emailTaken ? "conflict" : "applied";
     }
     case "user.deleted": {
       // The user's work stays with their workspaces; they only stop being a member of labs.
@@ -108,7 +116,10 @@ export async function applyClerkEvent(evt: ClerkEvent): Promise<"applied" | "ign
       const ws = await upsertOrgWorkspace({ clerkOrgId: org.id, name: org.name ?? "", slug: org.slug ?? "" });
       let user = await userByClerkId(pud.user_id);
       if (!user && pud.identifier) {
-        user = await upsertUser({ clerkUserId: pud.user_id, email: pud.identifier, name: nameOf(pud.first_name, pud.last_name) });
+        const linked = await upsertUser({ clerkUserId: pud.user_id, email: pud.identifier, name: nameOf(pud.first_name, pud.last_name) });
+        // The identifier's address is another row's: that row gets no membership from this event.
+        if (!linked.user) return "conflict";
+        user = linked.user;
         await ensurePersonalWorkspace(user);
       }
       if (!user) return "ignored";
