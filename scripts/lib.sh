@@ -79,6 +79,9 @@ setup_instance() {
   export APP_URL="http://127.0.0.1:$WEB_PORT"
   export QUEUE_PREFIX="triskel"
   export DEMO_TOKENS_FILE="$DATA_DIR/demo-tokens.json"
+  # These scripts run `next start` and the worker with NODE_ENV=production against the local
+  # stand-ins (fakes/); src/env.ts refuses the stand-ins' keys in production mode unless told so.
+  export TRISKEL_STAND_INS=1
   # Each feature's stand-in adds its variables in scripts/env.d/*.sh (sourced here, in order).
   local f
   for f in "$ROOT"/scripts/env.d/*.sh; do [ -e "$f" ] && source "$f"; done

@@ -30,6 +30,14 @@ export const envSchema = z.object({
   /** Engine runs in parallel per worker process (threads in the pool). */
   WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(2),
   LOG_LEVEL: z.enum(["debug", "info", "warn", "error"]).default("info"),
+  /**
+   * 1: this production-mode process runs against the local stand-ins (fakes/) on purpose, as
+   * `npm start` and `npm test` do; without it NODE_ENV=production refuses the stand-ins' keys.
+   */
+  TRISKEL_STAND_INS: z
+    .enum(["0", "1"], { message: "must be 0 or 1" })
+    .default("0")
+    .transform((v) => v === "1"),
   // --- request rate limits per API token and per signed-in member (src/server/http/rate-limit.ts) ---
   RATE_LIMIT_READS_PER_MINUTE: z.coerce.number().int().min(1).default(600),
   RATE_LIMIT_WRITES_PER_MINUTE: z.coerce.number().int().min(1).default(120),
@@ -43,6 +51,8 @@ export const envSchema = z.object({
     .string()
     .regex(/^pk_(test|live)_/, "must be a Clerk publishable key (pk_test_... or pk_live_...)")
     .optional(),
+  /** The local sign-in stand-in (fakes/clerk): set, the app proxies its Frontend API at /__clerk (next.config.ts). */
+  CLERK_FAKE_URL: url("http://127.0.0.1:3003").optional(),
   /** Signing secret of the Clerk webhook endpoint /api/webhooks/clerk (Standard Webhooks). */
   CLERK_WEBHOOK_SECRET: z
     .string()
@@ -89,7 +99,67 @@ export const envSchema = z.object({
 
 export type Env = z.infer<typeof envSchema>;
 
+/**
+ * The keys and secrets the scripts give the local stand-ins (scripts/env.d/*.sh). They are in
+ * this repository for anyone to read, so they sign nothing that matters: a deployment sets its
+ * own, and a process in production mode refuses them unless TRISKEL_STAND_INS=1 says it runs
+ * against the stand-ins on purpose. tests/unit/env.test.ts checks the scripts use these values.
+ */
+export const STAND_IN_VALUES = {
+  STRIPE_SECRET_KEY: "sk_test_triskel_local_stand_in",
+  STRIPE_WEBHOOK_SECRET: "whsec_triskel_local_stand_in_secret",
+  CLERK_SECRET_KEY: "sk_live_triskel_local_stand_in",
+  CLERK_WEBHOOK_SECRET: "whsec_dHJpc2tlbC1sb2NhbC1jbGVyay1zdGFuZC1pbg",
+  NEXT_PUBLIC_CLERK_PUBLISHABLE_KEY: "pk_live_Y2xlcmsudHJpc2tlbC5sb2NhbCQ",
+} as const satisfies Partial<Record<keyof Env, string>>;
+
+const isLoopbackHost = (host: string) => /^(localhost|127(\.\d{1,3}){3}|::1|\[::1\])$/i.test(host);
+
+/**
+ * Combinations no single variable shows: the development secrets with real keys, the stand-ins
+ * in production mode. Each problem names the variable to change.
+ */
+export function deploymentProblems(e: Env): { name: keyof typeof STAND_IN_VALUES | "CLERK_FAKE_URL" | "STRIPE_API_HOST"; message: string }[] {
+  const problems: ReturnType<typeof deploymentProblems> = [];
+  const production = e.NODE_ENV === "production";
+  // Stripe: a live key, or production mode against Stripe itself (no host: api.stripe.com).
+  const liveStripeKey = /^(sk|rk)_live_/.test(e.STRIPE_SECRET_KEY ?? "");
+  const realStripeApi = !isLoopbackHost(e.STRIPE_API_HOST ?? "api.stripe.com");
+  if (e.STRIPE_WEBHOOK_SECRET === STAND_IN_VALUES.STRIPE_WEBHOOK_SECRET && (liveStripeKey || (production && realStripeApi))) {
+    problems.push({
+      name: "STRIPE_WEBHOOK_SECRET",
+      message: `is the local stand-in's development secret, which anyone can read in this repository, while ${liveStripeKey ? "STRIPE_SECRET_KEY is a live key" : `production mode talks to ${e.STRIPE_API_HOST ?? "api.stripe.com"}`}; set the signing secret of your webhook endpoint (Stripe dashboard, Webhooks; docs/billing.md)`,
+    });
+  }
+  // Clerk: a real secret key (not the stand-in's) with the stand-in's webhook secret.
+  if (e.CLERK_WEBHOOK_SECRET === STAND_IN_VALUES.CLERK_WEBHOOK_SECRET && e.CLERK_SECRET_KEY && e.CLERK_SECRET_KEY !== STAND_IN_VALUES.CLERK_SECRET_KEY) {
+    problems.push({
+      name: "CLERK_WEBHOOK_SECRET",
+      message:
+        "is the local stand-in's development secret while CLERK_SECRET_KEY is a real Clerk key; set the signing secret of your Clerk webhook endpoint (docs/accounts.md)",
+    });
+  }
+  if (production && !e.TRISKEL_STAND_INS) {
+    const hint = "a deployment sets its own (docs/accounts.md, docs/billing.md); only local runs against fakes/ set TRISKEL_STAND_INS=1";
+    for (const name of Object.keys(STAND_IN_VALUES) as (keyof typeof STAND_IN_VALUES)[]) {
+      if (e[name] === STAND_IN_VALUES[name] && !problems.some((p) => p.name === name))
+        problems.push({ name, message: `is the local stand-in's value, refused in production mode; ${hint}` });
+    }
+    if (e.CLERK_FAKE_URL)
+      problems.push({ name: "CLERK_FAKE_URL", message: `points the app at the local sign-in stand-in, refused in production mode; unset it, or ${hint}` });
+    if (e.STRIPE_API_HOST && !realStripeApi)
+      problems.push({
+        name: "STRIPE_API_HOST",
+        message: `is a loopback address (the local payments stand-in), refused in production mode; unset it for Stripe, or ${hint}`,
+      });
+  }
+  return problems;
+}
+
 export class EnvError extends Error {}
+
+const shown = (value: string | undefined) =>
+  value === undefined || value === "" ? "is missing" : `is invalid (${JSON.stringify(value.length > 60 ? value.slice(0, 60) + "…" : value)})`;
 
 /** Parses an environment; throws EnvError whose message is one line per bad variable. */
 export function parseEnv(source: Record<string, string | undefined>): Env {
@@ -97,13 +167,12 @@ export function parseEnv(source: Record<string, string | undefined>): Env {
   if (!parsed.success) {
     const lines = parsed.error.issues.map((issue) => {
       const name = issue.path.join(".");
-      const value = source[name];
-      const problem =
-        value === undefined || value === "" ? "is missing" : `is invalid (${JSON.stringify(value.length > 60 ? value.slice(0, 60) + "…" : value)})`;
-      return `environment variable ${name} ${problem}: ${issue.message}`;
+      return `environment variable ${name} ${shown(source[name])}: ${issue.message}`;
     });
     throw new EnvError(lines.join("\n"));
   }
+  const problems = deploymentProblems(parsed.data);
+  if (problems.length) throw new EnvError(problems.map((p) => `environment variable ${p.name} ${shown(source[p.name])}: ${p.message}`).join("\n"));
   return parsed.data;
 }
 

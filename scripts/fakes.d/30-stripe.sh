@@ -2,7 +2,7 @@
 # objects Triskel needs (products, prices, billing meter), created idempotently.
 start_fake_stripe() {
   if [ "${STRIPE_API_HOST:-}" != 127.0.0.1 ] || [ "${STRIPE_API_PORT:-}" != "$STRIPE_FAKE_PORT" ]; then
-    log "Stripe: using $STRIPE_API_PROTOCOL://$STRIPE_API_HOST:$STRIPE_API_PORT (no local stand-in)"
+    log "Stripe: using ${STRIPE_API_PROTOCOL:-https}://${STRIPE_API_HOST:-api.stripe.com}:${STRIPE_API_PORT:-443} (no local stand-in)"
   else
     # A developer's instance keeps the stand-in's customers and subscriptions across restarts
     # (its database does too); test instances start empty, like their database.

@@ -24,4 +24,29 @@ describe("start-up with a bad environment", () => {
     expect(r.stderr.trim()).toMatch(/^Triskel cannot start: environment variable DATABASE_URL is missing/);
     expect(r.stderr).not.toMatch(/\n\s+at /);
   });
+
+  it("the worker in production mode refuses the stand-ins' keys without TRISKEL_STAND_INS=1, and starts past the check with it", () => {
+    const base = {
+      NODE_ENV: "production",
+      DATABASE_URL: "postgres://postgres@127.0.0.1:1/triskel",
+      REDIS_URL: "redis://127.0.0.1:1",
+      CLERK_SECRET_KEY: "sk_live_triskel_local_stand_in",
+      STRIPE_SECRET_KEY: "sk_test_triskel_local_stand_in",
+    };
+    const r = run("worker/main.ts", base);
+    expect(r.status).toBe(78);
+    const lines = r.stderr.trim().split("\n");
+    expect(lines).toHaveLength(2);
+    expect(lines[0]).toMatch(/^Triskel cannot start: environment variable /);
+    const text = lines.join("\n").replace(/^Triskel cannot start: /, "");
+    expect(text).toMatch(
+      /^environment variable CLERK_SECRET_KEY is invalid \("sk_live_triskel_local_stand_in"\): is the local stand-in's value.*TRISKEL_STAND_INS=1$/m,
+    );
+    expect(text).toMatch(
+      /^environment variable STRIPE_SECRET_KEY is invalid \("sk_test_triskel_local_stand_in"\): is the local stand-in's value.*TRISKEL_STAND_INS=1$/m,
+    );
+    // With the flag the environment passes; the migration step then fails on the unreachable database instead.
+    const flagged = run("scripts/migrate.ts", { ...base, TRISKEL_STAND_INS: "1" });
+    expect(flagged.stderr).not.toContain("Triskel cannot start");
+  });
 });

@@ -1,5 +1,7 @@
+import { readFileSync } from "node:fs";
+import path from "node:path";
 import { describe, expect, it } from "vitest";
-import { EnvError, parseEnv } from "@/env";
+import { EnvError, parseEnv, STAND_IN_VALUES } from "@/env";
 
 const good = { DATABASE_URL: "postgres://postgres@127.0.0.1:5432/triskel", REDIS_URL: "redis://127.0.0.1:6379" };
 
@@ -51,5 +53,104 @@ describe("environment validation (src/env.ts)", () => {
   it("names a bad value and shows it", () => {
     expect(() => parseEnv({ ...good, REDIS_URL: "http://example" })).toThrowError(/REDIS_URL is invalid \("http:\/\/example"\).*redis:\/\//);
     expect(() => parseEnv({ ...good, WORKER_CONCURRENCY: "lots" })).toThrowError(/WORKER_CONCURRENCY is invalid/);
+  });
+});
+
+/** What scripts/lib.sh and scripts/env.d/*.sh export for `npm start` and `npm test` (the stand-ins). */
+const scripted = {
+  ...good,
+  NODE_ENV: "production",
+  TRISKEL_STAND_INS: "1",
+  ...STAND_IN_VALUES,
+  CLERK_FAKE_URL: "http://127.0.0.1:41003",
+  STRIPE_API_HOST: "127.0.0.1",
+  STRIPE_API_PORT: "41004",
+  STRIPE_API_PROTOCOL: "http",
+};
+const problemsOf = (source: Record<string, string | undefined>) => {
+  try {
+    parseEnv(source);
+    return [];
+  } catch (e) {
+    expect(e).toBeInstanceOf(EnvError);
+    return (e as Error).message.split("\n");
+  }
+};
+const namesIn = (lines: string[]) => lines.map((l) => /^environment variable (\w+) /.exec(l)?.[1]);
+
+describe("stand-in keys and development secrets (src/env.ts deploymentProblems)", () => {
+  it("the scripts give the stand-ins exactly the values src/env.ts knows as theirs", () => {
+    const root = path.resolve(import.meta.dirname, "../..");
+    const text = ["scripts/env.d/clerk.sh", "scripts/env.d/stripe.sh"].map((f) => readFileSync(path.join(root, f), "utf8")).join("\n");
+    for (const [name, value] of Object.entries(STAND_IN_VALUES)) {
+      const escaped = value.replace(/[$]/g, "\\$");
+      expect(text, name).toMatch(new RegExp(`export ${name}="?(\\$\\{${name}:-)?${escaped}`));
+    }
+    expect(readFileSync(path.join(root, "scripts/lib.sh"), "utf8")).toMatch(/^\s*export TRISKEL_STAND_INS=1$/m);
+  });
+
+  it("production mode with the stand-ins is accepted when TRISKEL_STAND_INS=1 says so (npm start, npm test)", () => {
+    expect(problemsOf(scripted)).toEqual([]);
+    expect(parseEnv(scripted).TRISKEL_STAND_INS).toBe(true);
+    expect(parseEnv(good).TRISKEL_STAND_INS).toBe(false);
+    expect(problemsOf({ ...scripted, NODE_ENV: "development", TRISKEL_STAND_INS: undefined })).toEqual([]);
+    expect(problemsOf({ ...scripted, TRISKEL_STAND_INS: "yes" })[0]).toMatch(/^environment variable TRISKEL_STAND_INS is invalid \("yes"\): must be 0 or 1/);
+  });
+
+  it("production mode without the flag refuses every stand-in key, secret and address, one line each", () => {
+    const lines = problemsOf({ ...scripted, TRISKEL_STAND_INS: undefined });
+    expect(namesIn(lines).sort()).toEqual(
+      [
+        "CLERK_FAKE_URL",
+        "CLERK_SECRET_KEY",
+        "CLERK_WEBHOOK_SECRET",
+        "NEXT_PUBLIC_CLERK_PUBLISHABLE_KEY",
+        "STRIPE_API_HOST",
+        "STRIPE_SECRET_KEY",
+        "STRIPE_WEBHOOK_SECRET",
+      ].sort(),
+    );
+    expect(lines.find((l) => l.startsWith("environment variable CLERK_SECRET_KEY"))).toBe(
+      'environment variable CLERK_SECRET_KEY is invalid ("sk_live_triskel_local_stand_in"): is the local stand-in\'s value, refused in production mode; a deployment sets its own (docs/accounts.md, docs/billing.md); only local runs against fakes/ set TRISKEL_STAND_INS=1',
+    );
+    expect(problemsOf({ ...scripted, TRISKEL_STAND_INS: "0" }).length).toBe(7);
+  });
+
+  it("refuses the development Stripe webhook secret with a live key, in any mode and even with the flag", () => {
+    for (const NODE_ENV of ["development", "production", "test"]) {
+      for (const key of ["sk_live_51AbC", "rk_live_51AbC"]) {
+        const lines = problemsOf({ ...scripted, NODE_ENV, STRIPE_SECRET_KEY: key });
+        expect(namesIn(lines), `${NODE_ENV} ${key}`).toEqual(["STRIPE_WEBHOOK_SECRET"]);
+        expect(lines[0]).toMatch(/development secret, which anyone can read in this repository, while STRIPE_SECRET_KEY is a live key; set the signing secret/);
+      }
+    }
+    expect(problemsOf({ ...scripted, STRIPE_SECRET_KEY: "sk_live_51AbC", STRIPE_WEBHOOK_SECRET: "whsec_from_the_dashboard" })).toEqual([]);
+  });
+
+  it("refuses it in production mode against Stripe itself (no host, or any non-loopback host), even with a test key", () => {
+    const real = { ...scripted, STRIPE_SECRET_KEY: "sk_test_51AbC", STRIPE_API_HOST: undefined, STRIPE_API_PORT: undefined, STRIPE_API_PROTOCOL: undefined };
+    expect(namesIn(problemsOf(real))).toEqual(["STRIPE_WEBHOOK_SECRET"]);
+    expect(problemsOf(real)[0]).toContain("while production mode talks to api.stripe.com");
+    expect(namesIn(problemsOf({ ...real, STRIPE_API_HOST: "stripe.internal.example" }))).toEqual(["STRIPE_WEBHOOK_SECRET"]);
+    expect(problemsOf({ ...real, NODE_ENV: "development" })).toEqual([]);
+  });
+
+  it("refuses the stand-in's Clerk webhook secret with a real Clerk key", () => {
+    const lines = problemsOf({ ...scripted, NODE_ENV: "development", CLERK_SECRET_KEY: "sk_live_realinstancekey" });
+    expect(namesIn(lines)).toEqual(["CLERK_WEBHOOK_SECRET"]);
+    expect(lines[0]).toContain("while CLERK_SECRET_KEY is a real Clerk key");
+  });
+
+  it("a real deployment's own keys in production mode pass", () => {
+    const deployment = {
+      ...good,
+      NODE_ENV: "production",
+      CLERK_SECRET_KEY: "sk_live_realinstancekey",
+      NEXT_PUBLIC_CLERK_PUBLISHABLE_KEY: "pk_live_Y2xlcmsuZXhhbXBsZS5vcmck",
+      CLERK_WEBHOOK_SECRET: "whsec_" + Buffer.from("clerk endpoint").toString("base64"),
+      STRIPE_SECRET_KEY: "sk_live_51AbC",
+      STRIPE_WEBHOOK_SECRET: "whsec_from_the_dashboard",
+    };
+    expect(problemsOf(deployment)).toEqual([]);
   });
 });
