@@ -53,10 +53,13 @@ const nextConfig: NextConfig = {
   // scripts/lib.sh (build_web) writes tsconfig.next.json for each build folder, so builds never
   // rewrite the committed tsconfig.json; a plain `next build` uses tsconfig.json.
   typescript: { tsconfigPath: process.env.NEXT_TSCONFIG || "tsconfig.json" },
-  // Accounts (docs/accounts.md): the browser reaches the local sign-in stand-in same-origin.
+  // Accounts (docs/accounts.md): the browser reaches the local sign-in stand-in same-origin, for
+  // the Frontend API paths clerk-js calls only (src/server/auth/frontend-api.ts; src/proxy.ts
+  // answers 404 for every other /__clerk path, the stand-in's admin API among them).
   async rewrites() {
     const clerkFake = process.env.CLERK_FAKE_URL;
-    return clerkFake ? [{ source: "/__clerk/:path*", destination: `${clerkFake}/:path*` }] : [];
+    const frontendApi = ["/v1/environment", "/v1/client", "/v1/client/:path*", "/v1/me", "/v1/me/:path*"];
+    return clerkFake ? frontendApi.map((p) => ({ source: `/__clerk${p}`, destination: `${clerkFake}${p}` })) : [];
   },
 };
 

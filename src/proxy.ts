@@ -1,9 +1,12 @@
 // Next 16 "proxy" (formerly middleware): Clerk's clerkMiddleware reads the session on every page
 // and API request, so `auth()` works in server code. Signed-out visitors of the signed-in area are
 // sent to our sign-in page. Public pages, the health check and Bearer-token API calls pass untouched.
+// Under /__clerk only the sign-in service's browser-facing Frontend API goes on to the rewrite in
+// next.config.ts; its admin (Backend) API and the stand-in's helpers answer 404 here.
 import "@/server/server-only";
 import { clerkMiddleware, createRouteMatcher } from "@clerk/nextjs/server";
 import { NextResponse, type NextFetchEvent, type NextRequest } from "next/server";
+import { CLERK_PROXY_PREFIX, isClerkProxyPath, isFrontendApiPath } from "@/server/auth/frontend-api";
 
 const isPublicPage = createRouteMatcher(["/", "/pricing(.*)", "/manual(.*)", "/sign-in(.*)", "/sign-up(.*)", "/sign-out(.*)", "/accept-invitation(.*)"]);
 const isApi = createRouteMatcher(["/api/(.*)"]);
@@ -21,6 +24,19 @@ const withClerk = clerkMiddleware(async (auth, req) => {
 
 export async function proxy(req: NextRequest, event: NextFetchEvent) {
   const path = req.nextUrl.pathname;
+  if (isClerkProxyPath(path)) {
+    const rest = path.slice(CLERK_PROXY_PREFIX.length);
+    if (path.startsWith(CLERK_PROXY_PREFIX) && isFrontendApiPath(rest)) return NextResponse.next();
+    return NextResponse.json(
+      {
+        error: {
+          code: "not_found",
+          message: `${path} is not served here: the app forwards only the sign-in service's browser-facing paths under ${CLERK_PROXY_PREFIX}.`,
+        },
+      },
+      { status: 404, headers: { "cache-control": "no-store" } },
+    );
+  }
   // Scripts with an API token never need a session; webhooks carry their own signature.
   if (path === "/api/v1/health" || path.startsWith("/api/webhooks/")) return NextResponse.next();
   if (/^Bearer\s+trk_/i.test(req.headers.get("authorization") ?? "")) return NextResponse.next();
@@ -48,7 +64,9 @@ function sameUrlRewriteAsNext(req: NextRequest, res: Response | null | undefined
 
 export const config = {
   matcher: [
-    // Everything but Next internals, static files, the served clerk-js and the stand-in rewrite.
-    "/((?!_next|__clerk|clerk/|.*\\.(?:css|js|map|png|jpg|jpeg|svg|ico|woff2?|txt|webmanifest)$).*)",
+    // Everything but Next internals, static files and the served clerk-js ...
+    "/((?!_next|clerk/|.*\\.(?:css|js|map|png|jpg|jpeg|svg|ico|woff2?|txt|webmanifest)$).*)",
+    // ... and every path of the sign-in proxy, whatever it ends with.
+    "/__clerk/:path*",
   ],
 };

@@ -1,6 +1,7 @@
 // Local stand-in for the hosted sign-in service (Clerk's Frontend and Backend APIs), for
-// development and tests only. The browser reaches it same-origin through the Next rewrite
-// `/__clerk/*` (NEXT_PUBLIC_CLERK_PROXY_URL); the server SDK through CLERK_API_URL.
+// development and tests only, listening on 127.0.0.1 only. The browser reaches its Frontend API
+// same-origin through the Next rewrites under `/__clerk` (NEXT_PUBLIC_CLERK_PROXY_URL), which
+// forward the Frontend API paths only; the server SDK reaches the Backend API on CLERK_API_URL.
 //
 //   Frontend API (clerk-js):  /v1/environment, /v1/client, /v1/client/sign_ins, /v1/client/sign_ups,
 //                             /v1/client/sessions/:sid/{touch,tokens,end,remove}, /v1/me/...,
@@ -26,6 +27,8 @@ const STATE_FILE = process.env.CLERK_FAKE_STATE_FILE;
 const KEY_FILE = process.env.CLERK_FAKE_KEY_FILE;
 const WEBHOOK_URL = process.env.CLERK_WEBHOOK_URL;
 const WEBHOOK_SECRET = process.env.CLERK_WEBHOOK_SECRET;
+/** The Backend API answers only this key (the app's CLERK_SECRET_KEY); unset: any sk_ key. */
+const SECRET_KEY = process.env.CLERK_SECRET_KEY;
 /** Host encoded in the publishable key; `iss` of every session token is https:// + this. */
 const FRONTEND_HOST = process.env.CLERK_FAKE_FRONTEND_HOST ?? "clerk.triskel.local";
 const TOKEN_LIFETIME_S = Number(process.env.CLERK_FAKE_TOKEN_LIFETIME_S ?? "300");
@@ -370,8 +373,11 @@ function paged<T>(ctx: Ctx, items: T[]) {
 async function backend(ctx: Ctx, parts: string[]): Promise<boolean> {
   const { method, body } = ctx;
   if (parts[0] === "jwks") return (send(ctx, 200, { keys: [jwk] }), true);
+  // The instance's own secret key, not any sk_ string (the app's origin never forwards these paths).
   const auth = ctx.req.headers.authorization ?? "";
-  if (!auth.startsWith("Bearer sk_")) return (clerkError(ctx, 401, "authentication_invalid", "Send the secret key as `Authorization: Bearer sk_...`."), true);
+  const keyOk = SECRET_KEY ? auth === `Bearer ${SECRET_KEY}` : auth.startsWith("Bearer sk_");
+  if (!keyOk)
+    return (clerkError(ctx, 401, "authentication_invalid", "Send the instance's secret key (CLERK_SECRET_KEY) as `Authorization: Bearer sk_...`."), true);
 
   if (parts[0] === "users") {
     if (parts.length === 1 && method === "GET") {
