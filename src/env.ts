@@ -128,15 +128,20 @@ export function deploymentProblems(e: Env): { name: keyof typeof STAND_IN_VALUES
   if (e.STRIPE_WEBHOOK_SECRET === STAND_IN_VALUES.STRIPE_WEBHOOK_SECRET && (liveStripeKey || (production && realStripeApi))) {
     problems.push({
       name: "STRIPE_WEBHOOK_SECRET",
-      message: `is the local stand-in's development secret, which anyone can read in this repository, while ${liveStripeKey ? "STRIPE_SECRET_KEY is a live key" : `production mode talks to ${e.STRIPE_API_HOST ?? "api.stripe.com"}`}; set the signing secret of your webhook endpoint (Stripe dashboard, Webhooks; docs/billing.md)`,
+      message:
+        "is the local stand-in's development secret, which anyone can read in this repository, while " +
+        (liveStripeKey ? "STRIPE_SECRET_KEY is a live key" : `production mode talks to ${e.STRIPE_API_HOST ?? "api.stripe.com"}`) +
+        "; set the signing secret of your webhook endpoint (Stripe dashboard, Webhooks; docs/billing.md)",
     });
   }
   // Clerk: a real secret key (not the stand-in's) with the stand-in's webhook secret.
-  if (e.CLERK_WEBHOOK_SECRET === STAND_IN_VALUES.CLERK_WEBHOOK_SECRET && e.CLERK_SECRET_KEY && e.CLERK_SECRET_KEY !== STAND_IN_VALUES.CLERK_SECRET_KEY) {
+  const realClerkKey = Boolean(e.CLERK_SECRET_KEY) && e.CLERK_SECRET_KEY !== STAND_IN_VALUES.CLERK_SECRET_KEY;
+  if (e.CLERK_WEBHOOK_SECRET === STAND_IN_VALUES.CLERK_WEBHOOK_SECRET && realClerkKey) {
     problems.push({
       name: "CLERK_WEBHOOK_SECRET",
       message:
-        "is the local stand-in's development secret while CLERK_SECRET_KEY is a real Clerk key; set the signing secret of your Clerk webhook endpoint (docs/accounts.md)",
+        "is the local stand-in's development secret while CLERK_SECRET_KEY is a real Clerk key; " +
+        "set the signing secret of your Clerk webhook endpoint (docs/accounts.md)",
     });
   }
   if (production && !e.TRISKEL_STAND_INS) {

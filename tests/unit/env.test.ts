@@ -111,7 +111,8 @@ describe("stand-in keys and development secrets (src/env.ts deploymentProblems)"
       ].sort(),
     );
     expect(lines.find((l) => l.startsWith("environment variable CLERK_SECRET_KEY"))).toBe(
-      'environment variable CLERK_SECRET_KEY is invalid ("sk_live_triskel_local_stand_in"): is the local stand-in\'s value, refused in production mode; a deployment sets its own (docs/accounts.md, docs/billing.md); only local runs against fakes/ set TRISKEL_STAND_INS=1',
+      'environment variable CLERK_SECRET_KEY is invalid ("sk_live_triskel_local_stand_in"): is the local stand-in\'s value, refused in production mode; ' +
+        "a deployment sets its own (docs/accounts.md, docs/billing.md); only local runs against fakes/ set TRISKEL_STAND_INS=1",
     );
     expect(problemsOf({ ...scripted, TRISKEL_STAND_INS: "0" }).length).toBe(7);
   });

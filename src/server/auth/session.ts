@@ -49,7 +49,8 @@ async function ensureUserMirrored(clerkUserId: string): Promise<UserRow> {
   if (!row)
     throw new ApiError(
       "conflict",
-      `The e-mail address ${email} already belongs to another Triskel account, which stays with its owner; sign in with that account, or ask support to move it.`,
+      `The e-mail address ${email} already belongs to another Triskel account, which stays with its owner; ` +
+        "sign in with that account, or ask support to move it.",
     );
   await ensurePersonalWorkspace(row);
   return row;

@@ -194,7 +194,8 @@ function customerMismatch(ws: Workspace, customer: string | null): Applied | nul
   if (customer && ws.stripeCustomerId === customer) return null;
   return {
     workspaceId: ws.id,
-    outcome: `ignored: Stripe's customer ${customer ?? "(none)"} is not the payment customer of workspace ${ws.id} (${ws.stripeCustomerId ?? "none on record"})`,
+    outcome:
+      `ignored: Stripe's customer ${customer ?? "(none)"} is not the payment customer of workspace ${ws.id} ` + `(${ws.stripeCustomerId ?? "none on record"})`,
   };
 }
 
