@@ -9,7 +9,7 @@ import { computeCostUsd } from "@/shared/plans";
 import type { FitCreated, FitDetail, FitExport, FitList, FitSettings } from "@/shared/api";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
-import { assertWithinBudget } from "@/server/billing/budget";
+import { assertWithinBudget, reserveBudget } from "@/server/billing/budget";
 import { assertJobComputeWithinPlan, queuePriority } from "@/server/billing/limits";
 import { getDb } from "@/server/db";
 import { datasets, fits } from "@/server/db/schema";
@@ -123,19 +123,25 @@ export async function createFit(caller: Caller, raw: unknown): Promise<FitCreate
   await assertWithinBudget(caller.workspaceId, estimatedComputeSeconds);
 
   const stored: FitSettings = { ...input, sweepParameter: body.sweepParameter, fit: body.fit, options: body.options ?? {} };
-  const [row] = await db
-    .insert(fits)
-    .values({
-      workspaceId: caller.workspaceId,
-      createdBy: caller.userId,
-      datasetId: dataset.id,
-      input: stored,
-      estimatedComputeSeconds,
-      inputHash: inputHash(input as never),
-      dataHash: dataset.dataHash,
-      engineVersion: ENGINE_VERSION,
-    })
-    .returning();
+  // The queued fit is the reservation: written in the transaction that checked the budget under the workspace's lock.
+  const row = await db.transaction(async (tx) => {
+    await reserveBudget(tx, caller.workspaceId, estimatedComputeSeconds);
+    const [inserted] = await tx
+      .insert(fits)
+      .values({
+        workspaceId: caller.workspaceId,
+        createdBy: caller.userId,
+        datasetId: dataset.id,
+        input: stored,
+        estimatedComputeSeconds,
+        inputHash: inputHash(input as never),
+        dataHash: dataset.dataHash,
+        engineVersion: ENGINE_VERSION,
+        plan: caller.plan,
+      })
+      .returning();
+    return inserted;
+  });
   await enqueueAfterCommit("fit", [{ id: row.id, priority: queuePriority(caller.plan) }]);
   return {
     id: row.id,
