@@ -61,7 +61,9 @@ export async function assertWithinBudget(workspaceId: string, estimatedComputeSe
     if (estimatedComputeSeconds > left) {
       throw new ApiError(
         "payment_required",
-        `This job is estimated at ${fmtSeconds(estimatedComputeSeconds)}, but only ${fmtSeconds(left)} of the Free plan's ${s.includedComputeSeconds / 60} compute-minutes are left this month (${s.period}). Upgrade to Lab or wait for next month.`,
+        `This job is estimated at ${fmtSeconds(estimatedComputeSeconds)}, but only ${fmtSeconds(left)} ` +
+          `of the Free plan's ${s.includedComputeSeconds / 60} compute-minutes are left this month (${s.period}). ` +
+          `Upgrade to Lab or wait for next month.`,
         { limit: "free_quota", includedComputeSeconds: s.includedComputeSeconds, usedComputeSeconds: s.usedComputeSeconds, estimatedComputeSeconds },
       );
     }
@@ -70,7 +72,9 @@ export async function assertWithinBudget(workspaceId: string, estimatedComputeSe
     if (s.spendUsd + estimateUsd > s.spendCapUsd) {
       throw new ApiError(
         "payment_required",
-        `This job's estimated cost (${fmtUsd(estimateUsd)}) would take this month's compute spend from ${fmtUsd(s.spendUsd)} past the spend cap of ${fmtUsd(s.spendCapUsd)}. A Billing admin can raise the cap.`,
+        `This job's estimated cost (${fmtUsd(estimateUsd)}) ` +
+          `would take this month's compute spend from ${fmtUsd(s.spendUsd)} past the spend cap of ${fmtUsd(s.spendCapUsd)}. ` +
+          `A Billing admin can raise the cap.`,
         { limit: "spend_cap", spendCapUsd: s.spendCapUsd, spendUsd: s.spendUsd, estimateUsd },
       );
     }
