@@ -71,7 +71,8 @@ export async function finishJobRow(tx: Executor, kind: JobKind, id: string, stat
 export async function writeLedgerRow(tx: Executor, row: { workspaceId: string; userId: string | null; runId: string; computeSeconds: number }): Promise<void> {
   await tx.execute(sql`
     insert into usage_ledger (workspace_id, user_id, run_id, compute_seconds, plan, period)
-    select w.id, ${row.userId}, ${row.runId}, ${row.computeSeconds}, case when w.plan_state = 'suspended' then 'free'::plan_name else w.plan end, ${billingPeriod()}
+    select w.id, ${row.userId}, ${row.runId}, ${row.computeSeconds},
+      case when w.plan_state = 'suspended' then 'free'::plan_name else w.plan end, ${billingPeriod()}
     from workspaces w where w.id = ${row.workspaceId}
     on conflict (run_id) do nothing`);
 }
