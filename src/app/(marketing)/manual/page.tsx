@@ -368,11 +368,13 @@ export default function ManualPage() {
             other two. Not every triple passes this test. With equal turning, <M>{String.raw`P_l = P_r`}</M>, the condition reduces to
           </p>
           <M block>{String.raw`P_f \ge \tfrac19 .`}</M>
+          {/* prettier-ignore */}
           <p>
             The ternary diagram in the network editor shades the triples that pass. When a triple fails, the editor and the API say which inequality failed.
             They also give the range of forward allowed with the same left : right ratio, and the editor offers the nearest triple that works. For example,
             (0.5, 0.5, 0) has no unitary node at all. Two mirror solutions share the same probabilities, and <span className="font-mono">branch</span> picks
-            one. Branch +1 is the one with <M>{String.raw`\operatorname{Im}(s_l s_r \bar s_f^{\,2}) \ge 0`}</M>. The node phase χ multiplies the whole matrix by{" "}
+            one. Branch +1 is the one with <M>{String.raw`\operatorname{Im}(s_l s_r \bar s_f^{\,2}) \ge 0`}</M>. The node phase χ multiplies the whole matrix
+            by{" "}
             <M>{String.raw`e^{i\chi}`}</M>. Results are compared through quantities that do not depend on the gauge: probabilities, spectra and conductances.
           </p>
           <p>
