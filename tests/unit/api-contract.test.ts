@@ -58,7 +58,9 @@ describe("API contract", () => {
       if (fileRoutes.has(key)) continue;
       if (e.source.includes("NextResponse.json(")) problems.push(`${key}: answers with NextResponse.json`);
       const variants = JSON_ROUTES.filter((r) => base(r) === key);
-      for (const v of variants) if (!e.source.includes(`reply("${v}"`) && !e.source.includes(`noContent("${v}"`)) problems.push(`${v}: no reply("${v}", …)`);
+      // Prettier may put the route name on its own line: reply(\n  "GET /api/v1/health", …).
+      const source = e.source.replace(/\(\s+"/g, '("');
+      for (const v of variants) if (!source.includes(`reply("${v}"`) && !source.includes(`noContent("${v}"`)) problems.push(`${v}: no reply("${v}", …)`);
     }
     expect(problems).toEqual([]);
   });
