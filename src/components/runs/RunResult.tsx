@@ -143,8 +143,10 @@ function SpectrumResult({ r }: { r: Spectrum }) {
       ];
   return (
     <div className="space-y-4">
+      {/* prettier-ignore */}
       <p className="text-body text-fg-soft">
-        Energy period 2πħv/l = <span className="font-mono">{withUnit(r.energyPeriodMeV, "meV")}</span>; energies are reduced into one period. {energies.length}{" "}
+        Energy period 2πħv/l = <span className="font-mono">{withUnit(r.energyPeriodMeV, "meV")}</span>; energies are reduced into one
+        period. {energies.length}{" "}
         k points.
       </p>
       <BandChart energies={energies} distance={distance} ticks={ticks} periodMeV={r.energyPeriodMeV} />

@@ -36,9 +36,12 @@ export async function budgetState(workspaceId: string, db: Executor = getDb()): 
   const period = billingPeriod();
   const [row] = await db.execute<{ plan: PlanId; plan_state: PlanState; cap: string | null; used: number; reserved: number }>(sql`
     select w.plan, w.plan_state, w.spend_cap_usd as cap,
-      (select coalesce(sum(l.compute_seconds), 0)::float8 from usage_ledger l where l.workspace_id = w.id and l.period = ${period}) as used,
-      (select coalesce(sum(r.estimated_compute_seconds), 0)::float8 from runs r where r.workspace_id = w.id and r.status in ('queued', 'running') and r.kind <> 'fit')
-        + (select coalesce(sum(f.estimated_compute_seconds), 0)::float8 from fits f where f.workspace_id = w.id and f.status in ('queued', 'running')) as reserved
+      (select coalesce(sum(l.compute_seconds), 0)::float8 from usage_ledger l
+        where l.workspace_id = w.id and l.period = ${period}) as used,
+      (select coalesce(sum(r.estimated_compute_seconds), 0)::float8 from runs r
+        where r.workspace_id = w.id and r.status in ('queued', 'running') and r.kind <> 'fit')
+        + (select coalesce(sum(f.estimated_compute_seconds), 0)::float8 from fits f
+          where f.workspace_id = w.id and f.status in ('queued', 'running')) as reserved
     from workspaces w where w.id = ${workspaceId}`);
   if (!row) throw new ApiError("not_found", "Workspace not found.");
   const plan = effectivePlan(row.plan, row.plan_state);
@@ -85,7 +88,9 @@ export async function assertWithinBudget(workspaceId: string, estimatedComputeSe
         s.reservedComputeSeconds > 0 ? ` (${fmtSeconds(s.reservedComputeSeconds)} of them are held by queued and running work until it finishes)` : "";
       throw new ApiError(
         "payment_required",
-        `This job is estimated at ${fmtSeconds(estimatedComputeSeconds)}, but only ${fmtSeconds(left)} of the Free plan's ${s.includedComputeSeconds / 60} compute-minutes are left this month (${s.period})${held}. Upgrade to Lab or wait for next month.`,
+        `This job is estimated at ${fmtSeconds(estimatedComputeSeconds)}, but only ${fmtSeconds(left)} ` +
+          `of the Free plan's ${s.includedComputeSeconds / 60} compute-minutes are left this month (${s.period})${held}. ` +
+          `Upgrade to Lab or wait for next month.`,
         {
           limit: "free_quota",
           includedComputeSeconds: s.includedComputeSeconds,
@@ -101,7 +106,9 @@ export async function assertWithinBudget(workspaceId: string, estimatedComputeSe
       const held = s.reservedUsd > 0 ? ` (${fmtUsd(s.spendUsd)} spent and ${fmtUsd(s.reservedUsd)} held by queued and running work)` : "";
       throw new ApiError(
         "payment_required",
-        `This job's estimated cost (${fmtUsd(estimateUsd)}) would take this month's compute spend from ${fmtUsd(s.spendUsd + s.reservedUsd)}${held} past the spend cap of ${fmtUsd(s.spendCapUsd)}. A Billing admin can raise the cap.`,
+        `This job's estimated cost (${fmtUsd(estimateUsd)}) ` +
+          `would take this month's compute spend from ${fmtUsd(s.spendUsd + s.reservedUsd)}${held} past the spend cap of ${fmtUsd(s.spendCapUsd)}. ` +
+          `A Billing admin can raise the cap.`,
         { limit: "spend_cap", spendCapUsd: s.spendCapUsd, spendUsd: s.spendUsd, reservedUsd: s.reservedUsd, estimateUsd },
       );
     }

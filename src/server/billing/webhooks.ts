@@ -204,7 +204,8 @@ async function applyEvent(tx: Tx, event: Stripe.Event): Promise<{ workspaceId: s
       await leaveGrace(tx, ws.id);
       return {
         workspaceId: ws.id,
-        outcome: `invoice ${inv.number ?? inv.id} paid (${(inv.amount_paid / 100).toFixed(2)} ${inv.currency.toUpperCase()})${wasInGrace ? "; grace ended" : ""}`,
+        outcome:
+          `invoice ${inv.number ?? inv.id} paid (${(inv.amount_paid / 100).toFixed(2)} ${inv.currency.toUpperCase()})` + `${wasInGrace ? "; grace ended" : ""}`,
       };
     }
     case "invoice.payment_failed": {

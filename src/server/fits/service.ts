@@ -69,7 +69,8 @@ export async function createFit(caller: Caller, raw: unknown): Promise<FitCreate
       "invalid_input",
       allowed.length
         ? `sweepParameter: this dataset's x is ${dataset.xQuantity} in ${dataset.xUnit}; map it to ${allowed.join(" or ")}.`
-        : `sweepParameter: this dataset's x is ${dataset.xQuantity === "gateVoltage" ? "gate voltage" : "carrier density"}; the engine has no parameter for it yet, so only field (fieldTesla) datasets can be fitted.`,
+        : `sweepParameter: this dataset's x is ${dataset.xQuantity === "gateVoltage" ? "gate voltage" : "carrier density"}; ` +
+            `the engine has no parameter for it yet, so only field (fieldTesla) datasets can be fitted.`,
       { field: "sweepParameter", allowed },
     );
   }
@@ -278,7 +279,8 @@ export async function exportFit(caller: Caller, id: string): Promise<FitExport> 
     },
     result: v.result,
     caution:
-      "Results are predictions of a phenomenological model, not measurements; node probabilities and mode velocity are model parameters, not material constants.",
+      "Results are predictions of a phenomenological model, not measurements; " +
+      "node probabilities and mode velocity are model parameters, not material constants.",
   };
 }
 

@@ -358,7 +358,8 @@ export async function sweepResultsCsv(caller: Caller, id: string): Promise<{ fil
   const units = columns.map((c) => `${c} [${c === "pointIndex" || c === "status" || c === "runId" ? "-" : unitOf(c)}]`);
   const lines = [
     `# Triskel sweep ${s.id}${s.name ? ` "${s.name.replace(/[\r\n]/g, " ")}"` : ""}`,
-    `# engine version: ${s.engineVersion ?? ENGINE_VERSION}; status: ${s.status}; points: ${s.counts.succeeded} of ${s.pointCount} succeeded; generated ${new Date().toISOString()}`,
+    `# engine version: ${s.engineVersion ?? ENGINE_VERSION}; status: ${s.status}; points: ${s.counts.succeeded} of ${s.pointCount} succeeded; ` +
+      `generated ${new Date().toISOString()}`,
     `# units: ${units.join(", ")}`,
     `# model predictions of a phenomenological network model, not measurements`,
     columns.join(","),
