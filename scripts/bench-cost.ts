@@ -378,7 +378,8 @@ function calibrate(): void {
   const selected = getKernels();
   if (selected.name !== "ts") backends.unshift(["openblas", selected]);
   console.log(
-    `calibration of the cost model's figures (backends: ${backends.map(([b]) => b).join(", ")}; measured figure and the constant now in src/engine/cost-constants.ts)`,
+    `calibration of the cost model's figures (backends: ${backends.map(([b]) => b).join(", ")}` +
+      `; measured figure and the constant now in src/engine/cost-constants.ts)`,
   );
   const figures: Record<CostBackend, KernelFigures> = { ...KERNEL_FIGURES };
   for (const [name, k] of backends) {
@@ -472,7 +473,8 @@ function calibrate(): void {
     line("absorberSmallSeconds", c[o + 3], COST_CONSTANTS.absorberSmallSeconds);
     const off = ratios.flatMap((r, i) => (r < 0.7 || r > 1.4 ? [`${labels[i]} ${r.toFixed(2)}`] : []));
     console.log(
-      `  (model / measured over ${y.length} sweeps: ${Math.min(...ratios).toFixed(2)} .. ${Math.max(...ratios).toFixed(2)}${off.length ? `; outside [0.7, 1.4]: ${off.join(", ")}` : ""})`,
+      `  (model / measured over ${y.length} sweeps: ${Math.min(...ratios).toFixed(2)} .. ` +
+        `${Math.max(...ratios).toFixed(2)}${off.length ? `; outside [0.7, 1.4]: ${off.join(", ")}` : ""})`,
     );
   }
   // graphs, per-evaluation bookkeeping, entries, checkpoint copies
@@ -578,7 +580,8 @@ function bench(): void {
   const warmed = new Set<string>();
   const byKind = new Map<string, number[]>();
   console.log(
-    `cost model against measured CPU time (kernels: ${getKernels().name}; target: estimate / measured in [0.5, 2]${repeat > 1 ? `; the least of ${repeat} passes` : ""})`,
+    `cost model against measured CPU time (kernels: ${getKernels().name}` +
+      `; target: estimate / measured in [0.5, 2]${repeat > 1 ? `; the least of ${repeat} passes` : ""})`,
   );
   let outside = 0;
   const cases = CASES.filter((c) => !only || c.kind === only);
@@ -621,7 +624,8 @@ function bench(): void {
     if (!ok) outside++;
     byKind.set(c.kind, [...(byKind.get(c.kind) ?? []), ratio]);
     console.log(
-      `  ${ok ? "ok " : "OUT"} ${c.kind.padEnd(12)} ${c.label.padEnd(44)} estimate ${estimate.toFixed(3).padStart(8)} s  measured ${measured.toFixed(3).padStart(8)} s  ratio ${ratio.toFixed(2)}`,
+      `  ${ok ? "ok " : "OUT"} ${c.kind.padEnd(12)} ${c.label.padEnd(44)} estimate ${estimate.toFixed(3).padStart(8)} s  ` +
+        `measured ${measured.toFixed(3).padStart(8)} s  ratio ${ratio.toFixed(2)}`,
     );
     const th = (result as ReturnType<typeof compute> | null)?.kind === "conductance" ? (result as unknown as ConductanceResult).thermal : null;
     if (th && input.computation.kind === "conductance") {
@@ -631,7 +635,10 @@ function bench(): void {
         const scale = networkScale(input.network);
         const kT = (BOLTZMANN_J_PER_K * input.computation.temperatureK) / JOULE_PER_MEV;
         const first = thermalPlan(kT, scale.energyPeriodMeV, 8 * th.narrowestResonanceMeV).energies;
-        res = ` (first panels ${first}, refinements x${(th.energiesPerSample / first).toFixed(2)}); narrowest resonance ${th.narrowestResonanceMeV.toPrecision(3)} meV, model ${(estimatedResonanceWidth(input.network) * scale.energyScaleMeV).toPrecision(3)} meV`;
+        res =
+          ` (first panels ${first}, refinements x${(th.energiesPerSample / first).toFixed(2)})` +
+          `; narrowest resonance ${th.narrowestResonanceMeV.toPrecision(3)} meV, ` +
+          `model ${(estimatedResonanceWidth(input.network) * scale.energyScaleMeV).toPrecision(3)} meV`;
       }
       console.log(`      thermal: ${th.energiesPerSample} energies per sample, model ${est}${res}`);
     }

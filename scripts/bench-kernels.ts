@@ -156,7 +156,8 @@ const gf = (flops: number, s: number) => `${(flops / s / 1e9).toFixed(1)}`;
 
 console.log(`# Triskel kernel backends, ${new Date().toISOString()}`);
 console.log(
-  `native: OpenBLAS core ${loaded.info.coreName} (OPENBLAS_CORETYPE=${loaded.info.coreType ?? "unset"}, ${loaded.info.coreTypeSource}), ${loaded.addon.getThreads()} thread(s), malloc tuning ${loaded.info.mallocTuned ? "on" : "off"}; ${loaded.info.config}`,
+  `native: OpenBLAS core ${loaded.info.coreName} (OPENBLAS_CORETYPE=${loaded.info.coreType ?? "unset"}, ${loaded.info.coreTypeSource}), ` +
+    `${loaded.addon.getThreads()} thread(s), malloc tuning ${loaded.info.mallocTuned ? "on" : "off"}; ${loaded.info.config}`,
 );
 console.log(
   `machine: ${os.cpus()[0]?.model ?? "?"}, ${os.cpus().length} cores, load average ${os
@@ -207,7 +208,8 @@ for (let round = 0; round < ROUNDS; round++) {
 const npPlain = numpyRun({ OPENBLAS_NUM_THREADS: threads, OPENBLAS_CORETYPE: undefined, OPENBLAS_L2_SIZE: undefined });
 const npLabel = (r: typeof npTuned) => (r ? `numpy ${r.numpy} (core ${r.core})` : "numpy n/a");
 console.log(
-  `numpy: ${npLabel(npTuned)} with OPENBLAS_CORETYPE=${loaded.info.coreType ?? "unset"}; ${npLabel(npPlain)} with neither OPENBLAS_CORETYPE nor OPENBLAS_L2_SIZE`,
+  `numpy: ${npLabel(npTuned)} with OPENBLAS_CORETYPE=${loaded.info.coreType ?? "unset"}; ` +
+    `${npLabel(npPlain)} with neither OPENBLAS_CORETYPE nor OPENBLAS_L2_SIZE`,
 );
 console.log("");
 console.log("| op | N | ts | openblas | numpy (same core) | numpy (no env) | openblas / numpy | openblas GFLOP/s | numpy GFLOP/s |");
@@ -221,7 +223,9 @@ for (const op of ["gemm", "star"] as const) {
     const np0 = npPlain ? (npPlain[String(n)] as { gemm: number; star: number })[op] : NaN;
     const ref = Math.min(nt, Number.isNaN(np0) ? Infinity : np0);
     console.log(
-      `| ${op === "gemm" ? "zgemm" : "star product"} | ${n} | ${fmt(t)} | ${fmt(o)} | ${Number.isNaN(nt) ? "n/a" : fmt(nt)} | ${Number.isNaN(np0) ? "n/a" : fmt(np0)} | ${Number.isFinite(ref) ? (o / ref).toFixed(2) : "n/a"} | ${gf(flops, o)} | ${Number.isFinite(ref) ? gf(flops, ref) : "n/a"} |`,
+      `| ${op === "gemm" ? "zgemm" : "star product"} | ${n} | ${fmt(t)} | ${fmt(o)} | ` +
+        `${Number.isNaN(nt) ? "n/a" : fmt(nt)} | ${Number.isNaN(np0) ? "n/a" : fmt(np0)} | ${Number.isFinite(ref) ? (o / ref).toFixed(2) : "n/a"} | ` +
+        `${gf(flops, o)} | ${Number.isFinite(ref) ? gf(flops, ref) : "n/a"} |`,
     );
   }
 }

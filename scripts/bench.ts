@@ -162,7 +162,9 @@ async function main(): Promise<void> {
       }
       these.push(d);
       console.log(
-        `${String(W).padStart(4)} ${d.wall.toFixed(3).padStart(8)} ${d.cpu.toFixed(3).padStart(11)} ${d.maxRssMB.toFixed(0).padStart(13)} ${d.estimateSeconds.toFixed(3).padStart(12)} ${d.estimateMB.toFixed(0).padStart(13)} ${d.g.toFixed(4).padStart(10)} ${d.err.toExponential(1).padStart(7)}`,
+        `${String(W).padStart(4)} ${d.wall.toFixed(3).padStart(8)} ${d.cpu.toFixed(3).padStart(11)} ${d.maxRssMB.toFixed(0).padStart(13)} ` +
+          `${d.estimateSeconds.toFixed(3).padStart(12)} ${d.estimateMB.toFixed(0).padStart(13)} ` +
+          `${d.g.toFixed(4).padStart(10)} ${d.err.toExponential(1).padStart(7)}`,
       );
     }
     if (these.length >= 3) {
@@ -175,7 +177,8 @@ async function main(): Promise<void> {
         these.slice(-3).map((r) => r.cpu),
       );
       console.log(
-        `   compute time ~ W^${ex.toFixed(2)} over all sizes, W^${exLarge.toFixed(2)} over the largest three (W slices): per slice W^${(ex - 1).toFixed(2)} (W^${(exLarge - 1).toFixed(2)}), target <= W^3`,
+        `   compute time ~ W^${ex.toFixed(2)} over all sizes, W^${exLarge.toFixed(2)} over the largest three (W slices)` +
+          `: per slice W^${(ex - 1).toFixed(2)} (W^${(exLarge - 1).toFixed(2)}), target <= W^3`,
       );
     }
     if (backend === "ts") rows = these;
@@ -205,7 +208,8 @@ async function main(): Promise<void> {
       .join(" ")}`,
   );
   console.log(
-    `   1 thread: ${one.wall.toFixed(2)} s wall;  ${cores} threads: ${many.wall.toFixed(2)} s wall;  speed-up ${(one.wall / many.wall).toFixed(2)}x (ideal ${cores}x); results identical: ${same}`,
+    `   1 thread: ${one.wall.toFixed(2)} s wall;  ${cores} threads: ${many.wall.toFixed(2)} s wall;  ` +
+      `speed-up ${(one.wall / many.wall).toFixed(2)}x (ideal ${cores}x); results identical: ${same}`,
   );
 
   console.log("\n3. The same star products: composing W slices of 2W x 2W scattering matrices");
@@ -222,7 +226,10 @@ async function main(): Promise<void> {
       const eng = rows.find((x) => x.W === r.W);
       const engS = eng ? eng.cpu : NaN;
       console.log(
-        `${String(r.W).padStart(4)} ${r.seconds.toFixed(4).padStart(15)} ${Number.isNaN(ts) ? "   (skipped)".padStart(24) : ts.toFixed(4).padStart(24)} ${Number.isNaN(ts) ? "     -" : (ts / r.seconds).toFixed(1).padStart(7)} ${engS.toFixed(4).padStart(37)} ${(engS / r.seconds).toFixed(1).padStart(7)}`,
+        `${String(r.W).padStart(4)} ${r.seconds.toFixed(4).padStart(15)} ` +
+          `${Number.isNaN(ts) ? "   (skipped)".padStart(24) : ts.toFixed(4).padStart(24)} ` +
+          `${Number.isNaN(ts) ? "     -" : (ts / r.seconds).toFixed(1).padStart(7)} ` +
+          `${engS.toFixed(4).padStart(37)} ${(engS / r.seconds).toFixed(1).padStart(7)}`,
       );
     }
     console.log("   (numpy composes one valley with dense 2W x 2W star products; the engine computes both valleys with local rank-q updates)");

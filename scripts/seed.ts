@@ -101,6 +101,7 @@ if (tokensFile) {
   writeFileSync(tokensFile, JSON.stringify(tokens, null, 2) + "\n", { mode: 0o600 });
 }
 console.log(
-  `[seed] demo scenario ready: ${DEMO_PEOPLE.length} people, workspace "${DEMO_LAB.name}", ${DEMO_NETWORKS.length} networks${tokensFile ? `; tokens in ${tokensFile}` : ""}`,
+  `[seed] demo scenario ready: ${DEMO_PEOPLE.length} people, workspace "${DEMO_LAB.name}", ` +
+    `${DEMO_NETWORKS.length} networks${tokensFile ? `; tokens in ${tokensFile}` : ""}`,
 );
 await closeDb();

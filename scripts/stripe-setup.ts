@@ -78,5 +78,6 @@ const compute = await ensurePrice(
   (p) => p.recurring?.meter === meter.id && Number(String(p.unit_amount_decimal)) === Number(computeCentsPerSecond),
 );
 console.log(
-  `[stripe-setup] meter ${meter.id} (${meter.event_name}), seat price ${seat.id} (${seatCents} cents/month), compute price ${compute.id} (${computeCentsPerSecond} cents/compute-second)`,
+  `[stripe-setup] meter ${meter.id} (${meter.event_name}), seat price ${seat.id} (${seatCents} cents/month), ` +
+    `compute price ${compute.id} (${computeCentsPerSecond} cents/compute-second)`,
 );

@@ -52,7 +52,8 @@ for (const w of workers) {
   w.on("error", (err) => console.error(`[worker] ${w.name}: ${err.message}`));
 }
 console.log(
-  `[worker] pid ${process.pid} consuming ${workers.map((w) => w.name).join(", ")} (prefix ${env.QUEUE_PREFIX}, concurrency ${env.WORKER_CONCURRENCY}, engine threads ${poolSize})`,
+  `[worker] pid ${process.pid} consuming ${workers.map((w) => w.name).join(", ")} ` +
+    `(prefix ${env.QUEUE_PREFIX}, concurrency ${env.WORKER_CONCURRENCY}, engine threads ${poolSize})`,
 );
 
 // Recovery: on start and periodically, for every job kind, enqueue the rows the database holds as

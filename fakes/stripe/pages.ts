@@ -37,8 +37,10 @@ export function checkoutPage(s: FakeCheckoutSession, store: Store): string {
   const closed = s.status !== "open" ? `<p>This checkout is ${esc(s.status)}.</p>` : "";
   return layout(
     "Checkout",
-    `<h1>Subscribe</h1>${closed}<table>${rows}<tr><th>Due today</th><th class="n" data-testid="checkout-total">${money(monthly, s.currency ?? "usd")}</th></tr></table>
-<form method="post" action="/checkout/${esc(s.id)}/pay" style="margin-top:1.2rem"><button type="submit" ${s.status !== "open" ? "disabled" : ""}>Pay and subscribe</button></form>
+    `<h1>Subscribe</h1>${closed}<table>${rows}` +
+      `<tr><th>Due today</th><th class="n" data-testid="checkout-total">${money(monthly, s.currency ?? "usd")}</th></tr></table>
+<form method="post" action="/checkout/${esc(s.id)}/pay" style="margin-top:1.2rem">` +
+      `<button type="submit" ${s.status !== "open" ? "disabled" : ""}>Pay and subscribe</button></form>
 ${s.cancel_url ? `<p><a href="${esc(s.cancel_url)}">Back without subscribing</a></p>` : ""}`,
   );
 }
@@ -52,7 +54,8 @@ export function portalPage(s: FakePortalSession, store: Store): string {
     ? active.items.data
         .map(
           (it) =>
-            `<tr><td>${esc(store.products.get(it.price.product as string)?.name)}</td><td class="n">${it.quantity ?? "metered"}</td><td class="n">until ${day(it.current_period_end)}</td></tr>`,
+            `<tr><td>${esc(store.products.get(it.price.product as string)?.name)}</td><td class="n">${it.quantity ?? "metered"}</td>` +
+            `<td class="n">until ${day(it.current_period_end)}</td></tr>`,
         )
         .join("")
     : "";
@@ -64,10 +67,21 @@ export function portalPage(s: FakePortalSession, store: Store): string {
 ${active ? `<table><tr><th>Item</th><th class="n">Quantity</th><th class="n">Period</th></tr>${items}</table>` : ""}
 <h2>Payment details</h2><p>${failing ? "The card on file is being declined." : "Test card on file."}</p>
 <form method="post" action="/portal/${esc(s.id)}/payment"><button type="submit" class="quiet">Update payment details</button></form>
-${active ? `<form method="post" action="/portal/${esc(s.id)}/cancel" style="margin-top:.6rem"><button type="submit" class="quiet">Cancel subscription</button></form>` : ""}
+${
+  active
+    ? `<form method="post" action="/portal/${esc(s.id)}/cancel" style="margin-top:.6rem">` +
+      `<button type="submit" class="quiet">Cancel subscription</button></form>`
+    : ""
+}
 <h2>Invoices</h2>${
       invoices.length
-        ? `<table>${invoices.map((i) => `<tr><td><a href="/invoice/${esc(i.id)}">${esc(i.number)}</a></td><td>${day(i.created)}</td><td>${esc(i.status)}</td><td class="n">${money(i.total, i.currency)}</td></tr>`).join("")}</table>`
+        ? `<table>${invoices
+            .map(
+              (i) =>
+                `<tr><td><a href="/invoice/${esc(i.id)}">${esc(i.number)}</a></td><td>${day(i.created)}</td>` +
+                `<td>${esc(i.status)}</td><td class="n">${money(i.total, i.currency)}</td></tr>`,
+            )
+            .join("")}</table>`
         : "<p>No invoices yet.</p>"
     }
 ${s.return_url ? `<p style="margin-top:1.2rem"><a href="${esc(s.return_url)}" data-testid="portal-return">Return to the app</a></p>` : ""}`,
@@ -79,6 +93,7 @@ export function invoicePage(i: FakeInvoice, store: Store): string {
   const rows = i.lines.data.map((l) => `<tr><td>${esc(l.description)}</td><td class="n">${money(l.amount, l.currency)}</td></tr>`).join("");
   return layout(
     `Invoice ${i.number ?? ""}`,
-    `<h1>Invoice ${esc(i.number)}</h1><p>${day(i.period_start)} – ${day(i.period_end)} · ${esc(i.status)}</p><table>${rows}<tr><th>Total</th><th class="n">${money(i.total, i.currency)}</th></tr></table>`,
+    `<h1>Invoice ${esc(i.number)}</h1><p>${day(i.period_start)} – ${day(i.period_end)} · ${esc(i.status)}</p>` +
+      `<table>${rows}<tr><th>Total</th><th class="n">${money(i.total, i.currency)}</th></tr></table>`,
   );
 }

@@ -222,7 +222,8 @@ export function createFakeStripe(opts: FakeOptions) {
             new FakeError(
               400,
               "idempotency_error",
-              `Keys for idempotent requests can only be used with the same parameters they were first used with. Try using a key other than '${idemKey}' if you meant to execute a different request.`,
+              `Keys for idempotent requests can only be used with the same parameters they were first used with. ` +
+                `Try using a key other than '${idemKey}' if you meant to execute a different request.`,
             ),
           );
         }

@@ -538,7 +538,9 @@ export function checkResourceLimits(input: ComputeInput, options: CostOptions = 
   if (est.peakMemoryBytes > K.memoryLimitBytes) {
     const gb = (b: number) => (b / 1024 ** 3).toFixed(2);
     throw new EngineLimitError(
-      `the ${input.computation.kind} computation on a ${input.network.size.columns} x ${input.network.size.rows} ${input.network.lattice} network needs an estimated ${gb(est.peakMemoryBytes)} GB of memory, over the ${gb(K.memoryLimitBytes)} GB limit per computation; use a smaller network`,
+      `the ${input.computation.kind} computation on a ${input.network.size.columns} x ${input.network.size.rows} ${input.network.lattice} network ` +
+        `needs an estimated ${gb(est.peakMemoryBytes)} GB of memory, ` +
+        `over the ${gb(K.memoryLimitBytes)} GB limit per computation; use a smaller network`,
       est.peakMemoryBytes,
       K.memoryLimitBytes,
     );
@@ -546,7 +548,11 @@ export function checkResourceLimits(input: ComputeInput, options: CostOptions = 
   if (est.computeSeconds > K.computeSecondsLimit) {
     const h = (x: number) => (x / 3600).toPrecision(3);
     throw new EngineLimitError(
-      `the ${input.computation.kind} computation on a ${input.network.size.columns} x ${input.network.size.rows} ${input.network.lattice} network needs an estimated ${Math.round(est.computeSeconds).toLocaleString("en-US")} compute-seconds (${h(est.computeSeconds)} compute-hours), over the limit of ${h(K.computeSecondsLimit)} compute-hours per computation; use a smaller network or fewer points`,
+      `the ${input.computation.kind} computation on a ${input.network.size.columns} x ${input.network.size.rows} ${input.network.lattice} network ` +
+        `needs an estimated ${Math.round(est.computeSeconds).toLocaleString("en-US")} compute-seconds ` +
+        `(${h(est.computeSeconds)} compute-hours), ` +
+        `over the limit of ${h(K.computeSecondsLimit)} compute-hours per computation` +
+        `; use a smaller network or fewer points`,
       est.peakMemoryBytes,
       K.memoryLimitBytes,
       { estimatedComputeSeconds: est.computeSeconds, limitComputeSeconds: K.computeSecondsLimit },

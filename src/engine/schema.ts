@@ -121,7 +121,8 @@ function finishNetwork(n: BaseNetwork, ctx: z.RefinementCtx): Network {
       if (Math.abs(sum - 1) > 1e-9 || (left as number) < -1e-12 || (right as number) < -1e-12) {
         issue(
           ["node", "forward"],
-          `forward + left + right must equal 1 (got ${sum.toPrecision(12)} with left ${(left as number).toPrecision(6)}, right ${(right as number).toPrecision(6)}); each lies in [0, 1]`,
+          `forward + left + right must equal 1 (got ${sum.toPrecision(12)} ` +
+            `with left ${(left as number).toPrecision(6)}, right ${(right as number).toPrecision(6)}); each lies in [0, 1]`,
         );
       } else {
         left = Math.max(0, left as number);
@@ -135,7 +136,10 @@ function finishNetwork(n: BaseNetwork, ctx: z.RefinementCtx): Network {
           if (lo < range.min - 1e-12 || hi > range.max + 1e-12) {
             issue(
               ["disorder", "forwardSpread"],
-              `forward +- forwardSpread/2 = [${lo.toFixed(6)}, ${hi.toFixed(6)}] leaves the reachable range [${range.min.toFixed(6)}, ${range.max.toFixed(6)}] for this left:right ratio; allowed forwardSpread <= ${(2 * Math.min(p.forward - range.min, range.max - p.forward)).toFixed(6)}`,
+              `forward +- forwardSpread/2 = [${lo.toFixed(6)}, ${hi.toFixed(6)}] ` +
+                `leaves the reachable range [${range.min.toFixed(6)}, ${range.max.toFixed(6)}] ` +
+                `for this left:right ratio; ` +
+                `allowed forwardSpread <= ${(2 * Math.min(p.forward - range.min, range.max - p.forward)).toFixed(6)}`,
             );
           }
         }

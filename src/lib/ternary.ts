@@ -138,7 +138,10 @@ export function checkTriple(t: Triple): TripleVerdict {
     ok: false,
     reason: "triangle",
     field: "forward",
-    message: `No unitary node has these probabilities: ${labels[longest]} = ${fmt(sides[longest])} is longer than ${labels[others[0]]} + ${labels[others[1]]} = ${fmt(sides[others[0]] + sides[others[1]])}, so the three cannot close a triangle. ${rangeText}${equalHint}`,
+    message:
+      `No unitary node has these probabilities: ${labels[longest]} = ${fmt(sides[longest])} ` +
+      `is longer than ${labels[others[0]]} + ${labels[others[1]]} = ${fmt(sides[others[0]] + sides[others[1]])}, ` +
+      `so the three cannot close a triangle. ${rangeText}${equalHint}`,
     forwardRange: range,
     suggestion,
   };

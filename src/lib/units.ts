@@ -26,7 +26,19 @@ function significant(x: number, digits: number, group: string): { mantissa: stri
   return { mantissa: frac === undefined ? grouped : `${grouped}.${frac}`, exponent: 0 };
 }
 
-const SUPERSCRIPT: Record<string, string> = { "-": "⁻", "0": "⁰", "1": "¹", "2": "²", "3": "³", "4": "⁴", "5": "⁵", "6": "⁶", "7": "⁷", "8": "⁸", "9": "⁹" };
+const SUPERSCRIPT: Record<string, string> = {
+  "-": "⁻",
+  "0": "⁰",
+  "1": "¹",
+  "2": "²",
+  "3": "³",
+  "4": "⁴",
+  "5": "⁵",
+  "6": "⁶",
+  "7": "⁷",
+  "8": "⁸",
+  "9": "⁹",
+};
 
 /** Plain text, e.g. 4.135667697 × 10⁻¹⁵ or 25 812.80746 (thin spaces). */
 export function sigText(x: number, digits: number): string {

@@ -115,7 +115,9 @@ export function readCsvTable(text: string): RawTable {
         code: "malformed_row" as const,
         row: line,
         column: null,
-        message: `Row ${line}: a quote (") opens a cell here and is never closed, so the rest of the file would be read as one cell; close the quote or remove it.`,
+        message:
+          `Row ${line}: a quote (") opens a cell here and is never closed, ` +
+          `so the rest of the file would be read as one cell; close the quote or remove it.`,
       })),
     );
   }
@@ -214,7 +216,9 @@ export function parseDatasetCsv(text: string, mapping: ColumnMapping): ParsedDat
         code: "missing_column",
         row: table.headerLine,
         column: w.name,
-        message: `Column "${w.name}" (mapped as ${w.role}) is not in the header on row ${table.headerLine}; the file has: ${table.header.map((h) => `"${h}"`).join(", ") || "no columns"}.`,
+        message:
+          `Column "${w.name}" (mapped as ${w.role}) is not in the header on row ${table.headerLine}; ` +
+          `the file has: ${table.header.map((h) => `"${h}"`).join(", ") || "no columns"}.`,
       });
       continue;
     }
@@ -304,7 +308,9 @@ export function parseDatasetCsv(text: string, mapping: ColumnMapping): ParsedDat
         code: "nonpositive_resistance",
         row: r.line,
         column: table.header[index.y!],
-        message: `Row ${r.line}, column "${table.header[index.y!]}": a resistance of ${values.y} ${mapping.yUnit} cannot be turned into a conductance; resistances must be positive.`,
+        message:
+          `Row ${r.line}, column "${table.header[index.y!]}": a resistance of ${values.y} ${mapping.yUnit} ` +
+          `cannot be turned into a conductance; resistances must be positive.`,
       });
       continue;
     }
@@ -343,14 +349,17 @@ export function parseDatasetCsv(text: string, mapping: ColumnMapping): ParsedDat
         code: "duplicate_x",
         row: lineOf[i],
         column: xCol,
-        message: `Row ${lineOf[i]}, column "${xCol}": x = ${xRaw[i]} repeats row ${lineOf[i - 1]}; each x may appear once (average repeated measurements first).`,
+        message:
+          `Row ${lineOf[i]}, column "${xCol}": x = ${xRaw[i]} repeats row ${lineOf[i - 1]}; ` + `each x may appear once (average repeated measurements first).`,
       });
     } else if (descending ? xRaw[i] > xRaw[i - 1] : xRaw[i] < xRaw[i - 1]) {
       push({
         code: "unsorted_x",
         row: lineOf[i],
         column: xCol,
-        message: `Row ${lineOf[i]}, column "${xCol}": x = ${xRaw[i]} comes after ${xRaw[i - 1]} (row ${lineOf[i - 1]}), but the column runs ${descending ? "downwards" : "upwards"}; x must be sorted (one direction, no repeats).`,
+        message:
+          `Row ${lineOf[i]}, column "${xCol}": x = ${xRaw[i]} comes after ${xRaw[i - 1]} (row ${lineOf[i - 1]}), ` +
+          `but the column runs ${descending ? "downwards" : "upwards"}; x must be sorted (one direction, no repeats).`,
       });
     }
   }

@@ -64,6 +64,17 @@ export const PLANS: Record<PlanId, PlanLimits> = {
 };
 
 /** Cost in USD of some compute-seconds on a plan (before included minutes). */
+/** Where a subscription stands: paid up, paying late (grace: Lab limits stay), or suspended. */
+export type PlanState = "active" | "grace" | "suspended";
+
+/**
+ * The plan whose limits, quota, price and queue priority apply now: a suspended Lab workspace works
+ * under Free (docs/billing.md); grace keeps Lab. Every check of a submission uses this one.
+ */
+export function effectivePlan(plan: PlanId, planState: PlanState): PlanId {
+  return planState === "suspended" ? "free" : plan;
+}
+
 export function computeCostUsd(plan: PlanId, computeSeconds: number): number {
   return (computeSeconds / 3600) * PLANS[plan].computePriceUsdPerHour;
 }

@@ -19,7 +19,8 @@ describe("drawing a large network", () => {
     await expect.poll(() => canvas.getAttribute("data-first-draw-ms"), { timeout: 20_000 }).not.toBeNull();
     const ms = Number(await canvas.getAttribute("data-first-draw-ms"));
     console.log(
-      `first draw of 200 x 200 (120,000 links): ${ms.toFixed(1)} ms (geometry ${await canvas.getAttribute("data-geometry-ms")} ms, paint ${await canvas.getAttribute("data-paint-ms")} ms)`,
+      `first draw of 200 x 200 (120,000 links): ${ms.toFixed(1)} ms ` +
+        `(geometry ${await canvas.getAttribute("data-geometry-ms")} ms, paint ${await canvas.getAttribute("data-paint-ms")} ms)`,
     );
     expect(ms).toBeGreaterThan(0);
     expect(ms).toBeLessThan(1000);

@@ -89,7 +89,8 @@ describe("Clerk webhooks", () => {
       });
     const roleNow = async () =>
       (
-        await sql`select m.role from memberships m join users u on u.id = m.user_id join workspaces w on w.id = m.workspace_id where u.clerk_user_id = ${clerkId} and w.clerk_org_id = ${org.id}`
+        await sql`select m.role from memberships m join users u on u.id = m.user_id join workspaces w on w.id = m.workspace_id
+          where u.clerk_user_id = ${clerkId} and w.clerk_org_id = ${org.id}`
       )[0]?.role ?? null;
 
     let body = membership("organizationMembership.created", "org:researcher");

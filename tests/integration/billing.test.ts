@@ -53,7 +53,8 @@ async function createWorkspace(name: string, plan: "free" | "lab" = "free"): Pro
     const [u] = await sql`insert into users (email, name) values (${`${key}-${slug}@billing-test.example`}, ${`${key} of ${name}`}) returning id`;
     await sql`insert into memberships (workspace_id, user_id, role) values (${ws.id}, ${u.id}, ${role})`;
     const secret = newTokenSecret();
-    await sql`insert into api_tokens (workspace_id, user_id, name, role, token_hash, prefix) values (${ws.id}, ${u.id}, 'billing test', ${role}, ${hashToken(secret)}, ${displayPrefix(secret)})`;
+    await sql`insert into api_tokens (workspace_id, user_id, name, role, token_hash, prefix)
+      values (${ws.id}, ${u.id}, 'billing test', ${role}, ${hashToken(secret)}, ${displayPrefix(secret)})`;
     tokens[key] = secret;
     userIds[key] = u.id;
   }

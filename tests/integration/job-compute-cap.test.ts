@@ -27,8 +27,8 @@ const hugeNetwork = { ...smallNetwork(200, 200), disorder: { linkPhaseWidthRad: 
 const hugeComputation = { kind: "conductance", energyMeV: 0.5, temperatureK: 20, ensemble: { samples: 1000 } };
 
 async function studentWorkspace(): Promise<string> {
-  const [row] =
-    await sql`select w.id from workspaces w join memberships m on m.workspace_id = w.id join users u on u.id = m.user_id where u.email = 'student@fernhill.example'`;
+  const [row] = await sql`select w.id from workspaces w join memberships m on m.workspace_id = w.id join users u on u.id = m.user_id
+    where u.email = 'student@fernhill.example'`;
   return row.id;
 }
 

@@ -121,8 +121,8 @@ describe("a run", () => {
 describe("invalid run submissions get the documented status and write nothing", () => {
   it("bad schema (422), over a plan limit (402), unknown network (404), another workspace's network (404), viewer (403)", async () => {
     const lab = await workspaceId();
-    const [student] =
-      await sql`select w.id from workspaces w join memberships m on m.workspace_id = w.id join users u on u.id = m.user_id where u.email = 'student@fernhill.example'`;
+    const [student] = await sql`select w.id from workspaces w join memberships m on m.workspace_id = w.id join users u on u.id = m.user_id
+      where u.email = 'student@fernhill.example'`;
     const labBefore = await counts(lab);
     const studentBefore = await counts(student.id);
 

@@ -67,8 +67,8 @@ describe("a 50-point sweep", () => {
       expect(run.sweepPointIndex).toBe(i);
       expect(run.result).toEqual(JSON.parse(printed[k]));
     }
-    const points =
-      await sql`select sweep_point_index, compute_seconds, (input->'computation'->>'fieldTesla')::float8 as field from runs where sweep_id = ${id} order by sweep_point_index`;
+    const points = await sql`select sweep_point_index, compute_seconds, (input->'computation'->>'fieldTesla')::float8 as field from runs
+      where sweep_id = ${id} order by sweep_point_index`;
     expect(points.map((p) => p.sweep_point_index)).toEqual([...Array(POINTS).keys()]);
     points.forEach((p, i) => expect(p.field).toBeCloseTo(done.axes[0].values[i], 12));
 
@@ -191,8 +191,8 @@ describe("invalid sweep submissions get the documented status and write nothing"
     expect(foreign.status).toBe(404);
     expect(await counts(lab)).toEqual(before);
 
-    const [student] =
-      await sql`select w.id from workspaces w join memberships m on m.workspace_id = w.id join users u on u.id = m.user_id where u.email = 'student@fernhill.example'`;
+    const [student] = await sql`select w.id from workspaces w join memberships m on m.workspace_id = w.id join users u on u.id = m.user_id
+      where u.email = 'student@fernhill.example'`;
     const studentBefore = await counts(student.id);
     const tooMany = await post(
       "/api/v1/sweeps",

@@ -34,7 +34,8 @@ export async function createLabWorkspace(name: string): Promise<SoakWorkspace> {
     const [u] = await sql`insert into users (email, name) values (${`${key}-${slug}@soak.example`}, ${`${key} of ${name}`}) returning id`;
     await sql`insert into memberships (workspace_id, user_id, role) values (${ws.id}, ${u.id}, ${role})`;
     const secret = newTokenSecret();
-    await sql`insert into api_tokens (workspace_id, user_id, name, role, token_hash, prefix) values (${ws.id}, ${u.id}, 'soak', ${role}, ${hashToken(secret)}, ${displayPrefix(secret)})`;
+    await sql`insert into api_tokens (workspace_id, user_id, name, role, token_hash, prefix)
+      values (${ws.id}, ${u.id}, 'soak', ${role}, ${hashToken(secret)}, ${displayPrefix(secret)})`;
     tokens[key] = secret;
     userIds[key] = u.id;
   }

@@ -5,11 +5,15 @@ import { NetworkMotif } from "@/components/shell/NetworkMotif";
 const features = [
   {
     title: "Conductance you can cite",
-    text: "Two-terminal Landauer conductance per valley and in total, in e²/h, siemens and ohms, with transmission eigenvalues, Fano factor, temperature smearing and contact resistance.",
+    text:
+      "Two-terminal Landauer conductance per valley and in total, in e²/h, siemens and ohms, " +
+      "with transmission eigenvalues, Fano factor, temperature smearing and contact resistance.",
   },
   {
     title: "Spectra and densities of states",
-    text: "Bloch bands of the periodic network at any rational flux, densities of states per moiré cell and per area, carrier density, and local density-of-states maps.",
+    text:
+      "Bloch bands of the periodic network at any rational flux, " +
+      "densities of states per moiré cell and per area, carrier density, and local density-of-states maps.",
   },
   {
     title: "Sweeps at scale",
@@ -17,7 +21,9 @@ const features = [
   },
   {
     title: "Fits to your measurements",
-    text: "Upload magnetoconductance, read the moiré period off the oscillations, and fit node probabilities, mode velocity and contact resistance with honest uncertainties.",
+    text:
+      "Upload magnetoconductance, read the moiré period off the oscillations, " +
+      "and fit node probabilities, mode velocity and contact resistance with honest uncertainties.",
   },
 ];
 

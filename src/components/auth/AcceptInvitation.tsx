@@ -62,7 +62,10 @@ export function AcceptInvitation({ token, preview }: { token: string; preview: P
           type="button"
           onClick={accept}
           disabled={busy}
-          className="inline-flex w-full items-center justify-center rounded-full bg-wall-700 px-5 py-2.5 text-body font-semibold text-paper transition hover:bg-wall-900 disabled:cursor-wait disabled:opacity-60"
+          className={
+            "inline-flex w-full items-center justify-center rounded-full bg-wall-700 px-5 py-2.5 " +
+            "text-body font-semibold text-paper transition hover:bg-wall-900 disabled:cursor-wait disabled:opacity-60"
+          }
         >
           {busy ? "Joining…" : `Join ${preview.workspaceName}`}
         </button>
@@ -76,7 +79,10 @@ export function AcceptInvitation({ token, preview }: { token: string; preview: P
           </Link>
           <Link
             href={withEmail("/sign-in")}
-            className="inline-flex w-full items-center justify-center rounded-full border border-ink/20 px-5 py-2.5 text-body font-semibold text-ink hover:border-wall-500"
+            className={
+              "inline-flex w-full items-center justify-center rounded-full border border-ink/20 px-5 py-2.5 " +
+              "text-body font-semibold text-ink hover:border-wall-500"
+            }
           >
             I already have an account
           </Link>

@@ -14,7 +14,10 @@ export function AuthInput({ id, label, error, ...rest }: { id: string; label: st
         name={id}
         aria-invalid={error ? true : undefined}
         aria-describedby={error ? `${id}-error` : undefined}
-        className="mt-1 block w-full rounded-lg border border-ink/20 bg-paper-raised px-3 py-2 text-body text-ink outline-none focus:border-wall-500 focus:ring-2 focus:ring-wall-300 aria-[invalid=true]:border-alarm-500"
+        className={
+          "mt-1 block w-full rounded-lg border border-ink/20 bg-paper-raised px-3 py-2 " +
+          "text-body text-ink outline-none focus:border-wall-500 focus:ring-2 focus:ring-wall-300 aria-[invalid=true]:border-alarm-500"
+        }
         {...rest}
       />
       {error ? (
@@ -31,7 +34,10 @@ export function AuthButton({ children, busy, ...rest }: { children: ReactNode; b
     <button
       type="submit"
       disabled={busy || rest.disabled}
-      className="inline-flex w-full items-center justify-center rounded-full bg-wall-700 px-5 py-2.5 text-body font-semibold text-paper transition hover:bg-wall-900 disabled:cursor-wait disabled:opacity-60"
+      className={
+        "inline-flex w-full items-center justify-center rounded-full bg-wall-700 px-5 py-2.5 " +
+        "text-body font-semibold text-paper transition hover:bg-wall-900 disabled:cursor-wait disabled:opacity-60"
+      }
       {...rest}
     >
       {busy ? "Working…" : children}

@@ -136,6 +136,13 @@ export function BillingPage() {
             {o.plan === "lab" ? ` · ${formatUsd(o.spendUsd)}` : ` of ${o.includedComputeSeconds / 60} included compute-minutes`}
           </p>
         </div>
+        {o.reservedComputeSeconds > 0 ? (
+          <p className="text-caption text-fg-soft" data-testid="usage-reserved">
+            Another {formatComputeSeconds(o.reservedComputeSeconds)}
+            {o.plan === "lab" ? ` (${formatUsd(o.reservedUsd)})` : ""} is held by queued and running work: it counts against the{" "}
+            {o.plan === "lab" ? "spend cap" : "monthly quota"} until the work finishes, then its measured compute replaces it.
+          </p>
+        ) : null}
         {usage.isPending ? (
           <Skeleton />
         ) : usage.error ? (

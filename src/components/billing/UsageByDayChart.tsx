@@ -66,7 +66,10 @@ export function UsageByDayChart({ period, days, names }: { period: string; days:
                   const h = y(p[0]) - y(p[1]);
                   return h > 0 ? (
                     <rect key={i} x={x(model.dates[i])} y={y(p[1])} width={x.bandwidth()} height={h}>
-                      <title>{`${model.dates[i]} · ${s.key === "former" ? "former members" : (names.get(s.key) ?? s.key)}: ${(p[1] - p[0]).toFixed(1)} compute-seconds`}</title>
+                      <title>
+                        {`${model.dates[i]} · ${s.key === "former" ? "former members" : (names.get(s.key) ?? s.key)}` +
+                          `: ${(p[1] - p[0]).toFixed(1)} compute-seconds`}
+                      </title>
                     </rect>
                   ) : null;
                 })}

@@ -81,7 +81,8 @@ export function HeatMap({
         .attr("data-filled", (c) => (c.v === null ? "no" : "yes"))
         .on("mouseenter", (_, c) =>
           setReadout(
-            `${xLabel.split(" (")[0]} = ${num(xValues[c.j])} · ${yLabel.split(" (")[0]} = ${num(yValues[c.i])} · ${zLabel} = ${c.v === null ? "not computed yet" : `${num(c.v)}${zUnit ? " " + zUnit : ""}`}`,
+            `${xLabel.split(" (")[0]} = ${num(xValues[c.j])} · ${yLabel.split(" (")[0]} = ${num(yValues[c.i])} ` +
+              `· ${zLabel} = ${c.v === null ? "not computed yet" : `${num(c.v)}${zUnit ? " " + zUnit : ""}`}`,
           ),
         );
       drawAxes(g, x, y, innerW, innerH, xLabel, yLabel, palette);

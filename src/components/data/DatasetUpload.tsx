@@ -140,7 +140,10 @@ export function DatasetUpload() {
           }}
           onDragLeave={() => setDragging(false)}
           onDrop={onDrop}
-          className={`flex cursor-pointer flex-col items-center justify-center rounded-card border-2 border-dashed p-10 text-center ${dragging ? "border-accent bg-accent-soft" : "border-line-strong"}`}
+          className={
+            `flex cursor-pointer flex-col items-center justify-center rounded-card border-2 border-dashed p-10 text-center ` +
+            `${dragging ? "border-accent bg-accent-soft" : "border-line-strong"}`
+          }
         >
           <span className="text-lead font-semibold">{file ? file.name : "Drop a CSV file here"}</span>
           <span className="mt-1 text-caption text-fg-soft">

@@ -39,7 +39,9 @@ export function NetworkDrawing({ shape, linkNm, height = 420, linkValues, label,
   const { ref: wrapRef, width } = useWidth(640, 240);
   const palette = usePalette(true);
 
-  const description = `${shape.lattice} network, ${shape.columns} × ${shape.rows} nodes, ${links.toLocaleString("en")} links, valley ${shape.valley}, ${shape.transverse} transverse boundary, leads on the left and right`;
+  const description =
+    `${shape.lattice} network, ${shape.columns} × ${shape.rows} nodes, ${links.toLocaleString("en")} links, ` +
+    `valley ${shape.valley}, ${shape.transverse} transverse boundary, leads on the left and right`;
   return (
     <figure className="relative overflow-hidden rounded-card border border-line bg-surface">
       <div ref={wrapRef} style={{ height }} className="relative w-full">

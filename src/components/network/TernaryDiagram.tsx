@@ -82,7 +82,10 @@ export function TernaryDiagram({ value, onPick, size = 260 }: Props) {
       height={height}
       viewBox={`0 0 ${size} ${height}`}
       role="img"
-      aria-label={`Ternary diagram of node probabilities: forward ${value.forward}, left ${value.left}, right ${value.right}; ${ok ? "reachable" : "refused, outside the reachable region"}`}
+      aria-label={
+        `Ternary diagram of node probabilities: forward ${value.forward}, left ${value.left}, right ${value.right}; ` +
+        `${ok ? "reachable" : "refused, outside the reachable region"}`
+      }
       data-testid="ternary"
       data-reachable={ok ? "yes" : "no"}
       onClick={pick}

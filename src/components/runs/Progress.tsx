@@ -50,7 +50,10 @@ export function Progress({
         className="h-2.5 overflow-hidden rounded-full bg-surface-sunk"
       >
         <div
-          className={`h-full rounded-full transition-[width] duration-500 ${status === "failed" ? "bg-danger" : status === "cancelled" ? "bg-line-strong" : "bg-accent"}`}
+          className={
+            `h-full rounded-full transition-[width] duration-500 ` +
+            `${status === "failed" ? "bg-danger" : status === "cancelled" ? "bg-line-strong" : "bg-accent"}`
+          }
           style={{ width: `${pct}%` }}
         />
       </div>

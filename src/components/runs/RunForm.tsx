@@ -27,7 +27,10 @@ export function RunForm({ network, canSubmit }: { network: NetworkView; canSubmi
             role="radio"
             aria-checked={kind === k.kind}
             onClick={() => draft.chooseKind(k.kind)}
-            className={`rounded-full border px-3 py-1 text-caption ${kind === k.kind ? "border-accent bg-accent text-accent-fg" : "border-line text-fg-soft hover:border-accent"}`}
+            className={
+              `rounded-full border px-3 py-1 text-caption ` +
+              `${kind === k.kind ? "border-accent bg-accent text-accent-fg" : "border-line text-fg-soft hover:border-accent"}`
+            }
           >
             {k.label}
           </button>

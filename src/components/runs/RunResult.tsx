@@ -20,6 +20,11 @@ import { LdosMap } from "./LdosMap";
 export const isEngineResult = (r: RunDetail["result"]): r is ComputeResult => r !== null && "kind" in r;
 const isEngineInput = (i: RunDetail["input"]): i is ComputeInput => "network" in i && "computation" in i && !("fitId" in i);
 
+/** The middle of each bin of the engine's ensemble histogram (binEdges has one more entry than counts). */
+export function binCenters(h: { binEdges: number[]; counts: number[] }): number[] {
+  return h.counts.map((_, i) => (h.binEdges[i] + h.binEdges[i + 1]) / 2);
+}
+
 /** The result of a run, drawn by kind (the engine's result types); every figure has axes in physical units and exports. */
 export function RunResult({ run }: { run: Pick<RunDetail, "id" | "input" | "result"> }) {
   const r = run.result;
@@ -53,7 +58,7 @@ function ConductanceResult({ r }: { r: Conductance }) {
   const ens = r.ensemble;
   const eig = useMemo(() => [...r.transmissionEigenvalues.valleyK, ...(r.transmissionEigenvalues.valleyKPrime ?? [])], [r.transmissionEigenvalues]);
   const histo = ens?.histogram;
-  const centers = histo ? histo.counts.map((_, i) => (histo.binEdges[i] + histo.binEdges[i + 1]) / 2) : [];
+  const centers = histo ? binCenters(histo) : [];
   return (
     <div className="space-y-6">
       <dl className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4" data-testid="conductance-figures">
@@ -138,8 +143,10 @@ function SpectrumResult({ r }: { r: Spectrum }) {
       ];
   return (
     <div className="space-y-4">
+      {/* prettier-ignore */}
       <p className="text-body text-fg-soft">
-        Energy period 2πħv/l = <span className="font-mono">{withUnit(r.energyPeriodMeV, "meV")}</span>; energies are reduced into one period. {energies.length}{" "}
+        Energy period 2πħv/l = <span className="font-mono">{withUnit(r.energyPeriodMeV, "meV")}</span>; energies are reduced into one
+        period. {energies.length}{" "}
         k points.
       </p>
       <BandChart energies={energies} distance={distance} ticks={ticks} periodMeV={r.energyPeriodMeV} />

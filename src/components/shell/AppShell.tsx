@@ -56,7 +56,10 @@ export function AppShell({ children }: { children: ReactNode }) {
                   <Link
                     href={n.href}
                     aria-current={active ? "page" : undefined}
-                    className={`group flex flex-col rounded-field px-3 py-1.5 ${active ? "bg-surface text-fg shadow-card" : "text-fg-soft hover:bg-surface/60 hover:text-fg"}`}
+                    className={
+                      `group flex flex-col rounded-field px-3 py-1.5 ` +
+                      `${active ? "bg-surface text-fg shadow-card" : "text-fg-soft hover:bg-surface/60 hover:text-fg"}`
+                    }
                   >
                     <span className="flex items-center gap-2 text-body font-medium">
                       <span aria-hidden className={`h-1.5 w-1.5 rotate-45 ${active ? "bg-warm" : "bg-line-strong group-hover:bg-accent"}`} />

@@ -61,8 +61,13 @@ export function SweepView({ id }: { id: string }) {
   return (
     <>
       <PageHeader
-        kicker={`sweep · ${s.axes.length} axis${s.axes.length > 1 ? "es" : ""} · ${s.pointCount} points${s.ensemble ? ` × ${s.ensemble.samples} seeds` : ""}`}
-        title={`${KIND_LABEL[s.input?.computation?.kind ?? "conductance"] ?? "Sweep"} over ${s.axes.map((a) => (PARAMETER_UNITS[a.parameter]?.label ?? a.parameter).toLowerCase()).join(" and ")}`}
+        kicker={
+          `sweep · ${s.axes.length} axis${s.axes.length > 1 ? "es" : ""} · ` + `${s.pointCount} points${s.ensemble ? ` × ${s.ensemble.samples} seeds` : ""}`
+        }
+        title={
+          `${KIND_LABEL[s.input?.computation?.kind ?? "conductance"] ?? "Sweep"} ` +
+          `over ${s.axes.map((a) => (PARAMETER_UNITS[a.parameter]?.label ?? a.parameter).toLowerCase()).join(" and ")}`
+        }
         actions={
           <>
             {s.networkId ? (

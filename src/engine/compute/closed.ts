@@ -30,7 +30,8 @@ export function buildClosedSample(net: Network, scale: Scale, fieldTesla: number
       const step = scale.fieldPeriodTesla / torusPlaquettes(net);
       throw new EngineInputError(
         fieldField,
-        `a closed periodic sample (a torus) holds a whole number of flux quanta: fieldTesla must be a multiple of ${step.toPrecision(8)} T here (got ${fieldTesla} T, ${total.toPrecision(8)} quanta); or use transverse "open"`,
+        `a closed periodic sample (a torus) holds a whole number of flux quanta: fieldTesla must be a multiple of ${step.toPrecision(8)} T here ` +
+          `(got ${fieldTesla} T, ${total.toPrecision(8)} quanta); or use transverse "open"`,
       );
     }
   }

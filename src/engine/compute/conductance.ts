@@ -253,7 +253,11 @@ export function computeConductance(net: Network, c: ConductanceComputation, opts
   const warnings: string[] = [];
   if (thermal && !thermal.converged) {
     warnings.push(
-      `The thermal average reached an estimated relative error of ${thermal.estimatedRelativeError.toExponential(1)}, above the tolerance ${thermal.relativeTolerance.toExponential(1)} (${thermal.energiesPerSample} energies per sample${thermal.method === "gauss-legendre" ? ", fixed rule of temperaturePoints" : ", limit temperatureMaxEnergies"}); the conductance at this temperature is less accurate than asked.`,
+      `The thermal average reached an estimated relative error of ${thermal.estimatedRelativeError.toExponential(1)}, ` +
+        `above the tolerance ${thermal.relativeTolerance.toExponential(1)} ` +
+        `(${thermal.energiesPerSample} energies per sample` +
+        `${thermal.method === "gauss-legendre" ? ", fixed rule of temperaturePoints" : ", limit temperatureMaxEnergies"})` +
+        `; the conductance at this temperature is less accurate than asked.`,
     );
   }
   const copies = g0.copies;

@@ -223,7 +223,11 @@ export function thermalAverage(
   const plan = thermalPlan(kTMeV, periodMeV, opts.panelMeV);
   if (plan.energies > opts.maxEnergies) {
     throw new ThermalResolutionError(
-      `the thermal average needs at least ${plan.energies} energies to resolve resonances about ${(opts.panelMeV / 8).toPrecision(3)} meV wide over ${plan.widthMeV.toPrecision(4)} meV, over the limit of ${opts.maxEnergies} (temperatureMaxEnergies); raise temperatureMaxEnergies (up to 100000), or give temperaturePoints for a fixed rule whose estimated error is reported`,
+      `the thermal average needs at least ${plan.energies} energies ` +
+        `to resolve resonances about ${(opts.panelMeV / 8).toPrecision(3)} meV wide over ${plan.widthMeV.toPrecision(4)} meV, ` +
+        `over the limit of ${opts.maxEnergies} (temperatureMaxEnergies)` +
+        `; raise temperatureMaxEnergies (up to 100000), ` +
+        `or give temperaturePoints for a fixed rule whose estimated error is reported`,
       plan.energies,
       opts.maxEnergies,
     );

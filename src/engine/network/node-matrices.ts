@@ -77,7 +77,12 @@ export function checkTriangularNode(f: number, l: number, r: number): string | n
   const turn = l + r;
   const ratio = turn > 0 ? `left:right = ${(l / turn).toFixed(4)}:${(r / turn).toFixed(4)}` : "no turning";
   const rangeText = range.min === range.max ? `forward must be ${range.min}` : `forward must lie in [${range.min.toFixed(6)}, ${range.max.toFixed(6)}]`;
-  return `unreachable node probabilities (forward ${f}, left ${l}, right ${r}): no unitary node has them, because the triangle inequality ${names[worst]} <= ${names[a]} + ${names[b]} fails (${vals[worst].toPrecision(6)} > ${(vals[a] + vals[b]).toPrecision(6)}); at ${ratio} ${rangeText} (for left = right: forward >= 1/9)`;
+  return (
+    `unreachable node probabilities (forward ${f}, left ${l}, right ${r}): ` +
+    `no unitary node has them, because the triangle inequality ${names[worst]} <= ${names[a]} + ${names[b]} ` +
+    `fails (${vals[worst].toPrecision(6)} > ${(vals[a] + vals[b]).toPrecision(6)}); ` +
+    `at ${ratio} ${rangeText} (for left = right: forward >= 1/9)`
+  );
 }
 
 /**
@@ -335,7 +340,10 @@ export function unitarityError(m: Float64Array, n: number): number {
 /** Validate an explicit node matrix given as [[[re, im], ...], ...]; null if fine. */
 export function checkExplicitNodeMatrix(matrix: [number, number][][], dim: number): string | null {
   if (matrix.length !== dim || matrix.some((row) => row.length !== dim)) {
-    return `the node matrix must be ${dim} x ${dim} (3 x 3 per channel; 6 x 6 with channelsPerLink 2), got ${matrix.length} rows of lengths ${matrix.map((r) => r.length).join(", ")}`;
+    return (
+      `the node matrix must be ${dim} x ${dim} (3 x 3 per channel; 6 x 6 with channelsPerLink 2), ` +
+      `got ${matrix.length} rows of lengths ${matrix.map((r) => r.length).join(", ")}`
+    );
   }
   const err = unitarityError(packMatrix(matrix), dim);
   if (!(err <= UNITARITY_TOLERANCE)) return `the node matrix is not unitary: max |S^H S - 1| = ${err.toExponential(3)}, allowed <= ${UNITARITY_TOLERANCE}`;

@@ -5,6 +5,7 @@ import { apiTokens, memberships, workspaces } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
 import { consumeRateLimit } from "@/server/http/rate-limit";
 import { can, describeAction, lesserRole, rolesAllowed, ROLE_LABELS, type Action, type Role } from "@/shared/permissions";
+import { effectivePlan, type PlanId } from "@/shared/plans";
 import { hashToken, looksLikeToken } from "./tokens";
 
 export type { Action, Role } from "@/shared/permissions";
@@ -14,7 +15,8 @@ export interface Caller {
   userId: string;
   workspaceId: string;
   role: Role;
-  plan: "free" | "lab";
+  /** The plan whose limits apply now (effectivePlan: a suspended Lab workspace works under Free). */
+  plan: PlanId;
   via: "session" | "token";
   tokenId?: string;
 }
@@ -75,6 +77,7 @@ export async function callerFromToken(secret: string): Promise<Caller> {
       revokedAt: apiTokens.revokedAt,
       memberRole: memberships.role,
       plan: workspaces.plan,
+      planState: workspaces.planState,
     })
     .from(apiTokens)
     .innerJoin(workspaces, eq(workspaces.id, apiTokens.workspaceId))
@@ -93,7 +96,14 @@ export async function callerFromToken(secret: string): Promise<Caller> {
       .set({ lastUsedAt: new Date(now) })
       .where(and(eq(apiTokens.id, row.id), isNull(apiTokens.revokedAt)));
   }
-  return { userId: row.userId, workspaceId: row.workspaceId, role: lesserRole(row.role, row.memberRole), plan: row.plan, via: "token", tokenId: row.id };
+  return {
+    userId: row.userId,
+    workspaceId: row.workspaceId,
+    role: lesserRole(row.role, row.memberRole),
+    plan: effectivePlan(row.plan, row.planState),
+    via: "token",
+    tokenId: row.id,
+  };
 }
 
 /** Throws 403 with a message naming the action and the roles that may do it. */

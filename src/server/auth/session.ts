@@ -19,6 +19,7 @@ import {
 } from "./sync";
 import type { Caller } from "./index";
 import { roleFromClerk } from "./roles";
+import { effectivePlan } from "@/shared/plans";
 
 export interface SessionFacts {
   clerkUserId: string;
@@ -60,7 +61,7 @@ export async function callerForSession(facts: SessionFacts): Promise<Caller> {
   const user = await ensureUserMirrored(facts.clerkUserId);
   if (!facts.clerkOrgId) {
     const ws = await ensurePersonalWorkspace(user);
-    return { userId: user.id, workspaceId: ws.id, role: "owner", plan: ws.plan, via: "session" };
+    return { userId: user.id, workspaceId: ws.id, role: "owner", plan: effectivePlan(ws.plan, ws.planState), via: "session" };
   }
   let ws = await workspaceByClerkOrg(facts.clerkOrgId);
   let role = ws ? await membershipRole(ws.id, user.id) : null;
@@ -76,5 +77,5 @@ export async function callerForSession(facts: SessionFacts): Promise<Caller> {
     role = roleFromClerk(m.role);
     await setMembership(ws.id, user.id, role);
   }
-  return { userId: user.id, workspaceId: ws.id, role, plan: ws.plan, via: "session" };
+  return { userId: user.id, workspaceId: ws.id, role, plan: effectivePlan(ws.plan, ws.planState), via: "session" };
 }

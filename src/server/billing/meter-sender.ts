@@ -110,7 +110,8 @@ async function settle(row: Claimed, outcome: Outcome, customer: string | null): 
     }
     case "failed":
       await db.execute(
-        sql`update meter_outbox set status = 'failed', lease_until = null, last_error = ${outcome.reason.slice(0, 1000)}, stripe_customer_id = ${customer} where id = ${row.id}`,
+        sql`update meter_outbox set status = 'failed', lease_until = null, last_error = ${outcome.reason.slice(0, 1000)},
+          stripe_customer_id = ${customer} where id = ${row.id}`,
       );
   }
 }
@@ -177,7 +178,8 @@ export async function outboxSummary(workspaceId: string): Promise<{ pending: num
     n: number;
   }[];
   const [last] = (await db.execute(
-    sql`select last_error from meter_outbox where workspace_id = ${workspaceId} and last_error is not null and status <> 'sent' order by created_at desc limit 1`,
+    sql`select last_error from meter_outbox where workspace_id = ${workspaceId} and last_error is not null and status <> 'sent'
+      order by created_at desc limit 1`,
   )) as unknown as { last_error: string }[];
   const by = Object.fromEntries(rows.map((r) => [r.status, r.n]));
   return { pending: by.pending ?? 0, sent: by.sent ?? 0, failed: by.failed ?? 0, lastError: last?.last_error ?? null };

@@ -30,7 +30,8 @@ export function spendCapMessage(input: {
     ? `${input.workspaceName}: compute spend reached the spend cap (${fmtUsd(input.spendCapUsd)})`
     : `${input.workspaceName}: compute spend at ${input.thresholdPercent} % of the spend cap`;
   const text = [
-    `Compute spend of ${input.workspaceName} for ${input.period}: ${fmtUsd(input.spendUsd)} of the ${fmtUsd(input.spendCapUsd)} spend cap (${Math.floor((input.spendUsd / input.spendCapUsd) * 100)} %).`,
+    `Compute spend of ${input.workspaceName} for ${input.period}: ${fmtUsd(input.spendUsd)} of the ${fmtUsd(input.spendCapUsd)} ` +
+      `spend cap (${Math.floor((input.spendUsd / input.spendCapUsd) * 100)} %).`,
     reached
       ? "New runs and sweeps whose estimate would exceed the cap are refused until next month or until a Billing admin raises the cap."
       : "When the cap is reached, new runs and sweeps whose estimate would exceed it are refused.",

@@ -39,7 +39,8 @@ export function readingsFromArea(areaNm2: number): { perTriangle: PeriodReading;
   return {
     perTriangle: {
       assumption:
-        "One flux quantum h/e through each triangle of the network: A_triangle = (sqrt3/4) l^2 (the elementary plaquette of the triangular network; physics.md section 2).",
+        "One flux quantum h/e through each triangle of the network: A_triangle = (sqrt3/4) l^2 " +
+        "(the elementary plaquette of the triangular network; physics.md section 2).",
       areaNm2,
       periodNm: lTri,
       twistDegrees: twistDegreesFromPeriodNm(lTri),

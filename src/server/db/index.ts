@@ -6,6 +6,10 @@ import * as schema from "./schema";
 
 export { schema };
 export type Db = PostgresJsDatabase<typeof schema>;
+/** The handle inside `getDb().transaction(async (tx) => ...)`. */
+export type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
+/** Either: a query that may run inside or outside a transaction. */
+export type Executor = Db | Tx;
 
 type Handle = { sql: postgres.Sql; db: Db };
 const globalForDb = globalThis as unknown as { __triskelDb?: Handle };

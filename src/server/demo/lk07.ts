@@ -7,7 +7,8 @@
  * guesses are in src/shared/lk07.ts (the browser needs them too).
  */
 export const LK07_DESCRIPTION =
-  "Synthetic: made by the Triskel engine with known parameters plus seeded noise (not a measurement). Conductance of a small 0.11° triangular network versus perpendicular field.";
+  "Synthetic: made by the Triskel engine with known parameters plus seeded noise (not a measurement). " +
+  "Conductance of a small 0.11° triangular network versus perpendicular field.";
 
 /** Parameters that made the curve (the fit should find them back within its uncertainties). */
 export const LK07_TRUTH = { "node.forward": 0.55, contactOhms: 600 } as const;

@@ -91,10 +91,12 @@ export async function finishFit(fit: ClaimedFit, out: FitOutcome): Promise<boole
       const summary =
         out.status === "succeeded" ? { fitId: fit.id, chi2PerDof: (out.result as { chi2PerDof?: number })?.chi2PerDof ?? null } : { fitId: fit.id };
       const [run] = await tx.execute<{ id: string }>(sql`
-        insert into runs (workspace_id, created_by, kind, input, status, progress, result, error, estimated_compute_seconds, compute_seconds, engine_version, input_hash, attempts, started_at, finished_at)
+        insert into runs (workspace_id, created_by, kind, input, status, progress, result, error, estimated_compute_seconds, compute_seconds,
+          engine_version, input_hash, attempts, started_at, finished_at, plan)
         values (${fit.workspaceId}, ${fit.createdBy}, 'fit', ${JSON.stringify({ fitId: fit.id, ...fit.input })}::jsonb, ${out.status}, 1,
           ${JSON.stringify(summary)}::json, ${out.error ? JSON.stringify(out.error) : null}::jsonb, ${fit.estimatedComputeSeconds}, ${out.computeSeconds},
-          ${out.engineVersion}, ${fit.inputHash}, ${fit.attempts}, coalesce(${cur.started_at}::timestamptz, now()), now())
+          ${out.engineVersion}, ${fit.inputHash}, ${fit.attempts}, coalesce(${cur.started_at}::timestamptz, now()), now(),
+          (select plan from fits where id = ${fit.id}))
         returning id`);
       runId = run.id;
       await writeLedgerRow(tx, { workspaceId: fit.workspaceId, userId: fit.createdBy, runId, computeSeconds: out.computeSeconds });

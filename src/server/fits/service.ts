@@ -9,7 +9,7 @@ import { computeCostUsd } from "@/shared/plans";
 import type { FitCreated, FitDetail, FitExport, FitList, FitSettings } from "@/shared/api";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
-import { assertWithinBudget } from "@/server/billing/budget";
+import { assertWithinBudget, reserveBudget } from "@/server/billing/budget";
 import { assertJobComputeWithinPlan, queuePriority } from "@/server/billing/limits";
 import { getDb } from "@/server/db";
 import { datasets, fits } from "@/server/db/schema";
@@ -69,7 +69,8 @@ export async function createFit(caller: Caller, raw: unknown): Promise<FitCreate
       "invalid_input",
       allowed.length
         ? `sweepParameter: this dataset's x is ${dataset.xQuantity} in ${dataset.xUnit}; map it to ${allowed.join(" or ")}.`
-        : `sweepParameter: this dataset's x is ${dataset.xQuantity === "gateVoltage" ? "gate voltage" : "carrier density"}; the engine has no parameter for it yet, so only field (fieldTesla) datasets can be fitted.`,
+        : `sweepParameter: this dataset's x is ${dataset.xQuantity === "gateVoltage" ? "gate voltage" : "carrier density"}; ` +
+            `the engine has no parameter for it yet, so only field (fieldTesla) datasets can be fitted.`,
       { field: "sweepParameter", allowed },
     );
   }
@@ -123,19 +124,25 @@ export async function createFit(caller: Caller, raw: unknown): Promise<FitCreate
   await assertWithinBudget(caller.workspaceId, estimatedComputeSeconds);
 
   const stored: FitSettings = { ...input, sweepParameter: body.sweepParameter, fit: body.fit, options: body.options ?? {} };
-  const [row] = await db
-    .insert(fits)
-    .values({
-      workspaceId: caller.workspaceId,
-      createdBy: caller.userId,
-      datasetId: dataset.id,
-      input: stored,
-      estimatedComputeSeconds,
-      inputHash: inputHash(input as never),
-      dataHash: dataset.dataHash,
-      engineVersion: ENGINE_VERSION,
-    })
-    .returning();
+  // The queued fit is the reservation: written in the transaction that checked the budget under the workspace's lock.
+  const row = await db.transaction(async (tx) => {
+    await reserveBudget(tx, caller.workspaceId, estimatedComputeSeconds);
+    const [inserted] = await tx
+      .insert(fits)
+      .values({
+        workspaceId: caller.workspaceId,
+        createdBy: caller.userId,
+        datasetId: dataset.id,
+        input: stored,
+        estimatedComputeSeconds,
+        inputHash: inputHash(input as never),
+        dataHash: dataset.dataHash,
+        engineVersion: ENGINE_VERSION,
+        plan: caller.plan,
+      })
+      .returning();
+    return inserted;
+  });
   await enqueueAfterCommit("fit", [{ id: row.id, priority: queuePriority(caller.plan) }]);
   return {
     id: row.id,
@@ -272,7 +279,8 @@ export async function exportFit(caller: Caller, id: string): Promise<FitExport> 
     },
     result: v.result,
     caution:
-      "Results are predictions of a phenomenological model, not measurements; node probabilities and mode velocity are model parameters, not material constants.",
+      "Results are predictions of a phenomenological model, not measurements; " +
+      "node probabilities and mode velocity are model parameters, not material constants.",
   };
 }
 

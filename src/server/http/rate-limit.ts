@@ -58,7 +58,8 @@ export async function consumeRateLimit(key: string, method: string): Promise<voi
       const { points, durationSeconds } = rateLimits()[kind];
       throw new ApiError(
         "rate_limited",
-        `Too many ${kind === "read" ? "read" : "write"} requests: the limit is ${points} per ${durationSeconds} s for each API token and member. Retry in ${retryAfter} s.`,
+        `Too many ${kind === "read" ? "read" : "write"} requests: the limit is ${points} ` +
+          `per ${durationSeconds} s for each API token and member. Retry in ${retryAfter} s.`,
         { limit: points, windowSeconds: durationSeconds, retryAfterSeconds: retryAfter },
         { "Retry-After": String(retryAfter) },
       );

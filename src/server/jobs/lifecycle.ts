@@ -9,12 +9,11 @@ import "@/server/server-only";
 import { sql, type SQL } from "drizzle-orm";
 import { billingPeriod } from "@/server/billing/budget";
 import { queuePriority } from "@/server/billing/limits";
-import { getDb, type Db } from "@/server/db";
+import { getDb, type Executor } from "@/server/db";
 import type { PlanId } from "@/shared/plans";
 import type { JobItem, JobKind } from "./kinds";
 
-type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
-export type Executor = Db | Tx;
+export type { Executor };
 
 const tableOf = (kind: JobKind) => sql.identifier(kind.table);
 const also = (extra: SQL | undefined, joiner: "and" | "or") => (extra ? sql` ${sql.raw(joiner)} (${extra})` : sql``);
@@ -65,14 +64,17 @@ export async function finishJobRow(tx: Executor, kind: JobKind, id: string, stat
 }
 
 /**
- * The usage-ledger row of a metered run, at the workspace's plan (a suspended workspace pays the
- * free rate). Unique per run: writing it again does nothing.
+ * The usage-ledger row of a metered run, at the plan the run was accepted under (the price shown
+ * before it started; work accepted on Lab and finished after a suspension is still owed), else the
+ * workspace's plan now (a suspended workspace pays the free rate). Unique per run: writing it again
+ * does nothing.
  */
 export async function writeLedgerRow(tx: Executor, row: { workspaceId: string; userId: string | null; runId: string; computeSeconds: number }): Promise<void> {
   await tx.execute(sql`
     insert into usage_ledger (workspace_id, user_id, run_id, compute_seconds, plan, period)
-    select w.id, ${row.userId}, ${row.runId}, ${row.computeSeconds}, case when w.plan_state = 'suspended' then 'free'::plan_name else w.plan end, ${billingPeriod()}
-    from workspaces w where w.id = ${row.workspaceId}
+    select w.id, ${row.userId}, ${row.runId}, ${row.computeSeconds},
+      coalesce(r.plan, case when w.plan_state = 'suspended' then 'free'::plan_name else w.plan end), ${billingPeriod()}
+    from workspaces w left join runs r on r.id = ${row.runId} where w.id = ${row.workspaceId}
     on conflict (run_id) do nothing`);
 }
 

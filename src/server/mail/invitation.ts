@@ -18,12 +18,15 @@ export function invitationMail(input: {
     "",
     `The link works once and until ${until}. If you did not expect this message, ignore it.`,
   ].join("\n");
-  const html = `<!doctype html><html><body style="font-family:system-ui,sans-serif;background:#f6f4ee;color:#14212b;padding:24px">
+  const html =
+    `<!doctype html><html><body style="font-family:system-ui,sans-serif;background:#f6f4ee;color:#14212b;padding:24px">
 <div style="max-width:520px;margin:auto;background:#ffffff;border-radius:14px;padding:28px">
 <p style="font-size:13px;letter-spacing:.12em;text-transform:uppercase;color:#146657;margin:0">Triskel</p>
 <h1 style="font-size:22px;margin:12px 0">Join ${escapeHtml(input.workspaceName)}</h1>
-<p>${escapeHtml(input.inviterName)} invites you to the workspace <strong>${escapeHtml(input.workspaceName)}</strong> as <strong>${escapeHtml(input.roleLabel)}</strong>.</p>
-<p><a href="${escapeHtml(input.link)}" style="display:inline-block;background:#146657;color:#ffffff;padding:10px 20px;border-radius:999px;text-decoration:none">Accept the invitation</a></p>
+<p>${escapeHtml(input.inviterName)} invites you to the workspace <strong>${escapeHtml(input.workspaceName)}</strong> ` +
+    `as <strong>${escapeHtml(input.roleLabel)}</strong>.</p>
+<p><a href="${escapeHtml(input.link)}"` +
+    ` style="display:inline-block;background:#146657;color:#ffffff;padding:10px 20px;border-radius:999px;text-decoration:none">Accept the invitation</a></p>
 <p style="font-size:13px;color:#5b6b75">The link works once and until ${escapeHtml(until)}. If you did not expect this message, ignore it.</p>
 </div></body></html>`;
   return { to: input.to, subject, text, html };

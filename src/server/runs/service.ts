@@ -9,7 +9,7 @@ import { computeCostUsd } from "@/shared/plans";
 import type { RunCreated, RunDetail, RunDryRun, RunList, RunSummary } from "@/shared/api";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
-import { assertWithinBudget } from "@/server/billing/budget";
+import { assertWithinBudget, reserveBudget } from "@/server/billing/budget";
 import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan, queuePriority } from "@/server/billing/limits";
 import { getDb } from "@/server/db";
 import { networkVersions, runs } from "@/server/db/schema";
@@ -92,20 +92,26 @@ export async function estimateRun(caller: Caller, body: unknown): Promise<RunDry
 export async function createRun(caller: Caller, body: unknown): Promise<RunCreated> {
   const { input, networkVersionId, estimated } = await prepareRun(caller, body);
   const priority = queuePriority(caller.plan);
-  const [row] = await getDb()
-    .insert(runs)
-    .values({
-      workspaceId: caller.workspaceId,
-      createdBy: caller.userId,
-      networkVersionId,
-      kind: kindOf(input),
-      input,
-      status: "queued",
-      estimatedComputeSeconds: estimated,
-      inputHash: inputHash(input),
-      priority,
-    })
-    .returning();
+  // The queued row is the reservation: written in the transaction that checked the budget under the workspace's lock.
+  const row = await getDb().transaction(async (tx) => {
+    await reserveBudget(tx, caller.workspaceId, estimated);
+    const [inserted] = await tx
+      .insert(runs)
+      .values({
+        workspaceId: caller.workspaceId,
+        createdBy: caller.userId,
+        networkVersionId,
+        kind: kindOf(input),
+        input,
+        status: "queued",
+        estimatedComputeSeconds: estimated,
+        inputHash: inputHash(input),
+        priority,
+        plan: caller.plan,
+      })
+      .returning();
+    return inserted;
+  });
   await enqueueAfterCommit("run", [{ id: row.id, priority }]);
   return {
     id: row.id,

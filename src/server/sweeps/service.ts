@@ -12,7 +12,7 @@ import { computeCostUsd } from "@/shared/plans";
 import type { SweepCreated, SweepDetail, SweepDryRun, SweepGrid, SweepList, SweepSummary } from "@/shared/api";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
-import { assertWithinBudget } from "@/server/billing/budget";
+import { assertWithinBudget, reserveBudget } from "@/server/billing/budget";
 import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/billing/limits";
 import { getDb } from "@/server/db";
 import { networkVersions, runs, sweeps } from "@/server/db/schema";
@@ -130,6 +130,8 @@ export async function createSweep(caller: Caller, body: unknown): Promise<SweepC
   const kind = kindOf(base);
   const db = getDb();
   const { sweep, ids } = await db.transaction(async (tx) => {
+    // The queued points are the reservation: written in the transaction that checked the budget under the workspace's lock.
+    await reserveBudget(tx, caller.workspaceId, total);
     const [sweep] = await tx
       .insert(sweeps)
       .values({
@@ -162,6 +164,7 @@ export async function createSweep(caller: Caller, body: unknown): Promise<SweepC
             estimatedComputeSeconds: p.estimate,
             inputHash: p.hash,
             priority,
+            plan: caller.plan,
           })),
         )
         .returning({ id: runs.id });
@@ -355,7 +358,8 @@ export async function sweepResultsCsv(caller: Caller, id: string): Promise<{ fil
   const units = columns.map((c) => `${c} [${c === "pointIndex" || c === "status" || c === "runId" ? "-" : unitOf(c)}]`);
   const lines = [
     `# Triskel sweep ${s.id}${s.name ? ` "${s.name.replace(/[\r\n]/g, " ")}"` : ""}`,
-    `# engine version: ${s.engineVersion ?? ENGINE_VERSION}; status: ${s.status}; points: ${s.counts.succeeded} of ${s.pointCount} succeeded; generated ${new Date().toISOString()}`,
+    `# engine version: ${s.engineVersion ?? ENGINE_VERSION}; status: ${s.status}; points: ${s.counts.succeeded} of ${s.pointCount} succeeded; ` +
+      `generated ${new Date().toISOString()}`,
     `# units: ${units.join(", ")}`,
     `# model predictions of a phenomenological network model, not measurements`,
     columns.join(","),

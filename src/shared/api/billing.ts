@@ -18,8 +18,12 @@ export interface BillingOverview {
   /** Billing period, YYYY-MM (UTC). */
   period: string;
   usedComputeSeconds: number;
+  /** Held by queued and running work until it finishes (its estimates), counted against the quota and the cap. */
+  reservedComputeSeconds: number;
   includedComputeSeconds: number;
   spendUsd: number;
+  /** What the reserved compute would cost at the plan's price. */
+  reservedUsd: number;
   hasPaymentAccount: boolean;
   hasSubscription: boolean;
   /** Usage records waiting for, sent to or refused by the payment service. */

@@ -34,7 +34,8 @@ const NETWORK: Param[] = [
     range: "triangular | square",
     dflt: "–",
     meaning:
-      "Triangular: the domain-wall network of a small-angle twisted bilayer in a displacement field. Square: the two-in, two-out network of the quantum Hall transition.",
+      "Triangular: the domain-wall network of a small-angle twisted bilayer in a displacement field. " +
+      "Square: the two-in, two-out network of the quantum Hall transition.",
   },
   {
     name: "size.columns",
@@ -50,7 +51,8 @@ const NETWORK: Param[] = [
     range: "periodic | open",
     dflt: "periodic",
     meaning:
-      "Periodic closes the sample into a cylinder (no edges); open leaves two edges where an edge rule sends every current back into the sample, so the whole scattering matrix stays unitary.",
+      "Periodic closes the sample into a cylinder (no edges); " +
+      "open leaves two edges where an edge rule sends every current back into the sample, so the whole scattering matrix stays unitary.",
   },
   { name: "periodNm", unit: "nm", range: "1 – 100 000", dflt: "– (give this or twistDegrees)", meaning: "Link length l, equal to the moiré period." },
   {
@@ -66,7 +68,8 @@ const NETWORK: Param[] = [
     range: "10³ – 10⁷",
     dflt: "1.0 × 10⁶",
     meaning:
-      "Velocity v of the one-way modes on the links; sets the phase a mode gains per unit energy. A model parameter to be fitted; the wall modes are usually slower than the bulk value.",
+      "Velocity v of the one-way modes on the links; sets the phase a mode gains per unit energy. " +
+      "A model parameter to be fitted; the wall modes are usually slower than the bulk value.",
   },
   {
     name: "channelsPerLink",
@@ -142,9 +145,17 @@ const COMPUTATIONS: { kind: string; title: string; params: Param[]; gives: strin
     kind: "conductance",
     title: "Conductance",
     gives:
-      "Conductance per valley (per spin) and in total in e²/h, siemens and ohms; transmission eigenvalues; Fano factor; number of lead channels; current-conservation error. With an ensemble: mean, standard deviation, standard error and a histogram over seeds.",
+      "Conductance per valley (per spin) and in total in e²/h, siemens and ohms; " +
+      "transmission eigenvalues; Fano factor; number of lead channels; current-conservation error. " +
+      "With an ensemble: mean, standard deviation, standard error and a histogram over seeds.",
     params: [
-      { name: "energyMeV", unit: "meV", range: "−10⁵ – 10⁵", dflt: "0", meaning: "Energy E, measured from the energy where the link phase E·l/(ħv) is zero." },
+      {
+        name: "energyMeV",
+        unit: "meV",
+        range: "−10⁵ – 10⁵",
+        dflt: "0",
+        meaning: "Energy E, measured from the energy where the link phase E·l/(ħv) is zero.",
+      },
       { name: "fieldTesla", unit: "T", range: "−1000 – 1000", dflt: "0", meaning: "Perpendicular magnetic field B." },
       { name: "temperatureK", unit: "K", range: "0 – 1000", dflt: "0", meaning: "Temperature of the thermal average (0: none)." },
       { name: "temperaturePoints", unit: "points", range: "2 – 400", dflt: "24", meaning: "Quadrature points of the thermal average." },
@@ -283,7 +294,12 @@ export default function ManualPage() {
             ))}
           </ol>
         </nav>
-        <main className="min-w-0 max-w-3xl text-body leading-relaxed [&_h2]:mt-12 [&_h2]:scroll-mt-6 [&_h2]:text-title [&_h2]:font-semibold [&_h3]:mt-6 [&_h3]:text-lead [&_h3]:font-semibold [&_p]:mt-3">
+        <main
+          className={
+            "min-w-0 max-w-3xl text-body leading-relaxed " +
+            "[&_h2]:mt-12 [&_h2]:scroll-mt-6 [&_h2]:text-title [&_h2]:font-semibold [&_h3]:mt-6 [&_h3]:text-lead [&_h3]:font-semibold [&_p]:mt-3"
+          }
+        >
           <p className="font-mono text-micro uppercase tracking-[0.18em] text-accent">model manual · engine schema v1</p>
           <h1 className="mt-2 text-display font-semibold">How Triskel models a network</h1>
           <p className="text-lead text-fg-soft">Every parameter, its unit and range, the conventions the engine follows and the formulas behind each result.</p>
@@ -317,9 +333,10 @@ export default function ManualPage() {
 
           <h2 id="geometry">Geometry and direction</h2>
           <p>The triangular network has link length l, the moiré period. Its three link directions are</p>
-          <M
-            block
-          >{String.raw`\mathbf a_1 = l\,(1,0),\qquad \mathbf a_2 = l\left(-\tfrac12,\tfrac{\sqrt3}{2}\right),\qquad \mathbf a_3 = l\left(-\tfrac12,-\tfrac{\sqrt3}{2}\right),\qquad \mathbf a_1+\mathbf a_2+\mathbf a_3 = 0.`}</M>
+          <M block>
+            {String.raw`\mathbf a_1 = l\,(1,0),\qquad \mathbf a_2 = l\left(-\tfrac12,\tfrac{\sqrt3}{2}\right),` +
+              String.raw`\qquad \mathbf a_3 = l\left(-\tfrac12,-\tfrac{\sqrt3}{2}\right),\qquad \mathbf a_1+\mathbf a_2+\mathbf a_3 = 0.`}
+          </M>
           <p>
             Nodes sit at <M>{String.raw`\mathbf R = n_1\mathbf a_1 + n_2\mathbf a_2`}</M>. In valley K, the link of direction j runs from{" "}
             <M>{String.raw`\mathbf R`}</M> to <M>{String.raw`\mathbf R+\mathbf a_j`}</M>. Valley K′ is the time-reversed network, with every link reversed. The
@@ -329,9 +346,10 @@ export default function ManualPage() {
             The two leads sit on the faces perpendicular to <M>{String.raw`\mathbf a_1`}</M>, on the left and on the right. Columns count nodes from lead to
             lead and rows count them across. The scale comes from the twist angle through the graphene lattice constant:
           </p>
-          <M
-            block
-          >{String.raw`l = \frac{a}{2\sin(\theta/2)},\qquad a = ${GRAPHENE_LATTICE_NM}\ \text{nm}\quad(\theta = 0.1^\circ \Rightarrow l \approx ${periodFromTwistNm(0.1).toFixed(0)}\ \text{nm}).`}</M>
+          <M block>
+            {String.raw`l = \frac{a}{2\sin(\theta/2)},\qquad a = ${GRAPHENE_LATTICE_NM}\ \text{nm}` +
+              String.raw`\quad(\theta = 0.1^\circ \Rightarrow l \approx ${periodFromTwistNm(0.1).toFixed(0)}\ \text{nm}).`}
+          </M>
 
           <h2 id="node">The node and the reachable region</h2>
           <p>
@@ -350,11 +368,13 @@ export default function ManualPage() {
             other two. Not every triple passes this test. With equal turning, <M>{String.raw`P_l = P_r`}</M>, the condition reduces to
           </p>
           <M block>{String.raw`P_f \ge \tfrac19 .`}</M>
+          {/* prettier-ignore */}
           <p>
             The ternary diagram in the network editor shades the triples that pass. When a triple fails, the editor and the API say which inequality failed.
             They also give the range of forward allowed with the same left : right ratio, and the editor offers the nearest triple that works. For example,
             (0.5, 0.5, 0) has no unitary node at all. Two mirror solutions share the same probabilities, and <span className="font-mono">branch</span> picks
-            one. Branch +1 is the one with <M>{String.raw`\operatorname{Im}(s_l s_r \bar s_f^{\,2}) \ge 0`}</M>. The node phase χ multiplies the whole matrix by{" "}
+            one. Branch +1 is the one with <M>{String.raw`\operatorname{Im}(s_l s_r \bar s_f^{\,2}) \ge 0`}</M>. The node phase χ multiplies the whole matrix
+            by{" "}
             <M>{String.raw`e^{i\chi}`}</M>. Results are compared through quantities that do not depend on the gauge: probabilities, spectra and conductances.
           </p>
           <p>
@@ -380,9 +400,10 @@ export default function ManualPage() {
           <p>
             The two-terminal conductance follows the Landauer formula. The sum runs over valleys and spins and t is the transmission matrix between the leads:
           </p>
-          <M
-            block
-          >{String.raw`G = \frac{e^2}{h}\sum_{\text{valley, spin}} \operatorname{Tr}\, t^\dagger t = \frac{e^2}{h}\sum_n T_n,\qquad F = \frac{\sum_n T_n(1-T_n)}{\sum_n T_n}.`}</M>
+          <M block>
+            {String.raw`G = \frac{e^2}{h}\sum_{\text{valley, spin}} \operatorname{Tr}\, t^\dagger t = \frac{e^2}{h}\sum_n T_n,` +
+              String.raw`\qquad F = \frac{\sum_n T_n(1-T_n)}{\sum_n T_n}.`}
+          </M>
           <p>
             The <M>{String.raw`T_n`}</M> are the transmission eigenvalues, and F is the Fano factor. A series contact resistance adds to 1/G. At a finite
             temperature the result is averaged over the derivative of the Fermi function:
@@ -395,9 +416,10 @@ export default function ManualPage() {
           </p>
           <h3>Band structure</h3>
           <p>With uniform links, the periodic network has the Bloch operator</p>
-          <M
-            block
-          >{String.raw`U(\mathbf k) = S\,\operatorname{diag}\!\left(e^{-i\mathbf k\cdot\mathbf a_j}\right),\qquad E_{n,b}(\mathbf k) = \frac{\hbar v}{l}\left(2\pi n - \alpha_b(\mathbf k)\right),`}</M>
+          <M block>
+            {String.raw`U(\mathbf k) = S\,\operatorname{diag}\!\left(e^{-i\mathbf k\cdot\mathbf a_j}\right),` +
+              String.raw`\qquad E_{n,b}(\mathbf k) = \frac{\hbar v}{l}\left(2\pi n - \alpha_b(\mathbf k)\right),`}
+          </M>
           <p>
             where <M>{String.raw`e^{i\alpha_b}`}</M> are the eigenvalues of U(k). At a flux p/q per plaquette the magnetic unit cell is q times larger.
           </p>
@@ -434,9 +456,11 @@ export default function ManualPage() {
 
           <h2 id="constants">Constants</h2>
           <p>Since the 2019 SI revision, e and h are exact, and so are these (shown to ten significant figures):</p>
-          <M
-            block
-          >{String.raw`\frac{e^2}{h} \approx ${sigLatex(CONDUCTANCE_QUANTUM_S, 10)}\ \text{S},\qquad \frac{h}{e^2} \approx ${sigLatex(RESISTANCE_QUANTUM_OHM, 10)}\ \Omega,\qquad \frac{h}{e} \approx ${sigLatex(FLUX_QUANTUM_WB, 10)}\ \text{Wb}.`}</M>
+          <M block>
+            {String.raw`\frac{e^2}{h} \approx ${sigLatex(CONDUCTANCE_QUANTUM_S, 10)}\ \text{S},` +
+              String.raw`\qquad \frac{h}{e^2} \approx ${sigLatex(RESISTANCE_QUANTUM_OHM, 10)}\ \Omega,` +
+              String.raw`\qquad \frac{h}{e} \approx ${sigLatex(FLUX_QUANTUM_WB, 10)}\ \text{Wb}.`}
+          </M>
           <p>
             The graphene lattice constant a = {GRAPHENE_LATTICE_NM} nm is common practice. The default mode velocity, 10⁶ m/s, is a starting point for a fit,
             not a measured value for domain walls.

@@ -97,6 +97,8 @@ export const runs = pgTable(
     computeSeconds: real("compute_seconds"),
     engineVersion: text("engine_version"),
     inputHash: text("input_hash").notNull(),
+    /** The plan the run was accepted under (its price and limits); its usage-ledger row is tagged with it. */
+    plan: planName("plan"),
     priority: integer("priority").notNull().default(0),
     attempts: integer("attempts").notNull().default(0),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),

@@ -2,7 +2,7 @@ import "../../server-only";
 import { boolean, index, integer, jsonb, pgTable, real, text, timestamp, uuid } from "drizzle-orm/pg-core";
 import type { ColumnMapping } from "@/shared/csv";
 import type { DatasetPoints, DatasetXQuantity, FitIteration, FitResult, FitSettings, JobError } from "@/shared/api";
-import { users, workspaces } from "./accounts";
+import { planName, users, workspaces } from "./accounts";
 import { jobStatus, runs } from "./compute";
 
 /**
@@ -68,6 +68,8 @@ export const fits = pgTable(
     estimatedComputeSeconds: real("estimated_compute_seconds").notNull().default(0),
     computeSeconds: real("compute_seconds"),
     engineVersion: text("engine_version"),
+    /** The plan the fit was accepted under; its companion run and ledger row carry it. */
+    plan: planName("plan"),
     inputHash: text("input_hash").notNull(),
     dataHash: text("data_hash").notNull(),
     attempts: integer("attempts").notNull().default(0),
