@@ -13,6 +13,7 @@ import { assertWithinBudget, reserveBudget } from "@/server/billing/budget";
 import { assertJobComputeWithinPlan, queuePriority } from "@/server/billing/limits";
 import { getDb } from "@/server/db";
 import { datasets, fits } from "@/server/db/schema";
+import { beforeTime, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
 import { enqueueAfterCommit } from "@/server/jobs";
 import { resolveSubmission } from "@/server/runs/service";
@@ -204,11 +205,8 @@ export async function getFit(caller: Caller, id: string): Promise<FitDetail> {
 
 export async function listFits(caller: Caller, query: URLSearchParams): Promise<FitList> {
   requirePermission(caller, "results.view");
-  const limit = Math.max(1, Math.min(200, Number(query.get("limit") ?? 50) || 50));
-  const before = query.get("before");
-  const beforeDate = before ? new Date(before) : null;
-  if (before && Number.isNaN(beforeDate!.getTime()))
-    throw new ApiError("invalid_input", "before: must be an ISO time (createdAt of the last item of the previous page).", { field: "before" });
+  const limit = pageLimit(query.get("limit"));
+  const beforeDate = beforeTime(query.get("before"));
   const datasetId = query.get("datasetId");
   if (datasetId && !uuidRe.test(datasetId)) throw new ApiError("invalid_input", "datasetId: must be a dataset id.", { field: "datasetId" });
   const rows = await getDb()
