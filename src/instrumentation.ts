@@ -7,5 +7,8 @@ export async function register() {
   if (process.env.NEXT_RUNTIME === "nodejs") {
     const { loadEnvOrExit } = await import("./env");
     loadEnvOrExit();
+    // TRACE, methods an endpoint lacks and undecodable /api paths: JSON errors, not Next's pages.
+    const { installMethodGuard } = await import("./server/http/method-guard");
+    installMethodGuard();
   }
 }

@@ -10,6 +10,7 @@ import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
 import { getDb } from "@/server/db";
 import { datasets } from "@/server/db/schema";
+import { beforeTime, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
 import { DATASET_MAX_BYTES, DatasetCsvError, parseDatasetCsv, type ColumnMapping, type ParsedDataset } from "@/shared/csv";
 import { X_UNITS, Y_UNITS } from "@/shared/units";
@@ -141,6 +142,8 @@ export async function createDatasetFromRequest(caller: Caller, req: Request) {
     const v = form.get(key);
     if (typeof v === "string" && v.trim() !== "") fields[key] = v;
   }
+  for (const [key, value] of Object.entries(fields))
+    if (value.includes("\u0000")) throw new ApiError("invalid_input", `${key}: must not contain a NUL character (\\u0000).`, { field: key });
   const parsedFields = uploadFields.safeParse(fields);
   if (!parsedFields.success) throw zodToApiError(parsedFields.error);
   const bytes = new Uint8Array(await file.arrayBuffer());
@@ -150,6 +153,8 @@ export async function createDatasetFromRequest(caller: Caller, req: Request) {
   } catch {
     throw new ApiError("invalid_input", "file: the file is not UTF-8 text; save the CSV as UTF-8.", { field: "file" });
   }
+  if (csv.includes("\u0000")) throw new ApiError("invalid_input", "file: the file holds NUL bytes; a CSV is text without them.", { field: "file" });
+  const filename = cleanFilename(file.name);
   const f = parsedFields.data;
   const mapping: ColumnMapping = {
     xColumn: f.xColumn,
@@ -159,17 +164,27 @@ export async function createDatasetFromRequest(caller: Caller, req: Request) {
     ...(f.sigmaColumn ? { sigmaColumn: f.sigmaColumn } : {}),
     ...(f.temperatureColumn ? { temperatureColumn: f.temperatureColumn } : {}),
   };
-  const row = await insertDataset(caller.workspaceId, caller.userId, { name: f.name, csv, filename: file.name || null, mapping, description: f.description });
+  const row = await insertDataset(caller.workspaceId, caller.userId, { name: f.name, csv, filename, mapping, description: f.description });
   return datasetSummary(row);
+}
+
+/**
+ * The uploaded file's name as the browser sent it, kept for the download: the last path segment,
+ * without control characters (NUL cannot be stored; line breaks do not belong in a header), at
+ * most 255 characters; null when nothing is left.
+ */
+export function cleanFilename(raw: string | null | undefined): string | null {
+  if (!raw) return null;
+  const base = raw.split(/[\\/]/).pop()!;
+  // eslint-disable-next-line no-control-regex -- control characters are exactly what is removed
+  const name = base.replace(/[\u0000-\u001f\u007f]/g, "").trim();
+  return name ? [...name].slice(0, 255).join("") : null;
 }
 
 export async function listDatasets(caller: Caller, query: URLSearchParams) {
   requirePermission(caller, "results.view");
-  const limit = Math.max(1, Math.min(200, Number(query.get("limit") ?? 50) || 50));
-  const before = query.get("before");
-  const beforeDate = before ? new Date(before) : null;
-  if (before && Number.isNaN(beforeDate!.getTime()))
-    throw new ApiError("invalid_input", "before: must be an ISO time (the createdAt of the last item of the previous page).", { field: "before" });
+  const limit = pageLimit(query.get("limit"));
+  const beforeDate = beforeTime(query.get("before"));
   const rows = await getDb()
     .select()
     .from(datasets)

@@ -13,6 +13,7 @@ import { assertWithinBudget, reserveBudget } from "@/server/billing/budget";
 import { assertJobComputeWithinPlan, queuePriority } from "@/server/billing/limits";
 import { getDb } from "@/server/db";
 import { datasets, fits } from "@/server/db/schema";
+import { beforeTime, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
 import { enqueueAfterCommit } from "@/server/jobs";
 import { resolveSubmission } from "@/server/runs/service";
@@ -204,11 +205,8 @@ export async function getFit(caller: Caller, id: string): Promise<FitDetail> {
 
 export async function listFits(caller: Caller, query: URLSearchParams): Promise<FitList> {
   requirePermission(caller, "results.view");
-  const limit = Math.max(1, Math.min(200, Number(query.get("limit") ?? 50) || 50));
-  const before = query.get("before");
-  const beforeDate = before ? new Date(before) : null;
-  if (before && Number.isNaN(beforeDate!.getTime()))
-    throw new ApiError("invalid_input", "before: must be an ISO time (createdAt of the last item of the previous page).", { field: "before" });
+  const limit = pageLimit(query.get("limit"));
+  const beforeDate = beforeTime(query.get("before"));
   const datasetId = query.get("datasetId");
   if (datasetId && !uuidRe.test(datasetId)) throw new ApiError("invalid_input", "datasetId: must be a dataset id.", { field: "datasetId" });
   const rows = await getDb()
@@ -237,10 +235,18 @@ export async function cancelFit(caller: Caller, id: string): Promise<FitDetail> 
   if (r.fit.createdBy !== caller.userId && caller.role !== "owner") {
     throw new ApiError("forbidden", "Only the member who started this fit or an Owner can cancel it.");
   }
-  if (r.fit.status === "queued") {
-    await getDb().execute(sql`update fits set status = 'cancelled', cancel_requested_at = now(), finished_at = now() where id = ${id} and status = 'queued'`);
-  } else if (r.fit.status === "running") {
-    await getDb().execute(sql`update fits set cancel_requested_at = coalesce(cancel_requested_at, now()) where id = ${id}`);
+  // One statement, like runs: a fit that finished between the read and this update is not touched.
+  const updated = await getDb().execute<{ status: string }>(sql`
+    update fits set
+      cancel_requested_at = coalesce(cancel_requested_at, now()),
+      status = case when status = 'queued' then 'cancelled'::job_status else status end,
+      finished_at = case when status = 'queued' then now() else finished_at end
+    where id = ${id} and workspace_id = ${caller.workspaceId} and status in ('queued', 'running')
+    returning status`);
+  if (updated.length === 0) {
+    const [now] = await getDb().select({ status: fits.status }).from(fits).where(eq(fits.id, id));
+    const status = now?.status ?? r.fit.status;
+    throw new ApiError("conflict", `Fit ${id} has already ${status === "cancelled" ? "been cancelled" : status}; nothing to cancel.`, { status });
   }
   return getFit(caller, id);
 }

@@ -13,7 +13,7 @@ import { getDb } from "@/server/db";
 import { networks, networkVersions, runs, sweeps } from "@/server/db/schema";
 import { networkSize, parseNetworkDefinition } from "@/server/engine";
 import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
-import { ApiError, zodToApiError } from "@/server/http/errors";
+import { ApiError, PROTOTYPE_KEYS, zodToApiError } from "@/server/http/errors";
 import type { Network } from "@/engine/browser";
 import type { NetworkView } from "@/shared/api";
 
@@ -133,22 +133,47 @@ export async function listNetworks(caller: Caller, query: URLSearchParams) {
   };
 }
 
+/** The dotted path of the first `__proto__`, `constructor` or `prototype` key in a body, or undefined. */
+function prototypeKeyPath(value: unknown, path: string[] = [], depth = 0): string | undefined {
+  if (value === null || typeof value !== "object" || depth > 100) return undefined;
+  for (const key of Object.keys(value)) {
+    if (PROTOTYPE_KEYS.has(key)) return [...path, key].join(".");
+    const found = prototypeKeyPath((value as Record<string, unknown>)[key], [...path, key], depth + 1);
+    if (found) return found;
+  }
+  return undefined;
+}
+
+/**
+ * The description with the patch merged in (null removes a field). Only own keys of plain data
+ * are read and written, into fresh objects: a key such as `__proto__` (refused before, see
+ * updateNetwork) could not reach a prototype here either.
+ */
 function deepMerge(base: Record<string, unknown>, patch: Record<string, unknown>): Record<string, unknown> {
-  const out: Record<string, unknown> = { ...base };
-  for (const [k, v] of Object.entries(patch)) {
-    const b = out[k];
+  const out: Record<string, unknown> = {};
+  for (const k of Object.keys(base)) if (!PROTOTYPE_KEYS.has(k)) define(out, k, base[k]);
+  for (const k of Object.keys(patch)) {
+    if (PROTOTYPE_KEYS.has(k)) continue;
+    const v = patch[k];
+    const b = Object.hasOwn(out, k) ? out[k] : undefined;
     if (v === null) delete out[k];
     else if (v && typeof v === "object" && !Array.isArray(v) && b && typeof b === "object" && !Array.isArray(b))
-      out[k] = deepMerge(b as Record<string, unknown>, v as Record<string, unknown>);
-    else out[k] = v;
+      define(out, k, deepMerge(b as Record<string, unknown>, v as Record<string, unknown>));
+    else define(out, k, v);
   }
   return out;
 }
+const define = (o: Record<string, unknown>, k: string, v: unknown) =>
+  Object.defineProperty(o, k, { value: v, enumerable: true, writable: true, configurable: true });
 
 /** PUT (replace the description) or PATCH (merge fields into it; null removes a field): a new version. */
 export async function updateNetwork(caller: Caller, id: string, body: unknown, mode: "replace" | "merge") {
   requirePermission(caller, "work.create");
   const n = await loadNetwork(caller, id);
+  // JSON.parse keeps "__proto__" as an own key, zod's record copy drops it silently: refuse it
+  // (and constructor/prototype) by name instead of accepting a body that did not say what it meant.
+  const protoKey = prototypeKeyPath(body);
+  if (protoKey) throw new ApiError("invalid_input", `${protoKey}: this key is not allowed (it names an object's prototype).`, { field: protoKey });
   let name: string | undefined;
   let next: Network | undefined;
   if (mode === "replace") {

@@ -167,11 +167,11 @@ const listQuery = z.object({
   kind: z.string().min(1).max(40).optional(),
   networkId: z
     .string()
-    .regex(/^[0-9a-f-]{36}$/i, "must be a network id")
+    .regex(/^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i, "must be a network id")
     .optional(),
   sweepId: z
     .string()
-    .regex(/^[0-9a-f-]{36}$/i, "must be a sweep id")
+    .regex(/^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i, "must be a sweep id")
     .optional(),
   includeSweepPoints: z.enum(["true", "false"]).optional(),
 });

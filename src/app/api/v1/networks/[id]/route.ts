@@ -9,8 +9,10 @@ type Ctx = { params: Promise<{ id: string }> };
 function versionParam(req: Request): number | undefined {
   const raw = new URL(req.url).searchParams.get("version");
   if (raw === null) return undefined;
-  const n = Number(raw);
-  if (!Number.isInteger(n) || n < 1) throw new ApiError("bad_request", `version: must be a whole number from 1 (got "${raw}").`, { field: "version" });
+  // Versions are PostgreSQL integers: at most 2,147,483,647.
+  const n = /^\d{1,10}$/.test(raw) ? Number(raw) : NaN;
+  if (!Number.isInteger(n) || n < 1 || n > 2_147_483_647)
+    throw new ApiError("bad_request", `version: must be a whole number from 1 to 2147483647 (got "${raw.slice(0, 40)}").`, { field: "version" });
   return n;
 }
 

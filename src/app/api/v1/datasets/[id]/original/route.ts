@@ -1,4 +1,5 @@
 import { getCaller } from "@/server/auth";
+import { attachment } from "@/server/http/content-disposition";
 import { route } from "@/server/http/errors";
 import { getOriginalCsv } from "@/server/datasets/service";
 
@@ -12,6 +13,6 @@ export const GET = route(async (req: Request, ctx: Ctx) => {
   const { id } = await ctx.params;
   const { filename, csv } = await getOriginalCsv(caller, id);
   return new Response(csv, {
-    headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="${filename.replace(/"/g, "")}"` },
+    headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": attachment(filename, "dataset.csv") },
   });
 });

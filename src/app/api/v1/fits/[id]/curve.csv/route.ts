@@ -1,4 +1,5 @@
 import { getCaller } from "@/server/auth";
+import { attachment } from "@/server/http/content-disposition";
 import { route } from "@/server/http/errors";
 import { fitCurveCsv } from "@/server/fits/service";
 
@@ -9,5 +10,5 @@ type Ctx = { params: Promise<{ id: string }> };
 export const GET = route(async (req: Request, ctx: Ctx) => {
   const caller = await getCaller(req);
   const { filename, csv } = await fitCurveCsv(caller, (await ctx.params).id);
-  return new Response(csv, { headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="${filename}"` } });
+  return new Response(csv, { headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": attachment(filename, "fit-model.csv") } });
 });

@@ -1,4 +1,5 @@
 import { getCaller } from "@/server/auth";
+import { attachment } from "@/server/http/content-disposition";
 import { route } from "@/server/http/errors";
 import { runResultJson } from "@/server/runs/service";
 
@@ -11,6 +12,6 @@ export const GET = route(async (req: Request, ctx: Ctx) => {
   const { id } = await ctx.params;
   const body = await runResultJson(caller, id);
   return new Response(body, {
-    headers: { "content-type": "application/json; charset=utf-8", "content-disposition": `attachment; filename="triskel-run-${id}.json"` },
+    headers: { "content-type": "application/json; charset=utf-8", "content-disposition": attachment(`triskel-run-${id}.json`, "triskel-run.json") },
   });
 });

@@ -1,4 +1,5 @@
 import { getCaller } from "@/server/auth";
+import { attachment } from "@/server/http/content-disposition";
 import { route } from "@/server/http/errors";
 import { sweepResultsCsv } from "@/server/sweeps/service";
 
@@ -10,5 +11,5 @@ export const GET = route(async (req: Request, ctx: Ctx) => {
   const caller = await getCaller(req);
   const { id } = await ctx.params;
   const { filename, body } = await sweepResultsCsv(caller, id);
-  return new Response(body, { headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="${filename}"` } });
+  return new Response(body, { headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": attachment(filename, "sweep.csv") } });
 });
