@@ -6,7 +6,7 @@ import "@/server/server-only";
 import { and, desc, eq, inArray, isNull, sql, type SQL } from "drizzle-orm";
 import { z } from "zod";
 import { computeCostUsd } from "@/shared/plans";
-import type { RunCreated, RunDetail, RunDryRun, RunList, RunSummary } from "@/shared/api";
+import { JOB_STATUSES, type RunCreated, type RunDetail, type RunDryRun, type RunList, type RunSummary } from "@/shared/api";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
 import { assertWithinBudget, reserveBudget } from "@/server/billing/budget";
@@ -20,7 +20,8 @@ import { enqueueAfterCommit } from "@/server/jobs";
 import { isUuid, resolveNetwork } from "@/server/networks/service";
 import { refreshSweep } from "./sweep-progress";
 
-export const RUN_STATUSES = ["queued", "running", "succeeded", "failed", "cancelled"] as const;
+/** The statuses of a job (the contract's list). */
+export const RUN_STATUSES = JOB_STATUSES;
 export type RunStatus = (typeof RUN_STATUSES)[number];
 
 /** `{ network | networkId, networkVersion?, computation }`: the command line's file, or a saved network by id. */

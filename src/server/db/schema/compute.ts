@@ -3,10 +3,12 @@ import { sql } from "drizzle-orm";
 import { index, integer, json, jsonb, pgEnum, pgTable, real, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
 import type { ComputeInput, Network } from "@/engine/browser";
 import type { FitLedgerInput, JobError, RunDetail, SweepAxis, SweepEnsemble } from "@/shared/api";
+// Relative, so drizzle-kit (which loads this file at run time) needs no path aliases.
+import { JOB_STATUSES } from "../../../shared/api/common";
 import { planName, users, workspaces } from "./accounts";
 
 /** Status of a run or a sweep (issue 4 contract). */
-export const jobStatus = pgEnum("job_status", ["queued", "running", "succeeded", "failed", "cancelled"]);
+export const jobStatus = pgEnum("job_status", JOB_STATUSES);
 
 /** A saved network; its definitions live in network_versions (editing makes a new version). */
 export const networks = pgTable(
