@@ -78,6 +78,13 @@ export const TABLE: Entry[] = [
   { route: "v1/health", method: "GET", path: () => "/api/v1/health", expect: { owner: "public" } },
   { route: "webhooks/clerk", method: "POST", path: () => "/api/webhooks/clerk", expect: { owner: "public" } },
   { route: "webhooks/stripe", method: "POST", path: () => "/api/webhooks/stripe", expect: { owner: "public" } },
+  // --- any other /api path: 404 JSON for everyone, signed in or not (the catch-all route)
+  ...(["GET", "POST", "PUT", "PATCH", "DELETE"] as const).map((method): Entry => ({
+    route: "[[...rest]]",
+    method,
+    path: () => "/api/v1/no-such-resource",
+    expect: { owner: 404, billingAdmin: 404, researcher: 404, viewer: 404, other: 404, anonymous: 404, revoked: 404 },
+  })),
 
   // --- networks
   { route: "v1/networks", method: "GET", path: () => "/api/v1/networks", expect: seeList },
