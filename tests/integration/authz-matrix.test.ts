@@ -178,7 +178,8 @@ describe("authorization matrix", () => {
           const body = JSON.parse(text);
           if (typeof body?.error?.message !== "string" || !body.error.message)
             failures.push(`${e.method} /api/${e.route} as ${who}: ${res.status} without an error message`);
-          if (who === "revoked" && expected === 401 && !/revoked/.test(body.error.message)) failures.push(`${e.method} /api/${e.route} as revoked: message does not say revoked`);
+          if (who === "revoked" && expected === 401 && !/revoked/.test(body.error.message))
+            failures.push(`${e.method} /api/${e.route} as revoked: message does not say revoked`);
         }
       }
     }
