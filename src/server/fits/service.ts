@@ -3,7 +3,7 @@
  * Every query is scoped to the caller's workspace.
  */
 import "@/server/server-only";
-import { and, desc, eq, lt, sql } from "drizzle-orm";
+import { and, desc, eq, lt } from "drizzle-orm";
 import { z } from "zod";
 import { computeCostUsd } from "@/shared/plans";
 import type { FitCreated, FitDetail, FitExport, FitList, FitSettings } from "@/shared/api";
@@ -15,7 +15,7 @@ import { getDb } from "@/server/db";
 import { datasets, fits } from "@/server/db/schema";
 import { beforeTime, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
-import { enqueueAfterCommit } from "@/server/jobs";
+import { enqueueAfterCommit, JOB_KINDS, requestCancel } from "@/server/jobs";
 import { resolveSubmission } from "@/server/runs/service";
 import { ENGINE_VERSION, engine, inputHash, secondsPerEvaluation } from "./engine";
 import { FitInputError, validateSpecs } from "./fitter";
@@ -231,19 +231,10 @@ export async function listFits(caller: Caller, query: URLSearchParams): Promise<
 
 export async function cancelFit(caller: Caller, id: string): Promise<FitDetail> {
   const r = await loadFit(caller, id);
-  requirePermission(caller, "work.create");
-  if (r.fit.createdBy !== caller.userId && caller.role !== "owner") {
-    throw new ApiError("forbidden", "Only the member who started this fit or an Owner can cancel it.");
-  }
-  // One statement, like runs: a fit that finished between the read and this update is not touched.
-  const updated = await getDb().execute<{ status: string }>(sql`
-    update fits set
-      cancel_requested_at = coalesce(cancel_requested_at, now()),
-      status = case when status = 'queued' then 'cancelled'::job_status else status end,
-      finished_at = case when status = 'queued' then now() else finished_at end
-    where id = ${id} and workspace_id = ${caller.workspaceId} and status in ('queued', 'running')
-    returning status`);
-  if (updated.length === 0) {
+  // The same rule as runs, from the permissions table: one's own work, or others' with work.manageOthers.
+  if (r.fit.createdBy !== caller.userId) requirePermission(caller, "work.manageOthers");
+  else requirePermission(caller, "work.create");
+  if (!(await requestCancel(getDb(), JOB_KINDS.fit, id, caller.workspaceId))) {
     const [now] = await getDb().select({ status: fits.status }).from(fits).where(eq(fits.id, id));
     const status = now?.status ?? r.fit.status;
     throw new ApiError("conflict", `Fit ${id} has already ${status === "cancelled" ? "been cancelled" : status}; nothing to cancel.`, { status });

@@ -12,6 +12,7 @@ export {
   finishJobRow,
   lockRunningRow,
   markJobFailed,
+  requestCancel,
   requeueStaleRunning,
   unfinishedJobs,
   writeLedgerRow,

@@ -36,6 +36,22 @@ export async function claimJobRow<R extends Record<string, unknown>>(
   return row as R | undefined;
 }
 
+/**
+ * A member asks to cancel, in one statement: a queued row is cancelled at once, a running one is
+ * flagged for its worker (which stops within a second and records what it spent). False when the
+ * row had already finished (or is not in this workspace), so a job finishing meanwhile is untouched.
+ */
+export async function requestCancel(db: Executor, kind: JobKind, id: string, workspaceId: string): Promise<boolean> {
+  const rows = await db.execute(sql`
+    update ${tableOf(kind)} set
+      cancel_requested_at = coalesce(cancel_requested_at, now()),
+      status = case when status = 'queued' then 'cancelled'::job_status else status end,
+      finished_at = case when status = 'queued' then now() else finished_at end
+    where id = ${id} and workspace_id = ${workspaceId} and status in ('queued', 'running') and ${kind.scope}
+    returning id`);
+  return rows.length > 0;
+}
+
 /** A row asked to cancel (or for which `alsoWhen` holds) before its compute began: cancelled, nothing spent. */
 export async function cancelUnstarted(db: Executor, kind: JobKind, id: string, alsoWhen?: SQL): Promise<boolean> {
   const rows = await db.execute(sql`

@@ -3,7 +3,7 @@
  * lists, reads, cancellation and the JSON export. Every query is scoped to the caller's workspace.
  */
 import "@/server/server-only";
-import { and, desc, eq, inArray, isNull, sql, type SQL } from "drizzle-orm";
+import { and, desc, eq, inArray, isNull, type SQL } from "drizzle-orm";
 import { z } from "zod";
 import { computeCostUsd } from "@/shared/plans";
 import { JOB_STATUSES, type RunCreated, type RunDetail, type RunDryRun, type RunList, type RunSummary } from "@/shared/api";
@@ -16,7 +16,7 @@ import { networkVersions, runs } from "@/server/db/schema";
 import { estimateSeconds, inputHash, kindOf, networkSize, parseInput, type ComputeInput } from "@/server/engine";
 import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
-import { enqueueAfterCommit } from "@/server/jobs";
+import { enqueueAfterCommit, JOB_KINDS, requestCancel } from "@/server/jobs";
 import { isUuid, resolveNetwork } from "@/server/networks/service";
 import { refreshSweep } from "./sweep-progress";
 
@@ -241,14 +241,7 @@ export async function cancelRun(caller: Caller, id: string): Promise<RunDetail> 
   const r = await loadRun(caller, id);
   if (r.run.createdBy !== caller.userId) requirePermission(caller, "work.manageOthers");
   else requirePermission(caller, "work.create");
-  const updated = await getDb().execute<{ status: RunStatus }>(sql`
-    update runs set
-      cancel_requested_at = coalesce(cancel_requested_at, now()),
-      status = case when status = 'queued' then 'cancelled'::job_status else status end,
-      finished_at = case when status = 'queued' then now() else finished_at end
-    where id = ${id} and workspace_id = ${caller.workspaceId} and status in ('queued', 'running')
-    returning status`);
-  if (updated.length === 0) {
+  if (!(await requestCancel(getDb(), JOB_KINDS.run, id, caller.workspaceId))) {
     throw new ApiError("conflict", `Run ${id} has already ${r.run.status === "cancelled" ? "been cancelled" : r.run.status}; nothing to cancel.`, {
       status: r.run.status,
     });
