@@ -47,25 +47,9 @@ export function NetworkDrawing({ shape, linkNm, height = 420, linkValues, label,
       <div ref={wrapRef} style={{ height }} className="relative w-full">
         {palette ? (
           mode === "svg" ? (
-            <SvgNetwork
-              shape={shape}
-              custom={custom}
-              width={width}
-              height={height}
-              palette={palette}
-              linkValues={linkValues}
-              description={label ?? description}
-            />
+            <SvgNetwork {...{ shape, custom, width, height, palette, linkValues }} description={label ?? description} />
           ) : (
-            <CanvasNetwork
-              shape={shape}
-              custom={custom}
-              width={width}
-              height={height}
-              palette={palette}
-              linkValues={linkValues}
-              description={label ?? description}
-            />
+            <CanvasNetwork {...{ shape, custom, width, height, palette, linkValues }} description={label ?? description} />
           )
         ) : null}
       </div>
