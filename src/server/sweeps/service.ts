@@ -333,11 +333,18 @@ export async function cancelSweep(caller: Caller, id: string): Promise<SweepDeta
     });
   }
   await getDb().transaction(async (tx) => {
-    await tx.execute(sql`update sweeps set cancel_requested_at = coalesce(cancel_requested_at, now()) where id = ${sweep.id}`);
+    // Lock the sweep first (a point's claim locks it too), then stamp the request with the clock
+    // as it is after the lock: a claim that won the lock committed before this instant, and every
+    // later claim sees the request. (now() is the transaction's start and could precede such a claim.)
+    await tx.execute(sql`select 1 from sweeps where id = ${sweep.id} for update`);
+    await tx.execute(sql`update sweeps set cancel_requested_at = coalesce(cancel_requested_at, clock_timestamp()) where id = ${sweep.id}`);
     await tx.execute(
-      sql`update runs set status = 'cancelled', cancel_requested_at = now(), finished_at = now() where sweep_id = ${sweep.id} and status = 'queued'`,
+      sql`update runs set status = 'cancelled', cancel_requested_at = clock_timestamp(), finished_at = clock_timestamp()
+          where sweep_id = ${sweep.id} and status = 'queued'`,
     );
-    await tx.execute(sql`update runs set cancel_requested_at = coalesce(cancel_requested_at, now()) where sweep_id = ${sweep.id} and status = 'running'`);
+    await tx.execute(
+      sql`update runs set cancel_requested_at = coalesce(cancel_requested_at, clock_timestamp()) where sweep_id = ${sweep.id} and status = 'running'`,
+    );
     await refreshSweep(tx, sweep.id);
   });
   return getSweep(caller, id);
