@@ -95,6 +95,16 @@ export const envSchema = z.object({
   /** How often a worker re-enqueues runs the database holds as queued but Redis has no job for. */
   WORKER_RECOVERY_INTERVAL_MS: z.coerce.number().int().min(1000).max(3_600_000).default(10_000),
   // --- end runs and sweeps worker ---
+  // --- fault drills only (npm run test:soak; worker/drill-hold.ts, docs/reliability.md "Drill hooks") ---
+  /** 1: this worker honours the drill hooks below. Off unless set; in production mode also needs TRISKEL_STAND_INS=1. */
+  TRISKEL_DRILLS: z
+    .enum(["0", "1"], { message: "must be 0 or 1" })
+    .default("0")
+    .transform((v) => v === "1"),
+  /** Drill hook: the worker waits this long after the engine's finish, just before a job's finishing transaction (0: never). */
+  TRISKEL_DRILL_HOLD_BEFORE_FINISH_MS: z.coerce.number().int().min(0).max(3_600_000).default(0),
+  /** Where the drill hook writes its marker files (one per held job); unset: log lines only. */
+  TRISKEL_DRILL_DIR: z.string().min(1).optional(),
 });
 
 export type Env = z.infer<typeof envSchema>;
@@ -119,7 +129,9 @@ const isLoopbackHost = (host: string) => /^(localhost|127(\.\d{1,3}){3}|::1|\[::
  * Combinations no single variable shows: the development secrets with real keys, the stand-ins
  * in production mode. Each problem names the variable to change.
  */
-export function deploymentProblems(e: Env): { name: keyof typeof STAND_IN_VALUES | "CLERK_FAKE_URL" | "STRIPE_API_HOST"; message: string }[] {
+export function deploymentProblems(
+  e: Env,
+): { name: keyof typeof STAND_IN_VALUES | "CLERK_FAKE_URL" | "STRIPE_API_HOST" | "TRISKEL_DRILLS"; message: string }[] {
   const problems: ReturnType<typeof deploymentProblems> = [];
   const production = e.NODE_ENV === "production";
   // Stripe: a live key, or production mode against Stripe itself (no host: api.stripe.com).
@@ -156,6 +168,12 @@ export function deploymentProblems(e: Env): { name: keyof typeof STAND_IN_VALUES
       problems.push({
         name: "STRIPE_API_HOST",
         message: `is a loopback address (the local payments stand-in), refused in production mode; unset it for Stripe, or ${hint}`,
+      });
+    // The fault drills' hooks (worker/drill-hold.ts) never run in a deployment: it refuses to start with them.
+    if (e.TRISKEL_DRILLS)
+      problems.push({
+        name: "TRISKEL_DRILLS",
+        message: `turns on the fault drills' hooks, refused in production mode; unset it (drills run only against the stand-ins, TRISKEL_STAND_INS=1)`,
       });
   }
   return problems;

@@ -13,8 +13,9 @@ import { claimFit, finishFit, fitShouldStop, markFitFailed, writeFitProgress } f
 import { JOB_KINDS, rowIdOf } from "../src/server/jobs";
 import type { FitTask, FitTaskOutcome } from "../src/server/fits/fit-thread";
 import { QUEUES } from "../src/server/queue";
+import type { HoldBeforeFinish } from "./drill-hold";
 
-export function startFitsWorker(connection: Redis, prefix: string): Worker {
+export function startFitsWorker(connection: Redis, prefix: string, holdBeforeFinish: HoldBeforeFinish = async () => {}): Worker {
   const pool = new Piscina<FitTask, FitTaskOutcome>({
     filename: new URL("../src/server/fits/fit-thread.ts", import.meta.url).href,
     minThreads: 0,
@@ -48,6 +49,8 @@ export function startFitsWorker(connection: Redis, prefix: string): Worker {
     } finally {
       clearInterval(timer);
     }
+    // Fault drills only (worker/drill-hold.ts): a no-op unless the drill hook is on.
+    await holdBeforeFinish("fit", fitId, { outcome: out.outcome, cpuSeconds: out.cpuSeconds });
     const written = await finishFit(fit, {
       status: out.outcome,
       result: out.outcome === "succeeded" ? out.result : undefined,

@@ -8,6 +8,7 @@ import { closeDb } from "../src/server/db";
 import { JOB_KINDS, recoverLostJobs, rowIdOf } from "../src/server/jobs";
 import { QUEUES, closeQueues, newRedis } from "../src/server/queue";
 import { markRunFailed } from "../src/server/runs/execution";
+import { makeHoldBeforeFinish } from "./drill-hold";
 import { createEnginePool } from "./pool";
 import { makeRunProcessor } from "./runs";
 import { processSystemJob } from "./system";
@@ -21,8 +22,9 @@ connection.on("error", (err) => console.error(`[worker] redis: ${err.message}`))
 const workerId = `${hostname()}:${process.pid}`;
 const poolSize = env.WORKER_POOL_SIZE ?? env.WORKER_CONCURRENCY;
 const pool = createEnginePool(poolSize);
+const holdBeforeFinish = makeHoldBeforeFinish(env);
 
-const runsWorker = new Worker(QUEUES.runs, makeRunProcessor(pool, workerId), {
+const runsWorker = new Worker(QUEUES.runs, makeRunProcessor(pool, workerId, holdBeforeFinish), {
   connection: connection as ConnectionOptions,
   prefix: env.QUEUE_PREFIX,
   concurrency: env.WORKER_CONCURRENCY,
@@ -44,7 +46,7 @@ runsWorker.on("failed", (job, err) => {
 const workers: Worker[] = [
   new Worker(QUEUES.system, processSystemJob, { connection: connection as ConnectionOptions, prefix: env.QUEUE_PREFIX, concurrency: 4 }),
   // Fits: their own queue, processor and thread (worker/fits.ts).
-  (await import("./fits")).startFitsWorker(connection, env.QUEUE_PREFIX),
+  (await import("./fits")).startFitsWorker(connection, env.QUEUE_PREFIX, holdBeforeFinish),
   runsWorker,
 ];
 for (const w of workers) {

@@ -2,6 +2,7 @@ import type { Job } from "bullmq";
 import type { Piscina } from "piscina";
 import { JOB_KINDS, rowIdOf } from "../src/server/jobs";
 import { claimRun, finishRun, shouldStop, writeProgress } from "../src/server/runs/execution";
+import type { HoldBeforeFinish } from "./drill-hold";
 import type { EngineOutcome, EngineTask } from "./engine-thread";
 
 const CANCEL_POLL_MS = 400;
@@ -13,7 +14,7 @@ const HEARTBEAT_MS = 5000;
  * poll for cancellation (within a second) and write progress (about once a second), then write
  * everything in one transaction.
  */
-export function makeRunProcessor(pool: Piscina<EngineTask, EngineOutcome>, workerId: string) {
+export function makeRunProcessor(pool: Piscina<EngineTask, EngineOutcome>, workerId: string, holdBeforeFinish: HoldBeforeFinish = async () => {}) {
   return async function processRun(job: Job) {
     const runId = rowIdOf(JOB_KINDS.run, job);
     const run = await claimRun(runId, workerId);
@@ -54,6 +55,8 @@ export function makeRunProcessor(pool: Piscina<EngineTask, EngineOutcome>, worke
     } finally {
       clearInterval(timer);
     }
+    // Fault drills only (worker/drill-hold.ts): a no-op unless the drill hook is on.
+    await holdBeforeFinish("run", runId, { outcome: out.outcome, cpuSeconds: out.cpuSeconds });
     const written = await finishRun(run, out);
     return { runId, outcome: out.outcome, computeSeconds: out.cpuSeconds, cpuSource: out.cpuSource, written };
   };
