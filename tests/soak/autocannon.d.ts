@@ -21,7 +21,7 @@ declare module "autocannon" {
     on(event: "done", fn: (result: Result) => void): void;
     on(event: "error", fn: (err: Error) => void): void;
   }
-  function autocannon(opts: { url: string; connections: number; duration: number; timeout: number; requests: Request[] }): Instance;
+  function autocannon(opts: { url: string; connections: number; duration: number; timeout: number; requests: Request[]; connectionRate?: number }): Instance;
   namespace autocannon {
     export type { Client, Request, Result };
   }

@@ -1,9 +1,9 @@
 // Helpers of the soak drills (npm run test:soak, scripts/soak.sh): a Lab workspace of their own
 // (subscribed through the Stripe stand-in, no spend cap) so the demo lab's budget is untouched,
 // service control, and the figures file.
-import { execFile } from "node:child_process";
-import { mkdirSync, readFileSync, writeFileSync, existsSync } from "node:fs";
-import { join } from "node:path";
+import { execFile, spawn } from "node:child_process";
+import { closeSync, mkdirSync, openSync, readFileSync, writeFileSync, existsSync } from "node:fs";
+import { dirname, join } from "node:path";
 import { promisify } from "node:util";
 import postgres from "postgres";
 import { displayPrefix, hashToken, newTokenSecret } from "@/server/auth/tokens";
@@ -59,6 +59,24 @@ export async function createLabWorkspace(name: string): Promise<SoakWorkspace> {
   return w;
 }
 
+/**
+ * More members of the workspace (users with a membership, researcher by default), each with a
+ * token of their own, as several real clients of one lab would be: rate limits count per member.
+ */
+export async function addMembers(w: SoakWorkspace, n: number, role = "researcher"): Promise<{ userId: string; token: string }[]> {
+  const out: { userId: string; token: string }[] = [];
+  const tag = Math.random().toString(36).slice(2, 8);
+  for (let i = 0; i < n; i++) {
+    const [u] = await sql`insert into users (email, name) values (${`member-${tag}-${i}-${w.id}@soak.example`}, ${`soak member ${i}`}) returning id`;
+    await sql`insert into memberships (workspace_id, user_id, role) values (${w.id}, ${u.id}, ${role})`;
+    const secret = newTokenSecret();
+    await sql`insert into api_tokens (workspace_id, user_id, name, role, token_hash, prefix)
+      values (${w.id}, ${u.id}, 'soak', ${role}, ${hashToken(secret)}, ${displayPrefix(secret)})`;
+    out.push({ userId: u.id, token: secret });
+  }
+  return out;
+}
+
 export async function call(w: SoakWorkspace, as: keyof SoakWorkspace["tokens"], method: string, path: string, json?: unknown, timeoutMs = 20_000) {
   const res = await fetch(new URL(path, appUrl()), {
     method,
@@ -95,7 +113,9 @@ export async function until<T>(what: string, probe: () => Promise<T | null | und
 
 const run = promisify(execFile);
 /** Stops or starts a service of the soak instance (scripts/soak.sh ctl). */
-export async function ctl(action: "pg-stop" | "pg-start" | "redis-stop" | "redis-start" | "mail-stop" | "mail-start") {
+export async function ctl(
+  action: "pg-stop" | "pg-start" | "pg-kill" | "redis-stop" | "redis-start" | "redis-kill" | "web-kill" | "web-start" | "mail-stop" | "mail-start",
+) {
   await run("bash", ["scripts/soak.sh", "ctl", action], { env: process.env, timeout: 90_000 });
 }
 
@@ -153,5 +173,92 @@ export async function billingOnce(w: SoakWorkspace, runIds: string[], timeoutMs 
     distinctLedgerRuns: new Set(ledger.map((l) => l.run_id)).size,
     meterEvents: ids.length,
     distinctMeterEvents: new Set(ids).size,
+  };
+}
+
+/**
+ * A long run: 40 x 40 cells, 48 disorder samples, several seconds of compute on the development
+ * machine (about 7 s with the native kernels). `i` varies the disorder seed and the energy.
+ */
+export function longRun(i: number) {
+  return {
+    network: { ...SMALL_RUN.network, size: { columns: 40, rows: 40 }, disorder: { linkPhaseWidthRad: 3.0, seed: 100 + i } },
+    computation: { kind: "conductance", energyMeV: 0.3 + 0.001 * i, ensemble: { samples: 48 } },
+  };
+}
+
+/**
+ * Starts a replacement worker like tests/integration/runs-support.ts startWorker, with extra
+ * variables (the drill hooks), and records its pid where killWorker and scripts/soak.sh find it.
+ */
+export function startWorkerWith(extra: Record<string, string>): number {
+  const file = process.env.TRISKEL_WORKER_PID_FILE!;
+  const log = openSync(join(dirname(file), "worker.log"), "a");
+  const child = spawn("node_modules/.bin/tsx", ["worker/main.ts"], {
+    cwd: process.cwd(),
+    env: { ...process.env, NODE_ENV: "production", ...extra },
+    detached: true,
+    stdio: ["ignore", log, log],
+  });
+  closeSync(log);
+  child.unref();
+  writeFileSync(file, `${child.pid}\n`);
+  return child.pid!;
+}
+
+const FINAL = ["succeeded", "failed", "cancelled"];
+
+/** Waits until no run, sweep or fit of the workspace is queued or running. */
+export async function untilSettled(w: SoakWorkspace, timeoutMs = 300_000) {
+  return until(
+    "every job of the workspace to reach a final state",
+    async () => {
+      const [r] = await sql`select
+        (select count(*)::int from runs where workspace_id = ${w.id} and status in ('queued', 'running')) +
+        (select count(*)::int from sweeps where workspace_id = ${w.id} and status in ('queued', 'running')) +
+        (select count(*)::int from fits where workspace_id = ${w.id} and status in ('queued', 'running')) as open`;
+      return r.open === 0;
+    },
+    timeoutMs,
+    1000,
+  );
+}
+
+/**
+ * The checks after a drill, over every job the workspace ever had: each in a final state (none
+ * lost), none finished twice (at most one ledger row per run, one meter event per ledger row at
+ * the Stripe stand-in), every succeeded run billed exactly once, no sweep without all its points
+ * and no run without its reservation (its estimate), and the budget's reservation back to 0.
+ */
+export async function audit(w: SoakWorkspace) {
+  await untilSettled(w);
+  const runs = await sql`select id, status, kind, attempts, estimated_compute_seconds::float8 as est from runs where workspace_id = ${w.id}`;
+  const notFinal = runs.filter((r) => !FINAL.includes(r.status)).length;
+  const [sw] = await sql`select count(*)::int as n from sweeps s
+    where s.workspace_id = ${w.id} and s.point_count <> (select count(*) from runs r where r.sweep_id = s.id)`;
+  const withoutReservation = runs.filter((r) => r.kind !== "fit" && !(Number(r.est) > 0)).length;
+  const [dup] = await sql`select count(*)::int as n from (select run_id from usage_ledger where workspace_id = ${w.id} group by run_id having count(*) > 1) d`;
+  const [unbilled] = await sql`select count(*)::int as n from runs r where r.workspace_id = ${w.id} and r.status = 'succeeded'
+    and not exists (select 1 from usage_ledger l where l.run_id = r.id)`;
+  const billed = await sql`select distinct run_id from usage_ledger where workspace_id = ${w.id}`;
+  const billing = await billingOnce(
+    w,
+    billed.map((b) => b.run_id as string),
+  );
+  const overview = await call(w, "billingAdmin", "GET", "/api/v1/billing");
+  const statuses: Record<string, number> = {};
+  for (const r of runs) statuses[r.status] = (statuses[r.status] ?? 0) + 1;
+  return {
+    jobs: runs.length,
+    statuses,
+    notFinal,
+    sweepsMissingPoints: sw.n,
+    runsWithoutReservation: withoutReservation,
+    runsBilledTwice: dup.n,
+    succeededWithoutLedgerRow: unbilled.n,
+    ledgerRows: billing.ledgerRows,
+    meterEvents: billing.meterEvents,
+    distinctMeterEvents: billing.distinctMeterEvents,
+    reservedComputeSecondsAfter: overview.body.reservedComputeSeconds as number,
   };
 }
