@@ -7,10 +7,11 @@
 import { existsSync, readdirSync, rmSync } from "node:fs";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { killWorker, startWorker } from "../integration/runs-support";
+import { killWorker } from "../integration/runs-support";
 import { appUrl } from "../support/services";
 import {
   addMembers,
+  assertWorkerAlive,
   audit,
   call,
   createLabWorkspace,
@@ -88,11 +89,12 @@ describe("drills with long jobs in flight", () => {
     rmSync(dir, { recursive: true, force: true });
     // A worker with the drill hook: it holds every computed job (10 minutes) before finishing it.
     await killWorker();
-    startWorkerWith({ TRISKEL_DRILLS: "1", TRISKEL_DRILL_HOLD_BEFORE_FINISH_MS: "600000", TRISKEL_DRILL_DIR: dir });
+    const holding = startWorkerWith({ TRISKEL_DRILLS: "1", TRISKEL_DRILL_HOLD_BEFORE_FINISH_MS: "600000", TRISKEL_DRILL_DIR: dir });
     const ids = await submitLong(LONG, 0);
     const held = await until(
       "two long runs computed and held before their finishing transaction",
       async () => {
+        assertWorkerAlive(holding);
         const files = existsSync(dir) ? readdirSync(dir).filter((f) => f.startsWith("hold-run-")) : [];
         return files.length >= 2 ? files.map((f) => f.slice("hold-run-".length, -".json".length)) : undefined;
       },
@@ -108,8 +110,18 @@ describe("drills with long jobs in flight", () => {
     ).toBe(true);
     const killedAt = Date.now();
     await killWorker();
-    startWorker();
-    await until("the long runs to finish after the kill", async () => (await statusesOf(ids)).every((r) => r.status === "succeeded"), 300_000, 1000);
+    const replacement = startWorkerWith();
+    await until(
+      "the long runs to finish after the kill",
+      async () => {
+        const rows = await statusesOf(ids);
+        if (rows.every((r) => r.status === "succeeded")) return true;
+        assertWorkerAlive(replacement);
+        return false;
+      },
+      240_000,
+      1000,
+    );
     const after = await statusesOf(ids);
     const a = await audit(w);
     expectClean(a);

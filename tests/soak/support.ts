@@ -187,11 +187,14 @@ export function longRun(i: number) {
   };
 }
 
+/** How the workers this process started ended (pid -> exit code or signal), for the drills' failure messages. */
+export const workerExits = new Map<number, string>();
+
 /**
  * Starts a replacement worker like tests/integration/runs-support.ts startWorker, with extra
  * variables (the drill hooks), and records its pid where killWorker and scripts/soak.sh find it.
  */
-export function startWorkerWith(extra: Record<string, string>): number {
+export function startWorkerWith(extra: Record<string, string> = {}): number {
   const file = process.env.TRISKEL_WORKER_PID_FILE!;
   const log = openSync(join(dirname(file), "worker.log"), "a");
   const child = spawn("node_modules/.bin/tsx", ["worker/main.ts"], {
@@ -201,9 +204,20 @@ export function startWorkerWith(extra: Record<string, string>): number {
     stdio: ["ignore", log, log],
   });
   closeSync(log);
+  child.on("exit", (code, signal) => {
+    const how = signal ?? `exit code ${code}`;
+    workerExits.set(child.pid!, how);
+    console.error(`[soak] worker ${child.pid} ended: ${how}`);
+  });
   child.unref();
   writeFileSync(file, `${child.pid}\n`);
   return child.pid!;
+}
+
+/** Throws when the worker this process started last has ended (so a drill fails at once, saying how). */
+export function assertWorkerAlive(pid: number) {
+  const how = workerExits.get(pid);
+  if (how) throw new Error(`the worker ${pid} ended (${how}); see worker.log`);
 }
 
 const FINAL = ["succeeded", "failed", "cancelled"];
