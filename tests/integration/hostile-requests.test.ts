@@ -122,6 +122,7 @@ beforeAll(async () => {
       "not_found",
       "payload_too_large",
       "payment_required",
+      "rate_limited",
       "unauthenticated",
     ].sort(),
   );
