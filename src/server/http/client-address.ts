@@ -1,18 +1,23 @@
 import { isIP } from "node:net";
 
 /**
- * The client a request without working credentials is counted as (src/server/http/rate-limit.ts),
- * from the request's headers alone: a Next.js route handler never sees the socket.
+ * The socket's address, written by the HTTP server guard (method-guard.ts, installed from
+ * src/instrumentation.ts) over any header of that name a client sent.
+ */
+export const PEER_HEADER = "x-triskel-peer";
+
+/**
+ * The client a request without working credentials is counted as (src/server/http/rate-limit.ts).
  *
- * What the headers can say: `next start` copies the socket's address into X-Forwarded-For only
- * when the request brings none (next/dist/server/base-server.js, `x-forwarded-for ??=
- * socket.remoteAddress`); it appends nothing. So, reached directly, the header is either the
- * socket address or whatever the client chose to write, and the two cannot be told apart: trusting
- * it would let a client pick a fresh budget for every request. X-Real-IP is no better (Next never
- * sets it). Hence:
+ * A Next.js route handler never sees the socket, and the headers alone cannot be believed: `next
+ * start` copies the socket's address into X-Forwarded-For only when the request brings none
+ * (next/dist/server/base-server.js, `x-forwarded-for ??= socket.remoteAddress`) and appends
+ * nothing, so a client reaching the app directly could write any address there. So the HTTP
+ * server guard stamps each request with the socket's address (PEER_HEADER). Hence:
  *
- * - `TRUSTED_PROXY_HOPS=0` (the default, the app is reached directly): every such request is
- *   counted under one key, `direct`. Safe, but one budget for all of them.
+ * - `TRUSTED_PROXY_HOPS=0` (the default, the app is reached directly): the socket's address.
+ *   Without the stamp (the guard not installed, e.g. a handler called in a unit test) every such
+ *   request is counted under one key, `direct`.
  * - `TRUSTED_PROXY_HOPS=N`: N reverse proxies, each appending the address it saw, stand in front
  *   of the app and nothing reaches it around them; the client is the N-th entry from the end of
  *   X-Forwarded-For (the entries before it are the client's own word). A request that brings
@@ -22,7 +27,10 @@ import { isIP } from "node:net";
  * IPv6 addresses as IPv4; a value that is not an address is counted under `unparsed`.
  */
 export function clientAddress(headers: Headers, trustedProxyHops: number): string {
-  if (trustedProxyHops <= 0) return "direct";
+  if (trustedProxyHops <= 0) {
+    const peer = headers.get(PEER_HEADER)?.trim();
+    return peer ? normalizeAddress(peer) : "direct";
+  }
   const chain = (headers.get("x-forwarded-for") ?? "")
     .split(",")
     .map((s) => s.trim())

@@ -1,15 +1,18 @@
 // The client address a failed request is counted under (src/server/http/client-address.ts): what a
 // Next.js route handler can believe of X-Forwarded-For, given how many proxies the deployment trusts.
 import { describe, expect, it } from "vitest";
-import { clientAddress, normalizeAddress } from "@/server/http/client-address";
+import { clientAddress, normalizeAddress, PEER_HEADER } from "@/server/http/client-address";
 
 const h = (xff?: string, extra: Record<string, string> = {}) => new Headers({ ...(xff === undefined ? {} : { "x-forwarded-for": xff }), ...extra });
 
 describe("clientAddress", () => {
-  it("with no trusted proxy (the default) believes no header: one key for every client", () => {
+  it("with no trusted proxy (the default) believes only the socket's address the server stamped, never X-Forwarded-For", () => {
+    expect(clientAddress(h(undefined, { [PEER_HEADER]: "::ffff:198.51.100.9" }), 0)).toBe("198.51.100.9");
+    expect(clientAddress(h("203.0.113.5", { [PEER_HEADER]: "198.51.100.9" }), 0)).toBe("198.51.100.9"); // what the client wrote is ignored
+    expect(clientAddress(h("198.51.100.7", { "x-real-ip": "198.51.100.8", [PEER_HEADER]: "2001:db8:1:2::5" }), 0)).toBe("2001:db8:1:2::/64");
+    // Without the server's stamp (the guard not installed): no header is believed, one key for every client.
     expect(clientAddress(h(), 0)).toBe("direct");
-    expect(clientAddress(h("127.0.0.1"), 0)).toBe("direct"); // what next start fills in from the socket
-    expect(clientAddress(h("198.51.100.7"), 0)).toBe("direct"); // or what a client wrote itself: indistinguishable
+    expect(clientAddress(h("127.0.0.1"), 0)).toBe("direct");
     expect(clientAddress(h("198.51.100.7", { "x-real-ip": "198.51.100.8" }), 0)).toBe("direct");
   });
 
