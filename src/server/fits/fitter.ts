@@ -216,8 +216,11 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
   const tolerance = options.tolerance ?? 1e-7;
   const weighted = !!data.sigma;
   const sigma = data.sigma ?? new Array<number>(n).fill(1);
+  const initial = specs.map((s) => (s.initial - s.min) / (s.max - s.min));
   const toValues = (u: ArrayLike<number>) => {
     const v: Record<string, number> = {};
+    // The initial point in the user's own numbers (scaling there and back may change the last digit).
+    if (Array.from(u).every((ui, i) => ui === initial[i])) return Object.fromEntries(specs.map((s) => [s.parameter, s.initial]));
     specs.forEach((s, i) => (v[s.parameter] = s.min + Math.min(1, Math.max(0, u[i])) * (s.max - s.min)));
     return v;
   };
@@ -254,7 +257,6 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
   const perDescent = maxIterations * (k + 1);
   const globalShare = globalStarts / (globalStarts + localStarts * perDescent || 1);
 
-  const initial = specs.map((s) => (s.initial - s.min) / (s.max - s.min));
   const random = rng(options.seed ?? 1);
   const allStarts: FitStart[] = [];
 
@@ -468,7 +470,9 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
       );
     } else if (s2 < FIT_CHECKS.chi2PerDofLow) {
       flags.add("chi2_low");
-      warnings.push(`chi2/dof is ${s2.toPrecision(3)} (below ${FIT_CHECKS.chi2PerDofLow}): the uncertainty column looks too large for the scatter of the data.`);
+      warnings.push(
+        `chi2/dof is ${s2.toPrecision(3)} (below ${FIT_CHECKS.chi2PerDofLow}): the uncertainty column looks too large for the scatter of the data.`,
+      );
     }
   } else if (n >= FIT_CHECKS.residualStructureMinPoints) {
     residualStructure = residualStructureRatio(data.x, residuals, dof);
@@ -493,8 +497,7 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
   }
   if (!b.converged) {
     flags.add("not_converged");
-    if (b.accepted > 0)
-      warnings.push(`The fit stopped after ${b.iterations} iterations without meeting the convergence rule; the values may still move.`);
+    if (b.accepted > 0) warnings.push(`The fit stopped after ${b.iterations} iterations without meeting the convergence rule; the values may still move.`);
     else warnings.push("The fit did not converge: no step lowered chi2 from its start.");
   }
 
@@ -508,7 +511,8 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
       specs.some((s, j) => {
         const delta = Math.abs(o.u[j] - b.u[j]) * (s.max - s.min);
         const se = parameters[j].stderr;
-        return delta > FIT_CHECKS.competingWidthFraction * (s.max - s.min) && (se === null || delta > FIT_CHECKS.competingStderrs * se);
+        // A parameter without a stderr is already flagged undetermined; its spread is not a second minimum.
+        return se !== null && delta > FIT_CHECKS.competingWidthFraction * (s.max - s.min) && delta > FIT_CHECKS.competingStderrs * se;
       }),
   );
   if (rivals.length > 0) {

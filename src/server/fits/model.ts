@@ -77,10 +77,7 @@ export function runFit(engine: EngineLike, job: FitJobInput, hooks: Pick<FitOpti
  * step and its forward-difference Jacobian; a descent from the initial values or a random point
  * also evaluates its start), then 2k + 1 for the Jacobian at the optimum.
  */
-export function expectedEvaluations(
-  parameters: number,
-  options: { maxIterations?: number; multiStart?: number; globalStarts?: number } = {},
-): number {
+export function expectedEvaluations(parameters: number, options: { maxIterations?: number; multiStart?: number; globalStarts?: number } = {}): number {
   const { globalStarts, localStarts, maxIterations } = fitStages(parameters, options);
   const iterations = Math.min(maxIterations, 8);
   const startCost = globalStarts > 0 ? 0 : 1;
