@@ -187,7 +187,8 @@ describe("upgrade to Lab and seats", () => {
     expect(await seatQty()).toBe(5);
     for (const bad of [{ seats: 0 }, { seats: 2.5 }, { seats: "6" }, { seats: 201 }, {}, { seats: 6, extra: true }]) {
       const r = await call(ws, "billingAdmin", "/api/v1/billing/seats", { method: "PUT", json: bad });
-      expect(r.status, JSON.stringify(bad)).toBe(400);
+      expect(r.status, JSON.stringify(bad)).toBe(422);
+      expect(r.body.error.message, JSON.stringify(bad)).toMatch(/seats|extra/);
     }
     expect((await call(ws, "researcher", "/api/v1/billing/seats", { method: "PUT", json: { seats: 6 } })).status).toBe(403);
 
