@@ -52,8 +52,9 @@ rm -f "$DATA_DIR/faults.json" "$DATA_DIR/load.json"
 
 start_postgres "$PG_EXTRA"
 start_redis no
-migrate_and_seed
+# The stand-ins first: the demo seed opens the demo lab's payment account at the payment service.
 start_fakes
+migrate_and_seed
 build_web
 start_service web next start -H 127.0.0.1 -p "$WEB_PORT"
 start_service worker node_modules/.bin/tsx worker/main.ts
