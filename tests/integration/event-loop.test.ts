@@ -5,7 +5,7 @@
 import { afterAll, describe, expect, it } from "vitest";
 import postgres from "postgres";
 import { estimateCost, parseComputeInput } from "../../src/engine";
-import { analysePeriod } from "../../src/server/datasets/period";
+import { analysePeriod } from "../../src/shared/period";
 import { csvText, datasetForm } from "../support/csv";
 import { api, appUrl, databaseUrl } from "../support/services";
 import { smallNetwork } from "./runs-support";

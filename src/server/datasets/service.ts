@@ -16,7 +16,7 @@ import { readBodyCapped } from "@/server/http/body";
 import { INLINE_LIMITS, runAnalysis } from "@/server/offload";
 import { countCsvRecords, DATASET_MAX_BYTES, DATASET_MAX_ROWS, DatasetCsvError, parseDatasetCsv, type ColumnMapping, type ParsedDataset } from "@/shared/csv";
 import { X_UNITS, Y_UNITS } from "@/shared/units";
-import { PeriodAnalysisError, periodFftLength } from "./period";
+import { PeriodAnalysisError, periodFftLength } from "@/shared/period";
 import type { DatasetDetail, DatasetPeriod, DatasetPoints, DatasetSummary } from "@/shared/api";
 
 export const uploadFields = z.object({

@@ -5,9 +5,9 @@
  * DatasetCsvError, PeriodAnalysisError) come back as data and are rebuilt by reviveTaskError.
  */
 import { DatasetCsvError, parseDatasetCsv, type ColumnMapping, type CsvIssue, type ParsedDataset } from "@/shared/csv";
-import { analysePeriod, PeriodAnalysisError, type PeriodAnalysis, type PeriodOptions } from "@/server/datasets/period";
+import { analysePeriod, PeriodAnalysisError, type PeriodAnalysis, type PeriodOptions } from "@/shared/period";
 import { ApiError, type ApiErrorCode } from "@/server/http/errors";
-import { checkSweepPoints, type CheckedPoint, type SweepPointsTask } from "@/server/sweeps/points";
+import { checkSweepPoints, type CheckedPoint, type SweepPointsTask } from "./sweep-points";
 
 export type OffloadTask =
   | { kind: "period"; fieldTesla: number[]; conductance: number[]; options: PeriodOptions }

@@ -24,7 +24,17 @@ import { enqueueAfterCommit } from "@/server/jobs";
 import { INLINE_LIMITS, runAnalysis } from "@/server/offload";
 import { RUN_STATUSES, resolveSubmission } from "@/server/runs/service";
 import { deriveSweepStatus, refreshSweep, type SweepCounts } from "@/server/runs/sweep-progress";
-import { axesSchema, ensembleSchema, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, unitOf, type ResolvedAxis } from "./axes";
+import {
+  axesSchema,
+  ensembleSchema,
+  gridShape,
+  gridSize,
+  pointCoordinates,
+  resolveAxis,
+  scalarQuantities,
+  unitOf,
+  type ResolvedAxis,
+} from "@/shared/sweep-axes";
 
 export const sweepBody = z
   .object({
@@ -38,7 +48,7 @@ export const sweepBody = z
   })
   .strict();
 
-export { pointInput } from "./points";
+export { pointInput } from "@/server/offload/sweep-points";
 
 function checkParameters(axes: ResolvedAxis[]) {
   const allowed = sweepableParameters();

@@ -8,7 +8,7 @@ import type { PlanId } from "@/shared/plans";
 import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan } from "@/server/billing/limits";
 import { applyParameter, estimateSeconds, inputHash, networkSize, parseInput, type ComputeInput } from "@/server/engine";
 import { ApiError } from "@/server/http/errors";
-import { pointCoordinates, type ResolvedAxis } from "./axes";
+import { pointCoordinates, type ResolvedAxis } from "@/shared/sweep-axes";
 
 /** The input of one sweep point: the base input with the axes' values applied. */
 export function pointInput(base: ComputeInput, axes: ResolvedAxis[], pointIndex: number): ComputeInput {

@@ -8,7 +8,7 @@
  * (two triangles) A_cell = (sqrt3/2) l^2, l = a / (2 sin(theta/2)) with the graphene lattice
  * constant a. The constants and the twist/period conversion are the engine's (src/engine/constants.ts).
  */
-import { FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM, twistFromPeriodDegrees } from "@/engine/constants";
+import { FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM, twistFromPeriodDegrees } from "@/engine/browser";
 import type { PeriodAnalysis, PeriodOptions, PeriodReading } from "@/shared/api";
 export type { PeriodAnalysis, PeriodOptions, PeriodReading };
 
