@@ -81,8 +81,9 @@ rm -f "$DATA_DIR/faults.json" "$DATA_DIR/load.json" "$DATA_DIR/drills.json"
 
 start_postgres "$PG_EXTRA"
 start_redis no
-migrate_and_seed
+# The stand-ins first: the demo seed opens the demo lab's payment account at the payment service.
 start_fakes
+migrate_and_seed
 build_web
 start_web
 BG_NAMES+=(web)

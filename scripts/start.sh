@@ -22,8 +22,9 @@ trap 'exit 130' INT TERM
 
 start_postgres
 start_redis yes
-migrate_and_seed
+# The stand-ins first: the demo seed opens the demo lab's payment account at the payment service.
 start_fakes
+migrate_and_seed
 
 if [ "${TRISKEL_DEV:-0}" = 1 ]; then
   export NODE_ENV=development

@@ -28,8 +28,9 @@ rm -rf "$PG_DATA" "$RUN_DIR"; mkdir -p "$RUN_DIR"
 
 start_postgres "-c fsync=off -c synchronous_commit=off -c full_page_writes=off"
 start_redis no
-migrate_and_seed
+# The stand-ins first: the demo seed opens the demo lab's payment account at the payment service.
 start_fakes
+migrate_and_seed
 build_web
 # next build checks src/ only; this checks the whole tree (src, worker, scripts, tests, fakes).
 log "type-checking the whole tree (tsc --noEmit)"

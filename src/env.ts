@@ -38,9 +38,21 @@ export const envSchema = z.object({
     .enum(["0", "1"], { message: "must be 0 or 1" })
     .default("0")
     .transform((v) => v === "1"),
-  // --- request rate limits per API token and per signed-in member (src/server/http/rate-limit.ts) ---
+  // --- request rate limits per member (all their tokens and their session) and per client address
+  // for requests that fail to authenticate (src/server/http/rate-limit.ts, docs/api.md "Rate limits") ---
   RATE_LIMIT_READS_PER_MINUTE: z.coerce.number().int().min(1).default(600),
   RATE_LIMIT_WRITES_PER_MINUTE: z.coerce.number().int().min(1).default(120),
+  /** Requests a minute per client address that carry no credentials, an unknown, revoked or malformed token, or a bad webhook signature. */
+  RATE_LIMIT_FAILED_PER_MINUTE: z.coerce.number().int().min(1).default(60),
+  /**
+   * Reverse proxies in front of the web app that append the client's address to X-Forwarded-For
+   * (0: none, the app is reached directly). With 0 the header is the client's own word, so every
+   * client without credentials shares one budget (key `direct`); with N the client address is the
+   * N-th entry from the end (src/server/http/client-address.ts).
+   */
+  TRUSTED_PROXY_HOPS: z.coerce.number().int().min(0).max(10).default(0),
+  /** Active (unrevoked) API tokens a member may hold in one workspace; one more answers 409. */
+  API_TOKENS_PER_MEMBER: z.coerce.number().int().min(1).max(1000).default(20),
   // --- accounts (docs/accounts.md): Clerk through @clerk/nextjs, which reads its own CLERK_* and
   // NEXT_PUBLIC_CLERK_* variables; scripts/env.d/clerk.sh points them at the local stand-in.
   CLERK_SECRET_KEY: z

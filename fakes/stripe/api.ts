@@ -367,16 +367,53 @@ export class FakeApi {
     const s = this.checkoutSession(id);
     if (s.status !== "open") throw new FakeError(400, "invalid_request_error", `This Checkout Session is ${s.status}.`, "checkout_session_not_open");
     if (!s.customer) s.customer = this.createCustomer({}).id;
-    const customer = s.customer as string;
+    const sub = this.startSubscription(s.customer as string, s.line_items_input, s.subscription_metadata, "charge_automatically", s.currency ?? "usd");
+    s.status = "complete";
+    s.payment_status = "paid";
+    s.subscription = sub.id;
+    this.emit("checkout.session.completed", this.publicSession(s));
+    this.announceSubscription(sub);
+    return s;
+  }
+  /** POST /v1/subscriptions: a subscription started without Checkout (e.g. `send_invoice` collection, no card on file). */
+  createSubscription(p: Params): FakeSubscription {
+    const customer = req(p, "customer");
+    this.customer(customer);
+    const items = arrayOf(p.items).map((raw, i) => {
+      const it = raw as Params;
+      const price = str(it.price);
+      if (!price) throw badParam(`items[${i}][price]`, "Missing required param: items[][price].", "parameter_missing");
+      this.price(price);
+      return { price, quantity: int(it, "quantity") };
+    });
+    if (!items.length) throw badParam("items", "Missing required param: items.", "parameter_missing");
+    const collection = str(p.collection_method) ?? "charge_automatically";
+    if (collection !== "charge_automatically" && collection !== "send_invoice")
+      throw badParam("collection_method", "Invalid collection_method: must be one of charge_automatically or send_invoice.");
+    if (collection === "send_invoice" && int(p, "days_until_due") === undefined)
+      throw badParam("days_until_due", "days_until_due is required when collection_method is send_invoice.", "parameter_missing");
+    const currency = items.map((i) => this.price(i.price).currency)[0] ?? "usd";
+    const sub = this.startSubscription(customer, items, metadataOf(p.metadata), collection, currency);
+    this.announceSubscription(sub);
+    return sub;
+  }
+  /** The subscription and its first invoice (licensed items only: metered use is billed at the period's end). */
+  private startSubscription(
+    customer: string,
+    lineItems: { price: string; quantity?: number }[],
+    metadata: Record<string, string>,
+    collection: "charge_automatically" | "send_invoice",
+    currency: string,
+  ): FakeSubscription {
     const t = nowSeconds();
     const subId = newId("sub");
     const sub: FakeSubscription = {
       id: subId,
       object: "subscription",
       created: t,
-      currency: s.currency ?? "usd",
+      currency,
       customer,
-      metadata: s.subscription_metadata,
+      metadata,
       status: "active",
       start_date: t,
       cancel_at_period_end: false,
@@ -384,22 +421,22 @@ export class FakeApi {
       ended_at: null,
       livemode: false,
       latest_invoice: null,
-      collection_method: "charge_automatically",
+      collection_method: collection,
       items: { object: "list", data: [], has_more: false, url: `/v1/subscription_items?subscription=${subId}` },
     };
-    for (const li of s.line_items_input) sub.items.data.push(this.newItem(sub, li.price, li.quantity, t, addMonth(t)));
+    for (const li of lineItems) sub.items.data.push(this.newItem(sub, li.price, li.quantity, t, addMonth(t)));
     this.store.subscriptions.set(subId, sub);
-    s.status = "complete";
-    s.payment_status = "paid";
-    s.subscription = subId;
+    return sub;
+  }
+  /** Events of a new subscription and its first invoice; collected at once unless it is sent to be paid later. */
+  private announceSubscription(sub: FakeSubscription) {
+    const t = sub.start_date;
     const invoice = this.invoiceFor(sub, t, addMonth(t), "subscription_create", { licensedOnly: true });
     this.store.invoices.set(invoice.id, invoice);
     sub.latest_invoice = invoice.id;
-    this.emit("checkout.session.completed", this.publicSession(s));
     this.emit("customer.subscription.created", sub);
     this.emit("invoice.created", invoice);
-    this.settle(invoice, sub);
-    return s;
+    if (sub.collection_method === "charge_automatically") this.settle(invoice, sub);
   }
   publicSession(s: FakeCheckoutSession) {
     const { line_items_input: _li, subscription_metadata: _sm, ...rest } = s;
@@ -563,7 +600,7 @@ export class FakeApi {
       attempt_count: 0,
       attempted: false,
       billing_reason: reason,
-      collection_method: "charge_automatically",
+      collection_method: sub.collection_method,
       metadata: {},
       lines: { object: "list", data: lines, has_more: false, url: `/v1/invoices/${id}/lines` },
       parent: { type: "subscription_details", subscription_details: { subscription: sub.id, metadata: sub.metadata } },

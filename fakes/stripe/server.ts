@@ -166,6 +166,7 @@ export function createFakeStripe(opts: FakeOptions) {
     if (is("GET", /^\/v1\/checkout\/sessions\/([^/]+)$/)) return a.publicSession(a.checkoutSession(m![1]));
     if (is("POST", /^\/v1\/billing_portal\/sessions$/)) return a.createPortalSession(p);
     if (is("GET", /^\/v1\/subscriptions$/)) return a.listSubscriptions(p);
+    if (is("POST", /^\/v1\/subscriptions$/)) return a.createSubscription(p);
     if (is("GET", /^\/v1\/subscriptions\/([^/]+)$/)) return a.subscription(m![1]);
     if (is("POST", /^\/v1\/subscriptions\/([^/]+)$/)) return a.updateSubscription(m![1], p);
     if (is("DELETE", /^\/v1\/subscriptions\/([^/]+)$/)) return a.cancelSubscription(m![1]);

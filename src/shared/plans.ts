@@ -30,6 +30,8 @@ export interface PlanLimits {
   queuePriorityLabel: "low" | "normal";
   /** Members allowed; null means "as many as seats bought". */
   maxMembers: number | null;
+  /** Most seats one workspace may buy (0 on Free, which has no seats to buy). */
+  maxSeats: number;
 }
 
 export const PLANS: Record<PlanId, PlanLimits> = {
@@ -46,6 +48,7 @@ export const PLANS: Record<PlanId, PlanLimits> = {
     queuePriority: 10,
     queuePriorityLabel: "low",
     maxMembers: 1,
+    maxSeats: 0,
   },
   lab: {
     id: "lab",
@@ -60,6 +63,7 @@ export const PLANS: Record<PlanId, PlanLimits> = {
     queuePriority: 1,
     queuePriorityLabel: "normal",
     maxMembers: null,
+    maxSeats: 200,
   },
 };
 

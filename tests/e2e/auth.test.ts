@@ -5,7 +5,7 @@ import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
 import { screenshot, url, useBrowser } from "../support/browser";
 import type { Json } from "../support/json";
-import { api } from "../support/services";
+import { api, ensureFreeSeats } from "../support/services";
 import { signInThroughForm, waitForMail } from "../support/session";
 
 const browser = useBrowser();
@@ -78,6 +78,7 @@ describe("sign-up, sign-out, sign-in", () => {
 
 describe("invitations", () => {
   it("an Owner invites a Researcher; the e-mail arrives; the invitee signs up, accepts and sees the lab's networks", async () => {
+    await ensureFreeSeats(1);
     // The Owner, signed in with the lab active, invites from the browser session.
     const owner = await browser.signedInPage("owner");
     await owner.goto(url("/networks"));

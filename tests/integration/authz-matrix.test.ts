@@ -6,7 +6,7 @@ import { readdirSync, readFileSync, statSync } from "node:fs";
 import { join, relative } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import postgres from "postgres";
-import { appUrl, databaseUrl, demoTokens, failOnRateLimit, type DemoTokenKey } from "../support/services";
+import { appUrl, databaseUrl, demoTokens, ensureFreeSeats, failOnRateLimit, type DemoTokenKey } from "../support/services";
 import type { Json } from "../support/json";
 import { CALLERS, fitBody, SMALL_RUN, TABLE, type CallerKey, type Entry, type Expect, type Fixtures } from "./authz-table";
 
@@ -72,6 +72,8 @@ const startedFits: string[] = [];
 let labWorkspaceId = "";
 
 beforeAll(async () => {
+  // Invitations and fresh members take seats of the demo lab: its Billing admin buys enough first.
+  await ensureFreeSeats(30);
   const created = await ok(await call("researcher", "POST", "/api/v1/tokens", { name: "authz revoked" }), "token");
   await ok(await call("researcher", "DELETE", `/api/v1/tokens/${created.token.id}`), "revoke");
   revokedSecret = created.secret;
@@ -119,6 +121,7 @@ beforeAll(async () => {
     },
     freshInvitation: async () => {
       const email = `invite-${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 8)}@authz.example`;
+      await ensureFreeSeats(1); // the seats/sync entry may have given the spare seats back
       return (await ok(await call("owner", "POST", "/api/v1/workspace/members", { email, role: "viewer" }), "invitation")).invitation.id;
     },
   };

@@ -204,6 +204,8 @@ export const TABLE: Entry[] = [
   { route: "v1/billing", method: "GET", path: () => "/api/v1/billing", expect: { ...SEE, other: "ok" } },
   { route: "v1/billing/invoices", method: "GET", path: () => "/api/v1/billing/invoices", expect: { ...BILLING, other: "ok" } },
   { route: "v1/billing/seats", method: "GET", path: () => "/api/v1/billing/seats", expect: { ...BILLING, other: "ok" } },
+  // One seat is below what the demo lab uses (409 after the permission check) and the other workspace has no subscription (409).
+  { route: "v1/billing/seats", method: "PUT", path: () => "/api/v1/billing/seats", body: () => ({ seats: 1 }), expect: { ...BILLING, other: "ok" } },
   { route: "v1/billing/seats/sync", method: "POST", path: () => "/api/v1/billing/seats/sync", body: () => ({}), expect: { ...BILLING, other: "ok" } },
   { route: "v1/billing/checkout", method: "POST", path: () => "/api/v1/billing/checkout", body: () => ({}), expect: { ...BILLING, other: "ok" } },
   { route: "v1/billing/portal", method: "POST", path: () => "/api/v1/billing/portal", body: () => ({}), expect: { ...BILLING, other: "ok" } },

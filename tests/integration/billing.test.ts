@@ -1,14 +1,15 @@
 // Billing end to end through the running app, the worker's meter sender and the Stripe stand-in
-// (through the real SDK): upgrade, seats following membership, ledger -> meter events, a sender
+// (through the real SDK): upgrade, seats bought and taken (invitations past them refused), ledger -> meter events, a sender
 // killed midway, an outage, webhook replay and bad signatures, free quota and spend cap.
-// Uses its own workspaces (never the demo lab), so other test files keep their demo data.
+// Uses its own workspaces (the demo lab only to read its seeded payment account and meter one small run),
+// so other test files keep their demo data.
 import { spawn } from "node:child_process";
 import { randomUUID } from "node:crypto";
 import postgres from "postgres";
 import Stripe from "stripe";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { displayPrefix, hashToken, newTokenSecret } from "@/server/auth/tokens";
-import { appUrl, databaseUrl, failOnRateLimit } from "../support/services";
+import { api, appUrl, databaseUrl, failOnRateLimit } from "../support/services";
 
 const sql = postgres(databaseUrl(), { max: 3, onnotice: () => {} });
 const port = Number(process.env.STRIPE_FAKE_PORT);
@@ -42,7 +43,9 @@ interface TestWorkspace {
 /** A fresh workspace with an Owner, a Billing admin and a Researcher, each with an API token. */
 async function createWorkspace(name: string, plan: "free" | "lab" = "free"): Promise<TestWorkspace> {
   const slug = `billing-it-${tag}-${Math.random().toString(36).slice(2, 8)}`;
-  const [ws] = await sql`insert into workspaces (name, slug, kind, plan) values (${name}, ${slug}, 'lab', ${plan}) returning id`;
+  // An organization id of its own, so invitations can be sent (they go by e-mail; nothing is asked of the sign-in service).
+  const [ws] =
+    await sql`insert into workspaces (name, slug, kind, plan, clerk_org_id) values (${name}, ${slug}, 'lab', ${plan}, ${`org_test_${slug}`}) returning id`;
   const tokens: Record<string, string> = {};
   const userIds: Record<string, string> = {};
   for (const [key, role] of [
@@ -144,22 +147,76 @@ describe("upgrade to Lab and seats", () => {
     expect(again.status).toBe(409);
   });
 
-  it("adds and removes seats as members join and leave (subscription quantity in Stripe)", async () => {
+  const seatQty = async () => {
+    const [row] = await sql`select stripe_subscription_id from workspaces where id = ${ws.id}`;
+    return (await stripe.subscriptions.retrieve(row.stripe_subscription_id)).items.data.find((i) => i.price.recurring?.usage_type === "licensed")!.quantity;
+  };
+  const invite = (email: string) => call(ws, "billingAdmin", "/api/v1/workspace/members", { method: "POST", json: { email, role: "viewer" } });
+
+  it("refuses an invitation past the seats bought, saying how to add a seat; a bought seat can then be filled", async () => {
+    // 3 members on 3 seats: no seat is free.
+    const refused = await invite(`past-seats-${tag}@billing-test.example`);
+    expect(refused.status, JSON.stringify(refused.body)).toBe(402);
+    expect(refused.body.error.code).toBe("payment_required");
+    expect(refused.body.error.details).toMatchObject({ reason: "seats_full", seats: 3, members: 3, pending: 0, addSeat: "PUT /api/v1/billing/seats" });
+    expect(refused.body.error.message).toContain("All 3 seats");
+    expect(refused.body.error.message).toContain("adds a seat on the Billing page");
+    expect(await sql`select 1 from invitations where workspace_id = ${ws.id}`).toHaveLength(0);
+
+    // The cost is shown before charging: GET tells the price and the monthly total of the seats.
+    const before = await call(ws, "billingAdmin", "/api/v1/billing/seats");
+    expect(before.body).toEqual({ seats: 3, members: 3, pending: 0, minimumSeats: 3, maxSeats: 200, seatPriceUsdPerMonth: 24, monthlySeatsUsd: 72 });
+    const bought = await call(ws, "billingAdmin", "/api/v1/billing/seats", { method: "PUT", json: { seats: 5 } });
+    expect(bought.status, JSON.stringify(bought.body)).toBe(200);
+    expect(bought.body).toMatchObject({ seats: 5, members: 3, monthlySeatsUsd: 120 });
+    expect(await seatQty()).toBe(5);
+
+    // Two free seats; five invitations at once: exactly two are accepted (the workspace row is locked).
+    const many = await Promise.all([0, 1, 2, 3, 4].map((i) => invite(`edge-${i}-${tag}@billing-test.example`)));
+    expect(many.map((r) => r.status).sort()).toEqual([201, 201, 402, 402, 402]);
+    const [{ n }] = await sql`select count(*)::int as n from invitations where workspace_id = ${ws.id} and revoked_at is null and accepted_at is null`;
+    expect(n).toBe(2);
+    const full = await call(ws, "billingAdmin", "/api/v1/billing/seats");
+    expect(full.body).toMatchObject({ seats: 5, members: 3, pending: 2, minimumSeats: 5 });
+
+    // Seats cannot go below members + open invitations; the answer says the least.
+    const tooFew = await call(ws, "billingAdmin", "/api/v1/billing/seats", { method: "PUT", json: { seats: 4 } });
+    expect(tooFew.status).toBe(409);
+    expect(tooFew.body.error.details).toMatchObject({ field: "seats", minimumSeats: 5, members: 3, pending: 2 });
+    expect(tooFew.body.error.message).toContain("the least is 5");
+    expect(await seatQty()).toBe(5);
+    for (const bad of [{ seats: 0 }, { seats: 2.5 }, { seats: "6" }, { seats: 201 }, {}, { seats: 6, extra: true }]) {
+      const r = await call(ws, "billingAdmin", "/api/v1/billing/seats", { method: "PUT", json: bad });
+      expect(r.status, JSON.stringify(bad)).toBe(422);
+      expect(r.body.error.message, JSON.stringify(bad)).toMatch(/seats|extra/);
+    }
+    expect((await call(ws, "researcher", "/api/v1/billing/seats", { method: "PUT", json: { seats: 6 } })).status).toBe(403);
+
+    // Revoking the open invitations frees their seats; giving seats back is the Billing admin's choice.
+    await sql`update invitations set revoked_at = now() where workspace_id = ${ws.id}`;
+    const back = await call(ws, "billingAdmin", "/api/v1/billing/seats", { method: "PUT", json: { seats: 3 } });
+    expect(back.status, JSON.stringify(back.body)).toBe(200);
+    expect(back.body).toMatchObject({ seats: 3, pending: 0, monthlySeatsUsd: 72 });
+    expect(await seatQty()).toBe(3);
+  });
+
+  it("raises seats to the members added outside the invitation flow, and never lowers them by itself", async () => {
     const [u] = await sql`insert into users (email, name) values (${`newcomer-${tag}@billing-test.example`}, 'Newcomer (test)') returning id`;
     await sql`insert into memberships (workspace_id, user_id, role) values (${ws.id}, ${u.id}, 'viewer')`;
-    const up = await call(ws, "billingAdmin", "/api/v1/billing/seats/sync", { method: "POST" });
-    expect(up.status).toBe(200);
-    expect(up.body).toEqual({ seats: 4, members: 4 });
-    const [row] = await sql`select stripe_subscription_id from workspaces where id = ${ws.id}`;
-    const seatQty = async () =>
-      (await stripe.subscriptions.retrieve(row.stripe_subscription_id)).items.data.find((i) => i.price.recurring?.usage_type === "licensed")!.quantity;
-    expect(await seatQty()).toBe(4);
+    // The worker's billing pass gives every member a seat.
+    await until("seats up to 4", async () => (await seatQty()) === 4);
+    await until("workspace seats 4", async () => (await sql`select seats from workspaces where id = ${ws.id}`)[0].seats === 4);
     await sql`delete from memberships where workspace_id = ${ws.id} and user_id = ${u.id}`;
-    // The worker's billing pass follows membership on its own, too.
-    await until("seats back to 3", async () => (await seatQty()) === 3);
-    await until("workspace seats 3", async () => (await sql`select seats from workspaces where id = ${ws.id}`)[0].seats === 3);
+    // A member leaving frees a seat but does not give it back: the seats stay bought.
+    await new Promise((r) => setTimeout(r, 3000));
+    expect(await seatQty()).toBe(4);
     const seats = await call(ws, "owner", "/api/v1/billing/seats");
-    expect(seats.body).toMatchObject({ seats: 3, members: 3 });
+    expect(seats.body).toMatchObject({ seats: 4, members: 3, minimumSeats: 3 });
+    // Sync sets the seats to what is taken.
+    const synced = await call(ws, "billingAdmin", "/api/v1/billing/seats/sync", { method: "POST" });
+    expect(synced.status).toBe(200);
+    expect(synced.body).toEqual({ seats: 3, members: 3 });
+    expect(await seatQty()).toBe(3);
   });
 
   it("opens the portal stand-in and lists invoices with a preview of the next one", async () => {
@@ -172,6 +229,57 @@ describe("upgrade to Lab and seats", () => {
     expect(inv.body.invoices.length).toBeGreaterThan(0);
     expect(inv.body.invoices[0].status).toBe("paid");
     expect(inv.body.upcoming.totalUsd).toBeCloseTo(3 * 24, 2);
+  });
+});
+
+describe("the demo lab's payment account (seeded)", () => {
+  it("has a customer and a Lab subscription with one seat per member; its invoices show and its runs are metered", async () => {
+    const [lab] = await sql`select id, plan, seats, stripe_customer_id, stripe_subscription_id,
+      (select count(*)::int from memberships m where m.workspace_id = w.id) as members
+      from workspaces w where slug = 'larkspur-devices-lab'`;
+    expect(lab.plan).toBe("lab");
+    expect(lab.stripe_customer_id).toMatch(/^cus_/);
+    const sub = await stripe.subscriptions.retrieve(lab.stripe_subscription_id);
+    expect(sub.customer).toBe(lab.stripe_customer_id);
+    expect(sub.status).toBe("active");
+    expect(sub.metadata.workspace_id).toBe(lab.id);
+    expect(sub.collection_method).toBe("send_invoice");
+    const seatItem = sub.items.data.find((i) => i.price.recurring?.usage_type === "licensed")!;
+    expect(seatItem.quantity).toBe(lab.seats);
+    expect(lab.seats).toBeGreaterThanOrEqual(lab.members);
+    expect(sub.items.data.some((i) => i.price.recurring?.usage_type === "metered")).toBe(true);
+
+    const inv = await api("/api/v1/billing/invoices", { as: "billingAdmin" });
+    expect(inv.status).toBe(200);
+    const body = await inv.json();
+    expect(body.invoices.length).toBeGreaterThan(0);
+    const first = body.invoices[body.invoices.length - 1];
+    expect(first.totalUsd).toBeCloseTo(lab.seats * 24, 2);
+    expect(body.upcoming).not.toBeNull();
+
+    // A run of the demo lab becomes a ledger row and a meter event for the lab's customer.
+    const run = await api("/api/v1/runs", {
+      method: "POST",
+      as: "researcher",
+      json: {
+        network: {
+          lattice: "triangular",
+          size: { columns: 4, rows: 4 },
+          transverse: "periodic",
+          twistDegrees: 0.11,
+          modeVelocityMps: 1.0e6,
+          channelsPerLink: 1,
+          node: { forward: 0.6, left: 0.2, right: 0.2 },
+        },
+        computation: { kind: "conductance", energyMeV: 0.123 },
+      },
+    });
+    expect(run.status).toBe(202);
+    const runId = (await run.json()).id as string;
+    const ledger = await until("the demo run's ledger row", async () => (await sql`select id from usage_ledger where run_id = ${runId}`)[0], 120_000);
+    await until("its meter event sent", async () => (await sql`select status from meter_outbox where ledger_id = ${ledger.id}`)[0]?.status === "sent");
+    const events = await fakeMeterEvents(lab.stripe_customer_id);
+    expect(events.filter((e) => e.identifier === ledger.id)).toHaveLength(1);
   });
 });
 

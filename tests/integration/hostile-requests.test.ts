@@ -34,8 +34,9 @@ const DASHES = "-".repeat(36);
 const LISTS = ["/api/v1/runs", "/api/v1/sweeps", "/api/v1/networks", "/api/v1/fits", "/api/v1/datasets"] as const;
 
 let networkId = "";
-let datasetsBefore = new Set<string>();
-let tokensBefore = new Set<string>();
+// Null until beforeAll has recorded them: cleanup after a failed set-up must not take the seeded rows for its own.
+let datasetsBefore: Set<string> | null = null;
+let tokensBefore: Set<string> | null = null;
 let logFile = "";
 let logOffset = 0;
 let tried = 0;
@@ -122,7 +123,9 @@ beforeAll(async () => {
       "not_found",
       "payload_too_large",
       "payment_required",
+      "rate_limited",
       "unauthenticated",
+      "unavailable",
     ].sort(),
   );
   const created = await api("/api/v1/networks", { method: "POST", json: { name: "hostile requests target", network: NETWORK } });
@@ -136,10 +139,16 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await api(`/api/v1/networks/${networkId}`, { method: "DELETE" });
-  const datasets = (await sql`select id from datasets`).map((r) => r.id as string).filter((id) => !datasetsBefore.has(id));
-  if (datasets.length) await sql`delete from datasets where id in ${sql(datasets)} and not exists (select 1 from fits where fits.dataset_id = datasets.id)`;
-  const tokens = (await sql`select id from api_tokens`).map((r) => r.id as string).filter((id) => !tokensBefore.has(id));
-  if (tokens.length) await sql`delete from api_tokens where id in ${sql(tokens)}`;
+  const datasetsKept = datasetsBefore;
+  const tokensKept = tokensBefore;
+  if (datasetsKept) {
+    const datasets = (await sql`select id from datasets`).map((r) => r.id as string).filter((id) => !datasetsKept.has(id));
+    if (datasets.length) await sql`delete from datasets where id in ${sql(datasets)} and not exists (select 1 from fits where fits.dataset_id = datasets.id)`;
+  }
+  if (tokensKept) {
+    const tokens = (await sql`select id from api_tokens`).map((r) => r.id as string).filter((id) => !tokensKept.has(id));
+    if (tokens.length) await sql`delete from api_tokens where id in ${sql(tokens)}`;
+  }
   await sql.end();
 });
 

@@ -1,8 +1,8 @@
 // Members of a workspace (/api/v1/workspace/members) and invitations by e-mail, per the Roles
 // table of product.md: Owners manage members; Billing admins fill and free Researcher and Viewer
 // seats; others only read. Changes reach Clerk (the stand-in) and the PostgreSQL mirror.
-import { afterAll, describe, expect, it } from "vitest";
-import { api, appUrl } from "../support/services";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { api, appUrl, ensureFreeSeats } from "../support/services";
 import { createStandInUser, sessionCookies, sessionFetch, waitForMail } from "../support/session";
 
 const LAB_ORG = "org_demo_larkspur";
@@ -22,6 +22,11 @@ async function clerkMembers(orgId: string): Promise<{ role: string; public_user_
 
 // People these tests add to the demo lab leave it again, so the demo data stays as seeded.
 const joined: string[] = [];
+// Every invitation takes a seat of the demo lab: its Billing admin buys enough first.
+beforeAll(async () => {
+  await ensureFreeSeats(12);
+});
+
 afterAll(async () => {
   for (const userId of joined) await api(`/api/v1/workspace/members/${userId}`, { method: "DELETE", as: "owner" });
   const open = (await (await api("/api/v1/workspace/invitations", { as: "owner" })).json()).invitations as { id: string; email: string; status: string }[];
@@ -58,7 +63,11 @@ describe("listing members", () => {
     expect(body.invitations).toBeUndefined();
     const asOwner = await (await api("/api/v1/workspace/members", { as: "owner" })).json();
     expect(Array.isArray(asOwner.invitations)).toBe(true);
-    expect(asOwner.seats).toMatchObject({ plan: "lab", seats: 4 });
+    // Lab: the member limit is the seats bought, and every member and open invitation holds one.
+    expect(asOwner.seats.plan).toBe("lab");
+    expect(asOwner.seats.limit).toBe(asOwner.seats.seats);
+    expect(asOwner.seats.members).toBe(asOwner.members.length);
+    expect(asOwner.seats.seats).toBeGreaterThanOrEqual(asOwner.seats.members + asOwner.seats.pending);
   });
 
   it("a member of another workspace sees only their own workspace, never the lab's members", async () => {

@@ -42,3 +42,15 @@ export async function api(path: string, init: RequestInit & { as?: DemoTokenKey 
   }
   return failOnRateLimit(await fetch(new URL(path, appUrl()), { ...init, headers, body }), `${init.method ?? "GET"} ${path}`);
 }
+
+/**
+ * The demo lab's Billing admin buys seats so that `free` of them are open (for tests that invite
+ * people into the demo lab: each member and open invitation takes a seat). Only ever raises them.
+ */
+export async function ensureFreeSeats(free: number): Promise<void> {
+  const now = (await (await api("/api/v1/billing/seats", { as: "billingAdmin" })).json()) as { seats: number; minimumSeats: number };
+  const want = now.minimumSeats + free;
+  if (now.seats >= want) return;
+  const res = await api("/api/v1/billing/seats", { method: "PUT", as: "billingAdmin", json: { seats: want } });
+  if (res.status !== 200) throw new Error(`the demo lab could not buy seats: ${res.status} ${await res.text()}`);
+}

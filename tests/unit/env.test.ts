@@ -26,6 +26,9 @@ describe("environment validation (src/env.ts)", () => {
   it("gives the pool size, rate limits and meter sender their defaults", () => {
     const env = parseEnv(good);
     expect([env.DATABASE_POOL_SIZE, env.RATE_LIMIT_READS_PER_MINUTE, env.RATE_LIMIT_WRITES_PER_MINUTE]).toEqual([10, 600, 120]);
+    expect([env.RATE_LIMIT_FAILED_PER_MINUTE, env.TRUSTED_PROXY_HOPS, env.API_TOKENS_PER_MEMBER]).toEqual([60, 0, 20]);
+    expect(() => parseEnv({ ...good, TRUSTED_PROXY_HOPS: "-1" })).toThrowError(/TRUSTED_PROXY_HOPS is invalid/);
+    expect(() => parseEnv({ ...good, API_TOKENS_PER_MEMBER: "0" })).toThrowError(/API_TOKENS_PER_MEMBER is invalid/);
     expect([env.METER_SENDER_INTERVAL_MS, env.METER_SENDER_LEASE_SECONDS, env.METER_SENDER_WORKSPACE_ID]).toEqual([2000, 30, undefined]);
     const set = parseEnv({
       ...good,

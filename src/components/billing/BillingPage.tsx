@@ -9,7 +9,7 @@ import type { BillingOverview } from "@/shared/api";
 import { formatComputeSeconds, formatUsd } from "./CostEstimate";
 import { UsageByDayChart } from "./UsageByDayChart";
 
-const keys = { overview: ["billing"] as const, usage: ["usage"] as const, invoices: ["billing", "invoices"] as const };
+const keys = { overview: ["billing"] as const, usage: ["usage"] as const, invoices: ["billing", "invoices"] as const, seats: ["billing", "seats"] as const };
 const day = (iso: string) => iso.slice(0, 10);
 
 export function BillingPage() {
@@ -39,7 +39,6 @@ export function BillingPage() {
     mutationFn: () => api("POST /api/v1/billing/portal"),
     onSuccess: (r) => window.location.assign(r.url),
   });
-  const syncSeats = useMutation({ mutationFn: () => api("POST /api/v1/billing/seats/sync"), onSuccess: refresh });
 
   if (overview.isPending) return <Skeleton lines={6} />;
   if (overview.error) return <ErrorNote error={overview.error} title="Billing could not be loaded" />;
@@ -105,23 +104,7 @@ export function BillingPage() {
           {portal.error ? <ErrorNote error={portal.error} title="The portal did not open" /> : null}
         </section>
 
-        <section className="tk-card space-y-2 p-4" aria-labelledby="seats-h">
-          <h2 id="seats-h" className="text-body font-semibold">
-            Seats
-          </h2>
-          <p className="text-title font-semibold tk-num" data-testid="seats">
-            {o.plan === "lab" ? o.seats : "–"}
-          </p>
-          <p className="text-caption text-fg-soft">
-            {o.members} member{o.members === 1 ? "" : "s"}. Seats follow membership: inviting or removing a member changes the seat count (prorated by the
-            payment service).
-          </p>
-          {canManage && o.hasSubscription && o.seats !== Math.max(1, o.members) ? (
-            <button type="button" className="tk-btn-quiet" onClick={() => syncSeats.mutate()} disabled={syncSeats.isPending}>
-              Match seats to members now
-            </button>
-          ) : null}
-        </section>
+        <Seats o={o} canManage={canManage} onSaved={refresh} />
 
         <SpendCap o={o} canManage={canManage} onSaved={refresh} />
       </div>
@@ -238,6 +221,114 @@ function FigureTable({ testId, columns, numberColumns, children }: { testId: str
       </thead>
       <tbody>{children}</tbody>
     </table>
+  );
+}
+
+/**
+ * Seats bought and taken. The Owner and Billing admins change the number in two steps: the new
+ * monthly seat cost is shown first, and nothing is charged until they confirm.
+ */
+function Seats({ o, canManage, onSaved }: { o: BillingOverview; canManage: boolean; onSaved: () => void }) {
+  const manages = canManage && o.plan === "lab" && o.hasSubscription;
+  const seats = useQuery({ queryKey: keys.seats, queryFn: () => api("GET /api/v1/billing/seats"), enabled: manages });
+  const [draft, setDraft] = useState("");
+  const [review, setReview] = useState<number | null>(null);
+  const save = useMutation({
+    mutationFn: (n: number) => api("PUT /api/v1/billing/seats", { json: { seats: n } }),
+    onSuccess: () => {
+      setReview(null);
+      setDraft("");
+      void seats.refetch();
+      onSaved();
+    },
+  });
+  const s = seats.data;
+  const wanted = Number(draft);
+  const draftError =
+    draft.trim() === "" || !s
+      ? null
+      : !Number.isInteger(wanted)
+        ? "Enter a whole number of seats."
+        : wanted < s.minimumSeats
+          ? `At least ${s.minimumSeats}: every member and open invitation needs a seat.`
+          : wanted > s.maxSeats
+            ? `At most ${s.maxSeats} seats.`
+            : wanted === s.seats
+              ? "That is the number you have."
+              : null;
+  return (
+    <section className="tk-card space-y-2 p-4" aria-labelledby="seats-h">
+      <h2 id="seats-h" className="text-body font-semibold">
+        Seats
+      </h2>
+      <p className="text-title font-semibold tk-num" data-testid="seats">
+        {o.plan === "lab" ? o.seats : "–"}
+      </p>
+      <p className="text-caption text-fg-soft" data-testid="seats-taken">
+        {o.members} member{o.members === 1 ? "" : "s"}
+        {s ? `, ${s.pending} open invitation${s.pending === 1 ? "" : "s"}` : ""}
+        {o.plan === "lab"
+          ? `. Each member and each open invitation takes a seat; inviting past the seats bought asks for a seat first.`
+          : ". The Free plan has one member."}
+      </p>
+      {manages && s ? (
+        review === null ? (
+          <form
+            className="flex items-end gap-2"
+            onSubmit={(e) => {
+              e.preventDefault();
+              if (!draftError && draft.trim() !== "") setReview(wanted);
+            }}
+          >
+            <div>
+              <label htmlFor="seat-count" className="tk-label">
+                Seats wanted
+              </label>
+              <input
+                id="seat-count"
+                className="tk-field mt-1 w-24"
+                inputMode="numeric"
+                value={draft}
+                onChange={(e) => setDraft(e.target.value)}
+                placeholder={String(s.seats)}
+                aria-describedby="seat-count-note"
+                data-testid="seat-count"
+              />
+            </div>
+            <button type="submit" className="tk-btn-quiet" disabled={draft.trim() === "" || draftError !== null} data-testid="seat-review">
+              Review cost
+            </button>
+          </form>
+        ) : (
+          <div className="space-y-2 rounded-card border border-accent/40 bg-accent-soft p-3" role="status" data-testid="seat-cost">
+            <p className="text-body">
+              {review} seats × {s.seatPriceUsdPerMonth} USD = <strong className="tk-num">{formatUsd(review * s.seatPriceUsdPerMonth)}</strong> per month (now{" "}
+              {formatUsd(s.monthlySeatsUsd)}).
+            </p>
+            <p className="text-caption text-fg-soft">
+              {review > s.seats
+                ? `The ${review - s.seats} added seat${review - s.seats === 1 ? " is" : "s are"} charged for the rest of this period, prorated, on the next invoice.`
+                : `The ${s.seats - review} seat${s.seats - review === 1 ? "" : "s"} given back are credited for the rest of this period, prorated.`}
+            </p>
+            <div className="flex gap-2">
+              <button type="button" className="tk-btn" onClick={() => save.mutate(review)} disabled={save.isPending} data-testid="seat-confirm">
+                {save.isPending ? "Changing…" : `Confirm ${review} seats`}
+              </button>
+              <button type="button" className="tk-btn-quiet" onClick={() => setReview(null)} disabled={save.isPending}>
+                Back
+              </button>
+            </div>
+          </div>
+        )
+      ) : null}
+      {manages && s ? (
+        <p id="seat-count-note" className={`text-caption ${draftError ? "text-danger" : "text-fg-faint"}`}>
+          {draftError ?? `From ${s.minimumSeats} to ${s.maxSeats} seats.`}
+        </p>
+      ) : null}
+      {seats.error ? <ErrorNote error={seats.error} title="Seats could not be loaded" /> : null}
+      {save.error ? <ErrorNote error={save.error} title="Seats not changed" /> : null}
+    </section>
   );
 }
 

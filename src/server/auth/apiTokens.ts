@@ -3,8 +3,9 @@
  * The secret is returned once at creation; only its sha256 is stored, lists never show either.
  */
 import "@/server/server-only";
-import { and, desc, eq } from "drizzle-orm";
+import { and, count, desc, eq, isNull, sql } from "drizzle-orm";
 import { z } from "zod";
+import { env } from "@/env";
 import { getDb } from "@/server/db";
 import { apiTokens } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
@@ -60,10 +61,25 @@ export async function createToken(caller: Caller, input: z.infer<typeof createTo
     );
   }
   const secret = newTokenSecret();
-  const [row] = await getDb()
-    .insert(apiTokens)
-    .values({ workspaceId: caller.workspaceId, userId: caller.userId, name: input.name, role, tokenHash: hashToken(secret), prefix: displayPrefix(secret) })
-    .returning(columns);
+  const cap = env().API_TOKENS_PER_MEMBER;
+  const row = await getDb().transaction(async (tx) => {
+    // One creation at a time per member and workspace, so two at once cannot both pass the cap.
+    await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`api_tokens:${caller.workspaceId}:${caller.userId}`}, 0))`);
+    const mine = and(eq(apiTokens.workspaceId, caller.workspaceId), eq(apiTokens.userId, caller.userId), isNull(apiTokens.revokedAt));
+    const [{ active }] = await tx.select({ active: count() }).from(apiTokens).where(mine);
+    if (active >= cap)
+      throw new ApiError(
+        "conflict",
+        `You already have ${active} active API tokens in this workspace, the most a member may hold (${cap}); ` +
+          "revoke one you no longer use first (Workspace → API tokens, or DELETE /api/v1/tokens/{id}).",
+        { limit: cap, active },
+      );
+    const [created] = await tx
+      .insert(apiTokens)
+      .values({ workspaceId: caller.workspaceId, userId: caller.userId, name: input.name, role, tokenHash: hashToken(secret), prefix: displayPrefix(secret) })
+      .returning(columns);
+    return created;
+  });
   return { token: view(row), secret };
 }
 

@@ -3,7 +3,7 @@ import { and, eq, isNull } from "drizzle-orm";
 import { getDb } from "@/server/db";
 import { apiTokens, memberships, workspaces } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
-import { consumeRateLimit } from "@/server/http/rate-limit";
+import { assertFailedBudgetLeft, consumeMemberBudget, countFailedRequest } from "@/server/http/rate-limit";
 import { can, describeAction, lesserRole, rolesAllowed, ROLE_LABELS, type Action, type Role } from "@/shared/permissions";
 import { effectivePlan, type PlanId } from "@/shared/plans";
 import { hashToken, looksLikeToken } from "./tokens";
@@ -24,22 +24,64 @@ export interface Caller {
 /**
  * Resolves the caller of an API request: `Authorization: Bearer <API token>` or the browser
  * session. The one place a route learns its workspace, so no query can forget the scope.
+ *
+ * Rate limits (src/server/http/rate-limit.ts): a caller who authenticates spends their member
+ * budget (shared by all their tokens and their session); a request that fails to (no credentials,
+ * a malformed, unknown or revoked token) spends the client address's failed-request budget, and
+ * once that is spent a token from that address is refused with 429 before it is looked up, unless
+ * this process has seen the token work in the last minutes (so a working script is not locked out
+ * by someone else's failures behind the same address).
  */
 export async function getCaller(req: Request): Promise<Caller> {
   const header = req.headers.get("authorization");
   if (header) {
     const match = /^Bearer\s+(\S+)$/i.exec(header.trim());
-    if (!match) throw new ApiError("unauthenticated", "Authorization header must be `Bearer <API token>`.");
-    const caller = await callerFromToken(match[1]);
-    await consumeRateLimit(`token:${caller.tokenId}`, req.method);
+    if (!match) {
+      await countFailedRequest(req);
+      throw new ApiError("unauthenticated", "Authorization header must be `Bearer <API token>`.");
+    }
+    const secret = match[1];
+    if (!looksLikeToken(secret)) {
+      await countFailedRequest(req);
+      throw new ApiError("unauthenticated", "That is not a Triskel API token (they start with `trk_`).");
+    }
+    const hash = hashToken(secret);
+    if (!recentlyWorked(hash)) await assertFailedBudgetLeft(req);
+    let caller: Caller;
+    try {
+      caller = await callerFromToken(secret);
+    } catch (err) {
+      if (err instanceof ApiError && err.code === "unauthenticated") {
+        workedAt.delete(hash);
+        await countFailedRequest(req);
+      }
+      throw err;
+    }
+    rememberWorked(hash);
+    await consumeMemberBudget(caller.userId, req.method);
     return caller;
   }
   const fromSession = await (sessionResolver ?? defaultSessionResolver)(req);
   if (fromSession) {
-    await consumeRateLimit(`user:${fromSession.userId}`, req.method);
+    await consumeMemberBudget(fromSession.userId, req.method);
     return fromSession;
   }
+  await countFailedRequest(req);
   throw new ApiError("unauthenticated", "Sign in, or send `Authorization: Bearer <API token>` (create one under Workspace → API tokens).");
+}
+
+/** Hashes of tokens that authenticated in this process, with when (bounded; entries expire). */
+const workedAt = new Map<string, number>();
+const WORKED_TTL_MS = 10 * 60_000;
+const WORKED_MAX = 10_000;
+function recentlyWorked(hash: string): boolean {
+  const at = workedAt.get(hash);
+  return at !== undefined && at > Date.now() - WORKED_TTL_MS;
+}
+function rememberWorked(hash: string): void {
+  workedAt.delete(hash);
+  workedAt.set(hash, Date.now());
+  if (workedAt.size > WORKED_MAX) workedAt.delete(workedAt.keys().next().value as string);
 }
 
 /**

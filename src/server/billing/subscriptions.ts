@@ -3,14 +3,15 @@ import { count, eq, sql } from "drizzle-orm";
 import { PLANS } from "@/shared/plans";
 import { env } from "@/env";
 import { requirePermission, type Caller } from "@/server/auth";
-import { getDb } from "@/server/db";
+import { getDb, type Executor } from "@/server/db";
+import { seatUse } from "@/server/workspaces/members";
 import { memberships, workspaceBilling, workspaces } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
 import { budgetState } from "./budget";
 import { outboxSummary } from "./meter-sender";
 import { getStripe, stripePrices, stripeToApiError } from "./stripe";
 import { seatQuantity } from "./webhooks";
-import type { BillingOverview, CheckoutStart, InvoiceList, InvoiceView } from "@/shared/api";
+import type { BillingOverview, CheckoutStart, InvoiceList, InvoiceView, SeatsView, SeatUse } from "@/shared/api";
 export type { CheckoutStart, InvoiceView };
 
 /**
@@ -18,8 +19,8 @@ export type { CheckoutStart, InvoiceView };
  * the workspace row mirrors what its webhooks said (plan, state, seats).
  */
 
-async function workspaceOf(workspaceId: string) {
-  const [ws] = await getDb().select().from(workspaces).where(eq(workspaces.id, workspaceId));
+async function workspaceOf(workspaceId: string, db: Executor = getDb()) {
+  const [ws] = await db.select().from(workspaces).where(eq(workspaces.id, workspaceId));
   if (!ws) throw new ApiError("not_found", "Workspace not found.");
   return ws;
 }
@@ -93,8 +94,8 @@ export async function openPortal(caller: Caller): Promise<{ url: string }> {
   }
 }
 
-/** Sets the seat quantity of the Lab subscription (Stripe prorates). */
-async function applySeats(ws: typeof workspaces.$inferSelect, seats: number): Promise<number> {
+/** The seat quantity of the Lab subscription in Stripe set to `seats` (Stripe prorates); the row mirrors Stripe's answer. */
+async function applySeats(db: Executor, ws: typeof workspaces.$inferSelect, seats: number): Promise<number> {
   if (!ws.stripeSubscriptionId) throw new ApiError("conflict", "This workspace has no Lab subscription; seats are bought with the upgrade to Lab.");
   const stripe = getStripe();
   try {
@@ -104,51 +105,102 @@ async function applySeats(ws: typeof workspaces.$inferSelect, seats: number): Pr
     const item = sub.items.data.find((i) => i.price.id === prices.seatPriceId) ?? sub.items.data.find((i) => i.price.recurring?.usage_type !== "metered");
     if (!item) throw new ApiError("internal", "The Lab subscription has no seat item.");
     if (item.quantity !== seats) {
-      const updated = await stripe.subscriptions.update(sub.id, { items: [{ id: item.id, quantity: seats }], proration_behavior: "create_prorations" });
+      const updated = await stripe.subscriptions.update(
+        sub.id,
+        { items: [{ id: item.id, quantity: seats }], proration_behavior: "create_prorations" },
+        { idempotencyKey: `triskel-seats-${ws.id}-${item.quantity ?? 0}-to-${seats}-${Date.now()}` },
+      );
       seats = seatQuantity(updated);
     }
   } catch (err) {
     throw stripeToApiError(err, "change the number of seats");
   }
-  await getDb().update(workspaces).set({ seats, updatedAt: new Date() }).where(eq(workspaces.id, ws.id));
+  await db.update(workspaces).set({ seats, updatedAt: new Date() }).where(eq(workspaces.id, ws.id));
   return seats;
 }
 
-/**
- * Seat count follows membership: call after a member joins or leaves (invitations, removals).
- * Lab workspaces with a subscription get quantity = members; others are left alone.
- */
-export async function syncSeatsWithMembers(workspaceId: string): Promise<number | null> {
-  const ws = await workspaceOf(workspaceId);
-  if (ws.plan !== "lab" || !ws.stripeSubscriptionId) return null;
-  const members = Math.max(1, await memberCount(ws.id));
-  if (members === ws.seats) return members;
-  return applySeats(ws, members);
+/** The seats of a Lab workspace as a Billing admin sees them: bought, taken, the least it may have and what they cost. */
+function seatsView(seats: number, use: SeatUse): SeatsView {
+  const price = PLANS.lab.seatPriceUsdPerMonth;
+  return {
+    seats,
+    members: use.members,
+    pending: use.pending,
+    minimumSeats: Math.max(1, use.members + use.pending),
+    maxSeats: PLANS.lab.maxSeats,
+    seatPriceUsdPerMonth: price,
+    monthlySeatsUsd: Math.round(seats * price * 100) / 100,
+  };
 }
 
-/** POST /api/v1/billing/seats/sync: the Owner or a Billing admin brings the seat count in line now. */
-export async function syncSeats(caller: Caller): Promise<{ seats: number; members: number }> {
+/** GET /api/v1/billing/seats. */
+export async function getSeats(caller: Caller): Promise<SeatsView> {
   requirePermission(caller, "seats.manage");
-  const ws = await workspaceOf(caller.workspaceId);
+  const use = await seatUse(caller.workspaceId);
+  return seatsView(use.seats, use);
+}
+
+function requireSubscription(ws: typeof workspaces.$inferSelect) {
   if (ws.plan !== "lab" || !ws.stripeSubscriptionId)
     throw new ApiError("conflict", "This workspace has no Lab subscription; seats are bought with the upgrade to Lab.");
-  const members = await memberCount(ws.id);
-  return { seats: (await syncSeatsWithMembers(ws.id)) ?? ws.seats, members };
 }
 
-/** Worker pass: every Lab subscription whose seat count differs from its members is corrected. */
+/**
+ * PUT /api/v1/billing/seats: an Owner or Billing admin buys or gives back seats. Every member and
+ * every open invitation needs a seat, so the count cannot go below members + open invitations.
+ * The workspace row stays locked until Stripe has answered, so no invitation takes a seat meanwhile.
+ */
+export async function setSeats(caller: Caller, seats: number): Promise<SeatsView> {
+  requirePermission(caller, "seats.manage");
+  return getDb().transaction(async (tx) => {
+    const use = await seatUse(caller.workspaceId, tx, { lock: true });
+    requireSubscription(await workspaceOf(caller.workspaceId, tx));
+    const view = seatsView(use.seats, use);
+    if (seats < view.minimumSeats)
+      throw new ApiError(
+        "conflict",
+        `${seats} seat${seats === 1 ? "" : "s"} would not cover ${use.members} member${use.members === 1 ? "" : "s"} and ${use.pending} open ` +
+          `invitation${use.pending === 1 ? "" : "s"}: the least is ${view.minimumSeats}. Remove a member or revoke an invitation first.`,
+        { field: "seats", minimumSeats: view.minimumSeats, members: use.members, pending: use.pending },
+      );
+    const ws = await workspaceOf(caller.workspaceId, tx);
+    const now = await applySeats(tx, ws, seats);
+    return seatsView(now, use);
+  });
+}
+
+/** POST /api/v1/billing/seats/sync: seats set to what is taken now (members and open invitations, at least 1). */
+export async function syncSeats(caller: Caller): Promise<{ seats: number; members: number }> {
+  requirePermission(caller, "seats.manage");
+  return getDb().transaction(async (tx) => {
+    const use = await seatUse(caller.workspaceId, tx, { lock: true });
+    const ws = await workspaceOf(caller.workspaceId, tx);
+    requireSubscription(ws);
+    const seats = await applySeats(tx, ws, Math.max(1, use.members + use.pending));
+    return { seats, members: use.members };
+  });
+}
+
+/**
+ * Worker pass: a Lab subscription with fewer seats than members (members added outside the
+ * invitation flow, e.g. by an operator) gets one seat per member. Seats are never lowered here:
+ * giving seats back is the Billing admin's choice.
+ */
 export async function reconcileSeats(): Promise<number> {
   const rows = (await getDb().execute(sql`
     select w.id from workspaces w
     where w.plan = 'lab' and w.stripe_subscription_id is not null and w.plan_state <> 'suspended'
-      and w.seats <> greatest(1, (select count(*) from memberships m where m.workspace_id = w.id))`)) as unknown as { id: string }[];
+      and w.seats < (select count(*) from memberships m where m.workspace_id = w.id)`)) as unknown as { id: string }[];
   let changed = 0;
   for (const r of rows) {
     try {
-      await syncSeatsWithMembers(r.id);
+      await getDb().transaction(async (tx) => {
+        const use = await seatUse(r.id, tx, { lock: true });
+        if (use.seats < use.members) await applySeats(tx, await workspaceOf(r.id, tx), use.members);
+      });
       changed++;
     } catch (err) {
-      console.error(`[billing] seats of workspace ${r.id} not synced: ${(err as Error).message}`);
+      console.error(`[billing] seats of workspace ${r.id} not raised to its members: ${(err as Error).message}`);
     }
   }
   return changed;

@@ -12,9 +12,11 @@ import { getDb } from "@/server/db";
 import { datasets } from "@/server/db/schema";
 import { beforeTime, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
-import { DATASET_MAX_BYTES, DatasetCsvError, parseDatasetCsv, type ColumnMapping, type ParsedDataset } from "@/shared/csv";
+import { readBodyCapped } from "@/server/http/body";
+import { INLINE_LIMITS, runAnalysis } from "@/server/offload";
+import { countCsvRecords, DATASET_MAX_BYTES, DATASET_MAX_ROWS, DatasetCsvError, parseDatasetCsv, type ColumnMapping, type ParsedDataset } from "@/shared/csv";
 import { X_UNITS, Y_UNITS } from "@/shared/units";
-import { analysePeriod, PeriodAnalysisError } from "./period";
+import { PeriodAnalysisError, periodFftLength } from "@/shared/period";
 import type { DatasetDetail, DatasetPeriod, DatasetPoints, DatasetSummary } from "@/shared/api";
 
 export const uploadFields = z.object({
@@ -74,14 +76,18 @@ export interface NewDataset {
   synthetic?: boolean;
 }
 
-/** Parses and stores; throws ApiError 422 naming row and column on a bad file. */
-export async function insertDataset(workspaceId: string, userId: string | null, input: NewDataset) {
-  let parsed: ParsedDataset;
-  try {
-    parsed = parseDatasetCsv(input.csv, input.mapping);
-  } catch (err) {
-    if (err instanceof DatasetCsvError) throw csvErrorToApi(err);
-    throw err;
+/**
+ * Parses (unless the caller already did: `parsed`, from the same csv and mapping) and stores;
+ * throws ApiError 422 naming row and column on a bad file.
+ */
+export async function insertDataset(workspaceId: string, userId: string | null, input: NewDataset, parsed?: ParsedDataset) {
+  if (!parsed) {
+    try {
+      parsed = parseDatasetCsv(input.csv, input.mapping);
+    } catch (err) {
+      if (err instanceof DatasetCsvError) throw csvErrorToApi(err);
+      throw err;
+    }
   }
   const points: DatasetPoints = { x: parsed.x, y: parsed.y, sigma: parsed.sigma, temperatureK: parsed.temperatureK };
   const [row] = await getDb()
@@ -124,9 +130,15 @@ export async function createDatasetFromRequest(caller: Caller, req: Request) {
       { contentType: type || null },
     );
   }
+  // Read at most the limit, however the body is sent (a chunked upload declares no length).
+  const body = await readBodyCapped(req, DATASET_MAX_BYTES + 64 * 1024, (bytes) => {
+    return new ApiError("payload_too_large", `The upload is over ${bytes} bytes; CSV files may be at most ${DATASET_MAX_BYTES} bytes (5 MB).`, {
+      limitBytes: DATASET_MAX_BYTES,
+    });
+  });
   let form: FormData;
   try {
-    form = await req.formData();
+    form = await new Response(body, { headers: { "content-type": type } }).formData();
   } catch (e) {
     throw new ApiError("bad_request", `The multipart body could not be read: ${(e as Error).message}`);
   }
@@ -164,7 +176,23 @@ export async function createDatasetFromRequest(caller: Caller, req: Request) {
     ...(f.sigmaColumn ? { sigmaColumn: f.sigmaColumn } : {}),
     ...(f.temperatureColumn ? { temperatureColumn: f.temperatureColumn } : {}),
   };
-  const row = await insertDataset(caller.workspaceId, caller.userId, { name: f.name, csv, filename, mapping, description: f.description });
+  // Over the row limit: refused before the parse, when counting lines decides it (countCsvRecords).
+  const records = countCsvRecords(bytes);
+  if (records !== null && records - 1 > DATASET_MAX_ROWS) {
+    throw csvErrorToApi(
+      new DatasetCsvError([
+        { code: "too_many_rows", row: null, column: null, message: `The file has ${records - 1} rows; at most ${DATASET_MAX_ROWS} are allowed.` },
+      ]),
+    );
+  }
+  let parsed: ParsedDataset;
+  try {
+    parsed = await runAnalysis({ kind: "datasetCsv", csv, mapping }, bytes.byteLength <= INLINE_LIMITS.csvBytes);
+  } catch (err) {
+    if (err instanceof DatasetCsvError) throw csvErrorToApi(err);
+    throw err;
+  }
+  const row = await insertDataset(caller.workspaceId, caller.userId, { name: f.name, csv, filename, mapping, description: f.description }, parsed);
   return datasetSummary(row);
 }
 
@@ -239,7 +267,8 @@ export async function periodOfDataset(caller: Caller, id: string, body: unknown)
   }
   const p = d.points as DatasetPoints;
   try {
-    const a = analysePeriod(p.x, p.y, parsed.data);
+    const inline = periodFftLength(p.x.length, parsed.data.zeroPadFactor) <= INLINE_LIMITS.periodFftLength;
+    const a = await runAnalysis({ kind: "period", fieldTesla: p.x, conductance: p.y, options: parsed.data }, inline);
     return { datasetId: d.id, dataHash: d.dataHash, synthetic: d.synthetic, ...a, field: p.x };
   } catch (err) {
     if (err instanceof PeriodAnalysisError) throw new ApiError("invalid_input", err.message, { field: err.field });

@@ -32,7 +32,8 @@ export const DEMO_LAB = {
   slug: "larkspur-devices-lab",
   clerkOrgId: "org_demo_larkspur",
   plan: "lab" as const,
-  seats: 4,
+  /** Seats bought: one per member and one free, so the demo can invite one person before it asks for a seat. */
+  seats: 6,
   spendCapUsd: "250.00",
   members: [
     { key: "owner", role: "owner" },

@@ -45,7 +45,8 @@ export default function runFitTask(task: FitTask): FitTaskOutcome {
       {
         shouldCancel: () => Atomics.load(flags, 0) === 1,
         onIteration: (i) => {
-          Atomics.store(flags, 1, (i.start - 1) * i.maxIterations + i.iteration);
+          // Iterations of Levenberg-Marquardt so far (0 during the global stage).
+          Atomics.store(flags, 1, i.stage === "global" ? 0 : (i.start - 1) * i.maxIterations + i.iteration);
           floats[0] = i.progress;
           floats[1] = i.chi2;
         },

@@ -2,22 +2,42 @@
  * Least-squares fit of model parameters to a measured curve. Pure (no I/O): the model is a
  * function from parameter values to the model curve at the data's x values.
  *
- * Algorithm: Levenberg-Marquardt. Each damped Gauss-Newton step is taken by
- * ml-levenberg-marquardt (one iteration per call, forward-difference Jacobian, on residuals
- * pre-divided by sigma); this module
- * drives the damping (down by 9 after an accepted step, up by 11 after a rejected one), the
- * stopping rule, progress per iteration and cancellation. Parameters are fitted in coordinates
- * scaled to their bounds (u = (p - min) / (max - min) in [0, 1]) so that modeVelocityMps ~ 1e6
- * and node.forward ~ 0.5 are treated alike.
+ * Two stages (docs/data-and-fits.md, "Method"):
+ * 1. Global stage (on by default): `globalStarts` points spread over the bounds of every fitted
+ *    parameter by a seeded Latin hypercube (the user's initial values are one of them), the
+ *    model curve and chi2 evaluated at each. The chi2 landscape of coherent conductance is
+ *    rugged, so one local descent from one start is not a fit.
+ * 2. Local stage: Levenberg-Marquardt from the `multiStart` best distinct global points (default
+ *    3); with the global stage off, from the initial values plus (multiStart - 1) seeded random
+ *    points, as before. The best chi2 wins.
+ *
+ * Levenberg-Marquardt: each damped Gauss-Newton step is taken by ml-levenberg-marquardt (one
+ * iteration per call, forward-difference Jacobian, on residuals pre-divided by sigma); this
+ * module drives the damping (down by 9 after an accepted step, up by 11 after a rejected one),
+ * the stopping rule, progress per iteration and cancellation. Parameters are fitted in
+ * coordinates scaled to their bounds (u = (p - min) / (max - min) in [0, 1]) so that
+ * modeVelocityMps ~ 1e6 and node.forward ~ 0.5 are treated alike.
+ *
+ * Stopping rule: a descent has converged when, after at least one accepted step, two iterations
+ * in a row change chi2 by less than `tolerance` (relative; an accepted step with a tiny gain, or a
+ * rejected one with a tiny change or the damping at its ceiling), or chi2 is 0. Rejected steps
+ * before any accepted one never count: a descent that cannot leave its start stops when the
+ * damping reaches its ceiling and reports not converged (flag "not_moved").
  *
  * Uncertainties: covariance C = (J^T W J)^-1 * chi2/dof, J the Jacobian of the model in
  * physical units (central differences at the optimum), W = diag(1/sigma^2) (W = 1 without a
  * sigma column), i.e. the usual scaling by the residual variance. Standard errors are sqrt(C_ii).
+ * The inverse is taken of J^T W J scaled to unit diagonal, whose condition number is also the
+ * test for parameters the data cannot determine.
+ *
+ * The outcome is judged by the checks in FIT_CHECKS (one table, documented in
+ * docs/data-and-fits.md): every problem gives a flag code and a warning, and any flag makes the
+ * fit's quality "poor".
  */
 import { levenbergMarquardt } from "ml-levenberg-marquardt";
-import { Matrix, pseudoInverse } from "ml-matrix";
-import type { FitParameterResult, FitParameterSpec, FitResult } from "@/shared/api";
-export type { FitParameterResult, FitParameterSpec, FitResult };
+import { EigenvalueDecomposition, Matrix, pseudoInverse } from "ml-matrix";
+import type { FitFlag, FitParameterResult, FitParameterSpec, FitResult, FitStart } from "@/shared/api";
+export type { FitFlag, FitParameterResult, FitParameterSpec, FitResult, FitStart };
 
 export interface FitData {
   x: number[];
@@ -29,27 +49,79 @@ export interface FitData {
 export type CurveModel = (values: Record<string, number>) => number[];
 
 export interface FitOptions {
-  /** Iterations per start (default 40). */
+  /** Iterations per local descent (default 40). */
   maxIterations?: number;
-  /** Number of starts: the given initial values plus (n - 1) seeded random points in the bounds. */
+  /**
+   * Number of local Levenberg-Marquardt descents. Global stage on: from the best distinct global
+   * points (default 3). Global stage off: the initial values plus (n - 1) seeded random points
+   * in the bounds (default 1).
+   */
   multiStart?: number;
+  /** Points of the global stage, the initial values included (default defaultGlobalStarts(k)); 0 or 1 turns it off. */
+  globalStarts?: number;
   seed?: number;
-  /** Relative change of chi2 below which an accepted step counts as converged (default 1e-7). */
+  /** Relative change of chi2 below which an iteration counts as quiet (default 1e-7). */
   tolerance?: number;
   onIteration?: (info: FitIterationInfo) => void;
   shouldCancel?: () => boolean;
 }
 
 export interface FitIterationInfo {
+  stage: "global" | "local";
+  /** Local descent number (1-based); 0 in the global stage. */
   start: number;
   starts: number;
+  /** Iteration of the local descent; in the global stage the number of points evaluated. */
   iteration: number;
   maxIterations: number;
+  /** The best chi2 so far in this descent (global stage: over the points evaluated). */
   chi2: number;
   values: Record<string, number>;
   /** Estimated fraction of the whole fit done, 0-1. */
   progress: number;
 }
+
+/** Most points of the global stage (also the API's limit). */
+export const MAX_GLOBAL_STARTS = 256;
+/** Most local descents (also the API's limit). */
+export const MAX_LOCAL_STARTS = 16;
+
+/**
+ * Thresholds of the outcome checks, in one place (docs/data-and-fits.md, "Warnings and their
+ * thresholds", lists the same numbers).
+ */
+export const FIT_CHECKS = {
+  /** chi2/dof above this with a sigma column: the model does not describe the data (or sigma is too small). */
+  chi2PerDofHigh: 3,
+  /** chi2/dof below this with a sigma column: sigma too large, or the model over-fits. */
+  chi2PerDofLow: 0.2,
+  /**
+   * Without a sigma column: the residual variance over the noise variance estimated from the
+   * residuals' second differences (white noise gives about 1); above this the residuals carry
+   * structure the model misses.
+   */
+  residualStructureHigh: 3,
+  /** Fewest points for the structure check without a sigma column. */
+  residualStructureMinPoints: 10,
+  /** A scaled coordinate (0 at min, 1 at max) within this of 0 or 1 is on a bound. */
+  boundTolerance: 1e-6,
+  /** The best values within this (scaled, every coordinate) of their start: the fit did not move. */
+  notMovedTolerance: 1e-6,
+  /** Condition number of J^T W J scaled to unit diagonal above which a combination of parameters is undetermined. */
+  conditionNumberMax: 1e8,
+  /** A parameter whose eigenvector component in such a null direction exceeds this is named. */
+  nullDirectionComponent: 0.3,
+  /** stderr above this many bound widths: the data do not determine the parameter. */
+  stderrOverWidthMax: 1,
+  /** Competing minima, weighted: chi2 within this many units (times max(1, chi2/dof)) of the best. */
+  competingChi2Units: 4,
+  /** Competing minima, unweighted: chi2 within this fraction of the best. */
+  competingChi2Fraction: 0.1,
+  /** ... and some parameter further from the best than this many of its stderr ... */
+  competingStderrs: 3,
+  /** ... and than this fraction of its bound width. */
+  competingWidthFraction: 0.02,
+} as const;
 
 export class FitCancelled extends Error {
   constructor() {
@@ -83,7 +155,22 @@ export function validateSpecs(specs: FitParameterSpec[], points: number): void {
     throw new FitInputError(`The dataset has ${points} points; fitting ${specs.length} parameters needs more points than parameters.`, "fit");
 }
 
-/** Deterministic generator for the multi-start points (mulberry32). */
+/** Default number of global points for k fitted parameters: 8k + 8, at most 64. */
+export function defaultGlobalStarts(parameters: number): number {
+  return Math.min(64, 8 * parameters + 8);
+}
+
+/** The two stages' sizes as the fitter will run them (also used for the estimate). */
+export function fitStages(parameters: number, options: Pick<FitOptions, "globalStarts" | "multiStart" | "maxIterations"> = {}) {
+  const requested = Math.floor(options.globalStarts ?? defaultGlobalStarts(parameters));
+  const globalStarts = requested <= 1 ? 0 : Math.min(MAX_GLOBAL_STARTS, requested);
+  const localDefault = globalStarts > 0 ? 3 : 1;
+  let localStarts = Math.max(1, Math.min(MAX_LOCAL_STARTS, Math.floor(options.multiStart ?? localDefault)));
+  if (globalStarts > 0) localStarts = Math.min(localStarts, globalStarts);
+  return { globalStarts, localStarts, maxIterations: options.maxIterations ?? 40 };
+}
+
+/** Deterministic generator for the start points (mulberry32). */
 function rng(seed: number) {
   let a = seed >>> 0;
   return () => {
@@ -95,18 +182,45 @@ function rng(seed: number) {
   };
 }
 
+/** Latin hypercube of `count` points in [0, 1]^k: in every coordinate each of the count strata holds exactly one point. */
+export function latinHypercube(count: number, k: number, random: () => number): number[][] {
+  const columns = Array.from({ length: k }, () => {
+    const perm = Array.from({ length: count }, (_, i) => i);
+    for (let i = count - 1; i > 0; i--) {
+      const j = Math.floor(random() * (i + 1));
+      [perm[i], perm[j]] = [perm[j], perm[i]];
+    }
+    return perm.map((stratum) => (stratum + random()) / count);
+  });
+  return Array.from({ length: count }, (_, i) => columns.map((c) => c[i]));
+}
+
+const maxAbsDiff = (a: number[], b: number[]) => a.reduce((m, v, i) => Math.max(m, Math.abs(v - b[i])), 0);
+
+interface Descent {
+  index: number;
+  u0: number[];
+  u: number[];
+  chi2: number;
+  iterations: number;
+  converged: boolean;
+  accepted: number;
+}
+
 export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSpec[], options: FitOptions = {}): FitResult {
   const n = data.x.length;
   validateSpecs(specs, n);
   if (data.y.length !== n) throw new FitInputError("x and y must have the same length.", "data");
-  const maxIterations = options.maxIterations ?? 40;
-  const starts = Math.max(1, Math.min(16, Math.floor(options.multiStart ?? 1)));
+  const k = specs.length;
+  const { globalStarts, localStarts, maxIterations } = fitStages(k, options);
   const tolerance = options.tolerance ?? 1e-7;
   const weighted = !!data.sigma;
   const sigma = data.sigma ?? new Array<number>(n).fill(1);
-  const k = specs.length;
+  const initial = specs.map((s) => (s.initial - s.min) / (s.max - s.min));
   const toValues = (u: ArrayLike<number>) => {
     const v: Record<string, number> = {};
+    // The initial point in the user's own numbers (scaling there and back may change the last digit).
+    if (Array.from(u).every((ui, i) => ui === initial[i])) return Object.fromEntries(specs.map((s) => [s.parameter, s.initial]));
     specs.forEach((s, i) => (v[s.parameter] = s.min + Math.min(1, Math.max(0, u[i])) * (s.max - s.min)));
     return v;
   };
@@ -115,16 +229,20 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
   // same vector more than once per iteration.
   let evaluations = 0;
   const cache = new Map<string, number[]>();
+  const keyOf = (u: ArrayLike<number>) => Array.from(u, (v) => v.toPrecision(15)).join(",");
+  const remember = (key: string, y: number[]) => {
+    if (y.length !== n) throw new Error(`model returned ${y.length} values for ${n} points`);
+    if (cache.size > 64) cache.delete(cache.keys().next().value!);
+    cache.set(key, y);
+  };
   const curveAt = (u: ArrayLike<number>): number[] => {
-    const key = Array.from(u, (v) => v.toPrecision(15)).join(",");
+    const key = keyOf(u);
     const hit = cache.get(key);
     if (hit) return hit;
     if (options.shouldCancel?.()) throw new FitCancelled();
     const y = model(toValues(u));
     evaluations++;
-    if (y.length !== n) throw new Error(`model returned ${y.length} values for ${n} points`);
-    if (cache.size > 64) cache.delete(cache.keys().next().value!);
-    cache.set(key, y);
+    remember(key, y);
     return y;
   };
   const chi2Of = (y: number[]) => {
@@ -135,6 +253,54 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
     }
     return s;
   };
+  // Progress: the global points' share of the expected evaluations, then the descents'.
+  const perDescent = maxIterations * (k + 1);
+  const globalShare = globalStarts / (globalStarts + localStarts * perDescent || 1);
+
+  const random = rng(options.seed ?? 1);
+  const allStarts: FitStart[] = [];
+
+  // Global stage. The points are independent: evaluated here one after another (each a model
+  // curve), in a loop over a list so that a batch evaluator (e.g. on the worker pool) can
+  // replace it without touching the rest.
+  let globalPoints: { u: number[]; chi2: number }[] = [];
+  if (globalStarts > 0) {
+    const points = [initial, ...latinHypercube(globalStarts - 1, k, random)];
+    let bestSoFar = Infinity;
+    globalPoints = points.map((u, i) => {
+      const chi2 = chi2Of(curveAt(u));
+      if (chi2 < bestSoFar) bestSoFar = chi2;
+      options.onIteration?.({
+        stage: "global",
+        start: 0,
+        starts: localStarts,
+        iteration: i + 1,
+        maxIterations,
+        chi2: bestSoFar,
+        values: toValues(u),
+        progress: (globalShare * (i + 1)) / points.length,
+      });
+      return { u, chi2 };
+    });
+    globalPoints.forEach((g, i) =>
+      allStarts.push({ start: i + 1, stage: "global", initial: toValues(g.u), final: toValues(g.u), chi2: g.chi2, iterations: 0, converged: false }),
+    );
+  }
+
+  // The local stage's starts: the best distinct global points, or the initial values plus random points.
+  const localFrom: number[][] = [];
+  if (globalStarts > 0) {
+    const order = globalPoints.map((g, i) => ({ g, i })).sort((a, b) => a.g.chi2 - b.g.chi2 || a.i - b.i);
+    for (const { g } of order) {
+      if (localFrom.length >= localStarts) break;
+      if (localFrom.some((u) => maxAbsDiff(u, g.u) < FIT_CHECKS.notMovedTolerance)) continue;
+      localFrom.push(g.u);
+    }
+  } else {
+    localFrom.push(initial);
+    for (let s = 1; s < localStarts; s++) localFrom.push(specs.map(() => 0.05 + 0.9 * random()));
+  }
+
   // The library calls f(params)(x) per point; x here is the point index. Data and model are
   // pre-whitened (divided by sigma) and the library's own weights left at 1.
   const indices = Array.from({ length: n }, (_, i) => i);
@@ -144,21 +310,15 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
     return (i: number) => y[i] / sigma[i];
   };
 
-  const random = rng(options.seed ?? 1);
-  const startPoints: number[][] = [specs.map((s) => (s.initial - s.min) / (s.max - s.min))];
-  for (let s = 1; s < starts; s++) startPoints.push(specs.map(() => 0.05 + 0.9 * random()));
-
-  const startSummaries: FitResult["starts"] = [];
-  let best: { u: number[]; chi2: number; iterations: number; converged: boolean } | null = null;
-  let totalIterations = 0;
-  startPoints.forEach((u0, startIndex) => {
+  const descend = (u0: number[], index: number): Descent => {
     let u = u0.slice();
     let chi2 = chi2Of(curveAt(u));
     let damping = 1e-2;
     let iterations = 0;
-    let converged = false;
+    let accepted = 0;
+    let converged = chi2 === 0;
     let quiet = 0;
-    while (iterations < maxIterations) {
+    while (!converged && iterations < maxIterations) {
       iterations++;
       const r = levenbergMarquardt(lmData, parameterized, {
         initialValues: u,
@@ -171,36 +331,51 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
       });
       const next = r.parameterValues;
       const nextChi2 = chi2Of(curveAt(next));
+      let stalled = false;
       if (nextChi2 < chi2) {
         const rel = (chi2 - nextChi2) / Math.max(chi2, 1e-300);
         u = next.slice();
         chi2 = nextChi2;
+        accepted++;
         damping = Math.max(damping / 9, 1e-7);
         quiet = rel < tolerance ? quiet + 1 : 0;
       } else {
         damping = Math.min(damping * 11, 1e7);
-        // A rejected step that changes chi2 by less than the tolerance: nothing left to gain.
-        quiet = damping >= 1e6 || (nextChi2 - chi2) / Math.max(chi2, 1e-300) < tolerance ? quiet + 1 : quiet;
+        // Only after an accepted step does a rejected step with a tiny change (or the damping at
+        // its ceiling) mean there is nothing left to gain; before one, the descent is stuck.
+        if (accepted > 0) quiet = damping >= 1e6 || (nextChi2 - chi2) / Math.max(chi2, 1e-300) < tolerance ? quiet + 1 : quiet;
+        else stalled = damping >= 1e6;
       }
       options.onIteration?.({
-        start: startIndex + 1,
-        starts,
+        stage: "local",
+        start: index + 1,
+        starts: localFrom.length,
         iteration: iterations,
         maxIterations,
         chi2,
         values: toValues(u),
-        progress: Math.min(1, (startIndex + iterations / maxIterations) / starts),
+        progress: Math.min(1, globalShare + ((1 - globalShare) * (index + iterations / maxIterations)) / localFrom.length),
       });
-      if (quiet >= 2 || chi2 === 0) {
-        converged = true;
-        break;
-      }
+      if (quiet >= 2 || chi2 === 0) converged = true;
+      if (stalled) break;
     }
-    totalIterations += iterations;
-    startSummaries.push({ start: startIndex + 1, initial: toValues(u0), chi2, iterations });
-    if (!best || chi2 < best.chi2) best = { u, chi2, iterations, converged };
-  });
-  const b = best!;
+    return { index, u0, u, chi2, iterations, converged, accepted };
+  };
+
+  const descents = localFrom.map((u0, i) => descend(u0, i));
+  descents.forEach((d) =>
+    allStarts.push({
+      start: allStarts.length + 1,
+      stage: "local",
+      initial: toValues(d.u0),
+      final: toValues(d.u),
+      chi2: d.chi2,
+      iterations: d.iterations,
+      converged: d.converged,
+    }),
+  );
+  const b = descents.reduce((best, d) => (d.chi2 < best.chi2 ? d : best));
+  const totalIterations = descents.reduce((s, d) => s + d.iterations, 0);
   const values = toValues(b.u);
   const curve = curveAt(b.u);
   const residuals = data.y.map((y, i) => y - curve[i]);
@@ -221,24 +396,136 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
   }
   const JtJ = J.transpose().mmul(J);
   const s2 = b.chi2 / dof;
-  const cov = pseudoInverse(JtJ).mul(s2);
+  // Scaled to unit diagonal (a parameter the model ignores keeps a zero row and column).
+  const d = specs.map((_, j) => (JtJ.get(j, j) > 0 ? 1 / Math.sqrt(JtJ.get(j, j)) : 0));
+  const N = new Matrix(k, k);
+  for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) N.set(i, j, JtJ.get(i, j) * d[i] * d[j]);
+  const ignored = specs.map((_, j) => d[j] === 0);
+  const nullDirection = new Array<boolean>(k).fill(false);
+  // Condition number over the parameters the model depends on at all (the others are flagged on their own).
+  const active = specs.map((_, j) => j).filter((j) => !ignored[j]);
+  let conditionNumber: number | null = null;
+  if (active.length > 0) {
+    const sub = new Matrix(active.length, active.length);
+    active.forEach((a, i) => active.forEach((c, j) => sub.set(i, j, N.get(a, c))));
+    const eig = new EigenvalueDecomposition(sub, { assumeSymmetric: true });
+    const lambda = eig.realEigenvalues;
+    const lmax = Math.max(...lambda);
+    const lmin = Math.min(...lambda);
+    conditionNumber = lmin > 0 ? lmax / lmin : null;
+    lambda.forEach((l, c) => {
+      if (l > lmax / FIT_CHECKS.conditionNumberMax) return;
+      active.forEach((j, i) => {
+        if (Math.abs(eig.eigenvectorMatrix.get(i, c)) > FIT_CHECKS.nullDirectionComponent) nullDirection[j] = true;
+      });
+    });
+  }
+  const Ninv = pseudoInverse(N, 1e-14);
+  const cov = new Matrix(k, k);
+  for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) cov.set(i, j, Ninv.get(i, j) * d[i] * d[j] * s2);
+
+  const flags = new Set<FitFlag>();
   const warnings: string[] = [];
   const parameters: FitParameterResult[] = specs.map((s, j) => {
     const v = cov.get(j, j);
     const value = values[s.parameter];
-    const atBound = b.u[j] <= 1e-6 || b.u[j] >= 1 - 1e-6;
-    if (atBound) warnings.push(`${s.parameter} ended on a bound (${value}); widen [${s.min}, ${s.max}] or fix it.`);
-    const undetermined = !(v > 0) || JtJ.get(j, j) === 0;
-    if (undetermined) warnings.push(`${s.parameter} is not determined by the data (the model does not change with it here).`);
-    return { parameter: s.parameter, value, stderr: undetermined ? null : Math.sqrt(v), initial: s.initial, min: s.min, max: s.max, atBound };
+    const width = s.max - s.min;
+    const atBound = b.u[j] <= FIT_CHECKS.boundTolerance || b.u[j] >= 1 - FIT_CHECKS.boundTolerance;
+    if (atBound) {
+      flags.add("on_bound");
+      warnings.push(`${s.parameter} ended on a bound (${value}); widen [${s.min}, ${s.max}] or fix it.`);
+    }
+    let stderr: number | null = v > 0 ? Math.sqrt(v) : null;
+    if (ignored[j] || stderr === null) {
+      flags.add("undetermined");
+      warnings.push(`${s.parameter} is not determined by the data (the model does not change with it here).`);
+      stderr = null;
+    } else if (nullDirection[j]) {
+      flags.add("undetermined");
+      warnings.push(
+        `${s.parameter} is not determined by the data: with the other fitted parameters it changes the model along one combination only ` +
+          `(condition number above ${FIT_CHECKS.conditionNumberMax.toExponential(0)}); fix one of them.`,
+      );
+      stderr = null;
+    } else if (stderr > FIT_CHECKS.stderrOverWidthMax * width) {
+      flags.add("undetermined");
+      warnings.push(`${s.parameter} is hardly determined by the data: its standard error (${stderr.toPrecision(3)}) exceeds its range [${s.min}, ${s.max}].`);
+    }
+    return { parameter: s.parameter, value, stderr, initial: s.initial, min: s.min, max: s.max, atBound };
   });
   const correlation = specs.map((_, i) =>
     specs.map((__, j) => {
-      const d = Math.sqrt(cov.get(i, i) * cov.get(j, j));
-      return i === j ? 1 : d > 0 ? Math.max(-1, Math.min(1, cov.get(i, j) / d)) : 0;
+      const dd = Math.sqrt(cov.get(i, i) * cov.get(j, j));
+      return i === j ? 1 : dd > 0 ? Math.max(-1, Math.min(1, cov.get(i, j) / dd)) : 0;
     }),
   );
-  if (!b.converged) warnings.push(`The fit stopped after ${maxIterations} iterations without meeting the convergence rule; the values may still move.`);
+
+  // Goodness of fit.
+  let residualStructure: number | null = null;
+  if (weighted) {
+    if (s2 > FIT_CHECKS.chi2PerDofHigh) {
+      flags.add("chi2_high");
+      warnings.push(
+        `chi2/dof is ${s2.toPrecision(3)} (above ${FIT_CHECKS.chi2PerDofHigh}): the model does not describe the data within their uncertainties, or the uncertainties are too small.`,
+      );
+    } else if (s2 < FIT_CHECKS.chi2PerDofLow) {
+      flags.add("chi2_low");
+      warnings.push(
+        `chi2/dof is ${s2.toPrecision(3)} (below ${FIT_CHECKS.chi2PerDofLow}): the uncertainty column looks too large for the scatter of the data.`,
+      );
+    }
+  } else if (n >= FIT_CHECKS.residualStructureMinPoints) {
+    residualStructure = residualStructureRatio(data.x, residuals, dof);
+    if (residualStructure !== null && residualStructure > FIT_CHECKS.residualStructureHigh) {
+      flags.add("chi2_high");
+      warnings.push(
+        `The residuals are ${residualStructure.toPrecision(3)} times the point-to-point noise estimated from them (above ${FIT_CHECKS.residualStructureHigh}): ` +
+          `the model misses structure in the data. Without an uncertainty column chi2/dof is in (e2/h)^2 and is judged this way.`,
+      );
+    }
+  }
+
+  // Did the fit move?
+  const stuck = b.accepted === 0 || (globalStarts === 0 && maxAbsDiff(b.u, b.u0) < FIT_CHECKS.notMovedTolerance);
+  if (stuck) {
+    flags.add("not_moved");
+    warnings.push(
+      globalStarts === 0
+        ? "The fit did not move from its start: the values are the initial values. Turn the global stage on (globalStarts) or start elsewhere."
+        : "The best local descent could not improve on its start point; the values are a point of the global stage.",
+    );
+  }
+  if (!b.converged) {
+    flags.add("not_converged");
+    if (b.accepted > 0) warnings.push(`The fit stopped after ${b.iterations} iterations without meeting the convergence rule; the values may still move.`);
+    else warnings.push("The fit did not converge: no step lowered chi2 from its start.");
+  }
+
+  // Competing minima: another descent that ended as well (similar chi2) far from the best.
+  const similar = (chi2: number) =>
+    weighted ? chi2 - b.chi2 <= FIT_CHECKS.competingChi2Units * Math.max(1, s2) : chi2 - b.chi2 <= FIT_CHECKS.competingChi2Fraction * b.chi2;
+  const rivals = descents.filter(
+    (o) =>
+      o !== b &&
+      similar(o.chi2) &&
+      specs.some((s, j) => {
+        const delta = Math.abs(o.u[j] - b.u[j]) * (s.max - s.min);
+        const se = parameters[j].stderr;
+        // A parameter without a stderr is already flagged undetermined; its spread is not a second minimum.
+        return se !== null && delta > FIT_CHECKS.competingWidthFraction * (s.max - s.min) && delta > FIT_CHECKS.competingStderrs * se;
+      }),
+  );
+  if (rivals.length > 0) {
+    flags.add("competing_minima");
+    const o = rivals[0];
+    const where = specs.map((s) => `${s.parameter} = ${toValues(o.u)[s.parameter].toPrecision(4)}`).join(", ");
+    warnings.push(
+      `${rivals.length} other start${rivals.length > 1 ? "s" : ""} ended in a different minimum of similar chi2 (e.g. ${where}, chi2 ${o.chi2.toPrecision(4)} against ${b.chi2.toPrecision(4)}): ` +
+        `the data do not choose between them.`,
+    );
+  }
+
+  const flagList = [...flags];
   return {
     parameters,
     chi2: b.chi2,
@@ -252,7 +539,33 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
     iterations: totalIterations,
     evaluations,
     converged: b.converged,
-    starts: startSummaries,
+    starts: allStarts,
     warnings,
+    quality: flagList.length ? "poor" : "good",
+    flags: flagList,
+    diagnostics: { globalStarts, localStarts: descents.length, conditionNumber, residualStructure },
   };
+}
+
+/**
+ * Without a sigma column: residual variance (chi2/dof) over the noise variance estimated from the
+ * second differences of the residuals in x order, sum (r[i+1] - 2 r[i] + r[i-1])^2 / (6 (n - 2))
+ * (for white noise of variance s^2 each second difference has variance 6 s^2). About 1 when the
+ * residuals are noise; large when they follow a smooth misfit. Structure on the scale of the
+ * point spacing is not seen (the check is then lenient).
+ */
+export function residualStructureRatio(x: number[], residuals: number[], dof: number): number | null {
+  const order = x.map((_, i) => i).sort((a, b) => x[a] - x[b]);
+  const r = order.map((i) => residuals[i]);
+  const n = r.length;
+  if (n < 3) return null;
+  let s = 0;
+  for (let i = 1; i < n - 1; i++) {
+    const d2 = r[i + 1] - 2 * r[i] + r[i - 1];
+    s += d2 * d2;
+  }
+  const noise = s / (6 * (n - 2));
+  const variance = r.reduce((t, v) => t + v * v, 0) / dof;
+  if (!(noise > 0)) return variance > 0 ? Infinity : null;
+  return variance / noise;
 }

@@ -4,7 +4,7 @@
  * (the contract of src/engine: applyParameter + compute), so this module stays pure and testable.
  */
 import { CONDUCTANCE_QUANTUM_S } from "@/engine/constants";
-import { fitCurve, FitInputError, type FitOptions, type FitParameterSpec, type FitResult } from "./fitter";
+import { fitCurve, FitInputError, fitStages, type FitOptions, type FitParameterSpec, type FitResult } from "./fitter";
 
 /** The part of the engine's API a fit uses. */
 export interface EngineLike {
@@ -48,7 +48,7 @@ export interface FitJobInput {
   y: number[];
   sigma: number[] | null;
   fit: FitParameterSpec[];
-  options?: Pick<FitOptions, "maxIterations" | "multiStart" | "seed">;
+  options?: Pick<FitOptions, "maxIterations" | "multiStart" | "globalStarts" | "seed">;
 }
 
 /** The model curve for given parameter values: one engine computation per data point. */
@@ -71,9 +71,15 @@ export function runFit(engine: EngineLike, job: FitJobInput, hooks: Pick<FitOpti
   return fitCurve(model, { x: job.x, y: job.y, sigma: job.sigma }, job.fit, { ...job.options, ...hooks });
 }
 
-/** Engine evaluations a fit is expected to need (for the estimate shown before it starts). */
-export function expectedEvaluations(parameters: number, options: { maxIterations?: number; multiStart?: number } = {}): number {
-  const iterations = Math.min(options.maxIterations ?? 40, 8);
-  const starts = options.multiStart ?? 1;
-  return starts * (1 + iterations * (parameters + 1)) + 2 * parameters + 1;
+/**
+ * Engine evaluations (model curves) a fit is expected to need, for the estimate shown before it
+ * starts: one per global point, then per local descent up to 8 iterations of k + 1 curves (the
+ * step and its forward-difference Jacobian; a descent from the initial values or a random point
+ * also evaluates its start), then 2k + 1 for the Jacobian at the optimum.
+ */
+export function expectedEvaluations(parameters: number, options: { maxIterations?: number; multiStart?: number; globalStarts?: number } = {}): number {
+  const { globalStarts, localStarts, maxIterations } = fitStages(parameters, options);
+  const iterations = Math.min(maxIterations, 8);
+  const startCost = globalStarts > 0 ? 0 : 1;
+  return globalStarts + localStarts * (startCost + iterations * (parameters + 1)) + 2 * parameters + 1;
 }

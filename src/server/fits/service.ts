@@ -18,7 +18,7 @@ import { ApiError, zodToApiError } from "@/server/http/errors";
 import { enqueueAfterCommit, JOB_KINDS, requestCancel } from "@/server/jobs";
 import { resolveSubmission } from "@/server/runs/service";
 import { ENGINE_VERSION, engine, inputHash, secondsPerEvaluation } from "./engine";
-import { FitInputError, validateSpecs } from "./fitter";
+import { FitInputError, MAX_GLOBAL_STARTS, MAX_LOCAL_STARTS, validateSpecs } from "./fitter";
 import { checkFitSpecs, expectedEvaluations, SWEEP_FOR_QUANTITY } from "./model";
 
 const spec = z.object({ parameter: z.string().min(1), initial: z.number(), min: z.number(), max: z.number() }).strict();
@@ -33,7 +33,8 @@ export const fitBody = z
     fit: z.array(spec).min(1, "list at least one parameter to fit").max(7, "at most 7 parameters"),
     options: z
       .object({
-        multiStart: z.number().int().min(1).max(16).optional(),
+        multiStart: z.number().int().min(1).max(MAX_LOCAL_STARTS).optional(),
+        globalStarts: z.number().int().min(0).max(MAX_GLOBAL_STARTS).optional(),
         maxIterations: z.number().int().min(1).max(200).optional(),
         seed: z
           .number()
@@ -224,7 +225,10 @@ export async function listFits(caller: Caller, query: URLSearchParams): Promise<
     .limit(limit + 1);
   const items = rows.slice(0, limit).map((r) => {
     const v = fitView(r.fit, r.datasetName);
-    return { ...v, result: v.result ? { parameters: v.result.parameters, chi2PerDof: v.result.chi2PerDof } : null };
+    return {
+      ...v,
+      result: v.result ? { parameters: v.result.parameters, chi2PerDof: v.result.chi2PerDof, quality: v.result.quality, flags: v.result.flags } : null,
+    };
   });
   return { items, nextBefore: rows.length > limit ? items[items.length - 1].createdAt : null };
 }
@@ -270,7 +274,9 @@ export async function exportFit(caller: Caller, id: string): Promise<FitExport> 
     },
     settings: v.settings,
     algorithm: {
-      method: "Levenberg-Marquardt (ml-levenberg-marquardt 5.1 steps; bounded, in coordinates scaled to the bounds)",
+      method:
+        "global stage: seeded Latin hypercube of model curves over the bounds (the initial values one of the points), then " +
+        "Levenberg-Marquardt from the best distinct points (ml-levenberg-marquardt 5.1 steps; bounded, in coordinates scaled to the bounds)",
       uncertainties: "standard errors sqrt(diag((J^T W J)^-1 * chi2/dof)); J the model Jacobian by central differences at the optimum",
       model: "engine two-terminal conductance, total over valleys and spins, in e2/h, at every data x",
     },

@@ -8,9 +8,12 @@
  * - an /api path that is not valid percent-encoding (`/api/v1/runs/%ZZ`): Next answered a page.
  * The endpoints and their methods come from the API contract (src/shared/api/routes.ts), which
  * tests/unit/api-contract.test.ts keeps equal to the route files.
+ * It also stamps every request with the socket's address (PEER_HEADER), which route handlers
+ * cannot see otherwise.
  */
 import http from "node:http";
 import { FILE_ROUTES, JSON_ROUTES } from "@/shared/api/routes";
+import { PEER_HEADER } from "./client-address";
 
 const NEXT_METHODS = new Set(["GET", "HEAD", "OPTIONS", "POST", "PUT", "PATCH", "DELETE"]);
 /** Routes outside /api/v1 (signed webhooks), not in the contract table. */
@@ -101,6 +104,9 @@ export function installMethodGuard(): void {
   http.Server.prototype.emit = function (this: http.Server, event: string | symbol, ...args: unknown[]) {
     if (event === "request") {
       const [req, res] = args as [http.IncomingMessage, http.ServerResponse];
+      // The socket's address, for the failed-request budget (client-address.ts): set here, where
+      // the socket is known, over anything a client sent under the same name.
+      req.headers[PEER_HEADER] = req.socket?.remoteAddress ?? "";
       const answer = guard(req.method ?? "GET", req.url ?? "/");
       if (answer) {
         res.writeHead(answer.status, { ...answer.headers, "content-length": Buffer.byteLength(answer.body) });

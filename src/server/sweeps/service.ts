@@ -13,27 +13,28 @@ import type { SweepCreated, SweepDetail, SweepDryRun, SweepGrid, SweepList, Swee
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
 import { assertWithinBudget, reserveBudget } from "@/server/billing/budget";
-import { assertEnsembleWithinPlan, assertJobComputeWithinPlan, assertNetworkWithinPlan, assertSweepWithinPlan, queuePriority } from "@/server/billing/limits";
+import { assertSweepWithinPlan, queuePriority } from "@/server/billing/limits";
 import { getDb } from "@/server/db";
 import { networkVersions, runs, sweeps } from "@/server/db/schema";
-import {
-  ENGINE_VERSION,
-  applyParameter,
-  estimateSeconds,
-  inputHash,
-  kindOf,
-  networkSize,
-  parseInput,
-  sweepableParameters,
-  type ComputeInput,
-} from "@/server/engine";
+import { ENGINE_VERSION, kindOf, sweepableParameters } from "@/server/engine";
 import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
 import { isUuid } from "@/server/networks/service";
 import { enqueueAfterCommit } from "@/server/jobs";
+import { INLINE_LIMITS, runAnalysis } from "@/server/offload";
 import { RUN_STATUSES, resolveSubmission } from "@/server/runs/service";
 import { deriveSweepStatus, refreshSweep, type SweepCounts } from "@/server/runs/sweep-progress";
-import { axesSchema, ensembleSchema, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, unitOf, type ResolvedAxis } from "./axes";
+import {
+  axesSchema,
+  ensembleSchema,
+  gridShape,
+  gridSize,
+  pointCoordinates,
+  resolveAxis,
+  scalarQuantities,
+  unitOf,
+  type ResolvedAxis,
+} from "@/shared/sweep-axes";
 
 export const sweepBody = z
   .object({
@@ -47,13 +48,7 @@ export const sweepBody = z
   })
   .strict();
 
-/** The input of one sweep point: the base input with the axes' values applied. */
-export function pointInput(base: ComputeInput, axes: ResolvedAxis[], pointIndex: number): ComputeInput {
-  const coordinates = pointCoordinates(axes, pointIndex);
-  let input = structuredClone(base) as ComputeInput;
-  for (const a of axes) input = applyParameter(input, a.parameter, coordinates[a.parameter]) as ComputeInput;
-  return input;
-}
+export { pointInput } from "@/server/offload/sweep-points";
 
 function checkParameters(axes: ResolvedAxis[]) {
   const allowed = sweepableParameters();
@@ -69,7 +64,7 @@ function checkParameters(axes: ResolvedAxis[]) {
     throw new ApiError("invalid_input", "axes.1.parameter: the two axes must sweep different parameters.", { field: "axes.1.parameter" });
 }
 
-async function prepareSweep(caller: Caller, body: unknown) {
+async function prepareSweep(caller: Caller, body: unknown, dryRun: boolean) {
   requirePermission(caller, "work.create");
   const parsed = sweepBody.safeParse(body);
   if (!parsed.success) throw zodToApiError(parsed.error);
@@ -82,39 +77,20 @@ async function prepareSweep(caller: Caller, body: unknown) {
   const pointCount = gridSize(axes);
   assertSweepWithinPlan(caller.plan, pointCount, b.ensemble?.samples ?? 1);
 
-  // Every point is validated (schema, engine limits, plan) before anything is written.
-  const points: { input: ComputeInput; estimate: number; hash: string }[] = [];
-  let total = 0;
-  for (let i = 0; i < pointCount; i++) {
-    let input: ComputeInput;
-    const coordinates = pointCoordinates(axes, i);
-    const where = `sweep point ${i} (${Object.entries(coordinates)
-      .map(([k, v]) => `${k} = ${v}`)
-      .join(", ")})`;
-    try {
-      input = parseInput(pointInput(base, axes, i));
-    } catch (err) {
-      if (err instanceof ApiError) throw new ApiError(err.code, `${where}: ${err.message}`, err.details);
-      const mapped = err as Error;
-      if (mapped?.name === "EngineInputError" || mapped?.name === "EngineLimitError") {
-        throw new ApiError("invalid_input", `${where}: ${mapped.message}`, { pointIndex: i, coordinates });
-      }
-      throw err;
-    }
-    assertNetworkWithinPlan(caller.plan, networkSize(input.network), `${where}: network.size`);
-    assertEnsembleWithinPlan(caller.plan, input);
-    const estimate = estimateSeconds(input);
-    assertJobComputeWithinPlan(caller.plan, estimate, where);
-    total += estimate;
-    points.push({ input, estimate, hash: inputHash(input) });
-  }
+  // Every point is validated (schema, engine limits, plan) before anything is written: in the
+  // analysis thread unless the sweep is a single point (src/server/offload/). A submission keeps
+  // the checked points to write them; a dry run needs only the total.
+  const { total, points } = await runAnalysis(
+    { kind: "sweepPoints", plan: caller.plan, base, axes, pointCount, keepPoints: !dryRun },
+    pointCount <= INLINE_LIMITS.sweepPoints,
+  );
   await assertWithinBudget(caller.workspaceId, total);
   return { b, base, networkVersionId, axes, pointCount, points, total };
 }
 
 /** Every check of a sweep (the budget's for the sum of its points) and the estimate, writing nothing. */
 export async function estimateSweep(caller: Caller, body: unknown): Promise<SweepDryRun> {
-  const { b, axes, pointCount, total } = await prepareSweep(caller, body);
+  const { b, axes, pointCount, total } = await prepareSweep(caller, body, true);
   return {
     dryRun: true as const,
     pointCount,
@@ -125,7 +101,7 @@ export async function estimateSweep(caller: Caller, body: unknown): Promise<Swee
 }
 
 export async function createSweep(caller: Caller, body: unknown): Promise<SweepCreated> {
-  const { b, base, networkVersionId, axes, pointCount, points, total } = await prepareSweep(caller, body);
+  const { b, base, networkVersionId, axes, pointCount, points, total } = await prepareSweep(caller, body, false);
   const priority = queuePriority(caller.plan);
   const kind = kindOf(base);
   const db = getDb();

@@ -17,6 +17,7 @@ import { ApiError } from "@/server/http/errors";
 import { sendMail } from "@/server/mail";
 import { invitationMail } from "@/server/mail/invitation";
 import { ROLE_LABELS, type Role } from "@/shared/permissions";
+import { PLANS } from "@/shared/plans";
 import { requireMemberChange, seatUse, workspaceOf } from "./members";
 import type { InvitationAccepted, InvitationView } from "@/shared/api";
 export type { InvitationView };
@@ -55,23 +56,37 @@ export async function invite(caller: Caller, input: { email: string; role: Role 
   const email = input.email.trim().toLowerCase();
   if (ws.kind === "personal" || !ws.clerkOrgId)
     throw new ApiError("conflict", "A personal workspace has a single member; invite people to a lab workspace instead.", { field: "workspace" });
-  const seats = await seatUse(ws.id);
-  if (ws.plan === "free" && seats.members + seats.pending >= seats.limit)
-    throw new ApiError("payment_required", `The Free plan allows ${seats.limit} member; move this workspace to the Lab plan to invite people.`, seats);
   const db = getDb();
   const [already] = await db.select({ id: users.id }).from(users).where(eq(users.email, email));
   if (already && (await membershipRole(ws.id, already.id))) throw new ApiError("conflict", `${email} is already a member of ${ws.name}.`, { field: "email" });
-  // One open invitation per address: a new one replaces the old link.
-  await db
-    .update(invitations)
-    .set({ revokedAt: new Date() })
-    .where(and(eq(invitations.workspaceId, ws.id), eq(invitations.email, email), isNull(invitations.acceptedAt), isNull(invitations.revokedAt)));
   const secret = SECRET_PREFIX + randomBytes(24).toString("base64url");
   const expiresAt = new Date(Date.now() + env().INVITATION_TTL_DAYS * 24 * 3600 * 1000);
-  const [row] = await db
-    .insert(invitations)
-    .values({ workspaceId: ws.id, email, role: input.role, invitedBy: caller.userId, secretHash: hashSecret(secret), expiresAt })
-    .returning();
+  // The seat check and the insert in one transaction with the workspace row locked: two
+  // invitations at once cannot both take the last seat, nor race a seat change.
+  const row = await db.transaction(async (tx) => {
+    // One open invitation per address: a new one replaces the old link (and its seat).
+    await tx
+      .update(invitations)
+      .set({ revokedAt: new Date() })
+      .where(and(eq(invitations.workspaceId, ws.id), eq(invitations.email, email), isNull(invitations.acceptedAt), isNull(invitations.revokedAt)));
+    const seats = await seatUse(ws.id, tx, { lock: true });
+    const taken = seats.members + seats.pending;
+    if (seats.plan === "free" && taken >= seats.limit)
+      throw new ApiError("payment_required", `The Free plan allows ${seats.limit} member; move this workspace to the Lab plan to invite people.`, seats);
+    if (taken >= seats.limit)
+      throw new ApiError(
+        "payment_required",
+        `All ${seats.seats} seats of ${ws.name} are taken (${seats.members} members, ${seats.pending} open invitations). ` +
+          `An Owner or Billing admin adds a seat on the Billing page (${PLANS.lab.seatPriceUsdPerMonth} USD per seat per month, prorated; ` +
+          `PUT /api/v1/billing/seats), or revokes an open invitation; then invite again.`,
+        { ...seats, reason: "seats_full", addSeat: "PUT /api/v1/billing/seats" },
+      );
+    const [inserted] = await tx
+      .insert(invitations)
+      .values({ workspaceId: ws.id, email, role: input.role, invitedBy: caller.userId, secretHash: hashSecret(secret), expiresAt })
+      .returning();
+    return inserted;
+  });
   const [inviter] = await db.select({ name: users.name, email: users.email }).from(users).where(eq(users.id, caller.userId));
   const link = `${env().APP_URL.replace(/\/$/, "")}/accept-invitation?token=${encodeURIComponent(secret)}`;
   await sendMail(

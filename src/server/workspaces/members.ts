@@ -9,7 +9,7 @@ import { clerkClient } from "@clerk/nextjs/server";
 import { PLANS } from "@/shared/plans";
 import { can, requirePermission, type Caller } from "@/server/auth";
 import { CLERK_ROLE_FOR } from "@/server/auth/roles";
-import { getDb } from "@/server/db";
+import { getDb, type Executor } from "@/server/db";
 import { invitations, memberships, users, workspaces } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
 import { ACTIONS, ROLE_LABELS, ROLES, rolesAllowed, type Action, type Role } from "@/shared/permissions";
@@ -126,10 +126,16 @@ export async function removeMember(caller: Caller, userId: string): Promise<void
     .where(and(eq(memberships.workspaceId, ws.id), eq(memberships.userId, userId)));
 }
 
-/** Members plus open invitations against the plan's member limit (Free: 1; Lab: seats bought). */
-export async function seatUse(workspaceId: string): Promise<SeatUse> {
-  const db = getDb();
-  const [ws] = await db.select().from(workspaces).where(eq(workspaces.id, workspaceId));
+/**
+ * Members plus open invitations against the plan's member limit (Free: 1; Lab: seats bought). An
+ * open invitation holds a seat until it is accepted, revoked or expires. With `lock`, the
+ * workspace row is locked first (inside a transaction), so two invitations or an invitation and a
+ * seat change cannot both take the last seat.
+ */
+export async function seatUse(workspaceId: string, db: Executor = getDb(), opts: { lock?: boolean } = {}): Promise<SeatUse> {
+  if (opts.lock) await db.execute(sql`select 1 from workspaces where id = ${workspaceId} for update`);
+  const [ws] = await db.select({ plan: workspaces.plan, seats: workspaces.seats }).from(workspaces).where(eq(workspaces.id, workspaceId));
+  if (!ws) throw new ApiError("not_found", "Workspace not found.");
   const [{ members }] = await db
     .select({ members: sql<number>`count(*)::int` })
     .from(memberships)

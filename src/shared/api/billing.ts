@@ -31,11 +31,24 @@ export interface BillingOverview {
   canManageBilling: boolean;
 }
 
-/** GET /api/v1/billing/seats. */
+/** GET and PUT /api/v1/billing/seats: seats bought, seats taken and their price. */
 export interface SeatsView {
+  /** Seats bought (the Lab subscription's seat quantity). */
   seats: number;
   members: number;
+  /** Open invitations: each holds a seat until accepted, revoked or expired. */
+  pending: number;
+  /** The fewest seats allowed now: members + open invitations, at least 1. */
+  minimumSeats: number;
+  maxSeats: number;
   seatPriceUsdPerMonth: number;
+  /** seats x seat price, USD per month (changes within a period are prorated by the payment service). */
+  monthlySeatsUsd: number;
+}
+
+/** PUT /api/v1/billing/seats body. */
+export interface SeatsChange {
+  seats: number;
 }
 
 /** POST /api/v1/billing/seats/sync. */

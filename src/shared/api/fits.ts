@@ -18,6 +18,43 @@ export interface FitParameterResult extends FitParameterSpec {
   atBound: boolean;
 }
 
+/** One start of a fit and where it ended. */
+export interface FitStart {
+  /** 1-based, in the order run. */
+  start: number;
+  /** "global": a point of the global stage (evaluated only: final = initial, iterations 0); "local": a Levenberg-Marquardt descent. */
+  stage: "global" | "local";
+  initial: Record<string, number>;
+  final: Record<string, number>;
+  /** chi2 at final. */
+  chi2: number;
+  iterations: number;
+  /** The descent met the convergence rule (always false for a global point). */
+  converged: boolean;
+}
+
+export type FitQuality = "good" | "poor";
+
+/**
+ * Problems a fit can have (thresholds in docs/data-and-fits.md): chi2_high (chi2/dof above 3 with
+ * sigma; without sigma, residuals with structure above 3 times their point-to-point noise),
+ * chi2_low (chi2/dof below 0.2 with sigma), not_moved (the result is its start), on_bound,
+ * undetermined (a parameter the data cannot determine), competing_minima (starts that ended
+ * in different minima of similar chi2), not_converged.
+ */
+export type FitFlag = "chi2_high" | "chi2_low" | "not_moved" | "on_bound" | "undetermined" | "competing_minima" | "not_converged";
+
+export interface FitDiagnostics {
+  /** Points of the global stage (0: off). */
+  globalStarts: number;
+  /** Local descents run. */
+  localStarts: number;
+  /** Condition number of J^T W J scaled to unit diagonal, over the parameters the model depends on; null when singular. */
+  conditionNumber: number | null;
+  /** Without sigma: residual variance over the point-to-point noise estimated from the residuals (about 1 for noise); null with sigma. */
+  residualStructure: number | null;
+}
+
 /** The fitter's answer, stored with the fit when it succeeds. */
 export interface FitResult {
   parameters: FitParameterResult[];
@@ -34,8 +71,16 @@ export interface FitResult {
   iterations: number;
   evaluations: number;
   converged: boolean;
-  starts: { start: number; initial: Record<string, number>; chi2: number; iterations: number }[];
+  /** Every start: the global stage's points first (evaluated, not refined), then the local descents. */
+  starts: FitStart[];
+  /** One sentence per problem found (empty for a good fit). */
   warnings: string[];
+  /** "poor" when any flag is raised: the UI shows a "poor fit" mark. */
+  quality: FitQuality;
+  /** Machine-readable codes of the problems, one per kind (see FitFlag). */
+  flags: FitFlag[];
+  /** How the fit ran and the numbers its checks used. */
+  diagnostics: FitDiagnostics;
   engineVersion?: string;
 }
 
@@ -51,8 +96,8 @@ export interface FitSettings {
   computation: Computation;
   sweepParameter: string;
   fit: FitParameterSpec[];
-  /** maxIterations, multiStart, seed as sent. */
-  options: { maxIterations?: number; multiStart?: number; seed?: number };
+  /** maxIterations, multiStart, globalStarts, seed as sent. */
+  options: { maxIterations?: number; multiStart?: number; globalStarts?: number; seed?: number };
 }
 
 interface FitViewBase {
@@ -83,7 +128,7 @@ export interface FitDetail extends FitViewBase {
 
 /** A fit in a list: the result cut to its parameters and chi2 per degree of freedom. */
 export interface FitSummary extends FitViewBase {
-  result: Pick<FitResult, "parameters" | "chi2PerDof"> | null;
+  result: Pick<FitResult, "parameters" | "chi2PerDof" | "quality" | "flags"> | null;
 }
 
 export interface FitList {

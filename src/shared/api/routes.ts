@@ -68,6 +68,7 @@ export interface ApiRoutes {
   "GET /api/v1/usage": UsageReport;
   "GET /api/v1/billing": BillingOverview;
   "GET /api/v1/billing/seats": SeatsView;
+  "PUT /api/v1/billing/seats": SeatsView;
   "POST /api/v1/billing/seats/sync": SeatsSynced;
   "PUT /api/v1/billing/spend-cap": SpendCapView;
   "GET /api/v1/billing/invoices": InvoiceList;
@@ -120,6 +121,7 @@ export const JSON_ROUTES = [
   "GET /api/v1/usage",
   "GET /api/v1/billing",
   "GET /api/v1/billing/seats",
+  "PUT /api/v1/billing/seats",
   "POST /api/v1/billing/seats/sync",
   "PUT /api/v1/billing/spend-cap",
   "GET /api/v1/billing/invoices",

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { periodFromTwistNm } from "@/engine/constants";
-import { analysePeriod, areaNm2FromFieldPeriod, readingsFromArea, twistDegreesFromPeriodNm } from "@/server/datasets/period";
+import { analysePeriod, areaNm2FromFieldPeriod, readingsFromArea, twistDegreesFromPeriodNm } from "@/shared/period";
 import { seededRandom } from "../../../support/random";
 
 describe("period to twist angle conversion", () => {

@@ -53,14 +53,15 @@ describe("fitCurve (Levenberg-Marquardt, uncertainties from the Jacobian)", () =
     expect(Math.abs(P.value - truth.P)).toBeLessThan(3 * P.stderr!);
   });
 
-  it("multi-start escapes a local minimum that a single start falls into", () => {
+  it("multi-start (global stage off) escapes a local minimum that a single start falls into", () => {
     const g = seededGaussian(4);
     const y = model(truth).map((v) => v + 0.01 * g());
     const far = specs.map((s) => (s.parameter === "P" ? { ...s, initial: 0.085 } : s));
-    const single = fitCurve(model, { x: xs, y }, far);
-    const multi = fitCurve(model, { x: xs, y }, far, { multiStart: 8, seed: 2 });
+    const single = fitCurve(model, { x: xs, y }, far, { globalStarts: 0 });
+    const multi = fitCurve(model, { x: xs, y }, far, { globalStarts: 0, multiStart: 8, seed: 2 });
     expect(multi.chi2).toBeLessThanOrEqual(single.chi2);
     expect(multi.starts.length).toBe(8);
+    expect(multi.starts.every((s) => s.stage === "local")).toBe(true);
     expect(Math.abs(multi.parameters.find((p) => p.parameter === "P")!.value - truth.P)).toBeLessThan(0.001);
   });
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { axesSchema, gridIndices, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, unitOf } from "@/server/sweeps/axes";
+import { axesSchema, gridIndices, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, unitOf } from "@/shared/sweep-axes";
 import { deriveSweepStatus } from "@/server/runs/sweep-progress";
 
 describe("sweep axes", () => {

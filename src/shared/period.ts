@@ -8,7 +8,7 @@
  * (two triangles) A_cell = (sqrt3/2) l^2, l = a / (2 sin(theta/2)) with the graphene lattice
  * constant a. The constants and the twist/period conversion are the engine's (src/engine/constants.ts).
  */
-import { FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM, twistFromPeriodDegrees } from "@/engine/constants";
+import { FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM, twistFromPeriodDegrees } from "@/engine/browser";
 import type { PeriodAnalysis, PeriodOptions, PeriodReading } from "@/shared/api";
 export type { PeriodAnalysis, PeriodOptions, PeriodReading };
 
@@ -139,6 +139,13 @@ export function fft(re: Float64Array, im: Float64Array): void {
 
 const nextPow2 = (n: number) => 2 ** Math.ceil(Math.log2(Math.max(1, n)));
 
+const DEFAULT_ZERO_PAD_FACTOR = 8;
+
+/** The FFT length analysePeriod uses for a curve of `points` points: the work grows with it (about L log L). */
+export function periodFftLength(points: number, zeroPadFactor = DEFAULT_ZERO_PAD_FACTOR): number {
+  return nextPow2(nextPow2(points)) * zeroPadFactor;
+}
+
 /** Linear interpolation of (x, y) (x ascending) at the points xs. */
 export function resampleLinear(x: number[], y: number[], xs: number[]): number[] {
   const out = new Array<number>(xs.length);
@@ -154,7 +161,7 @@ export function resampleLinear(x: number[], y: number[], xs: number[]): number[]
 
 export function analysePeriod(fieldTesla: number[], conductance: number[], options: PeriodOptions = {}): PeriodAnalysis {
   const backgroundDegree = options.backgroundDegree ?? 3;
-  const zeroPadFactor = options.zeroPadFactor ?? 8;
+  const zeroPadFactor = options.zeroPadFactor ?? DEFAULT_ZERO_PAD_FACTOR;
   const minCyclesInWindow = options.minCyclesInWindow ?? 1.5;
   if (!Number.isInteger(backgroundDegree) || backgroundDegree < 0 || backgroundDegree > 8)
     throw new PeriodAnalysisError("backgroundDegree must be an integer from 0 to 8.", "backgroundDegree");
@@ -181,7 +188,7 @@ export function analysePeriod(fieldTesla: number[], conductance: number[], optio
   const xs = Array.from({ length: m }, (_, i) => x[0] + i * dx);
   const ys = resampled ? resampleLinear(x, oscillation, xs) : oscillation;
 
-  const L = nextPow2(m) * zeroPadFactor;
+  const L = nextPow2(m) * zeroPadFactor; // = periodFftLength(n, zeroPadFactor): m is n or nextPow2(n)
   const re = new Float64Array(L);
   const im = new Float64Array(L);
   let wsum = 0;
