@@ -69,7 +69,9 @@ export function MembersSection({ role, myUserId, kind }: { role: Role; myUserId:
           A personal group has one member, you. Invite people into a lab group instead.
         </p>
       ) : null}
-      {managesSeats && members.data?.invitations ? <Invitations list={members.data.invitations} touchable={touchable} onChanged={refresh} /> : null}
+      {managesSeats && kind === "lab" && members.data?.invitations ? (
+        <Invitations list={members.data.invitations} touchable={touchable} onChanged={refresh} />
+      ) : null}
     </section>
   );
 }
@@ -129,9 +131,9 @@ function MemberRow({
   const mayRemove = touchable.includes(m.role) && !onlyOwner && !isMe;
   const whyNotRemove = isMe
     ? "This is you."
-    : onlyOwner
-      ? "The only Owner stays; make another member Owner first."
-      : `Only an Owner removes ${ROLE_LABELS[m.role]}s.`;
+    : !touchable.includes(m.role)
+      ? `Only an Owner removes ${ROLE_LABELS[m.role]}s.`
+      : "The only Owner stays; make another member Owner first.";
   const roleLocked = onlyOwner ? "The only Owner keeps the role; make another member Owner first." : null;
   return (
     <tr className="border-b border-line align-top last:border-0" data-member={m.email}>
@@ -151,7 +153,7 @@ function MemberRow({
             <label className="sr-only" htmlFor={`role-${m.userId}`}>
               Role of {who}
             </label>
-            <select id={`role-${m.userId}`} className="tk-field w-auto" value={draftRole} onChange={(e) => setDraftRole(e.target.value as Role)}>
+            <select id={`role-${m.userId}`} className="tk-field w-44" value={draftRole} onChange={(e) => setDraftRole(e.target.value as Role)}>
               {ROLES.map((r) => (
                 <option key={r} value={r}>
                   {ROLE_LABELS[r]}
