@@ -216,10 +216,9 @@ function MemberRow({
   );
 }
 
-/** An invitation refused because every seat is taken (402, details.reason "seats_full"). */
-function isSeatsFull(e: unknown): boolean {
-  return e instanceof ApiClientError && e.status === 402 && (e.details as { reason?: string } | undefined)?.reason === "seats_full";
-}
+/** An invitation refused for want of a seat (402): every Lab seat is taken (details.reason "seats_full") or the Free plan's one member. */
+const needsSeat = (e: unknown): boolean => e instanceof ApiClientError && e.status === 402;
+const isSeatsFull = (e: unknown): boolean => needsSeat(e) && ((e as ApiClientError).details as { reason?: string } | undefined)?.reason === "seats_full";
 
 function InviteForm({ touchable, mayAddSeats, onSent }: { touchable: Role[]; mayAddSeats: boolean; onSent: () => void }) {
   const [email, setEmail] = useState("");
@@ -294,11 +293,11 @@ function InviteForm({ touchable, mayAddSeats, onSent }: { touchable: Role[]; may
         <div role="alert" className="rounded-card border border-danger/40 bg-danger-soft p-3 text-body text-danger" data-testid="invite-error">
           <p className="font-semibold">{isSeatsFull(send.error) ? "Every seat is taken" : "Invitation not sent"}</p>
           <p className="mt-1">{send.error.message}</p>
-          {isSeatsFull(send.error) ? (
+          {needsSeat(send.error) ? (
             mayAddSeats ? (
               <p className="mt-1">
                 <Link href="/billing" className="underline">
-                  Add a seat on the Billing page
+                  {isSeatsFull(send.error) ? "Add a seat on the Billing page" : "Move to the Lab plan on the Billing page"}
                 </Link>
                 , then invite again.
               </p>
