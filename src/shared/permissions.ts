@@ -49,6 +49,16 @@ export function tokenRolesFor(role: Role): Role[] {
   return ROLES.filter((r) => r === role || r === "viewer");
 }
 
+/** The roles a Billing admin fills and frees seats with (action `members.seats`): they invite and remove these only. */
+export const SEAT_ROLES: readonly Role[] = ["researcher", "viewer"];
+
+/** Roles a member may invite, remove or revoke invitations for: Owners any, Billing admins SEAT_ROLES, others none. */
+export function memberRolesFor(role: Role): Role[] {
+  if (can(role, "members.manage")) return [...ROLES];
+  if (can(role, "members.seats")) return [...SEAT_ROLES];
+  return [];
+}
+
 /** The lesser of two roles (a token can never do more than its member). */
 export function lesserRole(a: Role, b: Role): Role {
   if (a === b) return a;

@@ -67,7 +67,9 @@ export const PLANS: Record<PlanId, PlanLimits> = {
   },
 };
 
-/** Cost in USD of some compute-seconds on a plan (before included minutes). */
+/** The monthly spend cap's bounds in USD (PUT /api/v1/billing/spend-cap and the Billing page's form); null means no cap. */
+export const SPEND_CAP_USD = { min: 1, max: 1_000_000 } as const;
+
 /** Where a subscription stands: paid up, paying late (grace: Lab limits stay), or suspended. */
 export type PlanState = "active" | "grace" | "suspended";
 
@@ -79,6 +81,7 @@ export function effectivePlan(plan: PlanId, planState: PlanState): PlanId {
   return planState === "suspended" ? "free" : plan;
 }
 
+/** Cost in USD of some compute-seconds on a plan (before included minutes). */
 export function computeCostUsd(plan: PlanId, computeSeconds: number): number {
   return (computeSeconds / 3600) * PLANS[plan].computePriceUsdPerHour;
 }

@@ -1,12 +1,10 @@
-// Accessibility of the main pages: axe-core (node_modules/axe-core/axe.min.js) injected into the
-// page; no serious or critical violations.
-import { createRequire } from "node:module";
+// Accessibility of the main pages: axe-core injected into the page (tests/support/axe.ts); no
+// serious or critical violations.
 import { beforeAll, describe, expect, it } from "vitest";
 import type { Page } from "playwright-core";
+import { seriousViolations } from "../support/axe";
 import { url, useBrowser } from "../support/browser";
 import { api } from "../support/services";
-
-const axePath = createRequire(import.meta.url).resolve("axe-core/axe.min.js");
 
 const browser = useBrowser();
 
@@ -14,27 +12,6 @@ let page: Page;
 beforeAll(async () => {
   page = await browser.signedInPage("researcher");
 });
-
-async function seriousViolations(p: Page) {
-  await p.addScriptTag({ path: axePath });
-  const result = (await p.evaluate(async () => {
-    const axe = (
-      window as unknown as {
-        axe: { run: (ctx: Document, opts: object) => Promise<{ violations: { id: string; impact: string; help: string; nodes: { target: string[] }[] }[] }> };
-      }
-    ).axe;
-    return axe.run(document, { resultTypes: ["violations"] });
-  })) as { violations: { id: string; impact: string; help: string; nodes: { target: string[] }[] }[] };
-  return result.violations
-    .filter((v) => v.impact === "serious" || v.impact === "critical")
-    .map(
-      (v) =>
-        `${v.id} (${v.impact}): ${v.help} at ${v.nodes
-          .slice(0, 3)
-          .map((n) => `${n.target.join(" ")} ${(n as { html?: string }).html?.slice(0, 160) ?? ""}`)
-          .join("; ")}`,
-    );
-}
 
 describe("accessibility of the web app", () => {
   const pages: [string, string | (() => Promise<string>), string][] = [

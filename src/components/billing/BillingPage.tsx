@@ -6,11 +6,17 @@ import { useState, type ReactNode } from "react";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import { api } from "@/lib/api";
 import type { BillingOverview } from "@/shared/api";
+import { SPEND_CAP_USD } from "@/shared/plans";
+import { ROLE_LABELS, ROLES, rolesAllowed, type Role } from "@/shared/permissions";
+import { exportCsv } from "@/lib/exportFigure";
 import { formatComputeSeconds, formatUsd } from "./CostEstimate";
+import { readSpendCap } from "./spendCap";
 import { UsageByDayChart } from "./UsageByDayChart";
 
 const keys = { overview: ["billing"] as const, usage: ["usage"] as const, invoices: ["billing", "invoices"] as const, seats: ["billing", "seats"] as const };
 const day = (iso: string) => iso.slice(0, 10);
+/** A member's role in words (the usage report carries it as a plain string; a former member has none). */
+const roleWord = (role: string | null) => (role && (ROLES as readonly string[]).includes(role) ? ROLE_LABELS[role as Role] : "–");
 
 export function BillingPage() {
   const client = useQueryClient();
@@ -48,26 +54,33 @@ export function BillingPage() {
   return (
     <div className="space-y-6" data-testid="billing-page">
       <PageHeader kicker="Billing" title={`${o.workspace.name}`}>
-        Plan, seats, spend cap and compute use of this workspace for {o.period}. Costs are shown before anything is charged.
+        Plan, seats, spend cap and compute use of this group for {o.period}. Costs are shown before anything is charged.
       </PageHeader>
+      {!canManage ? (
+        <p className="text-caption text-fg-soft" data-testid="billing-read-only">
+          Your role reads this page;{" "}
+          {rolesAllowed("billing.manage")
+            .map((r) => `${ROLE_LABELS[r]}s`)
+            .join(" and ")}{" "}
+          change the plan, seats and spend cap and read the invoices.
+        </p>
+      ) : null}
 
       {returnedFromCheckout ? (
         <p role="status" className="rounded-card border border-accent/40 bg-accent-soft p-3 text-body text-accent-strong" data-testid="checkout-done">
           Payment received.{" "}
-          {o.plan === "lab"
-            ? "This workspace is on the Lab plan."
-            : "The plan changes as soon as the payment service confirms it; this page updates by itself."}
+          {o.plan === "lab" ? "This group is on the Lab plan." : "The plan changes as soon as the payment service confirms it; this page updates by itself."}
         </p>
       ) : null}
       {o.planState === "grace" ? (
         <p role="alert" className="rounded-card border border-warm/50 bg-warm-soft p-3 text-body text-warm" data-testid="grace-banner">
-          The last payment failed. Lab limits stay until {o.graceEndsAt ? day(o.graceEndsAt) : "the end of the grace period"}; then this workspace works under
-          Free limits. Update the payment details to keep Lab.
+          The last payment failed. Lab limits stay until {o.graceEndsAt ? day(o.graceEndsAt) : "the end of the grace period"}; then this group works under Free
+          limits. Update the payment details to keep Lab.
         </p>
       ) : null}
       {o.planState === "suspended" ? (
         <p role="alert" className="rounded-card border border-danger/40 bg-danger-soft p-3 text-body text-danger" data-testid="suspended-banner">
-          Payment is overdue: this workspace works under Free limits until the open invoice is paid.
+          Payment is overdue: this group works under Free limits until the open invoice is paid.
         </p>
       ) : null}
 
@@ -79,6 +92,18 @@ export function BillingPage() {
           <p className="text-title font-semibold" data-testid="plan-label">
             {o.planLabel}
           </p>
+          {o.plan === "lab" ? (
+            <p
+              className={`text-caption font-medium ${o.planState === "active" ? "text-accent-strong" : o.planState === "grace" ? "text-warm" : "text-danger"}`}
+              data-testid="plan-state"
+            >
+              {o.planState === "active"
+                ? "Active"
+                : o.planState === "grace"
+                  ? `Payment failed: Lab limits stay until ${o.graceEndsAt ? day(o.graceEndsAt) : "the grace period ends"}`
+                  : "Suspended: Free limits apply until the open invoice is paid"}
+            </p>
+          ) : null}
           <p className="text-caption text-fg-soft">
             {o.plan === "lab"
               ? `${o.seatPriceUsdPerMonth} USD per seat per month + ${o.computePriceUsdPerHour.toFixed(2)} USD per compute-hour, metered.`
@@ -86,14 +111,23 @@ export function BillingPage() {
           </p>
           {canManage ? (
             <div className="flex flex-wrap gap-2 pt-1">
+              {/* The API opens Checkout unless the group already has a Lab subscription (startCheckout). */}
               {o.plan === "free" || !o.hasSubscription ? (
                 <button type="button" className="tk-btn" onClick={() => upgrade.mutate()} disabled={upgrade.isPending} data-testid="upgrade">
-                  {upgrade.isPending ? "Opening checkout…" : `Upgrade to Lab (${Math.max(1, o.members)} × ${o.seatPriceUsdPerMonth} USD / month)`}
+                  {upgrade.isPending
+                    ? "Opening checkout…"
+                    : `${o.plan === "lab" ? "Start the Lab subscription" : "Upgrade to Lab"} (${Math.max(1, o.members)} × ${o.seatPriceUsdPerMonth} USD / month)`}
                 </button>
               ) : null}
               {o.hasPaymentAccount ? (
-                <button type="button" className="tk-btn-quiet" onClick={() => portal.mutate()} disabled={portal.isPending} data-testid="open-portal">
-                  Payment details and invoices
+                <button
+                  type="button"
+                  className={o.planState === "active" ? "tk-btn-quiet" : "tk-btn"}
+                  onClick={() => portal.mutate()}
+                  disabled={portal.isPending}
+                  data-testid="open-portal"
+                >
+                  {portal.isPending ? "Opening…" : o.planState === "active" ? "Payment details and invoices" : "Update payment details"}
                 </button>
               ) : null}
             </div>
@@ -132,11 +166,28 @@ export function BillingPage() {
           <ErrorNote error={usage.error} />
         ) : (
           <>
-            <FigureTable testId="usage-members" columns={["Member", "Role"]} numberColumns={["Runs", "Compute-seconds", "Cost"]}>
+            <div className="flex justify-end">
+              <button
+                type="button"
+                className="tk-btn-quiet"
+                onClick={() =>
+                  exportCsv(
+                    `usage-members-${usage.data.period}.csv`,
+                    ["member", "email", "role", "calculations", "compute_seconds", "cost_usd"],
+                    usage.data.members.map((m) => [m.name || m.email || "former member", m.email, roleWord(m.role), m.runs, m.computeSeconds, m.costUsd]),
+                    [`Triskel compute use per member, ${o.workspace.name}, period ${usage.data.period}`],
+                  )
+                }
+                data-testid="usage-members-csv"
+              >
+                Download per member (CSV)
+              </button>
+            </div>
+            <FigureTable testId="usage-members" columns={["Member", "Role"]} numberColumns={["Calculations", "Compute-seconds", "Cost"]}>
               {usage.data.members.map((m) => (
                 <tr key={m.userId ?? "former"} className="border-b border-line/60">
                   <td className="py-1.5">{m.name || m.email}</td>
-                  <td className="py-1.5 text-fg-soft">{m.role?.replace("_", " ") ?? "–"}</td>
+                  <td className="py-1.5 text-fg-soft">{roleWord(m.role)}</td>
                   <td className="py-1.5 text-right tk-num">{m.runs}</td>
                   <td className="py-1.5 text-right tk-num">{m.computeSeconds.toFixed(1)}</td>
                   <td className="py-1.5 text-right tk-num">{formatUsd(m.costUsd)}</td>
@@ -148,8 +199,12 @@ export function BillingPage() {
         )}
         {o.plan === "lab" ? (
           <p className="text-caption text-fg-faint" data-testid="meter-status">
-            Reported to the payment service: {o.meterEvents.sent} runs; waiting: {o.meterEvents.pending}; refused: {o.meterEvents.failed}
-            {o.meterEvents.lastError ? ` (last problem: ${o.meterEvents.lastError})` : ""}.
+            Compute reported to the payment service: {o.meterEvents.sent} calculation{o.meterEvents.sent === 1 ? "" : "s"}; waiting to be reported:{" "}
+            {o.meterEvents.pending}
+            {o.meterEvents.failed > 0
+              ? `; not accepted: ${o.meterEvents.failed}${o.meterEvents.lastError ? ` (last problem: ${o.meterEvents.lastError})` : ""}. Support looks into these; nothing is charged twice`
+              : ""}
+            .
           </p>
         ) : null}
       </section>
@@ -269,7 +324,7 @@ function Seats({ o, canManage, onSaved }: { o: BillingOverview; canManage: boole
         {s ? `, ${s.pending} open invitation${s.pending === 1 ? "" : "s"}` : ""}
         {o.plan === "lab"
           ? `. Each member and each open invitation takes a seat; inviting past the seats bought asks for a seat first.`
-          : ". The Free plan has one member."}
+          : ". The Free plan has one member; on the Lab plan each member takes a seat."}
       </p>
       {manages && s ? (
         review === null ? (
@@ -334,10 +389,20 @@ function Seats({ o, canManage, onSaved }: { o: BillingOverview; canManage: boole
 
 function SpendCap({ o, canManage, onSaved }: { o: BillingOverview; canManage: boolean; onSaved: () => void }) {
   const [value, setValue] = useState(o.spendCapUsd === null ? "" : String(o.spendCapUsd));
+  const [touched, setTouched] = useState(false);
+  const [confirmRemove, setConfirmRemove] = useState(false);
+  const [saved, setSaved] = useState<string | null>(null);
+  const read = readSpendCap(value);
   const save = useMutation({
-    mutationFn: () => api("PUT /api/v1/billing/spend-cap", { json: { spendCapUsd: value.trim() === "" ? null : Number(value) } }),
-    onSuccess: onSaved,
+    mutationFn: (cap: number | null) => api("PUT /api/v1/billing/spend-cap", { json: { spendCapUsd: cap } }),
+    onSuccess: (r) => {
+      setConfirmRemove(false);
+      setTouched(false);
+      setSaved(r.spendCapUsd === null ? "The cap is removed." : `The cap is now ${formatUsd(r.spendCapUsd)} per month.`);
+      onSaved();
+    },
   });
+  const problem = touched ? read.problem : null;
   const share = o.spendCapUsd ? Math.min(1, o.spendUsd / o.spendCapUsd) : 0;
   return (
     <section className="tk-card space-y-2 p-4" aria-labelledby="cap-h">
@@ -347,8 +412,11 @@ function SpendCap({ o, canManage, onSaved }: { o: BillingOverview; canManage: bo
       <p className="text-title font-semibold tk-num" data-testid="spend-cap">
         {o.spendCapUsd === null ? "No cap" : formatUsd(o.spendCapUsd)}
       </p>
+      {o.plan === "free" ? (
+        <p className="text-caption text-fg-soft">On the Free plan the included compute-minutes are the limit; a cap matters on the Lab plan.</p>
+      ) : null}
       {o.spendCapUsd !== null && o.plan === "lab" ? (
-        <div aria-label={`Spent ${Math.round(share * 100)} % of the cap`}>
+        <div role="img" aria-label={`Spent ${Math.round(share * 100)} % of the cap`}>
           <div className="h-2 rounded-full bg-surface-sunk">
             <div className={`h-2 rounded-full ${share >= 1 ? "bg-danger" : share >= 0.8 ? "bg-warm" : "bg-accent"}`} style={{ width: `${share * 100}%` }} />
           </div>
@@ -358,30 +426,79 @@ function SpendCap({ o, canManage, onSaved }: { o: BillingOverview; canManage: bo
         </div>
       ) : null}
       {canManage ? (
-        <form
-          className="flex items-end gap-2"
-          onSubmit={(e) => {
-            e.preventDefault();
-            save.mutate();
-          }}
-        >
-          <div>
-            <label htmlFor="spend-cap" className="tk-label">
-              Monthly cap <span className="font-mono text-micro text-fg-faint">[USD]</span>
-            </label>
-            <input
-              id="spend-cap"
-              className="tk-field mt-1 w-32"
-              inputMode="decimal"
-              value={value}
-              onChange={(e) => setValue(e.target.value)}
-              placeholder="no cap"
-            />
+        confirmRemove ? (
+          <div
+            className="space-y-2 rounded-card border border-warm/50 bg-warm-soft p-3"
+            role="alertdialog"
+            aria-labelledby="cap-remove-h"
+            data-testid="cap-remove-confirm"
+          >
+            <p id="cap-remove-h" className="text-body">
+              Remove the spend cap of {o.spendCapUsd === null ? "" : formatUsd(o.spendCapUsd)}? Compute is then charged without a monthly limit.
+            </p>
+            <div className="flex gap-2">
+              <button type="button" className="tk-btn" onClick={() => save.mutate(null)} disabled={save.isPending}>
+                {save.isPending ? "Removing…" : "Remove the cap"}
+              </button>
+              <button type="button" className="tk-btn-quiet" onClick={() => setConfirmRemove(false)} disabled={save.isPending}>
+                Keep the cap
+              </button>
+            </div>
           </div>
-          <button type="submit" className="tk-btn-quiet" disabled={save.isPending}>
-            Save
-          </button>
-        </form>
+        ) : (
+          <form
+            className="space-y-1"
+            noValidate
+            onSubmit={(e) => {
+              e.preventDefault();
+              setTouched(true);
+              setSaved(null);
+              if (read.problem !== null) return;
+              if (read.cap === null && o.spendCapUsd !== null) setConfirmRemove(true);
+              else save.mutate(read.cap);
+            }}
+          >
+            <div className="flex items-end gap-2">
+              <div>
+                <label htmlFor="spend-cap" className="tk-label">
+                  Monthly cap <span className="font-mono text-micro text-fg-faint">[USD]</span>
+                </label>
+                <input
+                  id="spend-cap"
+                  className="tk-field mt-1 w-32"
+                  inputMode="decimal"
+                  value={value}
+                  onChange={(e) => {
+                    setValue(e.target.value);
+                    setSaved(null);
+                  }}
+                  onBlur={() => setTouched(true)}
+                  placeholder="no cap"
+                  aria-invalid={problem ? true : undefined}
+                  aria-describedby="spend-cap-note"
+                />
+              </div>
+              <button type="submit" className="tk-btn-quiet" disabled={save.isPending} data-testid="spend-cap-save">
+                {save.isPending ? "Saving…" : "Save"}
+              </button>
+            </div>
+            <p
+              id="spend-cap-note"
+              className={`text-caption ${problem ? "text-danger" : "text-fg-faint"}`}
+              role={problem ? "alert" : undefined}
+              data-testid="spend-cap-note"
+            >
+              {problem ?? `From ${SPEND_CAP_USD.min} to ${SPEND_CAP_USD.max.toLocaleString("en-US")} USD a month; empty for no cap.`}
+            </p>
+          </form>
+        )
+      ) : (
+        <p className="text-caption text-fg-faint">The Owner and Billing admins set the cap.</p>
+      )}
+      {saved ? (
+        <p role="status" className="text-caption text-accent-strong" data-testid="spend-cap-saved">
+          {saved}
+        </p>
       ) : null}
       {save.error ? <ErrorNote error={save.error} title="Cap not saved" /> : null}
     </section>

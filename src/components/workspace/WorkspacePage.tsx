@@ -1,37 +1,26 @@
 "use client";
 
 import { useQuery } from "@tanstack/react-query";
-import { when } from "@/lib/units";
 import { PageHeader, ErrorNote, Skeleton } from "@/components/ui/Page";
-import { CardTable } from "@/components/ui/Table";
-import { useMe } from "@/components/shell/useMe";
-import { membersQuery } from "@/components/shell/useMemberNames";
+import { api } from "@/lib/api";
+import { ROLE_LABELS } from "@/shared/permissions";
+import { MembersSection } from "./MembersSection";
+import { TokensSection } from "./TokensSection";
 
+/** The group (API: workspace): its members, invitations and seats, and the signed-in member's API tokens. */
 export function WorkspacePage() {
-  const me = useMe();
-  const members = useQuery(membersQuery);
+  const described = useQuery({ queryKey: ["workspace", "description"], queryFn: () => api("GET /api/v1/workspace"), staleTime: 30_000 });
+  if (described.error) return <ErrorNote error={described.error} title="This group could not be loaded" />;
+  if (!described.data) return <Skeleton lines={6} />;
+  const { workspace, member } = described.data;
   return (
-    <>
-      <PageHeader kicker="workspace" title={me.data?.workspace?.name ?? "Workspace"}>
-        {me.data?.workspace?.plan === "lab" ? "Lab plan" : "Free plan"} · you are {me.data?.role ? me.data.role.replace("_", " ") : "…"}. API tokens for scripts
-        are scoped to this workspace and to one role.
+    <div className="space-y-10">
+      <PageHeader kicker={workspace.kind === "personal" ? "personal group" : "group"} title={workspace.name}>
+        {workspace.plan === "lab" ? "Lab plan" : "Free plan"} · you are {ROLE_LABELS[member.role]}. Members, invitations and seats, then your API tokens for
+        scripts.
       </PageHeader>
-      <h2 className="mb-2 text-lead font-semibold">Members</h2>
-      {members.error ? <ErrorNote error={members.error} /> : null}
-      {!members.data && !members.error ? <Skeleton /> : null}
-      {members.data ? (
-        <CardTable label="Members" columns={["Member", "Role", "Joined"]}>
-          {members.data.members.map((m) => (
-            <tr key={m.userId} className="border-b border-line last:border-0">
-              <td className="px-3 py-2">
-                {m.name || m.email} <span className="text-caption text-fg-faint">{m.email}</span>
-              </td>
-              <td className="px-3 py-2">{m.roleLabel}</td>
-              <td className="px-3 py-2 tk-num text-caption">{when(m.joinedAt)}</td>
-            </tr>
-          ))}
-        </CardTable>
-      ) : null}
-    </>
+      <MembersSection role={member.role} myUserId={member.id} kind={workspace.kind} />
+      <TokensSection role={member.role} myName={member.name || member.email || "you"} />
+    </div>
   );
 }

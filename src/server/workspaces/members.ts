@@ -12,13 +12,10 @@ import { CLERK_ROLE_FOR } from "@/server/auth/roles";
 import { getDb, type Executor } from "@/server/db";
 import { invitations, memberships, users, workspaces } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
-import { ACTIONS, ROLE_LABELS, ROLES, rolesAllowed, type Action, type Role } from "@/shared/permissions";
+import { ACTIONS, ROLE_LABELS, ROLES, SEAT_ROLES, rolesAllowed, type Action, type Role } from "@/shared/permissions";
 import type { WorkspaceDescription } from "@/shared/api";
 import type { MemberView, SeatUse } from "@/shared/api";
 export type { MemberView };
-
-/** Roles a Billing admin may invite or remove (seats only). */
-export const SEAT_ROLES: readonly Role[] = ["researcher", "viewer"];
 
 export async function workspaceOf(caller: Caller) {
   const [ws] = await getDb().select().from(workspaces).where(eq(workspaces.id, caller.workspaceId));

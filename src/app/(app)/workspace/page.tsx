@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { WorkspacePage } from "@/components/workspace/WorkspacePage";
 
-export const metadata: Metadata = { title: "Workspace" };
+export const metadata: Metadata = { title: "Group" };
 
 export default function Page() {
   return <WorkspacePage />;

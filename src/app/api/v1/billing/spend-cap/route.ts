@@ -3,14 +3,15 @@ import { z } from "zod";
 import { getCaller } from "@/server/auth";
 import { setSpendCap } from "@/server/billing/subscriptions";
 import { readJson, route, zodToApiError } from "@/server/http/errors";
+import { SPEND_CAP_USD } from "@/shared/plans";
 
 export const dynamic = "force-dynamic";
 
 const Body = z.object({
   spendCapUsd: z
     .number({ message: "must be a number of USD, or null for no cap" })
-    .min(1, "must be at least 1 USD (or null for no cap)")
-    .max(1_000_000, "must be at most 1,000,000 USD")
+    .min(SPEND_CAP_USD.min, `must be at least ${SPEND_CAP_USD.min} USD (or null for no cap)`)
+    .max(SPEND_CAP_USD.max, `must be at most ${SPEND_CAP_USD.max.toLocaleString("en-US")} USD`)
     .nullable(),
 });
 
