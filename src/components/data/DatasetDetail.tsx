@@ -6,6 +6,7 @@ import { api } from "@/lib/api";
 import { XYChart } from "@/components/charts/XYChart";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import { FitForm } from "./FitForm";
+import { FitQualityMark } from "./FitQualityMark";
 import { PeriodPanel } from "./PeriodPanel";
 import { SyntheticMark } from "./SyntheticMark";
 
@@ -57,6 +58,7 @@ export function DatasetDetail({ id }: { id: string }) {
                     {new Date(f.createdAt).toLocaleString()} · {f.status}
                     {f.result ? ` · χ²/dof ${f.result.chi2PerDof.toPrecision(3)}` : ""}
                   </Link>
+                  {f.result ? <FitQualityMark quality={f.result.quality} flags={f.result.flags} /> : null}
                 </li>
               ))}
             </ul>
