@@ -2,7 +2,7 @@
 
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import Link from "next/link";
-import { useEffect, useState } from "react";
+import { useState } from "react";
 import { api } from "@/lib/api";
 import { XYChart } from "@/components/charts/XYChart";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
@@ -17,9 +17,16 @@ const finished = (s?: string) => s === "succeeded" || s === "failed" || s === "c
 /** Fit report: progress while it runs; then overlay, residuals, the table of values with uncertainties, correlations and exports. */
 export function FitReport({ id }: { id: string }) {
   const queryClient = useQueryClient();
+  // chi2 per iteration as the worker reports it (sampled about once a second while the fit runs).
+  const [history, setHistory] = useState<FitIteration[]>([]);
   const q = useQuery({
     queryKey: ["fit", id],
-    queryFn: () => api("GET /api/v1/fits/{id}", { params: { id } }),
+    queryFn: async () => {
+      const fit = await api("GET /api/v1/fits/{id}", { params: { id } });
+      const last = fit.lastIteration;
+      if (last) setHistory((h) => (h.some((p) => p.iteration === last.iteration) ? h : [...h, last].sort((a, b) => a.iteration - b.iteration)));
+      return fit;
+    },
     refetchInterval: (query) => (finished(query.state.data?.status) ? false : 1000),
   });
   const datasetId = q.data?.datasetId;
@@ -32,13 +39,6 @@ export function FitReport({ id }: { id: string }) {
     mutationFn: () => api("POST /api/v1/fits/{id}/cancel", { params: { id } }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: ["fit", id] }),
   });
-  // chi2 per iteration as the worker reports it (sampled about once a second while the fit runs).
-  const [history, setHistory] = useState<FitIteration[]>([]);
-  const last = q.data?.lastIteration;
-  useEffect(() => {
-    if (!last) return;
-    setHistory((h) => (h.some((p) => p.iteration === last.iteration) ? h : [...h, last].sort((a, b) => a.iteration - b.iteration)));
-  }, [last]);
   if (q.isPending) return <Skeleton lines={6} />;
   if (q.error) return <ErrorNote error={q.error} title="Fit not available" />;
   const f = q.data;
