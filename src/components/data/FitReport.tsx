@@ -109,7 +109,7 @@ export function FitReport({ id }: { id: string }) {
           </section>
         ) : null}
 
-        {history.length > 1 ? (
+        {history.length > 0 ? (
           <XYChart
             title="χ² per iteration"
             name={`fit-${f.id.slice(0, 8)}-chi2`}
