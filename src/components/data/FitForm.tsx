@@ -16,12 +16,14 @@ type Row = { on: boolean; initial: string; min: string; max: string };
 const DEMO_MODEL = "demo";
 const pretty = (v: unknown) => JSON.stringify(v, null, 2);
 
-/** A bound as a short number, rounded inwards so it stays inside the schema's range (2π shows as 6.28318, not 6.283185307179586). */
+/** A bound as a short number (6 significant digits), rounded inwards so it stays inside the schema's range (2π shows as 6.28318). */
 function shortBound(x: number, side: "min" | "max" | "initial"): string {
-  const s = Number(x.toPrecision(6));
-  if (side === "max" && s > x) return String(Number((x - 5e-6 * Math.abs(x)).toPrecision(6)));
-  if (side === "min" && s < x) return String(Number((x + 5e-6 * Math.abs(x)).toPrecision(6)));
-  return String(s);
+  if (x === 0 || !Number.isFinite(x)) return String(x);
+  const scale = 10 ** (5 - Math.floor(Math.log10(Math.abs(x))));
+  // (the 1e-7 keeps a value that is already short, such as 0.98, from moving by float noise)
+  const v = x * scale;
+  const r = side === "max" ? Math.floor(v + 1e-7) : side === "min" ? Math.ceil(v - 1e-7) : Math.round(v);
+  return String(Number((r / scale).toPrecision(6)));
 }
 
 function initialRows(demo: boolean): Record<string, Row> {
