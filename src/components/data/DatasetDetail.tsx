@@ -58,7 +58,7 @@ export function DatasetDetail({ id }: { id: string }) {
             <ul className="mt-2 space-y-1">
               {fitsQ.data.items.map((f) => (
                 <li key={f.id}>
-                  <Link href={`/fits/${f.id}`} className="text-accent hover:underline">
+                  <Link href={`/fits/${f.id}`} className="text-accent underline">
                     {new Date(f.createdAt).toLocaleString()} · {f.status}
                     {f.result ? ` · χ²/dof ${f.result.chi2PerDof.toPrecision(3)}` : ""}
                   </Link>

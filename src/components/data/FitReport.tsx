@@ -63,7 +63,7 @@ export function FitReport({ id }: { id: string }) {
         }
       >
         {f.datasetSynthetic ? <SyntheticMark /> : null}{" "}
-        <Link className="text-accent hover:underline" href={`/datasets/${f.datasetId}`}>
+        <Link className="text-accent underline" href={`/datasets/${f.datasetId}`}>
           dataset
         </Link>{" "}
         · engine {f.engineVersion ?? "–"} · data sha256 <span className="font-mono text-caption">{f.dataHash.slice(0, 12)}…</span> · estimate{" "}
