@@ -188,8 +188,79 @@ export function previewCsv(
 ): { columns: string[]; rows: string[][]; totalRows: number; guessedUnits: Record<string, string | undefined> } {
   const t = readCsvTable(text);
   const guessedUnits: Record<string, string | undefined> = {};
-  for (const h of t.header) guessedUnits[h] = headerUnit(h);
+  for (const h of t.header) guessedUnits[h] = columnNameUnit(h);
   return { columns: t.header, rows: t.rows.slice(0, rows).map((r) => r.cells), totalRows: t.rows.length, guessedUnits };
+}
+
+/**
+ * The unit a column's name states, for proposing a mapping: in brackets at the end ("B (mT)",
+ * "R [kohm]") or as the last word after "_" or a space ("G_S", "R_kohm", "B mT", "G_e2/h").
+ * Only the bracket form is binding (a cell or mapping that disagrees with it is an error); the
+ * other forms are a guess the upload form shows and the user may change.
+ */
+export function columnNameUnit(header: string): XUnit | YUnit | undefined {
+  const bracket = headerUnit(header);
+  if (bracket) return bracket as XUnit | YUnit;
+  const m = /[_\s]([^_\s]+)$/.exec(header.trim());
+  return m ? recogniseUnit(m[1]) : undefined;
+}
+
+/** Where a proposed unit came from: the column's name, or a default because the name states none. */
+export interface UnitAssumption<U extends string> {
+  column: string;
+  unit: U;
+  source: "column name" | "default";
+  /** One sentence for the upload form: what was assumed and why. */
+  note: string;
+}
+
+const SIGMA_COLUMN = /sigma|err|unc|^d[GR]/i;
+const TEMPERATURE_COLUMN = /temp|^T_?K\b|^T \(K\)/i;
+const RESISTANCE_NAME = /^R\b|^R_|resist/i;
+
+/** The unit proposed for an x column of that name. */
+export function assumeXUnit(column: string): UnitAssumption<XUnit> {
+  const u = columnNameUnit(column);
+  if (u && isXUnit(u)) return { column, unit: u, source: "column name", note: `x in ${u}: read from the column name "${column}".` };
+  return { column, unit: "T", source: "default", note: `x in T: the column name "${column}" states no unit of field, gate voltage or density; check it.` };
+}
+
+/** The unit proposed for a y (or uncertainty) column of that name: a resistance name without a unit is taken as ohm. */
+export function assumeYUnit(column: string): UnitAssumption<YUnit> {
+  const u = columnNameUnit(column);
+  if (u && isYUnit(u)) return { column, unit: u, source: "column name", note: `y in ${u}: read from the column name "${column}".` };
+  if (RESISTANCE_NAME.test(column))
+    return { column, unit: "ohm", source: "default", note: `y in ohm: the column name "${column}" reads as a resistance but states no unit; check it.` };
+  return { column, unit: "e2/h", source: "default", note: `y in e2/h: the column name "${column}" states no unit of conductance or resistance; check it.` };
+}
+
+/**
+ * The mapping the upload form proposes for a file's columns: x the first column named in a unit
+ * of x (else the first column), y the first other column named in a unit of y that is not an
+ * uncertainty (else the next column), the uncertainty and temperature columns by name, units from
+ * the names (assumeXUnit, assumeYUnit).
+ */
+export function proposeMapping(columns: string[]): { mapping: ColumnMapping; x: UnitAssumption<XUnit>; y: UnitAssumption<YUnit> } {
+  const unitOf = (c: string) => columnNameUnit(c);
+  const xColumn = columns.find((c) => !SIGMA_COLUMN.test(c) && isXUnit(unitOf(c) ?? "")) ?? columns[0] ?? "";
+  const rest = columns.filter((c) => c !== xColumn);
+  const yColumn = rest.find((c) => !SIGMA_COLUMN.test(c) && isYUnit(unitOf(c) ?? "")) ?? rest.find((c) => !SIGMA_COLUMN.test(c)) ?? rest[0] ?? "";
+  const sigmaColumn = rest.find((c) => c !== yColumn && SIGMA_COLUMN.test(c));
+  const temperatureColumn = rest.find((c) => c !== yColumn && c !== sigmaColumn && TEMPERATURE_COLUMN.test(c));
+  const x = assumeXUnit(xColumn);
+  const y = assumeYUnit(yColumn);
+  return {
+    mapping: {
+      xColumn,
+      xUnit: x.unit,
+      yColumn,
+      yUnit: y.unit,
+      ...(sigmaColumn ? { sigmaColumn } : {}),
+      ...(temperatureColumn ? { temperatureColumn } : {}),
+    },
+    x,
+    y,
+  };
 }
 
 /** A unit written in a header such as "B (mT)", "R [kohm]" or "G_e2/h". */

@@ -146,6 +146,7 @@ export const TABLE: Entry[] = [
   { route: "v1/fits", method: "GET", path: () => "/api/v1/fits", expect: seeList },
   // A fit on the lab's dataset: the other workspace cannot reach the dataset.
   { route: "v1/fits", method: "POST", path: () => "/api/v1/fits", body: (f) => fitBody(f.datasetId), expect: { ...CREATE, other: 404 } },
+  { route: "v1/fits", method: "POST", path: () => "/api/v1/fits?dryRun=true", body: (f) => fitBody(f.datasetId), expect: { ...CREATE, other: 404 } },
   { route: "v1/fits/[id]", method: "GET", path: (f) => `/api/v1/fits/${f.fitId}`, expect: seeObject },
   { route: "v1/fits/[id]/export", method: "GET", path: (f) => `/api/v1/fits/${f.fitId}/export`, expect: seeObject },
   { route: "v1/fits/[id]/curve.csv", method: "GET", path: (f) => `/api/v1/fits/${f.fitId}/curve.csv`, expect: seeObject },

@@ -2,15 +2,20 @@
 
 import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
+import { useState } from "react";
 import { api } from "@/lib/api";
+import type { DatasetPeriod } from "@/shared/api";
 import { XYChart } from "@/components/charts/XYChart";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import { FitForm } from "./FitForm";
+import { FitQualityMark } from "./FitQualityMark";
 import { PeriodPanel } from "./PeriodPanel";
 import { SyntheticMark } from "./SyntheticMark";
 
 export function DatasetDetail({ id }: { id: string }) {
   const q = useQuery({ queryKey: ["dataset", id], queryFn: () => api("GET /api/v1/datasets/{id}", { params: { id } }) });
+  // The latest period estimate: the fit form can put its twist angle (or period) into the model network.
+  const [period, setPeriod] = useState<DatasetPeriod | null>(null);
   const fitsQ = useQuery({ queryKey: ["fits", { datasetId: id }], queryFn: () => api("GET /api/v1/fits", { query: { datasetId: id } }) });
   if (q.isPending) return <Skeleton lines={6} />;
   if (q.error) return <ErrorNote error={q.error} title="Dataset not available" />;
@@ -42,21 +47,22 @@ export function DatasetDetail({ id }: { id: string }) {
           csv={{ header: [`x_${d.xUnit}`, "conductanceE2h", "sigmaE2h"], rows: d.points.x.map((x, i) => [x, d.points.y[i], d.points.sigma?.[i] ?? ""]) }}
         />
         {d.xQuantity === "field" ? (
-          <PeriodPanel datasetId={d.id} />
+          <PeriodPanel datasetId={d.id} onResult={setPeriod} />
         ) : (
           <p className="text-body text-fg-soft">The period analysis and fits need a field axis; this dataset&apos;s x is {d.xQuantity}.</p>
         )}
-        {d.xQuantity === "field" ? <FitForm datasetId={d.id} datasetName={d.name} /> : null}
+        {d.xQuantity === "field" ? <FitForm datasetId={d.id} datasetName={d.name} period={period} /> : null}
         {fitsQ.data?.items.length ? (
           <section>
             <h2 className="text-lead font-semibold">Fits of this dataset</h2>
             <ul className="mt-2 space-y-1">
               {fitsQ.data.items.map((f) => (
                 <li key={f.id}>
-                  <Link href={`/fits/${f.id}`} className="text-accent hover:underline">
+                  <Link href={`/fits/${f.id}`} className="text-accent underline">
                     {new Date(f.createdAt).toLocaleString()} · {f.status}
                     {f.result ? ` · χ²/dof ${f.result.chi2PerDof.toPrecision(3)}` : ""}
                   </Link>
+                  {f.result ? <FitQualityMark quality={f.result.quality} flags={f.result.flags} /> : null}
                 </li>
               ))}
             </ul>

@@ -8,8 +8,18 @@ import { qk } from "@/lib/queryKeys";
 import { XYChart } from "@/components/charts/XYChart";
 import { Field } from "@/components/ui/Field";
 import { PageHeader } from "@/components/ui/Page";
-import { DATASET_MAX_BYTES, DatasetCsvError, parseDatasetCsv, previewCsv, type ColumnMapping, type CsvIssue } from "@/shared/csv";
-import { isXUnit, isYUnit, X_UNIT_INFO, X_UNITS, Y_UNIT_INFO, Y_UNITS, type XUnit, type YUnit } from "@/shared/units";
+import {
+  assumeXUnit,
+  assumeYUnit,
+  DATASET_MAX_BYTES,
+  DatasetCsvError,
+  parseDatasetCsv,
+  previewCsv,
+  proposeMapping,
+  type ColumnMapping,
+  type CsvIssue,
+} from "@/shared/csv";
+import { X_UNIT_INFO, X_UNITS, Y_UNIT_INFO, Y_UNITS, type XUnit, type YUnit } from "@/shared/units";
 
 type Preview = ReturnType<typeof previewCsv>;
 
@@ -25,6 +35,29 @@ function IssueList({ issues }: { issues: CsvIssue[] }) {
           — {i.message}
         </li>
       ))}
+    </ul>
+  );
+}
+
+/** What the form assumed about the units of the chosen columns, and whether the choice now agrees with the column names. */
+function UnitsAssumed({ mapping }: { mapping: ColumnMapping }) {
+  const x = assumeXUnit(mapping.xColumn);
+  const y = assumeYUnit(mapping.yColumn);
+  const line = (a: typeof x | typeof y, chosen: string, axis: "x" | "y") =>
+    a.source === "column name" && a.unit !== chosen
+      ? `${axis} in ${chosen}: chosen by you; the column name "${a.column}" says ${a.unit}.`
+      : a.unit !== chosen
+        ? `${axis} in ${chosen}: chosen by you (the column name "${a.column}" states no unit).`
+        : a.note;
+  return (
+    <ul className="space-y-0.5 rounded-field border border-line bg-surface-sunk p-3 text-caption" data-testid="units-assumed" aria-label="Units assumed">
+      <li data-axis="x" data-source={x.source}>
+        {line(x, mapping.xUnit, "x")}
+      </li>
+      <li data-axis="y" data-source={y.source}>
+        {line(y, mapping.yUnit, "y")}
+        {mapping.sigmaColumn ? ` The uncertainty column "${mapping.sigmaColumn}" is read in the same unit.` : ""}
+      </li>
     </ul>
   );
 }
@@ -60,19 +93,7 @@ export function DatasetUpload() {
       const p = previewCsv(t);
       setPreview(p);
       setReadIssues(null);
-      const [c0, c1] = p.columns;
-      const gx = p.guessedUnits[c0];
-      const gy = p.guessedUnits[c1];
-      const sigma = p.columns.find((c) => /sigma|err|unc|^d[GR]/i.test(c));
-      const temp = p.columns.find((c) => /temp|^T_?K/i.test(c));
-      setMapping({
-        xColumn: c0 ?? "",
-        xUnit: gx && isXUnit(gx) ? gx : "T",
-        yColumn: c1 ?? "",
-        yUnit: gy && isYUnit(gy) ? gy : "e2/h",
-        ...(sigma ? { sigmaColumn: sigma } : {}),
-        ...(temp ? { temperatureColumn: temp } : {}),
-      });
+      setMapping(proposeMapping(p.columns).mapping);
     } catch (e) {
       setPreview(null);
       setReadIssues(e instanceof DatasetCsvError ? e.issues : [{ code: "malformed_row", row: null, column: null, message: (e as Error).message }]);
@@ -223,6 +244,7 @@ export function DatasetUpload() {
                 </select>
               </Field>
             </div>
+            <UnitsAssumed mapping={mapping} />
             <div className="overflow-x-auto">
               <table className="font-mono text-caption" data-testid="csv-preview">
                 <thead>

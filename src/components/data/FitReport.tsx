@@ -2,10 +2,14 @@
 
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import Link from "next/link";
+import { useState } from "react";
 import { api } from "@/lib/api";
 import { XYChart } from "@/components/charts/XYChart";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
+import type { FitIteration, FitResult } from "@/shared/api";
+import { fitParameterName } from "@/shared/fit-parameters";
 import { sig, withStderr } from "./format";
+import { FitQualityMark } from "./FitQualityMark";
 import { SyntheticMark } from "./SyntheticMark";
 
 const finished = (s?: string) => s === "succeeded" || s === "failed" || s === "cancelled";
@@ -13,9 +17,16 @@ const finished = (s?: string) => s === "succeeded" || s === "failed" || s === "c
 /** Fit report: progress while it runs; then overlay, residuals, the table of values with uncertainties, correlations and exports. */
 export function FitReport({ id }: { id: string }) {
   const queryClient = useQueryClient();
+  // chi2 per iteration as the worker reports it (sampled about once a second while the fit runs).
+  const [history, setHistory] = useState<FitIteration[]>([]);
   const q = useQuery({
     queryKey: ["fit", id],
-    queryFn: () => api("GET /api/v1/fits/{id}", { params: { id } }),
+    queryFn: async () => {
+      const fit = await api("GET /api/v1/fits/{id}", { params: { id } });
+      const last = fit.lastIteration;
+      if (last) setHistory((h) => (h.some((p) => p.iteration === last.iteration) ? h : [...h, last].sort((a, b) => a.iteration - b.iteration)));
+      return fit;
+    },
     refetchInterval: (query) => (finished(query.state.data?.status) ? false : 1000),
   });
   const datasetId = q.data?.datasetId;
@@ -52,7 +63,7 @@ export function FitReport({ id }: { id: string }) {
         }
       >
         {f.datasetSynthetic ? <SyntheticMark /> : null}{" "}
-        <Link className="text-accent hover:underline" href={`/datasets/${f.datasetId}`}>
+        <Link className="text-accent underline" href={`/datasets/${f.datasetId}`}>
           dataset
         </Link>{" "}
         · engine {f.engineVersion ?? "–"} · data sha256 <span className="font-mono text-caption">{f.dataHash.slice(0, 12)}…</span> · estimate{" "}
@@ -64,6 +75,7 @@ export function FitReport({ id }: { id: string }) {
         <div className="tk-card space-y-2" data-testid="fit-status">
           <p className="text-body">
             Status: <strong data-status={f.status}>{f.status}</strong>
+            {r ? <FitQualityMark quality={r.quality} flags={r.flags} /> : null}
             {f.lastIteration && !finished(f.status) ? ` · iteration ${f.lastIteration.iteration} · χ² ${sig(f.lastIteration.chi2, 4)}` : ""}
           </p>
           <div
@@ -83,6 +95,31 @@ export function FitReport({ id }: { id: string }) {
           ) : null}
           {f.error ? <ErrorNote error={f.error.message} title={f.status === "cancelled" ? "Cancelled" : "The fit failed"} /> : null}
         </div>
+
+        {r && r.warnings.length ? (
+          <section className="rounded-card border border-danger/40 bg-danger-soft p-4" aria-labelledby="fit-warnings-title" data-testid="fit-warnings">
+            <h2 id="fit-warnings-title" className="text-body font-semibold text-danger">
+              {r.quality === "poor" ? "Poor fit: read these before the numbers" : "Warnings"}
+            </h2>
+            <ul className="mt-1 list-disc space-y-0.5 pl-5 text-body text-fg">
+              {r.warnings.map((w, i) => (
+                <li key={i}>{w}</li>
+              ))}
+            </ul>
+          </section>
+        ) : null}
+
+        {history.length > 0 ? (
+          <XYChart
+            title="χ² per iteration"
+            name={`fit-${f.id.slice(0, 8)}-chi2`}
+            xLabel="iteration (0: global stage; then the descents one after another)"
+            yLabel="χ²"
+            height={200}
+            series={[{ name: "chi2", x: history.map((h) => h.iteration), y: history.map((h) => h.chi2), points: true, color: "accent" }]}
+            csv={{ header: ["iteration", "chi2"], rows: history.map((h) => [h.iteration, h.chi2]) }}
+          />
+        ) : null}
 
         {r && r.curve && d ? (
           <>
@@ -137,7 +174,9 @@ export function FitReport({ id }: { id: string }) {
                   const v = withStderr(p.value, p.stderr);
                   return (
                     <tr key={p.parameter} className="border-t border-line" data-parameter={p.parameter}>
-                      <td className="py-1 font-mono text-caption">{p.parameter}</td>
+                      <td className="py-1">
+                        {fitParameterName(p.parameter)} <span className="font-mono text-micro text-fg-faint">{p.parameter}</span>
+                      </td>
                       <td className="tk-num font-mono">{v.value}</td>
                       <td className="tk-num font-mono">± {v.stderr}</td>
                       <td className="tk-num font-mono text-caption">{sig(p.initial)}</td>
@@ -163,13 +202,6 @@ export function FitReport({ id }: { id: string }) {
               Standard errors from the Jacobian at the optimum, scaled by the residual variance (χ²/dof). Results are predictions of a phenomenological model;
               node probabilities and mode velocity are model parameters, not material constants.
             </p>
-            {r.warnings?.length ? (
-              <ul className="list-disc pl-5 text-caption text-warm">
-                {r.warnings.map((w, i) => (
-                  <li key={i}>{w}</li>
-                ))}
-              </ul>
-            ) : null}
             {r.correlation && r.parameters.length > 1 ? (
               <div>
                 <h3 className="text-body font-semibold">Correlation matrix</h3>
@@ -179,7 +211,7 @@ export function FitReport({ id }: { id: string }) {
                       <th />
                       {r.parameters.map((p) => (
                         <th key={p.parameter} className="px-2 text-left text-fg-faint">
-                          {p.parameter}
+                          {fitParameterName(p.parameter)}
                         </th>
                       ))}
                     </tr>
@@ -187,7 +219,7 @@ export function FitReport({ id }: { id: string }) {
                   <tbody>
                     {r.correlation.map((row, i) => (
                       <tr key={i}>
-                        <th className="pr-2 text-left text-fg-faint">{r.parameters[i].parameter}</th>
+                        <th className="pr-2 text-left text-fg-faint">{fitParameterName(r.parameters[i].parameter)}</th>
                         {row.map((c, j) => (
                           <td key={j} className="px-2 tk-num">
                             {c.toFixed(3)}
@@ -199,9 +231,61 @@ export function FitReport({ id }: { id: string }) {
                 </table>
               </div>
             ) : null}
+            <StartsTable starts={r.starts} />
           </section>
         ) : null}
       </div>
     </>
+  );
+}
+
+/** Every start of the fit: the global stage's points (evaluated only) and the local descents, from where to where. */
+function StartsTable({ starts }: { starts: FitResult["starts"] }) {
+  if (!starts.length) return null;
+  const names = Object.keys(starts[0].initial);
+  const local = starts.filter((s) => s.stage === "local");
+  const global = starts.length - local.length;
+  const best = Math.min(...starts.map((s) => s.chi2));
+  return (
+    <details className="text-caption" data-testid="fit-starts">
+      <summary className="cursor-pointer text-body font-semibold">
+        Starts: {global} global point{global === 1 ? "" : "s"}, {local.length} local descent{local.length === 1 ? "" : "s"}
+      </summary>
+      <table className="mt-2 font-mono">
+        <thead className="text-left text-fg-faint">
+          <tr>
+            <th className="pr-3">start</th>
+            <th className="pr-3">stage</th>
+            {names.map((n) => (
+              <th key={n} className="pr-3">
+                {fitParameterName(n)}: from → to
+              </th>
+            ))}
+            <th className="pr-3">χ²</th>
+            <th className="pr-3">iterations</th>
+            <th>converged</th>
+          </tr>
+        </thead>
+        <tbody>
+          {starts.map((s) => (
+            <tr key={s.start} className="border-t border-line" data-stage={s.stage}>
+              <td className="pr-3">{s.start}</td>
+              <td className="pr-3">{s.stage}</td>
+              {names.map((n) => (
+                <td key={n} className="pr-3 tk-num">
+                  {s.stage === "global" ? sig(s.initial[n]) : `${sig(s.initial[n])} → ${sig(s.final[n])}`}
+                </td>
+              ))}
+              <td className="pr-3 tk-num">
+                {sig(s.chi2, 5)}
+                {s.chi2 === best ? " (best)" : ""}
+              </td>
+              <td className="pr-3 tk-num">{s.iterations}</td>
+              <td>{s.stage === "global" ? "–" : s.converged ? "yes" : "no"}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </details>
   );
 }

@@ -5,7 +5,9 @@ import Link from "next/link";
 import { api } from "@/lib/api";
 import { qk } from "@/lib/queryKeys";
 import { Empty, ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
+import { fitParameterName } from "@/shared/fit-parameters";
 import { withStderr } from "./format";
+import { FitQualityMark } from "./FitQualityMark";
 
 export function FitsList() {
   const q = useQuery({ queryKey: qk.fits, queryFn: () => api("GET /api/v1/fits"), refetchInterval: 3000 });
@@ -42,16 +44,17 @@ export function FitsList() {
                 <td>
                   {f.status}
                   {f.status === "running" ? ` ${Math.round(f.progress * 100)} %` : ""}
+                  {f.result ? <FitQualityMark quality={f.result.quality} flags={f.result.flags} /> : null}
                 </td>
-                <td className="font-mono text-caption">
+                <td className="text-caption">
                   {f.result?.parameters
                     ? f.result.parameters
                         .map((p) => {
                           const v = withStderr(p.value, p.stderr);
-                          return `${p.parameter} = ${v.value} ± ${v.stderr}`;
+                          return `${fitParameterName(p.parameter)} = ${v.value} ± ${v.stderr}`;
                         })
                         .join("; ")
-                    : f.settings.fit.map((p) => p.parameter).join(", ")}
+                    : f.settings.fit.map((p) => fitParameterName(p.parameter)).join(", ")}
                 </td>
                 <td className="tk-num">{f.result ? f.result.chi2PerDof.toPrecision(3) : "–"}</td>
                 <td className="tk-num text-caption">{new Date(f.createdAt).toLocaleString()}</td>

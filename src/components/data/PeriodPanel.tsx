@@ -3,14 +3,18 @@
 import { useMutation } from "@tanstack/react-query";
 import { FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM } from "@/engine/browser";
 import { api } from "@/lib/api";
+import type { DatasetPeriod } from "@/shared/api";
 import { sigText } from "@/lib/units";
 import { XYChart } from "@/components/charts/XYChart";
 import { ErrorNote } from "@/components/ui/Page";
 import { sig } from "./format";
 
 /** Period analysis: spectrum with its peak, and the period read as area, moiré period and twist angle. */
-export function PeriodPanel({ datasetId }: { datasetId: string }) {
-  const m = useMutation({ mutationFn: () => api("POST /api/v1/datasets/{id}/period", { params: { id: datasetId }, json: {} }) });
+export function PeriodPanel({ datasetId, onResult }: { datasetId: string; onResult?: (period: DatasetPeriod) => void }) {
+  const m = useMutation({
+    mutationFn: () => api("POST /api/v1/datasets/{id}/period", { params: { id: datasetId }, json: {} }),
+    onSuccess: (period) => onResult?.(period),
+  });
   const r = m.data;
   return (
     <section className="space-y-4" aria-labelledby="period-title">

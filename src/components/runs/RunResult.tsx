@@ -1,5 +1,6 @@
 "use client";
 
+import Link from "next/link";
 import { useMemo } from "react";
 import type {
   ComputeInput,
@@ -28,6 +29,7 @@ export function binCenters(h: { binEdges: number[]; counts: number[] }): number[
 /** The result of a run, drawn by kind (the engine's result types); every figure has axes in physical units and exports. */
 export function RunResult({ run }: { run: Pick<RunDetail, "id" | "input" | "result"> }) {
   const r = run.result;
+  if (r !== null && "fitId" in r) return <FitCompanion fitId={r.fitId} chi2PerDof={r.chi2PerDof ?? null} />;
   if (!isEngineResult(r)) return <pre className="tk-card overflow-auto font-mono text-caption">{JSON.stringify(r, null, 2)}</pre>;
   switch (r.kind) {
     case "conductance":
@@ -41,6 +43,21 @@ export function RunResult({ run }: { run: Pick<RunDetail, "id" | "input" | "resu
     case "localization":
       return <LocalizationResult r={r} />;
   }
+}
+
+/** A fit's companion calculation (the row its compute is metered on): a link back to the fit's report. */
+function FitCompanion({ fitId, chi2PerDof }: { fitId: string; chi2PerDof: number | null }) {
+  return (
+    <div className="tk-card space-y-2" data-testid="fit-companion">
+      <p className="text-body">
+        This calculation is the compute of a fit: its engine evaluations are metered here, its results are in the fit&apos;s report
+        {chi2PerDof !== null ? ` (χ²/dof ${num(chi2PerDof)})` : ""}.
+      </p>
+      <Link className="tk-btn" href={`/fits/${fitId}`}>
+        Open the fit report
+      </Link>
+    </div>
+  );
 }
 
 function Figure({ label, value, sub }: { label: string; value: string; sub?: string }) {

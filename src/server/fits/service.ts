@@ -6,7 +6,7 @@ import "@/server/server-only";
 import { and, desc, eq, lt } from "drizzle-orm";
 import { z } from "zod";
 import { computeCostUsd } from "@/shared/plans";
-import type { FitCreated, FitDetail, FitExport, FitList, FitSettings } from "@/shared/api";
+import type { FitCreated, FitDetail, FitDryRun, FitExport, FitList, FitSettings } from "@/shared/api";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
 import { assertWithinBudget, reserveBudget } from "@/server/billing/budget";
@@ -18,7 +18,7 @@ import { ApiError, zodToApiError } from "@/server/http/errors";
 import { enqueueAfterCommit, JOB_KINDS, requestCancel } from "@/server/jobs";
 import { resolveSubmission } from "@/server/runs/service";
 import { ENGINE_VERSION, engine, inputHash, secondsPerEvaluation } from "./engine";
-import { FitInputError, MAX_GLOBAL_STARTS, MAX_LOCAL_STARTS, validateSpecs } from "./fitter";
+import { FitInputError, fitStages, MAX_GLOBAL_STARTS, MAX_LOCAL_STARTS, validateSpecs } from "./fitter";
 import { checkFitSpecs, expectedEvaluations, SWEEP_FOR_QUANTITY } from "./model";
 
 const spec = z.object({ parameter: z.string().min(1), initial: z.number(), min: z.number(), max: z.number() }).strict();
@@ -53,7 +53,8 @@ type FitRow = typeof fits.$inferSelect;
 
 const uuidRe = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
-export async function createFit(caller: Caller, raw: unknown): Promise<FitCreated> {
+/** Every check of a fit submission (the budget's too) and its estimate, writing nothing. */
+async function prepareFit(caller: Caller, raw: unknown) {
   requirePermission(caller, "work.create");
   const parsed = fitBody.safeParse(raw);
   if (!parsed.success) throw zodToApiError(parsed.error);
@@ -124,7 +125,31 @@ export async function createFit(caller: Caller, raw: unknown): Promise<FitCreate
   const estimatedComputeSeconds = evaluations * points.x.length * secondsPerEvaluation(worst);
   assertJobComputeWithinPlan(caller.plan, estimatedComputeSeconds, `The fit (${evaluations * points.x.length} engine evaluations)`);
   await assertWithinBudget(caller.workspaceId, estimatedComputeSeconds);
+  const estimate = {
+    computeSeconds: round(estimatedComputeSeconds, 3),
+    costUsd: round(computeCostUsd(caller.plan, estimatedComputeSeconds), 4),
+    engineEvaluations: evaluations * points.x.length,
+  };
+  return { body, dataset, input, estimatedComputeSeconds, estimate };
+}
 
+/** POST /api/v1/fits?dryRun=true: the checks and the estimate (global and local stages as they would run), nothing written. */
+export async function estimateFit(caller: Caller, raw: unknown): Promise<FitDryRun> {
+  const { body, dataset, input, estimate } = await prepareFit(caller, raw);
+  const stages = fitStages(body.fit.length, body.options);
+  return {
+    dryRun: true as const,
+    estimate,
+    stages: { globalStarts: stages.globalStarts, localStarts: stages.localStarts, maxIterations: stages.maxIterations },
+    points: dataset.points.x.length,
+    modelCurves: estimate.engineEvaluations / dataset.points.x.length,
+    inputHash: inputHash(input as never),
+  };
+}
+
+export async function createFit(caller: Caller, raw: unknown): Promise<FitCreated> {
+  const { body, dataset, input, estimatedComputeSeconds, estimate } = await prepareFit(caller, raw);
+  const db = getDb();
   const stored: FitSettings = { ...input, sweepParameter: body.sweepParameter, fit: body.fit, options: body.options ?? {} };
   // The queued fit is the reservation: written in the transaction that checked the budget under the workspace's lock.
   const row = await db.transaction(async (tx) => {
@@ -146,15 +171,7 @@ export async function createFit(caller: Caller, raw: unknown): Promise<FitCreate
     return inserted;
   });
   await enqueueAfterCommit("fit", [{ id: row.id, priority: queuePriority(caller.plan) }]);
-  return {
-    id: row.id,
-    status: row.status,
-    estimate: {
-      computeSeconds: round(estimatedComputeSeconds, 3),
-      costUsd: round(computeCostUsd(caller.plan, estimatedComputeSeconds), 4),
-      engineEvaluations: evaluations * points.x.length,
-    },
-  };
+  return { id: row.id, status: row.status, estimate };
 }
 
 const round = (x: number, d: number) => Math.round(x * 10 ** d) / 10 ** d;

@@ -144,6 +144,19 @@ export interface FitCreated {
   estimate: Estimate & { engineEvaluations: number };
 }
 
+/** POST /api/v1/fits?dryRun=true: every check passed and the estimate, with the stages as they would run; nothing was written. */
+export interface FitDryRun {
+  dryRun: true;
+  estimate: Estimate & { engineEvaluations: number };
+  /** The global stage's points (0: off), the local descents and their iteration limit. */
+  stages: { globalStarts: number; localStarts: number; maxIterations: number };
+  /** Data points: one engine computation per point and model curve. */
+  points: number;
+  /** Model curves the estimate counts (engineEvaluations / points). */
+  modelCurves: number;
+  inputHash: string;
+}
+
 /** GET /api/v1/fits/{id}/export: everything needed to reproduce and cite the fit. */
 export interface FitExport {
   format: string;

@@ -8,7 +8,7 @@
  */
 import type { BillingOverview, CheckoutStart, InvoiceList, PortalLink, SeatsSynced, SeatsView, SpendCapView, UsageReport } from "./billing";
 import type { DatasetDetail, DatasetList, DatasetPeriod, DatasetSummary } from "./datasets";
-import type { FitCreated, FitDetail, FitExport, FitList } from "./fits";
+import type { FitCreated, FitDetail, FitDryRun, FitExport, FitList } from "./fits";
 import type { NetworkDetail, NetworkList, NetworkView } from "./networks";
 import type { RunCreated, RunDetail, RunDryRun, RunList } from "./runs";
 import type { SweepCreated, SweepDetail, SweepDryRun, SweepList } from "./sweeps";
@@ -48,6 +48,7 @@ export interface ApiRoutes {
 
   "GET /api/v1/fits": FitList;
   "POST /api/v1/fits": FitCreated;
+  "POST /api/v1/fits?dryRun=true": FitDryRun;
   "GET /api/v1/fits/{id}": FitDetail;
   "POST /api/v1/fits/{id}/cancel": FitDetail;
   "GET /api/v1/fits/{id}/export": FitExport;
@@ -104,6 +105,7 @@ export const JSON_ROUTES = [
   "POST /api/v1/datasets/{id}/period",
   "GET /api/v1/fits",
   "POST /api/v1/fits",
+  "POST /api/v1/fits?dryRun=true",
   "GET /api/v1/fits/{id}",
   "POST /api/v1/fits/{id}/cancel",
   "GET /api/v1/fits/{id}/export",
