@@ -1,0 +1,113 @@
+/**
+ * Block schedule: the order in which the block path of the slice composition
+ * (`scattering/block-step.ts`) absorbs the network, in blocks of up to `maxNodes` nodes (about a
+ * column of the lattice) instead of the general schedule's groups of at most 16 unlinked nodes.
+ *
+ * A block may contain links among its members as long as every one of them runs from an earlier
+ * member to a later one (a forward, loop-free graph): the block's own scattering matrix is then a
+ * sparse forward substitution, and absorbing it is one q x q solve and one rank-q update of the
+ * frontier, with q the block's outputs that lead back into the absorbed part (about W per column
+ * of a W-row strip). The node order is one of the general schedule's candidates
+ * (`candidateOrders`), the cheapest by a simulation of the block updates.
+ */
+import type { NetworkGraph } from "./graph";
+import { candidateOrders } from "./schedule";
+
+/**
+ * Largest block, in nodes. Measured (2026-12-03, triangular W x W cylinders, W = 32 .. 192, both
+ * backends, `scripts/bench-kernels.ts`): a whole column per block is fastest at every W; a cap
+ * only matters for very tall strips, where it bounds the q x q systems (memory 16 q^2 bytes).
+ */
+export const MAX_BLOCK_NODES = 1024;
+
+export interface BlockScheduleOptions {
+  /** "columns": plain order by abscissa, a block never spans two abscissae (clean cuts after every level). */
+  order?: "cheapest" | "columns";
+  maxNodes?: number;
+  /** Most levels (node abscissae of the chosen order) in one block. */
+  maxLevels?: number;
+}
+
+const cache = new WeakMap<NetworkGraph, Map<string, Int32Array[]>>();
+
+/** The block schedule of a graph (cached per graph and options). */
+export function blockSchedule(g: NetworkGraph, opts: BlockScheduleOptions = {}): Int32Array[] {
+  const order = opts.order ?? "cheapest",
+    maxNodes = opts.maxNodes ?? MAX_BLOCK_NODES,
+    maxLevels = opts.maxLevels ?? (order === "columns" ? 1 : 2);
+  const k = `${order}/${maxNodes}/${maxLevels}`;
+  let m = cache.get(g);
+  if (!m) cache.set(g, (m = new Map()));
+  const hit = m.get(k);
+  if (hit) return hit;
+  let best: { blocks: Int32Array[]; cost: number } | null = null;
+  for (const cand of candidateOrders(g, g.nodeX, order)) {
+    const blocks = chunk(g, cand.order, cand.tk, maxNodes, maxLevels);
+    const cost = simulateBlocks(g, blocks);
+    if (!best || cost < best.cost) best = { blocks, cost };
+  }
+  const blocks = (best as { blocks: Int32Array[] }).blocks;
+  m.set(k, blocks);
+  return blocks;
+}
+
+/** Greedy blocks along `order`: a node joins the current block unless it would close a link from a later to an earlier member. */
+function chunk(g: NetworkGraph, order: number[], tk: Float64Array, maxNodes: number, maxLevels: number): Int32Array[] {
+  const pos = new Int32Array(g.nodeCount).fill(-1);
+  const blocks: Int32Array[] = [];
+  let cur: number[] = [],
+    levels = 0,
+    lastKey = NaN;
+  const flush = () => {
+    if (cur.length) blocks.push(Int32Array.from(cur));
+    for (const m of cur) pos[m] = -1;
+    cur = [];
+    levels = 0;
+    lastKey = NaN;
+  };
+  for (const m of order) {
+    let backward = false;
+    for (let s = g.slotOffset[m]; s < g.slotOffset[m] + g.slotCount[m]; s++) {
+      const to = g.chToNode[g.outChannel[s]];
+      // an output into a member already in the block (or into itself) would be a loop inside it
+      if (to === m || (to >= 0 && pos[to] >= 0)) backward = true;
+    }
+    const newLevel = tk[m] !== lastKey;
+    if (cur.length > 0 && (backward || cur.length >= maxNodes || (newLevel && levels >= maxLevels))) flush();
+    if (tk[m] !== lastKey) {
+      levels++;
+      lastKey = tk[m];
+    }
+    pos[m] = cur.length;
+    cur.push(m);
+  }
+  flush();
+  return blocks;
+}
+
+/** Rough cost of a block schedule: per block q x (rows + 1) x (cols + 1) for the update, plus q^2 (rows + q) for the solve. */
+function simulateBlocks(g: NetworkGraph, blocks: Int32Array[]): number {
+  const absorbed = new Uint8Array(g.nodeCount);
+  let rows = 0,
+    cols = 0,
+    cost = 0;
+  for (const b of blocks) {
+    let q = 0;
+    const inBlock = new Set<number>(b);
+    for (const m of b) {
+      for (let s = g.slotOffset[m]; s < g.slotOffset[m] + g.slotCount[m]; s++) {
+        const from = g.chFromNode[g.inChannel[s]];
+        if (from >= 0 && absorbed[from]) rows--;
+        else if (!(from >= 0 && inBlock.has(from))) cols++;
+        const to = g.chToNode[g.outChannel[s]];
+        if (to >= 0 && absorbed[to]) {
+          q++;
+          cols--;
+        } else if (!(to >= 0 && inBlock.has(to))) rows++;
+      }
+    }
+    cost += q * (rows + 1) * (cols + 1) + q * q * (rows + q);
+    for (const m of b) absorbed[m] = 1;
+  }
+  return cost;
+}

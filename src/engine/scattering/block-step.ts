@@ -1,0 +1,295 @@
+/**
+ * Block path of the slice composition: absorb a whole block of nodes (about a column, see
+ * `network/blocks.ts`) into the dense frontier matrix S of an `Absorber` in one step.
+ *
+ * The block's members may be linked to each other, every link running from an earlier member to
+ * a later one, so the block's own scattering matrix (external inputs -> external outputs, the
+ * internal links' phases included) is a forward substitution with a few nonzeros per output: it
+ * is kept sparse. With P the inputs fed by rows of S (rows rho), X the new inputs, Q the outputs
+ * that feed columns of S and Y the new outputs, M = T[Q, P], K = 1 - M S[rho, Q] (q x q) and
+ * Z = S[:, Q] K^-1 (one solve of BLAS size, on the transposed system):
+ *
+ *   S[:, old]  += Z (M S[rho, :])      (rank q: one product of BLAS size)
+ *   S[:, X]     = Z T[Q, X]            (sparse)
+ *   S[Y, :]     = T[Y, P] S[rho, :] + T[Y, X]   (sparse, with the updated rows rho)
+ *
+ * then the rows rho and the columns Q become internal and are dropped. This is the Redheffer star
+ * product of S with the block, restricted to the channels that change; the general path
+ * (`Absorber.step`) is the same formula for groups of unlinked nodes.
+ */
+import type { Absorber } from "./absorber";
+import { smallDet } from "./small-det";
+import { getKernels, tsKernels } from "../linalg/kernels";
+import { SingularMatrixError } from "../errors";
+
+/** Below these sizes the TypeScript kernels beat a call into the backend. */
+const BACKEND_MIN_SOLVE = 16 * 16 * 32;
+const BACKEND_MIN_UPDATE = 4096 * 8;
+
+/** Sparse complex vectors over the block's external inputs (P first, then X), built node by node: row r is idx/re/im[start[r] .. start[r + 1]). */
+interface SparseRows {
+  start: number[];
+  idx: number[];
+  re: number[];
+  im: number[];
+}
+
+export function absorbBlock(a: Absorber, block: Int32Array): void {
+  const g = a.g,
+    z = a.z;
+  const pos = a.blockScratch();
+  for (let t = 0; t < block.length; t++) pos[block[t]] = t;
+  // 1. classify the input slots: P (from the absorbed part), internal (from an earlier member), X (new)
+  let slots = 0;
+  for (const n of block) slots += g.slotCount[n];
+  const inExt = new Int32Array(slots); // external input index of each in slot (P: i, X: p + x), -1 internal
+  const Prow: number[] = [],
+    Pch: number[] = [],
+    Xch: number[] = [];
+  const xOfSlot = new Int32Array(slots).fill(-1);
+  {
+    let gs = 0;
+    for (let t = 0; t < block.length; t++) {
+      const n = block[t],
+        so = g.slotOffset[n];
+      for (let s = 0; s < g.slotCount[n]; s++, gs++) {
+        const ch = g.inChannel[so + s];
+        const from = g.chFromNode[ch];
+        if (from >= 0 && a.absorbed[from]) {
+          inExt[gs] = Prow.length;
+          Prow.push(a.chRow[ch]);
+          Pch.push(ch);
+        } else if (from >= 0 && pos[from] >= 0 && pos[from] < t) inExt[gs] = -1;
+        else {
+          xOfSlot[gs] = Xch.length;
+          Xch.push(ch);
+        }
+      }
+    }
+  }
+  const p = Prow.length,
+    nx = Xch.length;
+  for (let gs = 0; gs < slots; gs++) if (xOfSlot[gs] >= 0) inExt[gs] = p + xOfSlot[gs];
+  // 2. forward substitution: every output slot as a sparse combination of the external inputs
+  //    (arrival amplitudes: the link phase z of the input channel included)
+  const outRows: SparseRows = { start: [0], idx: [], re: [], im: [] };
+  // the output row of group slot gs is row gs (rows are pushed node by node, slot by slot)
+  const nodeBase = new Int32Array(block.length);
+  for (let t = 1; t < block.length; t++) nodeBase[t] = nodeBase[t - 1] + g.slotCount[block[t - 1]];
+  const acc = new Float64Array(2 * (p + nx));
+  const touched: number[] = [];
+  const Qcol: number[] = [],
+    Qrow: number[] = [],
+    Ych: number[] = [],
+    Yrow: number[] = [];
+  {
+    let gs0 = 0;
+    for (let t = 0; t < block.length; t++) {
+      const n = block[t],
+        so = g.slotOffset[n],
+        k = g.slotCount[n],
+        mo = 2 * g.matrixOffset[n];
+      for (let o = 0; o < k; o++) {
+        touched.length = 0;
+        for (let s = 0; s < k; s++) {
+          const tr = g.matrices[mo + 2 * (o * k + s)],
+            ti = g.matrices[mo + 2 * (o * k + s) + 1];
+          if (tr === 0 && ti === 0) continue;
+          const ch = g.inChannel[so + s];
+          const zr = z[2 * ch],
+            zi = z[2 * ch + 1];
+          const cr = tr * zr - ti * zi,
+            ci = tr * zi + ti * zr;
+          const e = inExt[gs0 + s];
+          if (e >= 0) {
+            if (acc[2 * e] === 0 && acc[2 * e + 1] === 0) touched.push(e);
+            acc[2 * e] += cr;
+            acc[2 * e + 1] += ci;
+          } else {
+            // internal link from an earlier member: its output row, times T z
+            const r = nodeBase[pos[g.chFromNode[ch]]] + g.chFromSlot[ch];
+            for (let j = outRows.start[r]; j < outRows.start[r + 1]; j++) {
+              const e2 = outRows.idx[j],
+                vr = outRows.re[j],
+                vi = outRows.im[j];
+              if (acc[2 * e2] === 0 && acc[2 * e2 + 1] === 0) touched.push(e2);
+              acc[2 * e2] += cr * vr - ci * vi;
+              acc[2 * e2 + 1] += cr * vi + ci * vr;
+            }
+          }
+        }
+        const r = outRows.start.length - 1;
+        for (const e of touched) {
+          if (acc[2 * e] !== 0 || acc[2 * e + 1] !== 0) {
+            outRows.idx.push(e);
+            outRows.re.push(acc[2 * e]);
+            outRows.im.push(acc[2 * e + 1]);
+          }
+          acc[2 * e] = 0;
+          acc[2 * e + 1] = 0;
+        }
+        outRows.start.push(outRows.idx.length);
+        const ch = g.outChannel[so + o];
+        const to = g.chToNode[ch];
+        if (to >= 0 && a.absorbed[to]) {
+          Qcol.push(a.chCol[ch]);
+          Qrow.push(r);
+        } else if (to >= 0 && to !== n && pos[to] > t) {
+          // internal: read by the later member
+        } else if (to >= 0 && to !== n && pos[to] >= 0) {
+          throw new Error("block schedule: a link from a later to an earlier member of a block");
+        } else if (g.chKind[ch] !== a.skipKind) {
+          Ych.push(ch);
+          Yrow.push(r);
+        }
+      }
+      gs0 += k;
+    }
+  }
+  for (const n of block) pos[n] = -1;
+  const q = Qcol.length,
+    ny = Ych.length;
+  const nr = a.nr,
+    nc = a.nc;
+  a.ensure(nr + ny, nc + nx);
+  const S = a.S,
+    C2 = 2 * a.capC;
+  const small = tsKernels,
+    big = getKernels();
+  if (q > 0) {
+    // 3. K^T (q x q) = 1 - (M S[rho, Q])^T, and S[:, Q]^T (q x nr)
+    const KT = new Float64Array(2 * q * q);
+    for (let o = 0; o < q; o++) {
+      const r = Qrow[o];
+      for (let j = outRows.start[r]; j < outRows.start[r + 1]; j++) {
+        const i = outRows.idx[j];
+        if (i >= p) continue;
+        const cr = outRows.re[j],
+          ci = outRows.im[j];
+        const src = Prow[i] * C2;
+        for (let b = 0; b < q; b++) {
+          const sr = S[src + 2 * Qcol[b]],
+            si = S[src + 2 * Qcol[b] + 1];
+          KT[2 * (b * q + o)] -= cr * sr - ci * si;
+          KT[2 * (b * q + o) + 1] -= cr * si + ci * sr;
+        }
+      }
+      KT[2 * (o * q + o)] += 1;
+    }
+    if (a.stepDet) {
+      const d = smallDet(KT, q);
+      a.stepDet[2 * a.nextGroup] = d[0];
+      a.stepDet[2 * a.nextGroup + 1] = d[1];
+    }
+    if (nr > 0) {
+      const XcT = new Float64Array(2 * q * nr);
+      for (let o = 0; o < q; o++) {
+        const c2 = 2 * Qcol[o],
+          d = 2 * o * nr;
+        for (let r = 0; r < nr; r++) {
+          XcT[d + 2 * r] = S[r * C2 + c2];
+          XcT[d + 2 * r + 1] = S[r * C2 + c2 + 1];
+        }
+      }
+      // 4. Z^T = K^-T S[:, Q]^T
+      let ZT: Float64Array;
+      try {
+        ZT = (q * q * nr >= BACKEND_MIN_SOLVE ? big : small).solve(KT, XcT, q, nr);
+      } catch (e) {
+        if (e instanceof SingularMatrixError) throw new SingularMatrixError("a closed loop of the network (exact resonance without damping)");
+        throw e;
+      }
+      const Z = new Float64Array(2 * nr * q);
+      for (let o = 0; o < q; o++)
+        for (let r = 0; r < nr; r++) {
+          Z[2 * (r * q + o)] = ZT[2 * (o * nr + r)];
+          Z[2 * (r * q + o) + 1] = ZT[2 * (o * nr + r) + 1];
+        }
+      // 5. W = M S[rho, :] (q x nc, sparse M), then the rank-q update S[:, :nc] += Z W
+      if (p > 0 && nc > 0) {
+        const W = new Float64Array(2 * q * nc);
+        for (let o = 0; o < q; o++) {
+          const r = Qrow[o],
+            d = 2 * o * nc;
+          for (let j = outRows.start[r]; j < outRows.start[r + 1]; j++) {
+            const i = outRows.idx[j];
+            if (i >= p) continue;
+            const cr = outRows.re[j],
+              ci = outRows.im[j];
+            const src = Prow[i] * C2;
+            for (let c = 0; c < 2 * nc; c += 2) {
+              const sr = S[src + c],
+                si = S[src + c + 1];
+              W[d + c] += cr * sr - ci * si;
+              W[d + c + 1] += cr * si + ci * sr;
+            }
+          }
+        }
+        (nr * nc * q >= BACKEND_MIN_UPDATE ? big : small).gemmAccumulate(nr, nc, q, Z, 0, q, W, 0, nc, S, 0, a.capC);
+      }
+      // 6. new columns S[:, nc + x] = Z T[Q, X] (sparse)
+      for (let r = 0; r < nr; r++) S.fill(0, r * C2 + 2 * nc, r * C2 + 2 * (nc + nx));
+      for (let o = 0; o < q; o++) {
+        const row = Qrow[o];
+        for (let j = outRows.start[row]; j < outRows.start[row + 1]; j++) {
+          const e = outRows.idx[j];
+          if (e < p) continue;
+          const cr = outRows.re[j],
+            ci = outRows.im[j],
+            c2 = 2 * (nc + e - p);
+          for (let r = 0; r < nr; r++) {
+            const zr = Z[2 * (r * q + o)],
+              zi = Z[2 * (r * q + o) + 1];
+            S[r * C2 + c2] += zr * cr - zi * ci;
+            S[r * C2 + c2 + 1] += zr * ci + zi * cr;
+          }
+        }
+      }
+    }
+  } else {
+    if (a.stepDet) {
+      a.stepDet[2 * a.nextGroup] = 1;
+      a.stepDet[2 * a.nextGroup + 1] = 0;
+    }
+    for (let r = 0; r < nr; r++) S.fill(0, r * C2 + 2 * nc, r * C2 + 2 * (nc + nx));
+  }
+  for (let x = 0; x < nx; x++) {
+    a.colCh[nc + x] = Xch[x];
+    a.chCol[Xch[x]] = nc + x;
+  }
+  // 7. new rows S[Y, :] = T[Y, P] S[rho, :] + T[Y, X] (rows rho already updated, new columns included)
+  const width = 2 * (nc + nx);
+  for (let y = 0; y < ny; y++) {
+    const row = nr + y,
+      ro = row * C2,
+      r = Yrow[y];
+    S.fill(0, ro, ro + width);
+    for (let j = outRows.start[r]; j < outRows.start[r + 1]; j++) {
+      const e = outRows.idx[j],
+        cr = outRows.re[j],
+        ci = outRows.im[j];
+      if (e >= p) {
+        S[ro + 2 * (nc + e - p)] += cr;
+        S[ro + 2 * (nc + e - p) + 1] += ci;
+        continue;
+      }
+      const src = Prow[e] * C2;
+      for (let c = 0; c < width; c += 2) {
+        const sr = S[src + c],
+          si = S[src + c + 1];
+        S[ro + c] += cr * sr - ci * si;
+        S[ro + c + 1] += cr * si + ci * sr;
+      }
+    }
+    a.rowCh[row] = Ych[y];
+    a.chRow[Ych[y]] = row;
+  }
+  a.nr = nr + ny;
+  a.nc = nc + nx;
+  // 8. the rows rho and the columns Q are internal now
+  const colsToDrop = Qcol.map((c) => a.colCh[c]);
+  for (const ch of Pch) a.removeRow(a.chRow[ch]);
+  for (const ch of colsToDrop) a.removeCol(a.chCol[ch]);
+  for (const n of block) a.absorbed[n] = 1;
+  a.nextGroup++;
+}
