@@ -22,6 +22,16 @@ import { smallDet } from "./small-det";
 import { getKernels, tsKernels } from "../linalg/kernels";
 import { SingularMatrixError } from "../errors";
 
+/** Reused work arrays (one thread runs one step at a time): zeroed views of the asked length. */
+const pool: Float64Array[] = [];
+function scratch(slot: number, length: number, zero = true): Float64Array {
+  let b = pool[slot];
+  if (!b || b.length < length) pool[slot] = b = new Float64Array(Math.ceil(length * 1.25));
+  const v = b.subarray(0, length);
+  if (zero) v.fill(0);
+  return v;
+}
+
 /** Below these sizes the TypeScript kernels beat a call into the backend. */
 const BACKEND_MIN_SOLVE = 16 * 16 * 32;
 const BACKEND_MIN_UPDATE = 4096 * 8;
@@ -34,7 +44,8 @@ interface SparseRows {
   im: number[];
 }
 
-export function absorbBlock(a: Absorber, block: Int32Array): void {
+/** Steps 1 and 2: the block's channels and its sparse matrix (every output slot over the external inputs). */
+function blockMatrix(a: Absorber, block: Int32Array) {
   const g = a.g,
     z = a.z;
   const pos = a.blockScratch();
@@ -147,6 +158,11 @@ export function absorbBlock(a: Absorber, block: Int32Array): void {
     }
   }
   for (const n of block) pos[n] = -1;
+  return { Prow, Pch, Xch, Qcol, Qrow, Ych, Yrow, outRows, p, nx };
+}
+
+export function absorbBlock(a: Absorber, block: Int32Array): void {
+  const { Prow, Pch, Xch, Qcol, Qrow, Ych, Yrow, outRows, p, nx } = blockMatrix(a, block);
   const q = Qcol.length,
     ny = Ych.length;
   const nr = a.nr,
@@ -156,95 +172,40 @@ export function absorbBlock(a: Absorber, block: Int32Array): void {
     C2 = 2 * a.capC;
   const small = tsKernels,
     big = getKernels();
+  const Q = Int32Array.from(Qcol),
+    QR = Int32Array.from(Qrow),
+    PR = Int32Array.from(Prow);
+  const rows = {
+    start: Int32Array.from(outRows.start),
+    idx: Int32Array.from(outRows.idx),
+    re: Float64Array.from(outRows.re),
+    im: Float64Array.from(outRows.im),
+  };
   if (q > 0) {
-    // 3. K^T (q x q) = 1 - (M S[rho, Q])^T, and S[:, Q]^T (q x nr)
-    const KT = new Float64Array(2 * q * q);
-    for (let o = 0; o < q; o++) {
-      const r = Qrow[o];
-      for (let j = outRows.start[r]; j < outRows.start[r + 1]; j++) {
-        const i = outRows.idx[j];
-        if (i >= p) continue;
-        const cr = outRows.re[j],
-          ci = outRows.im[j];
-        const src = Prow[i] * C2;
-        for (let b = 0; b < q; b++) {
-          const sr = S[src + 2 * Qcol[b]],
-            si = S[src + 2 * Qcol[b] + 1];
-          KT[2 * (b * q + o)] -= cr * sr - ci * si;
-          KT[2 * (b * q + o) + 1] -= cr * si + ci * sr;
-        }
-      }
-      KT[2 * (o * q + o)] += 1;
-    }
+    // 3. K^T (q x q) = 1 - (M S[rho, Q])^T
+    const KT = loopMatrixT(S, C2, rows, QR, Q, PR, p);
     if (a.stepDet) {
       const d = smallDet(KT, q);
       a.stepDet[2 * a.nextGroup] = d[0];
       a.stepDet[2 * a.nextGroup + 1] = d[1];
     }
     if (nr > 0) {
-      const XcT = new Float64Array(2 * q * nr);
-      for (let o = 0; o < q; o++) {
-        const c2 = 2 * Qcol[o],
-          d = 2 * o * nr;
-        for (let r = 0; r < nr; r++) {
-          XcT[d + 2 * r] = S[r * C2 + c2];
-          XcT[d + 2 * r + 1] = S[r * C2 + c2 + 1];
-        }
-      }
-      // 4. Z^T = K^-T S[:, Q]^T
+      // 4. Z^T = K^-T S[:, Q]^T, Z = S[:, Q] K^-1 (nr x q)
       let ZT: Float64Array;
       try {
-        ZT = (q * q * nr >= BACKEND_MIN_SOLVE ? big : small).solve(KT, XcT, q, nr);
+        ZT = (q * q * nr >= BACKEND_MIN_SOLVE ? big : small).solve(KT, gatherColumnsT(S, C2, nr, Q), q, nr);
       } catch (e) {
         if (e instanceof SingularMatrixError) throw new SingularMatrixError("a closed loop of the network (exact resonance without damping)");
         throw e;
       }
-      const Z = new Float64Array(2 * nr * q);
-      for (let o = 0; o < q; o++)
-        for (let r = 0; r < nr; r++) {
-          Z[2 * (r * q + o)] = ZT[2 * (o * nr + r)];
-          Z[2 * (r * q + o) + 1] = ZT[2 * (o * nr + r) + 1];
-        }
-      // 5. W = M S[rho, :] (q x nc, sparse M), then the rank-q update S[:, :nc] += Z W
+      const Z = transpose(ZT, q, nr, scratch(3, 2 * q * nr, false));
+      // 5. the rank-q update S[:, :nc] += Z (M S[rho, :])
       if (p > 0 && nc > 0) {
-        const W = new Float64Array(2 * q * nc);
-        for (let o = 0; o < q; o++) {
-          const r = Qrow[o],
-            d = 2 * o * nc;
-          for (let j = outRows.start[r]; j < outRows.start[r + 1]; j++) {
-            const i = outRows.idx[j];
-            if (i >= p) continue;
-            const cr = outRows.re[j],
-              ci = outRows.im[j];
-            const src = Prow[i] * C2;
-            for (let c = 0; c < 2 * nc; c += 2) {
-              const sr = S[src + c],
-                si = S[src + c + 1];
-              W[d + c] += cr * sr - ci * si;
-              W[d + c + 1] += cr * si + ci * sr;
-            }
-          }
-        }
+        const W = sparseTimesRows(S, C2, rows, QR, PR, p, nc);
         (nr * nc * q >= BACKEND_MIN_UPDATE ? big : small).gemmAccumulate(nr, nc, q, Z, 0, q, W, 0, nc, S, 0, a.capC);
       }
       // 6. new columns S[:, nc + x] = Z T[Q, X] (sparse)
-      for (let r = 0; r < nr; r++) S.fill(0, r * C2 + 2 * nc, r * C2 + 2 * (nc + nx));
-      for (let o = 0; o < q; o++) {
-        const row = Qrow[o];
-        for (let j = outRows.start[row]; j < outRows.start[row + 1]; j++) {
-          const e = outRows.idx[j];
-          if (e < p) continue;
-          const cr = outRows.re[j],
-            ci = outRows.im[j],
-            c2 = 2 * (nc + e - p);
-          for (let r = 0; r < nr; r++) {
-            const zr = Z[2 * (r * q + o)],
-              zi = Z[2 * (r * q + o) + 1];
-            S[r * C2 + c2] += zr * cr - zi * ci;
-            S[r * C2 + c2 + 1] += zr * ci + zi * cr;
-          }
-        }
-      }
+      newColumns(S, C2, nr, nc, nx, Z, rows, QR, p);
     }
   } else {
     if (a.stepDet) {
@@ -258,31 +219,10 @@ export function absorbBlock(a: Absorber, block: Int32Array): void {
     a.chCol[Xch[x]] = nc + x;
   }
   // 7. new rows S[Y, :] = T[Y, P] S[rho, :] + T[Y, X] (rows rho already updated, new columns included)
-  const width = 2 * (nc + nx);
+  newRows(S, C2, nr, nc, nx, rows, Int32Array.from(Yrow), PR, p);
   for (let y = 0; y < ny; y++) {
-    const row = nr + y,
-      ro = row * C2,
-      r = Yrow[y];
-    S.fill(0, ro, ro + width);
-    for (let j = outRows.start[r]; j < outRows.start[r + 1]; j++) {
-      const e = outRows.idx[j],
-        cr = outRows.re[j],
-        ci = outRows.im[j];
-      if (e >= p) {
-        S[ro + 2 * (nc + e - p)] += cr;
-        S[ro + 2 * (nc + e - p) + 1] += ci;
-        continue;
-      }
-      const src = Prow[e] * C2;
-      for (let c = 0; c < width; c += 2) {
-        const sr = S[src + c],
-          si = S[src + c + 1];
-        S[ro + c] += cr * sr - ci * si;
-        S[ro + c + 1] += cr * si + ci * sr;
-      }
-    }
-    a.rowCh[row] = Ych[y];
-    a.chRow[Ych[y]] = row;
+    a.rowCh[nr + y] = Ych[y];
+    a.chRow[Ych[y]] = nr + y;
   }
   a.nr = nr + ny;
   a.nc = nc + nx;
@@ -292,4 +232,128 @@ export function absorbBlock(a: Absorber, block: Int32Array): void {
   for (const ch of colsToDrop) a.removeCol(a.chCol[ch]);
   for (const n of block) a.absorbed[n] = 1;
   a.nextGroup++;
+}
+
+interface Rows {
+  start: Int32Array;
+  idx: Int32Array;
+  re: Float64Array;
+  im: Float64Array;
+}
+
+/** K^T with K = 1 - M S[rho, Q]: M is the P part of the Q rows (a few nonzeros each). */
+function loopMatrixT(S: Float64Array, C2: number, rows: Rows, QR: Int32Array, Q: Int32Array, PR: Int32Array, p: number): Float64Array {
+  const q = Q.length;
+  const K = scratch(0, 2 * q * q); // K (row o) first, transposed at the end
+  for (let o = 0; o < q; o++) {
+    const r = QR[o],
+      d = 2 * o * q;
+    for (let j = rows.start[r]; j < rows.start[r + 1]; j++) {
+      const i = rows.idx[j];
+      if (i >= p) continue;
+      const cr = rows.re[j],
+        ci = rows.im[j],
+        src = PR[i] * C2;
+      for (let b = 0; b < q; b++) {
+        const c = src + 2 * Q[b];
+        const sr = S[c],
+          si = S[c + 1];
+        K[d + 2 * b] -= cr * sr - ci * si;
+        K[d + 2 * b + 1] -= cr * si + ci * sr;
+      }
+    }
+    K[d + 2 * o] += 1;
+  }
+  return transpose(K, q, q, scratch(1, 2 * q * q, false));
+}
+
+/** S[:, Q]^T (q x nr). */
+function gatherColumnsT(S: Float64Array, C2: number, nr: number, Q: Int32Array): Float64Array {
+  const q = Q.length;
+  const out = scratch(2, 2 * q * nr, false);
+  for (let r = 0; r < nr; r++) {
+    const ro = r * C2;
+    for (let o = 0; o < q; o++) {
+      const c = ro + 2 * Q[o],
+        d = 2 * (o * nr + r);
+      out[d] = S[c];
+      out[d + 1] = S[c + 1];
+    }
+  }
+  return out;
+}
+
+/** Transpose (not conjugate) of a packed m x n matrix. */
+function transpose(a: Float64Array, m: number, n: number, out: Float64Array): Float64Array {
+  for (let i = 0; i < m; i++)
+    for (let j = 0; j < n; j++) {
+      out[2 * (j * m + i)] = a[2 * (i * n + j)];
+      out[2 * (j * m + i) + 1] = a[2 * (i * n + j) + 1];
+    }
+  return out;
+}
+
+/** M S[rho, :nc] (q x nc) for the sparse P part M of the Q rows. */
+function sparseTimesRows(S: Float64Array, C2: number, rows: Rows, QR: Int32Array, PR: Int32Array, p: number, nc: number): Float64Array {
+  const q = QR.length;
+  const W = scratch(4, 2 * q * nc);
+  for (let o = 0; o < q; o++) {
+    const r = QR[o],
+      d = 2 * o * nc;
+    for (let j = rows.start[r]; j < rows.start[r + 1]; j++) {
+      const i = rows.idx[j];
+      if (i >= p) continue;
+      axpyRow(W, d, S, PR[i] * C2, rows.re[j], rows.im[j], 2 * nc);
+    }
+  }
+  return W;
+}
+
+/** y[yo .. yo + len) += (cr + i ci) x[xo .. xo + len) (interleaved complex). */
+function axpyRow(y: Float64Array, yo: number, x: Float64Array, xo: number, cr: number, ci: number, len: number): void {
+  for (let c = 0; c < len; c += 2) {
+    const sr = x[xo + c],
+      si = x[xo + c + 1];
+    y[yo + c] += cr * sr - ci * si;
+    y[yo + c + 1] += cr * si + ci * sr;
+  }
+}
+
+/** S[:nr, nc + x] = Z T[Q, X] for the sparse X part of the Q rows. */
+function newColumns(S: Float64Array, C2: number, nr: number, nc: number, nx: number, Z: Float64Array, rows: Rows, QR: Int32Array, p: number): void {
+  const q = QR.length;
+  for (let r = 0; r < nr; r++) S.fill(0, r * C2 + 2 * nc, r * C2 + 2 * (nc + nx));
+  for (let o = 0; o < q; o++) {
+    const row = QR[o];
+    for (let j = rows.start[row]; j < rows.start[row + 1]; j++) {
+      const e = rows.idx[j];
+      if (e < p) continue;
+      const cr = rows.re[j],
+        ci = rows.im[j],
+        c2 = 2 * (nc + e - p);
+      for (let r = 0; r < nr; r++) {
+        const zr = Z[2 * (r * q + o)],
+          zi = Z[2 * (r * q + o) + 1];
+        S[r * C2 + c2] += zr * cr - zi * ci;
+        S[r * C2 + c2 + 1] += zr * ci + zi * cr;
+      }
+    }
+  }
+}
+
+/** Rows nr + y: T[Y, P] S[rho, :nc + nx] + T[Y, X]. */
+function newRows(S: Float64Array, C2: number, nr: number, nc: number, nx: number, rows: Rows, YR: Int32Array, PR: Int32Array, p: number): void {
+  const width = 2 * (nc + nx);
+  for (let y = 0; y < YR.length; y++) {
+    const ro = (nr + y) * C2,
+      r = YR[y];
+    S.fill(0, ro, ro + width);
+    for (let j = rows.start[r]; j < rows.start[r + 1]; j++) {
+      const e = rows.idx[j];
+      if (e >= p) {
+        S[ro + 2 * (nc + e - p)] += rows.re[j];
+        S[ro + 2 * (nc + e - p) + 1] += rows.im[j];
+      } else axpyRow(S, ro, S, PR[e] * C2, rows.re[j], rows.im[j], width);
+    }
+  }
 }
