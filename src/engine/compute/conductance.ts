@@ -205,7 +205,8 @@ export function computeConductance(net: Network, c: ConductanceComputation, opts
   let thermal: ConductanceResult["thermal"] = null;
   for (let s = 0; s < samples; s++) {
     const gK = s === 0 ? g0 : buildSample(net, { mode: "leads", fluxPerPlaquette: phi, sample: s });
-    const gKp = valleys === 2 ? reverseGraph(gK) : null;
+    // valley K' is absorbed on the block path only: no general schedule
+    const gKp = valleys === 2 ? reverseGraph(gK, false) : null;
     // at the chemical potential: transmission, eigenvalues and shot noise (T = 0 quantities)
     const th0 = energyPhase(scale, c.energyMeV);
     const r0 = sampleTransport(gK, th0, s === 0, progress);

@@ -151,6 +151,32 @@ export class Absorber {
     this.nc = last;
   }
 
+  /** @internal drop the columns of these channels (as removeCol one by one, the entries moved row by row). */
+  removeCols(chs: number[]): void {
+    const moves: number[] = [];
+    for (const ch of chs) {
+      const c = this.chCol[ch],
+        last = this.nc - 1;
+      this.chCol[ch] = -1;
+      if (c !== last) {
+        moves.push(c, last);
+        const moved = this.colCh[last];
+        this.colCh[c] = moved;
+        this.chCol[moved] = c;
+      }
+      this.nc = last;
+    }
+    const S = this.S,
+      C2 = 2 * this.capC;
+    for (let r = 0; r < this.nr; r++) {
+      const ro = r * C2;
+      for (let k = 0; k < moves.length; k += 2) {
+        S[ro + 2 * moves[k]] = S[ro + 2 * moves[k + 1]];
+        S[ro + 2 * moves[k] + 1] = S[ro + 2 * moves[k + 1] + 1];
+      }
+    }
+  }
+
   /** @internal node -> position in the block being absorbed (-1 elsewhere), reset after each block. */
   blockScratch(): Int32Array {
     if (!this.scratch) this.scratch = new Int32Array(this.g.nodeCount).fill(-1);

@@ -229,7 +229,7 @@ export function absorbBlock(a: Absorber, block: Int32Array): void {
   // 8. the rows rho and the columns Q are internal now
   const colsToDrop = Qcol.map((c) => a.colCh[c]);
   for (const ch of Pch) a.removeRow(a.chRow[ch]);
-  for (const ch of colsToDrop) a.removeCol(a.chCol[ch]);
+  a.removeCols(colsToDrop);
   for (const n of block) a.absorbed[n] = 1;
   a.nextGroup++;
 }
@@ -283,12 +283,17 @@ function gatherColumnsT(S: Float64Array, C2: number, nr: number, Q: Int32Array):
   return out;
 }
 
-/** Transpose (not conjugate) of a packed m x n matrix. */
+/** Transpose (not conjugate) of a packed m x n matrix, in 16 x 16 tiles. */
 function transpose(a: Float64Array, m: number, n: number, out: Float64Array): Float64Array {
-  for (let i = 0; i < m; i++)
-    for (let j = 0; j < n; j++) {
-      out[2 * (j * m + i)] = a[2 * (i * n + j)];
-      out[2 * (j * m + i) + 1] = a[2 * (i * n + j) + 1];
+  for (let i0 = 0; i0 < m; i0 += 16)
+    for (let j0 = 0; j0 < n; j0 += 16) {
+      const i1 = Math.min(m, i0 + 16),
+        j1 = Math.min(n, j0 + 16);
+      for (let i = i0; i < i1; i++)
+        for (let j = j0; j < j1; j++) {
+          out[2 * (j * m + i)] = a[2 * (i * n + j)];
+          out[2 * (j * m + i) + 1] = a[2 * (i * n + j) + 1];
+        }
     }
   return out;
 }
@@ -319,24 +324,38 @@ function axpyRow(y: Float64Array, yo: number, x: Float64Array, xo: number, cr: n
   }
 }
 
-/** S[:nr, nc + x] = Z T[Q, X] for the sparse X part of the Q rows. */
+/** S[:nr, nc + x] = Z T[Q, X] for the sparse X part of the Q rows (row by row: Z and S read in order). */
 function newColumns(S: Float64Array, C2: number, nr: number, nc: number, nx: number, Z: Float64Array, rows: Rows, QR: Int32Array, p: number): void {
   const q = QR.length;
-  for (let r = 0; r < nr; r++) S.fill(0, r * C2 + 2 * nc, r * C2 + 2 * (nc + nx));
+  // the nonzeros of T[Q, X] as (o, x, coefficient)
+  const to: number[] = [],
+    tx: number[] = [],
+    tr: number[] = [],
+    ti: number[] = [];
   for (let o = 0; o < q; o++) {
     const row = QR[o];
     for (let j = rows.start[row]; j < rows.start[row + 1]; j++) {
       const e = rows.idx[j];
       if (e < p) continue;
-      const cr = rows.re[j],
-        ci = rows.im[j],
-        c2 = 2 * (nc + e - p);
-      for (let r = 0; r < nr; r++) {
-        const zr = Z[2 * (r * q + o)],
-          zi = Z[2 * (r * q + o) + 1];
-        S[r * C2 + c2] += zr * cr - zi * ci;
-        S[r * C2 + c2 + 1] += zr * ci + zi * cr;
-      }
+      to.push(2 * o);
+      tx.push(2 * (nc + e - p));
+      tr.push(rows.re[j]);
+      ti.push(rows.im[j]);
+    }
+  }
+  const nnz = to.length;
+  for (let r = 0; r < nr; r++) {
+    const ro = r * C2,
+      zo = 2 * r * q;
+    S.fill(0, ro + 2 * nc, ro + 2 * (nc + nx));
+    for (let j = 0; j < nnz; j++) {
+      const zr = Z[zo + to[j]],
+        zi = Z[zo + to[j] + 1],
+        cr = tr[j],
+        ci = ti[j],
+        c = ro + tx[j];
+      S[c] += zr * cr - zi * ci;
+      S[c + 1] += zr * ci + zi * cr;
     }
   }
 }
