@@ -9,6 +9,7 @@
  * default threads). The two sides run in alternating rounds and each keeps its best round, so a
  * burst of load from other processes hits both. Ratio = engine per valley (mean of K and K') / numpy.
  *
+ * Then the TypeScript fallback's case: W = 64, both valleys, `compute` on the TypeScript kernels.
  * `--lab`: also the largest Lab network, 400 x 400, one energy, both valleys (`compute`), once, in
  * a child process: wall and CPU time and peak memory (maximum resident set).
  * `--sizes=32,64`: other sizes. `TRISKEL_BENCH_ROUNDS` (default 3; 2 at W >= 128) rounds per size.
@@ -21,7 +22,7 @@ import { existsSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
-import { parseComputeInput, getKernels, compute, type ComputeInput } from "../src/engine/index";
+import { parseComputeInput, getKernels, setKernels, tsKernels, compute, type ComputeInput } from "../src/engine/index";
 import { buildSample } from "../src/engine/network/lattice";
 import { reverseGraph } from "../src/engine/network/graph";
 import { sampleTransport } from "../src/engine/compute/conductance";
@@ -95,6 +96,17 @@ function labChild(): void {
   compute(input(16)); // JIT warm-up
   const c0 = process.cpuUsage(),
     t0 = performance.now();
+  if (PATH === "general") {
+    // the general path has no switch in compute: both valleys through sampleTransport, as compute runs them
+    const e = engineRound(400);
+    const wall = (performance.now() - t0) / 1000,
+      c = process.cpuUsage(c0);
+    console.log(
+      `${getKernels().name}, general path: ${wall.toFixed(1)} s wall (K ${e.k.toFixed(1)} s, K' ${e.kp.toFixed(1)} s), ${((c.user + c.system) / 1e6).toFixed(1)} s CPU, ` +
+        `peak RSS ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB; T_K + T_K' = ${e.g.toFixed(6)}`,
+    );
+    return;
+  }
   const r = compute(input(400));
   const wall = (performance.now() - t0) / 1000,
     c = process.cpuUsage(c0);
@@ -104,6 +116,27 @@ function labChild(): void {
     `${getKernels().name}: ${wall.toFixed(1)} s wall, ${((c.user + c.system) / 1e6).toFixed(1)} s CPU, peak RSS ${rssMB.toFixed(0)} MB; ` +
       `G = ${r.conductance.total.toFixed(6)} e2/h, |R + T - N| = ${r.checks.currentConservationError.toExponential(1)}`,
   );
+}
+
+/** The TypeScript fallback's target case: W = 64, one energy, both valleys (compute), best of 3 rounds after a warm-up. */
+function tsFallback(): void {
+  const previous = setKernels(tsKernels);
+  try {
+    compute(input(64));
+    let wall = Infinity,
+      cpu = Infinity;
+    for (let i = 0; i < 3; i++) {
+      const c0 = process.cpuUsage(),
+        t0 = performance.now();
+      compute(input(64));
+      wall = Math.min(wall, (performance.now() - t0) / 1000);
+      const c = process.cpuUsage(c0);
+      cpu = Math.min(cpu, (c.user + c.system) / 1e6);
+    }
+    console.log(`\nTypeScript kernels, W = 64, one energy, both valleys (compute, best of 3): ${wall.toFixed(3)} s wall, ${cpu.toFixed(3)} s CPU`);
+  } finally {
+    setKernels(previous);
+  }
 }
 
 function main(): void {
@@ -145,6 +178,7 @@ function main(): void {
     );
   }
   console.log(`numpy ${numpyVersion || "n/a"}; best of the rounds on each side, wall time; load average after: ${load()}`);
+  tsFallback();
   if (process.argv.includes("--lab")) lab();
 }
 

@@ -14,9 +14,15 @@ import type { NetworkGraph } from "./graph";
 import { candidateOrders } from "./schedule";
 
 /**
- * Largest block, in nodes. Measured (2026-12-03, triangular W x W cylinders, W = 32 .. 192, both
- * backends, `scripts/bench-kernels.ts`): a whole column per block is fastest at every W; a cap
- * only matters for very tall strips, where it bounds the q x q systems (memory 16 q^2 bytes).
+ * Largest block, in nodes, and (in `blockSchedule`) at most two levels per block: on the
+ * triangular lattice the two half-columns of one column, linked odd -> even, so one block is one
+ * column and q = W. Measured on 2026-12-03 (triangular W x W cylinder, both valleys, CPU time,
+ * best of 3-4 rounds, load average 5-8 on 2 cores): levels per block 1 / 2 / 3 / 4 took
+ * 0.50 / 0.42 / 0.56 / 0.56 s at W = 96 (OpenBLAS, one thread) and 0.59 / 0.43 / - / 0.66 s at
+ * W = 64 (TypeScript kernels); the general groups 0.51 and 0.49 s. More levels make q grow again
+ * (the later columns' outputs feed the earlier ones). Capping the nodes at 16, 32 or 64 inside
+ * the two levels measured the same as no cap within the noise; the cap only bounds the q x q
+ * systems of very tall strips (memory 16 q^2 bytes).
  */
 export const MAX_BLOCK_NODES = 1024;
 
@@ -88,12 +94,15 @@ function chunk(g: NetworkGraph, order: number[], tk: Float64Array, maxNodes: num
 /** Rough cost of a block schedule: per block q x (rows + 1) x (cols + 1) for the update, plus q^2 (rows + q) for the solve. */
 function simulateBlocks(g: NetworkGraph, blocks: Int32Array[]): number {
   const absorbed = new Uint8Array(g.nodeCount);
+  const blockOf = new Int32Array(g.nodeCount).fill(-1);
   let rows = 0,
     cols = 0,
     cost = 0;
-  for (const b of blocks) {
+  for (let k = 0; k < blocks.length; k++) {
+    const b = blocks[k];
     let q = 0;
-    const inBlock = new Set<number>(b);
+    for (const m of b) blockOf[m] = k;
+    const inBlock = { has: (m: number) => blockOf[m] === k };
     for (const m of b) {
       for (let s = g.slotOffset[m]; s < g.slotOffset[m] + g.slotCount[m]; s++) {
         const from = g.chFromNode[g.inChannel[s]];

@@ -102,10 +102,29 @@ export function candidateOrders(g: NetworkGraph, key: Float64Array, order: "chea
   const base = uniq[0] ?? 0;
   for (let i = 0; i < n; i++) ik[i] = Math.round((key[i] - base) / step);
   const transforms: ((k: number) => number)[] = [(k) => k, (k) => (k % 2 === 1 ? k - 1.5 : k), (k) => (k % 2 === 0 ? k - 1.5 : k)];
+  // ranks of the distinct y values, so that one numeric sort of (key, y, index) packed into a
+  // double gives the order of the comparison (tk, then y, then index) without a comparator
+  const ys = Float64Array.from(new Set(g.nodeY)).sort();
+  const yRank = new Map<number, number>();
+  ys.forEach((y, r) => yRank.set(y, r));
   return (order === "columns" ? transforms.slice(0, 1) : transforms).map((t) => {
     const tk = new Float64Array(n);
-    for (let i = 0; i < n; i++) tk[i] = t(ik[i]);
-    const seq = Array.from({ length: n }, (_, i) => i).sort((a, b) => tk[a] - tk[b] || g.nodeY[a] - g.nodeY[b] || a - b);
+    let lo = Infinity,
+      hi = -Infinity;
+    for (let i = 0; i < n; i++) {
+      tk[i] = t(ik[i]);
+      lo = Math.min(lo, tk[i]);
+      hi = Math.max(hi, tk[i]);
+    }
+    // transformed keys are multiples of 1/2
+    const levels = Math.round((hi - lo) * 2) + 1;
+    let seq: number[];
+    if (levels * ys.length * n < 2 ** 52) {
+      const packed = new Float64Array(n);
+      for (let i = 0; i < n; i++) packed[i] = (Math.round((tk[i] - lo) * 2) * ys.length + (yRank.get(g.nodeY[i]) as number)) * n + i;
+      packed.sort();
+      seq = Array.from(packed, (v) => v % n);
+    } else seq = Array.from({ length: n }, (_, i) => i).sort((a, b) => tk[a] - tk[b] || g.nodeY[a] - g.nodeY[b] || a - b);
     return { order: seq, tk };
   });
 }
