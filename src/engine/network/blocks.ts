@@ -21,8 +21,11 @@ import { candidateOrders } from "./schedule";
  * 0.50 / 0.42 / 0.56 / 0.56 s at W = 96 (OpenBLAS, one thread) and 0.59 / 0.43 / - / 0.66 s at
  * W = 64 (TypeScript kernels); the general groups 0.51 and 0.49 s. More levels make q grow again
  * (the later columns' outputs feed the earlier ones). Capping the nodes at 16, 32 or 64 inside
- * the two levels measured the same as no cap within the noise; the cap only bounds the q x q
- * systems of very tall strips (memory 16 q^2 bytes).
+ * the two levels measured the same as no cap within the noise at W = 96; at W = 192 (both
+ * valleys, wall, default OpenBLAS threads) a cap of 96 nodes took 5.29 s against 3.60 s without
+ * one (general groups 4.25 s), and at W = 288 the whole column took 14.2 s against 25.5 s for the
+ * general groups. So the cap is large: it only bounds the q x q systems of very tall strips
+ * (memory 16 q^2 bytes).
  */
 export const MAX_BLOCK_NODES = 1024;
 
