@@ -7,6 +7,7 @@ import { CH_LEFT_IN, CH_LEFT_OUT, CH_RIGHT_IN, CH_RIGHT_OUT, channelPhases, reve
 import { buildSample } from "../network/lattice";
 import type { ConductanceComputation, Network } from "../schema";
 import { Absorber } from "../scattering/absorber";
+import { blockSchedule } from "../network/blocks";
 import { getKernels } from "../linalg/kernels";
 import { energyPhase, fluxPerPlaquette, mean, networkScale, std } from "./common";
 import { Progress, type ComputeOptions } from "./progress";
@@ -91,17 +92,24 @@ export function leadChannels(g: NetworkGraph): { leftIn: number[]; leftOut: numb
   return { leftIn: lists[CH_LEFT_IN], leftOut: lists[CH_LEFT_OUT], rightIn: lists[CH_RIGHT_IN], rightOut: lists[CH_RIGHT_OUT] };
 }
 
-/** Full composed scattering matrix of a sample with leads at link phase thetaE. */
-export function composeSample(g: NetworkGraph, thetaE: number, progress?: Progress, withReflection = true): Absorber {
-  const abs = new Absorber(g, channelPhases(g, thetaE), false, undefined, 16, withReflection ? -1 : CH_LEFT_OUT);
+/** Full composed scattering matrix of a sample with leads at link phase thetaE (block path by default, `path: "general"` for the groups of unlinked nodes). */
+export function composeSample(g: NetworkGraph, thetaE: number, progress?: Progress, withReflection = true, path: "general" | "block" = "block"): Absorber {
+  const abs = new Absorber(g, channelPhases(g, thetaE), false, undefined, 16, withReflection ? -1 : CH_LEFT_OUT, path);
   abs.run(progress ? { afterGroup: () => progress.tick(1) } : undefined);
   return abs;
 }
 
 /** Transmission of one valley graph at one energy; withCheck = false skips the left-lead output
  * rows (half the work), which only the R + T = N check reads (conservationError is then NaN). */
-export function sampleTransport(g: NetworkGraph, thetaE: number, wantEigen: boolean, progress?: Progress, withCheck = true): SampleTransport {
-  const abs = composeSample(g, thetaE, progress, withCheck);
+export function sampleTransport(
+  g: NetworkGraph,
+  thetaE: number,
+  wantEigen: boolean,
+  progress?: Progress,
+  withCheck = true,
+  path: "general" | "block" = "block",
+): SampleTransport {
+  const abs = composeSample(g, thetaE, progress, withCheck, path);
   const { leftIn, leftOut, rightIn, rightOut } = leadChannels(g);
   const nIn = leftIn.length,
     nOut = rightOut.length;
@@ -165,9 +173,9 @@ export function sampleTransport(g: NetworkGraph, thetaE: number, wantEigen: bool
   return { transmission: T, injected: nIn, conservationError: err, eigenvalues, noise: T - fro };
 }
 
-/** Work units of one conductance evaluation (groups of both valleys), for progress. */
+/** Work units of one conductance evaluation (blocks of both valleys), for progress. */
 export function conductanceWork(g: NetworkGraph, valleys: number): number {
-  return g.schedule.length * valleys;
+  return blockSchedule(g).length * valleys;
 }
 
 export function computeConductance(net: Network, c: ConductanceComputation, opts: ComputeOptions = {}): ConductanceResult {
@@ -197,7 +205,8 @@ export function computeConductance(net: Network, c: ConductanceComputation, opts
   let thermal: ConductanceResult["thermal"] = null;
   for (let s = 0; s < samples; s++) {
     const gK = s === 0 ? g0 : buildSample(net, { mode: "leads", fluxPerPlaquette: phi, sample: s });
-    const gKp = valleys === 2 ? reverseGraph(gK) : null;
+    // valley K' is absorbed on the block path only: no general schedule
+    const gKp = valleys === 2 ? reverseGraph(gK, false) : null;
     // at the chemical potential: transmission, eigenvalues and shot noise (T = 0 quantities)
     const th0 = energyPhase(scale, c.energyMeV);
     const r0 = sampleTransport(gK, th0, s === 0, progress);

@@ -67,8 +67,9 @@ export function channelPhases(g: NetworkGraph, thetaE: number, eta = 0): Float64
 }
 
 /** Time reversal (the valley K' network of physics.md): links reversed, node matrices
- * transposed, Peierls phases negated, disorder phases kept, lead in/out exchanged. */
-export function reverseGraph(g: NetworkGraph): NetworkGraph {
+ * transposed, Peierls phases negated, disorder phases kept, lead in/out exchanged.
+ * `withSchedule = false` leaves `schedule` empty (for callers that absorb it on the block path only). */
+export function reverseGraph(g: NetworkGraph, withSchedule = true): NetworkGraph {
   const matrices = new Float64Array(g.matrices.length);
   for (let n = 0; n < g.nodeCount; n++) {
     const k = g.slotCount[n],
@@ -107,6 +108,6 @@ export function reverseGraph(g: NetworkGraph): NetworkGraph {
     cutAfter: new Int32Array(0),
     cutX: new Float64Array(0),
   };
-  buildSchedule(r);
+  if (withSchedule) buildSchedule(r);
   return r;
 }

@@ -16,22 +16,10 @@ const MAX_GROUP_FEEDBACK = 16;
 export function buildSchedule(g: NetworkGraph, keys?: Float64Array, order: "cheapest" | "columns" = "cheapest"): void {
   const n = g.nodeCount;
   const key = keys ?? g.nodeX;
-  // keys are multiples of a lattice step; find it
-  const uniq = Array.from(new Set(Array.from(key, (k) => Math.round(k * 1e6) / 1e6))).sort((a, b) => a - b);
-  let step = Infinity;
-  for (let i = 1; i < uniq.length; i++) step = Math.min(step, uniq[i] - uniq[i - 1]);
-  if (!Number.isFinite(step)) step = 1;
-  const ik = new Float64Array(n);
-  const base = uniq[0] ?? 0;
-  for (let i = 0; i < n; i++) ik[i] = Math.round((key[i] - base) / step);
-  const transforms: ((k: number) => number)[] = [(k) => k, (k) => (k % 2 === 1 ? k - 1.5 : k), (k) => (k % 2 === 0 ? k - 1.5 : k)];
   let best: { order: number[]; cost: number; tk: Float64Array } | null = null;
-  for (const t of order === "columns" ? transforms.slice(0, 1) : transforms) {
-    const tk = new Float64Array(n);
-    for (let i = 0; i < n; i++) tk[i] = t(ik[i]);
-    const seq = Array.from({ length: n }, (_, i) => i).sort((a, b) => tk[a] - tk[b] || g.nodeY[a] - g.nodeY[b] || a - b);
-    const cost = simulate(g, seq);
-    if (!best || cost < best.cost) best = { order: seq, cost, tk };
+  for (const cand of candidateOrders(g, key, order)) {
+    const cost = simulate(g, cand.order);
+    if (!best || cost < best.cost) best = { ...cand, cost };
   }
   const { order: nodeOrder, tk } = best as { order: number[]; cost: number; tk: Float64Array };
   // groups
@@ -96,6 +84,49 @@ export function buildSchedule(g: NetworkGraph, keys?: Float64Array, order: "chea
   }
   g.cutAfter = Int32Array.from(cutAfter);
   g.cutX = Float64Array.from(cutX);
+}
+
+/**
+ * The node orders the schedules choose from: by abscissa key (in lattice steps), and with the odd
+ * or the even half-steps moved back by 1.5 steps (a column absorbed from its other side); ties by
+ * y, then index. `tk` is each node's transformed key (nodes of one key form a level).
+ */
+export function candidateOrders(g: NetworkGraph, key: Float64Array, order: "cheapest" | "columns"): { order: number[]; tk: Float64Array }[] {
+  const n = g.nodeCount;
+  // keys are multiples of a lattice step; find it
+  const uniq = Array.from(new Set(Array.from(key, (k) => Math.round(k * 1e6) / 1e6))).sort((a, b) => a - b);
+  let step = Infinity;
+  for (let i = 1; i < uniq.length; i++) step = Math.min(step, uniq[i] - uniq[i - 1]);
+  if (!Number.isFinite(step)) step = 1;
+  const ik = new Float64Array(n);
+  const base = uniq[0] ?? 0;
+  for (let i = 0; i < n; i++) ik[i] = Math.round((key[i] - base) / step);
+  const transforms: ((k: number) => number)[] = [(k) => k, (k) => (k % 2 === 1 ? k - 1.5 : k), (k) => (k % 2 === 0 ? k - 1.5 : k)];
+  // ranks of the distinct y values, so that one numeric sort of (key, y, index) packed into a
+  // double gives the order of the comparison (tk, then y, then index) without a comparator
+  const ys = Float64Array.from(new Set(g.nodeY)).sort();
+  const yRank = new Map<number, number>();
+  ys.forEach((y, r) => yRank.set(y, r));
+  return (order === "columns" ? transforms.slice(0, 1) : transforms).map((t) => {
+    const tk = new Float64Array(n);
+    let lo = Infinity,
+      hi = -Infinity;
+    for (let i = 0; i < n; i++) {
+      tk[i] = t(ik[i]);
+      lo = Math.min(lo, tk[i]);
+      hi = Math.max(hi, tk[i]);
+    }
+    // transformed keys are multiples of 1/2
+    const levels = Math.round((hi - lo) * 2) + 1;
+    let seq: number[];
+    if (levels * ys.length * n < 2 ** 52) {
+      const packed = new Float64Array(n);
+      for (let i = 0; i < n; i++) packed[i] = (Math.round((tk[i] - lo) * 2) * ys.length + (yRank.get(g.nodeY[i]) as number)) * n + i;
+      packed.sort();
+      seq = Array.from(packed, (v) => v % n);
+    } else seq = Array.from({ length: n }, (_, i) => i).sort((a, b) => tk[a] - tk[b] || g.nodeY[a] - g.nodeY[b] || a - b);
+    return { order: seq, tk };
+  });
 }
 
 /** Rough cost of an order: sum over nodes of feedback count x frontier rows x frontier columns. */

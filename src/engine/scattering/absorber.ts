@@ -15,6 +15,11 @@
 import type { NetworkGraph } from "../network/graph";
 import { getKernels, tsKernels } from "../linalg/kernels";
 import { SingularMatrixError } from "../errors";
+import { smallDet } from "./small-det";
+import { absorbBlock } from "./block-step";
+import { blockSchedule } from "../network/blocks";
+
+export { smallDet };
 
 export interface AbsorberHooks {
   /** Called after each group; return true to ask for a stop (cancellation is thrown by the caller). */
@@ -43,11 +48,24 @@ export class Absorber {
   /** Channels of this kind (e.g. left-lead outputs) get no row: exact when nothing reads them. */
   readonly skipKind: number;
 
-  constructor(g: NetworkGraph, z: Float64Array, trackDeterminant = false, order?: Int32Array[], initialCapacity = 16, skipKind = -1) {
+  /** "block": whole blocks per step (`block-step.ts`, default order `blockSchedule(g)`); "general": groups of unlinked nodes (`g.schedule`). */
+  readonly path: "general" | "block";
+  private scratch: Int32Array | null = null;
+
+  constructor(
+    g: NetworkGraph,
+    z: Float64Array,
+    trackDeterminant = false,
+    order?: Int32Array[],
+    initialCapacity = 16,
+    skipKind = -1,
+    path: "general" | "block" = "general",
+  ) {
     this.g = g;
     this.z = z;
     this.skipKind = skipKind;
-    this.order = order ?? g.schedule;
+    this.path = path;
+    this.order = order ?? (path === "block" ? blockSchedule(g) : g.schedule);
     this.capR = initialCapacity;
     this.capC = initialCapacity;
     this.S = new Float64Array(2 * this.capR * this.capC);
@@ -81,7 +99,8 @@ export class Absorber {
     return this.S.byteLength;
   }
 
-  private ensure(rows: number, cols: number): void {
+  /** @internal grow the matrix to hold rows x cols (used by the block step). */
+  ensure(rows: number, cols: number): void {
     if (rows <= this.capR && cols <= this.capC) return;
     const nR = Math.max(this.capR, rows <= this.capR ? this.capR : Math.ceil(rows * 1.5));
     const nC = Math.max(this.capC, cols <= this.capC ? this.capC : Math.ceil(cols * 1.5));
@@ -98,7 +117,8 @@ export class Absorber {
     this.capC = nC;
   }
 
-  private removeRow(r: number): void {
+  /** @internal */
+  removeRow(r: number): void {
     const last = this.nr - 1;
     const ch = this.rowCh[r];
     this.chRow[ch] = -1;
@@ -112,7 +132,8 @@ export class Absorber {
     this.nr = last;
   }
 
-  private removeCol(c: number): void {
+  /** @internal */
+  removeCol(c: number): void {
     const last = this.nc - 1;
     const ch = this.colCh[c];
     this.chCol[ch] = -1;
@@ -130,8 +151,44 @@ export class Absorber {
     this.nc = last;
   }
 
-  /** Absorb the next group of the schedule. */
+  /** @internal drop the columns of these channels (as removeCol one by one, the entries moved row by row). */
+  removeCols(chs: number[]): void {
+    const moves: number[] = [];
+    for (const ch of chs) {
+      const c = this.chCol[ch],
+        last = this.nc - 1;
+      this.chCol[ch] = -1;
+      if (c !== last) {
+        moves.push(c, last);
+        const moved = this.colCh[last];
+        this.colCh[c] = moved;
+        this.chCol[moved] = c;
+      }
+      this.nc = last;
+    }
+    const S = this.S,
+      C2 = 2 * this.capC;
+    for (let r = 0; r < this.nr; r++) {
+      const ro = r * C2;
+      for (let k = 0; k < moves.length; k += 2) {
+        S[ro + 2 * moves[k]] = S[ro + 2 * moves[k + 1]];
+        S[ro + 2 * moves[k] + 1] = S[ro + 2 * moves[k + 1] + 1];
+      }
+    }
+  }
+
+  /** @internal node -> position in the block being absorbed (-1 elsewhere), reset after each block. */
+  blockScratch(): Int32Array {
+    if (!this.scratch) this.scratch = new Int32Array(this.g.nodeCount).fill(-1);
+    return this.scratch;
+  }
+
+  /** Absorb the next group (block) of the schedule. */
   step(): void {
+    if (this.path === "block") {
+      absorbBlock(this, this.order[this.nextGroup]);
+      return;
+    }
     const g = this.g,
       z = this.z;
     const group = this.order[this.nextGroup];
@@ -362,52 +419,4 @@ export class Absorber {
     const o = r * 2 * this.capC + 2 * c;
     return [this.S[o], this.S[o + 1]];
   }
-}
-
-/** Determinant of a small packed complex matrix (LU with partial pivoting). */
-export function smallDet(aIn: Float64Array, n: number): [number, number] {
-  const a = aIn.slice(0, 2 * n * n);
-  let dr = 1,
-    di = 0;
-  for (let k = 0; k < n; k++) {
-    let best = k,
-      bestAbs = -1;
-    for (let i = k; i < n; i++) {
-      const ab = Math.hypot(a[2 * (i * n + k)], a[2 * (i * n + k) + 1]);
-      if (ab > bestAbs) {
-        bestAbs = ab;
-        best = i;
-      }
-    }
-    if (bestAbs === 0) return [0, 0];
-    if (best !== k) {
-      for (let j = 0; j < 2 * n; j++) {
-        const t = a[2 * k * n + j];
-        a[2 * k * n + j] = a[2 * best * n + j];
-        a[2 * best * n + j] = t;
-      }
-      dr = -dr;
-      di = -di;
-    }
-    const pr = a[2 * (k * n + k)],
-      pi = a[2 * (k * n + k) + 1];
-    const nr = dr * pr - di * pi,
-      ni = dr * pi + di * pr;
-    dr = nr;
-    di = ni;
-    const den = pr * pr + pi * pi;
-    for (let i = k + 1; i < n; i++) {
-      const xr = a[2 * (i * n + k)],
-        xi = a[2 * (i * n + k) + 1];
-      const fr = (xr * pr + xi * pi) / den,
-        fi = (xi * pr - xr * pi) / den;
-      for (let j = k + 1; j < n; j++) {
-        const yr = a[2 * (k * n + j)],
-          yi = a[2 * (k * n + j) + 1];
-        a[2 * (i * n + j)] -= fr * yr - fi * yi;
-        a[2 * (i * n + j) + 1] -= fr * yi + fi * yr;
-      }
-    }
-  }
-  return [dr, di];
 }
