@@ -1,5 +1,6 @@
 import { NextResponse } from "next/server";
 import { ZodError } from "zod";
+import { readBodyCapped } from "./body";
 
 /** Error codes of the public API (product.md: `{"error": {"code", "message", "details"}}`). */
 export type ApiErrorCode =
@@ -264,8 +265,9 @@ export function findNul(value: unknown, path: string[] = [], depth = 0): string[
 export async function readJson(req: Request, limitBytes = 1_000_000): Promise<unknown> {
   const declared = Number(req.headers.get("content-length") ?? "0");
   if (declared > limitBytes) throw new ApiError("payload_too_large", `Request body is ${declared} bytes; the limit is ${limitBytes} bytes.`);
-  const text = await req.text();
-  if (Buffer.byteLength(text) > limitBytes) throw new ApiError("payload_too_large", `Request body is over the limit of ${limitBytes} bytes.`);
+  // Read no more than the limit, whatever the body declares (a chunked body declares no length).
+  const bytes = await readBodyCapped(req, limitBytes, (limit) => new ApiError("payload_too_large", `Request body is over the limit of ${limit} bytes.`));
+  const text = new TextDecoder("utf-8").decode(bytes);
   if (!text.trim()) throw new ApiError("bad_request", "Request body is empty; send a JSON object.");
   let value: unknown;
   try {
