@@ -4,7 +4,7 @@
 // without a hand. Outcomes and recovery times go to .data/soak-<base>/faults.json.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { killWorker, startWorker } from "../integration/runs-support";
-import { api } from "../support/services";
+import { api, ensureFreeSeats } from "../support/services";
 import type { Json } from "../support/json";
 import { billingOnce, call, createLabWorkspace, ctl, health, record, sleep, SMALL_RUN, sql, stripeFake, until, type SoakWorkspace } from "./support";
 
@@ -50,8 +50,9 @@ async function recovered(since: number, timeoutMs = 90_000) {
   return Math.round((Date.now() - since) / 100) / 10;
 }
 
-/** Invitations need a workspace with a sign-in organization: the demo lab (its Owner's token). */
+/** Invitations need a workspace with a sign-in organization: the demo lab (its Owner's token); each takes a seat, bought first. */
 async function inviteToDemoLab(email: string) {
+  await ensureFreeSeats(1);
   const res = await api("/api/v1/workspace/members", { method: "POST", as: "owner", json: { email, role: "viewer" }, signal: AbortSignal.timeout(60_000) });
   const text = await res.text();
   let body: Json = text;

@@ -20,7 +20,7 @@ import runOffloadTask, { reviveTaskError, type OffloadResults, type OffloadTask,
 /** Threads of the analysis pool. */
 export const ANALYSIS_THREADS = 1;
 /** Tasks that may wait behind the running ones; one more answers 503. */
-export const ANALYSIS_QUEUE = 4;
+export const ANALYSIS_QUEUE = 32;
 /** Retry-After (seconds) of the 503 answered when the queue is full. */
 export const ANALYSIS_RETRY_AFTER_SECONDS = 5;
 
