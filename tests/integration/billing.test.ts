@@ -10,6 +10,7 @@ import Stripe from "stripe";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { displayPrefix, hashToken, newTokenSecret } from "@/server/auth/tokens";
 import { api, appUrl, databaseUrl, failOnRateLimit } from "../support/services";
+import { SMALL_RUN } from "./authz-table";
 
 const sql = postgres(databaseUrl(), { max: 3, onnotice: () => {} });
 const port = Number(process.env.STRIPE_FAKE_PORT);
@@ -263,18 +264,7 @@ describe("the demo lab's payment account (seeded)", () => {
     const run = await api("/api/v1/runs", {
       method: "POST",
       as: "researcher",
-      json: {
-        network: {
-          lattice: "triangular",
-          size: { columns: 4, rows: 4 },
-          transverse: "periodic",
-          twistDegrees: 0.11,
-          modeVelocityMps: 1.0e6,
-          channelsPerLink: 1,
-          node: { forward: 0.6, left: 0.2, right: 0.2 },
-        },
-        computation: { kind: "conductance", energyMeV: 0.123 },
-      },
+      json: { ...SMALL_RUN, computation: { ...SMALL_RUN.computation, energyMeV: 0.123 } },
     });
     expect(run.status).toBe(202);
     const runId = (await run.json()).id as string;

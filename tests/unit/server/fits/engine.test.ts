@@ -6,18 +6,10 @@ import { parseComputeInput } from "@/engine";
 import { engine } from "@/server/fits/engine";
 import { engineCurve, runFit } from "@/server/fits/model";
 import { seededGaussian } from "../../../support/random";
+import { triangularNetwork } from "@/shared/networks";
 
 const input = parseComputeInput({
-  network: {
-    lattice: "triangular",
-    size: { columns: 2, rows: 2 },
-    transverse: "periodic",
-    twistDegrees: 0.11,
-    modeVelocityMps: 1.0e6,
-    channelsPerLink: 1,
-    degeneracy: { spin: 2, valley: 2 },
-    node: { forward: 0.5, left: 0.25, right: 0.25, branch: 1, phaseRad: 0 },
-  },
+  network: triangularNetwork({ columns: 2, rows: 2 }, { forward: 0.5, left: 0.25, right: 0.25 }),
   // Thermal smearing on (1.5 K, 4 quadrature energies).
   computation: { kind: "conductance", energyMeV: 1.7, fieldTesla: 0, temperatureK: 1.5, temperaturePoints: 4, contactOhms: 0 },
 });

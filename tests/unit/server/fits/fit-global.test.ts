@@ -8,6 +8,7 @@ import { engine } from "@/server/fits/engine";
 import { defaultGlobalStarts, FIT_CHECKS, fitCurve, latinHypercube, type CurveModel } from "@/server/fits/fitter";
 import { engineCurve, expectedEvaluations, runFit } from "@/server/fits/model";
 import { seededGaussian, seededUniform } from "../../../support/random";
+import { triangularNetwork } from "@/shared/networks";
 
 const xs = Array.from({ length: 60 }, (_, i) => i / 59);
 const sigma = 0.05;
@@ -275,17 +276,7 @@ describe("global stage on the real engine", () => {
   // A disordered 4 x 4 triangular cylinder: its conductance against field is an interference
   // fingerprint, and chi2 against the twist has many local minima (synthetic data).
   const input = parseComputeInput({
-    network: {
-      lattice: "triangular",
-      size: { columns: 4, rows: 4 },
-      transverse: "periodic",
-      twistDegrees: 0.11,
-      modeVelocityMps: 1.0e6,
-      channelsPerLink: 1,
-      degeneracy: { spin: 2, valley: 2 },
-      node: { forward: 0.5, left: 0.25, right: 0.25, branch: 1, phaseRad: 0 },
-      disorder: { linkPhaseWidthRad: 2 * Math.PI, seed: 3 },
-    },
+    network: triangularNetwork({ columns: 4, rows: 4 }, { forward: 0.5, left: 0.25, right: 0.25 }, { disorder: { linkPhaseWidthRad: 2 * Math.PI, seed: 3 } }),
     computation: { kind: "conductance", energyMeV: 1.7, fieldTesla: 0, temperatureK: 0, contactOhms: 0 },
   });
   const x = Array.from({ length: 21 }, (_, i) => (0.3 * i) / 20);

@@ -11,18 +11,10 @@ import { engine } from "@/server/fits/engine";
 import { engineCurve, runFit } from "@/server/fits/model";
 import type { FitResult } from "@/server/fits/fitter";
 import { seededGaussian } from "../../../support/random";
+import { triangularNetwork } from "@/shared/networks";
 
 const input = parseComputeInput({
-  network: {
-    lattice: "triangular",
-    size: { columns: 2, rows: 2 },
-    transverse: "periodic",
-    twistDegrees: 0.11,
-    modeVelocityMps: 1.0e6,
-    channelsPerLink: 1,
-    degeneracy: { spin: 2, valley: 2 },
-    node: { forward: 0.5, left: 0.25, right: 0.25, branch: 1, phaseRad: 0 },
-  },
+  network: triangularNetwork({ columns: 2, rows: 2 }, { forward: 0.5, left: 0.25, right: 0.25 }),
   computation: { kind: "conductance", energyMeV: 1.7, fieldTesla: 0, temperatureK: 0, contactOhms: 0 },
 });
 
