@@ -181,6 +181,12 @@ describe("the measured-data workflow in the browser", () => {
     expect(Math.abs(fit.result.chi2PerDof - 1)).toBeLessThan(4 * Math.sqrt(2 / fit.result.dof));
     await expect(page.locator("[data-testid=fit-warnings]").count()).resolves.toBe(0);
     await expect(page.locator("[data-testid=poor-fit-mark]").count()).resolves.toBe(0);
+    // The chi2 profile of the twist is drawn, with its one-standard-error interval in words, and exported.
+    const profile = page.locator('[data-testid=fit-profiles] [data-chart$="-profile-twistDegrees"]');
+    await profile.locator("svg [data-points=profile] circle").first().waitFor();
+    await expect(page.locator("[data-testid=profile-interval]").innerText()).resolves.toMatch(/^Below the level from 0\.1\d+ ° to 0\.1\d+ °/);
+    await expect(page.locator("[data-testid=export-profiles]").getAttribute("href")).resolves.toBe(`/api/v1/fits/${fitId}/profiles.csv`);
+    expect(fit.result.profiles[0].points.length).toBe(10);
     await expect(seriousViolations(page)).resolves.toEqual([]);
     await shot("data-fit-report.png");
   }, 200_000);

@@ -76,6 +76,7 @@ export function FitForm({ datasetId, datasetName, period }: { datasetId: string;
   const [computation, setComputation] = useState(pretty(LK07_COMPUTATION));
   const [globalStarts, setGlobalStarts] = useState("");
   const [multiStart, setMultiStart] = useState("");
+  const [profilePoints, setProfilePoints] = useState("");
 
   const saved = useQuery({ queryKey: qk.networks({ limit: 100 }), queryFn: () => api("GET /api/v1/networks", { query: { limit: 100 } }) });
   const savedNetwork = saved.data?.networks.find((n) => n.id === source);
@@ -137,10 +138,12 @@ export function FitForm({ datasetId, datasetName, period }: { datasetId: string;
     for (const [key, text] of [
       ["globalStarts", globalStarts],
       ["multiStart", multiStart],
+      ["profilePoints", profilePoints],
     ] as const) {
       if (text.trim() === "") continue;
       const v = Number(text);
-      if (!Number.isInteger(v)) return { error: `${key === "globalStarts" ? "global starts" : "descents"}: a whole number, or empty for the default.` };
+      const what = { globalStarts: "global starts", multiStart: "descents", profilePoints: "χ² profile points" }[key];
+      if (!Number.isInteger(v)) return { error: `${what}: a whole number, or empty for the default.` };
       options[key] = v;
     }
     // An unchanged saved network is sent by its id and version, so the fit records which one it used.
@@ -287,6 +290,17 @@ export function FitForm({ datasetId, datasetName, period }: { datasetId: string;
               onChange={(e) => setMultiStart(e.target.value)}
             />
           </label>
+          <label className="block">
+            <span className="tk-label">χ² profile points per parameter (across its bounds, the others refitted; empty: 9; 0: no profiles)</span>
+            <input
+              id="fit-profile-points"
+              className="tk-field mt-1 w-28 font-mono"
+              inputMode="numeric"
+              value={profilePoints}
+              placeholder="default"
+              onChange={(e) => setProfilePoints(e.target.value)}
+            />
+          </label>
         </fieldset>
         <details className="tk-card">
           <summary className="cursor-pointer text-body font-semibold">Computation at every point</summary>
@@ -320,9 +334,10 @@ export function FitForm({ datasetId, datasetName, period }: { datasetId: string;
             </p>
             <p className="text-caption text-fg-soft" data-testid="fit-stages">
               {est.stages.globalStarts > 0 ? `${est.stages.globalStarts} global points, then ` : "No global stage: "}
-              {est.stages.localStarts} local descent{est.stages.localStarts === 1 ? "" : "s"} (at most {est.stages.maxIterations} iterations each) ·{" "}
-              {est.modelCurves} model curves × {est.points} points = {est.estimate.engineEvaluations.toLocaleString("en")} engine computations. You are charged
-              for the compute-seconds actually used.
+              {est.stages.localStarts} local descent{est.stages.localStarts === 1 ? "" : "s"} (at most {est.stages.maxIterations} iterations each)
+              {est.stages.profilePoints > 0 ? `, then χ² profiles of ${est.stages.profilePoints} points per parameter` : ", no χ² profiles"} · {est.modelCurves}{" "}
+              model curves × {est.points} points = {est.estimate.engineEvaluations.toLocaleString("en")} engine computations. You are charged for the
+              compute-seconds actually used.
             </p>
           </>
         ) : (
