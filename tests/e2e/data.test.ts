@@ -146,8 +146,8 @@ describe("the measured-data workflow in the browser", () => {
     await page.locator("#fit-descents").fill("1");
     const stages = page.locator("[data-testid=fit-stages]");
     await stages.filter({ hasText: "6 global points, then 1 local descent" }).waitFor();
-    // 6 + 1 x 8 x 2 + 3 = 25 model curves over 120 points
-    await expect(stages.innerText()).resolves.toMatch(/25 model curves × 120 points = 3,000 engine computations/);
+    // 6 + 1 x 8 x 2 + 3 = 25 model curves, and 9 for the twist's chi2 profile, over 120 points
+    await expect(stages.innerText()).resolves.toMatch(/then χ² profiles of 9 points per parameter · 34 model curves × 120 points = 4,080 engine computations/);
     await expect(page.locator("[data-testid=fit-estimate-seconds]").innerText()).resolves.toMatch(/\d/);
     await expect(page.locator("[data-testid=fit-estimate]").innerText()).resolves.toMatch(/\d compute-seconds · .*USD on your plan/);
     await expect(seriousViolations(page)).resolves.toEqual([]);

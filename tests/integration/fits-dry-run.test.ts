@@ -83,7 +83,7 @@ describe("fit dry run", () => {
     });
     expect(together.status).toBe(422);
     const e = (await together.json()).error;
-    expect(e.field).toBe("fit");
+    expect(e.details.field).toBe("fit");
     expect(e.message).toMatch(/bounds together are not a valid model at node\.forward = 0\.98, disorder\.forwardSpread = 0\.2.*narrow the bounds/);
     // the profile options: counted in the cost, 0 turns them off, 1 is refused in words
     const noProfiles = await (await api("/api/v1/fits?dryRun=true", { method: "POST", json: body({ profilePoints: 0 }) })).json();

@@ -71,6 +71,11 @@ export interface FitOptions {
   tolerance?: number;
   onIteration?: (info: FitIterationInfo) => void;
   shouldCancel?: () => boolean;
+  /**
+   * The model curves at the global stage's points (globalStartPoints, same order), computed
+   * elsewhere (in parallel on the worker's threads); the fit then evaluates only the rest.
+   */
+  globalCurves?: number[][];
 }
 
 export interface FitIterationInfo {
@@ -199,6 +204,32 @@ export function profileCurves(parameters: number, profilePoints: number, profile
   return parameters === 1 ? profilePoints : parameters * profilePoints * (1 + profileIterations * parameters);
 }
 
+/**
+ * The global stage's points as fitCurve will draw them for these specs and options (the initial
+ * values first, then the seeded Latin hypercube), in the parameters' own units: for computing
+ * their curves elsewhere and passing them back as options.globalCurves.
+ */
+export function globalStartPoints(specs: FitParameterSpec[], options: Pick<FitOptions, "globalStarts" | "multiStart" | "maxIterations" | "seed"> = {}) {
+  const { globalStarts } = fitStages(specs.length, options);
+  if (globalStarts === 0) return [];
+  const random = rng(options.seed ?? 1);
+  const scaled = latinHypercube(globalStarts - 1, specs.length, random);
+  return [
+    Object.fromEntries(specs.map((s) => [s.parameter, s.initial])),
+    ...scaled.map((u) => Object.fromEntries(specs.map((s, j) => [s.parameter, s.min + Math.min(1, Math.max(0, u[j])) * (s.max - s.min)]))),
+  ];
+}
+
+/** Share of a fit's expected model curves that the global stage takes (for progress shown while it runs elsewhere). */
+export function globalStageShare(
+  parameters: number,
+  options: Pick<FitOptions, "globalStarts" | "multiStart" | "maxIterations" | "profilePoints" | "profileIterations"> = {},
+) {
+  const st = fitStages(parameters, options);
+  const total = st.globalStarts + st.localStarts * st.maxIterations * (parameters + 1) + profileCurves(parameters, st.profilePoints, st.profileIterations);
+  return total > 0 ? st.globalStarts / total : 0;
+}
+
 /** Deterministic generator for the start points (mulberry32). */
 function rng(seed: number) {
   let a = seed >>> 0;
@@ -293,13 +324,18 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
   const allStarts: FitStart[] = [];
 
   // Global stage. The points are independent: evaluated here one after another (each a model
-  // curve), in a loop over a list so that a batch evaluator (e.g. on the worker pool) can
-  // replace it without touching the rest.
+  // curve), unless their curves were computed elsewhere in parallel (options.globalCurves).
   let globalPoints: { u: number[]; chi2: number }[] = [];
   if (globalStarts > 0) {
     const points = [initial, ...latinHypercube(globalStarts - 1, k, random)];
+    const given = options.globalCurves;
+    if (given && given.length !== points.length) throw new Error(`globalCurves holds ${given.length} curves for ${points.length} global points`);
     let bestSoFar = Infinity;
     globalPoints = points.map((u, i) => {
+      if (given) {
+        remember(keyOf(u), given[i]);
+        evaluations++;
+      }
       const chi2 = chi2Of(curveAt(u));
       if (chi2 < bestSoFar) bestSoFar = chi2;
       options.onIteration?.({

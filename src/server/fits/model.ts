@@ -48,7 +48,7 @@ export interface FitJobInput {
   y: number[];
   sigma: number[] | null;
   fit: FitParameterSpec[];
-  options?: Pick<FitOptions, "maxIterations" | "multiStart" | "globalStarts" | "seed" | "profilePoints" | "profileIterations">;
+  options?: Pick<FitOptions, "maxIterations" | "multiStart" | "globalStarts" | "seed" | "profilePoints" | "profileIterations" | "globalCurves">;
 }
 
 /**
