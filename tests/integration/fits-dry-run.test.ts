@@ -76,7 +76,7 @@ describe("fit dry run", () => {
       json: {
         ...body(),
         fit: [
-          { parameter: "node.forward", initial: 0.6, min: 0.2, max: 0.98 },
+          { parameter: "node.forward", initial: 0.6, min: 0.3, max: 0.98 },
           { parameter: "disorder.forwardSpread", initial: 0.05, min: 0, max: 0.2 },
         ],
       },
