@@ -21,7 +21,26 @@ export interface ColumnMapping {
   sigmaColumn?: string;
   /** Sample temperature per row, in kelvin. */
   temperatureColumn?: string;
+  /**
+   * What y measures: "twoTerminal" (default: a two-terminal conductance or resistance, stored as
+   * conductance in e2/h), or, in a Hall bar, "longitudinal" (R_xx) or "hall" (R_xy): a resistance
+   * (ohm or kohm) stored in ohms as measured (R_xy may be negative), fitted with the hallBar kind.
+   */
+  yMeasures?: YMeasures;
 }
+
+export const Y_MEASURES = ["twoTerminal", "longitudinal", "hall"] as const;
+export type YMeasures = (typeof Y_MEASURES)[number];
+
+/** The stored y of a dataset in words and units, by what it measures. */
+export const Y_MEASURES_INFO: Record<YMeasures, { label: string; short: string; unit: "e2/h" | "ohm"; resultPath: string }> = {
+  twoTerminal: { label: "two-terminal conductance", short: "G", unit: "e2/h", resultPath: "conductance.total" },
+  longitudinal: { label: "longitudinal resistance R_xx (Hall bar)", short: "R_xx", unit: "ohm", resultPath: "resistances.longitudinalOhms" },
+  hall: { label: "Hall resistance R_xy (Hall bar)", short: "R_xy", unit: "ohm", resultPath: "resistances.hallOhms" },
+};
+
+/** What a mapping's y measures (older mappings have no field: two-terminal). */
+export const yMeasuresOf = (mapping: Pick<ColumnMapping, "yMeasures">): YMeasures => mapping.yMeasures ?? "twoTerminal";
 
 export type CsvIssueCode =
   | "empty_file"
@@ -63,9 +82,9 @@ export interface ParsedDataset {
   xCanonicalUnit: string;
   /** Ascending x in the canonical unit. */
   x: number[];
-  /** Conductance in e^2/h. */
+  /** Conductance in e^2/h; for a Hall-bar resistance (mapping.yMeasures "longitudinal" or "hall"), ohms. */
   y: number[];
-  /** Uncertainty of the conductance in e^2/h, when a sigma column was mapped. */
+  /** Uncertainty of y in the same unit, when a sigma column was mapped. */
   sigma: number[] | null;
   temperatureK: number[] | null;
   rows: number;
@@ -313,6 +332,25 @@ export function parseDatasetCsv(text: string, mapping: ColumnMapping): ParsedDat
     throw new DatasetCsvError([
       { code: "unit_mismatch", row: null, column: mapping.yColumn, message: `yUnit "${mapping.yUnit}" is not allowed; use one of S, uS, e2/h, ohm, kohm.` },
     ]);
+  if (mapping.yMeasures !== undefined && !(Y_MEASURES as readonly string[]).includes(mapping.yMeasures))
+    throw new DatasetCsvError([
+      {
+        code: "unit_mismatch",
+        row: null,
+        column: mapping.yColumn,
+        message: `yMeasures "${String(mapping.yMeasures)}" is not allowed; use one of ${Y_MEASURES.join(", ")}.`,
+      },
+    ]);
+  const hallBar = yMeasuresOf(mapping) !== "twoTerminal";
+  if (hallBar && Y_UNIT_INFO[mapping.yUnit].kind !== "resistance")
+    throw new DatasetCsvError([
+      {
+        code: "unit_mismatch",
+        row: null,
+        column: mapping.yColumn,
+        message: `y measures ${Y_MEASURES_INFO[yMeasuresOf(mapping)].short}, a resistance: give it in ohm or kohm (yUnit is "${mapping.yUnit}").`,
+      },
+    ]);
   const table = readCsvTable(text);
   const issues: CsvIssue[] = [];
   const push = (i: CsvIssue) => {
@@ -421,7 +459,7 @@ export function parseDatasetCsv(text: string, mapping: ColumnMapping): ParsedDat
       values[w.role] = cell.value;
     }
     if (!rowOk) continue;
-    if (Y_UNIT_INFO[mapping.yUnit].kind === "resistance" && !(values.y! > 0)) {
+    if (Y_UNIT_INFO[mapping.yUnit].kind === "resistance" && !hallBar && !(values.y! > 0)) {
       push({
         code: "nonpositive_resistance",
         row: r.line,
@@ -501,9 +539,16 @@ export function parseDatasetCsv(text: string, mapping: ColumnMapping): ParsedDat
   for (let k = 0; k < n; k++) {
     const i = descending ? n - 1 - k : k;
     x[k] = convertX(xRaw[i], mapping.xUnit);
-    const c = convertY(yRaw[i], mapping.yUnit, sigma ? sRaw[i] : undefined)!;
-    y[k] = c.g;
-    if (sigma) sigma[k] = c.sigma!;
+    if (hallBar) {
+      // a Hall-bar resistance stays a resistance, in ohms
+      const toOhm = Y_UNIT_INFO[mapping.yUnit].toSi;
+      y[k] = yRaw[i] * toOhm;
+      if (sigma) sigma[k] = sRaw[i] * toOhm;
+    } else {
+      const c = convertY(yRaw[i], mapping.yUnit, sigma ? sRaw[i] : undefined)!;
+      y[k] = c.g;
+      if (sigma) sigma[k] = c.sigma!;
+    }
     if (temperatureK) temperatureK[k] = tRaw[i];
   }
   const info = X_UNIT_INFO[mapping.xUnit];

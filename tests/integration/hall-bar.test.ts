@@ -2,6 +2,8 @@
 // output, a scan over field whose grid carries R_xx and R_xy, and refusals in words naming the field.
 import { afterAll, describe, expect, it } from "vitest";
 import { cliCompute, get, post, smallNetwork, sql, waitFor } from "./runs-support";
+import { api } from "../support/services";
+import { datasetForm } from "../support/csv";
 
 const finished = (s: string) => ["succeeded", "failed", "cancelled"].includes(s);
 // Synthetic: an open-edged disordered triangular bar.
@@ -69,5 +71,35 @@ describe("Hall bar", () => {
     expect(overlap.body.error.message).toMatch(/computation\.contacts\.1\.fromColumn: the window \[3, 4\] overlaps "a"/);
     const [{ n: after }] = await sql`select count(*)::int as n from runs`;
     expect(after).toBe(before);
+  });
+
+  it("an R_xy dataset (synthetic) is kept in ohms and fitted with the hallBar kind; the conductance kind is refused in words", async () => {
+    const csv =
+      ["B (T),Rxy (ohm)", ...Array.from({ length: 12 }, (_, i) => `${(-0.3 + 0.05 * i).toFixed(2)},${(-900 + 150 * i).toFixed(1)}`)].join("\n") + "\n";
+    const up = await api("/api/v1/datasets", {
+      method: "POST",
+      body: datasetForm(csv, { name: "IT Hall bar R_xy (synthetic)", xColumn: "B (T)", xUnit: "T", yColumn: "Rxy (ohm)", yUnit: "ohm", yMeasures: "hall" }),
+    });
+    expect(up.status).toBe(201);
+    const d = await up.json();
+    expect(d.yUnit).toBe("ohm");
+    expect(d.yMeasures).toBe("hall");
+    const stored = (await get(`/api/v1/datasets/${d.id}`)).body;
+    expect(stored.points.y[0]).toBe(-900);
+    const fit = {
+      datasetId: d.id,
+      network,
+      sweepParameter: "fieldTesla",
+      fit: [{ parameter: "node.forward", initial: 0.5, min: 0.3, max: 0.8 }],
+    };
+    const wrong = await post("/api/v1/fits?dryRun=true", { ...fit, computation: { kind: "conductance", energyMeV: 0.8 } });
+    expect(wrong.status).toBe(422);
+    expect(wrong.body.error.message).toMatch(/Hall resistance R_xy.*fit it with "hallBar"/);
+    const right = await post("/api/v1/fits?dryRun=true", { ...fit, computation: { kind: "hallBar", energyMeV: 0.8 } });
+    expect(right.status).toBe(200);
+    expect(right.body.estimate.computeSeconds).toBeGreaterThan(0);
+    // without a kind the dataset decides it
+    const implied = await post("/api/v1/fits?dryRun=true", { ...fit, computation: { energyMeV: 0.8 } });
+    expect(implied.status).toBe(200);
   });
 });

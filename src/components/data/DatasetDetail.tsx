@@ -8,6 +8,7 @@ import type { DatasetPeriod } from "@/shared/api";
 import { XYChart } from "@/components/charts/XYChart";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import { FitForm } from "./FitForm";
+import { Y_MEASURES_INFO } from "@/shared/csv";
 import { FitQualityMark } from "./FitQualityMark";
 import { PeriodPanel } from "./PeriodPanel";
 import { SyntheticMark } from "./SyntheticMark";
@@ -20,6 +21,11 @@ export function DatasetDetail({ id }: { id: string }) {
   if (q.isPending) return <Skeleton lines={6} />;
   if (q.error) return <ErrorNote error={q.error} title="Dataset not available" />;
   const d = q.data;
+  // What y measures: a two-terminal conductance (e2/h) or a Hall-bar resistance (ohm); older answers have no field.
+  const yMeasures = d.yMeasures ?? "twoTerminal";
+  const measures = Y_MEASURES_INFO[yMeasures];
+  const hallBar = yMeasures !== "twoTerminal";
+  const yUnitText = hallBar ? "Ω" : "e²/h";
   return (
     <>
       <PageHeader
@@ -31,7 +37,7 @@ export function DatasetDetail({ id }: { id: string }) {
           </a>
         }
       >
-        {d.synthetic ? <SyntheticMark /> : null} {d.rows} points · x: {d.xQuantity} in {d.xUnit} · y: conductance in e²/h
+        {d.synthetic ? <SyntheticMark /> : null} {d.rows} points · x: {d.xQuantity} in {d.xUnit} · y: {measures.label} in {yUnitText}
         {d.hasSigma ? " with uncertainties" : ""} · sha256 <span className="font-mono text-caption">{d.dataHash.slice(0, 12)}…</span>
         {d.description ? <p className="mt-1 text-caption">{d.description}</p> : null}
       </PageHeader>
@@ -40,18 +46,21 @@ export function DatasetDetail({ id }: { id: string }) {
           title="Measured curve (engine units)"
           name={`dataset-${d.id.slice(0, 8)}`}
           xLabel={`${d.xQuantity} (${d.xUnit})`}
-          yLabel="conductance (e²/h)"
+          yLabel={`${measures.label} (${yUnitText})`}
           xUnit={d.xUnit}
-          yUnit="e²/h"
+          yUnit={yUnitText}
           series={[{ name: d.synthetic ? "data (synthetic)" : "data", x: d.points.x, y: d.points.y, err: d.points.sigma ?? undefined, points: true }]}
-          csv={{ header: [`x_${d.xUnit}`, "conductanceE2h", "sigmaE2h"], rows: d.points.x.map((x, i) => [x, d.points.y[i], d.points.sigma?.[i] ?? ""]) }}
+          csv={{
+            header: [`x_${d.xUnit}`, ...(hallBar ? [`${measures.short}_ohm`, "sigma_ohm"] : ["conductanceE2h", "sigmaE2h"])],
+            rows: d.points.x.map((x, i) => [x, d.points.y[i], d.points.sigma?.[i] ?? ""]),
+          }}
         />
         {d.xQuantity === "field" ? (
           <PeriodPanel datasetId={d.id} onResult={setPeriod} />
         ) : (
           <p className="text-body text-fg-soft">The period analysis and fits need a field axis; this dataset&apos;s x is {d.xQuantity}.</p>
         )}
-        {d.xQuantity === "field" ? <FitForm datasetId={d.id} datasetName={d.name} period={period} /> : null}
+        {d.xQuantity === "field" ? <FitForm datasetId={d.id} datasetName={d.name} period={period} measures={yMeasures} /> : null}
         {fitsQ.data?.items.length ? (
           <section>
             <h2 className="text-lead font-semibold">Fits of this dataset</h2>

@@ -16,8 +16,10 @@ import {
   parseDatasetCsv,
   previewCsv,
   proposeMapping,
+  Y_MEASURES_INFO,
   type ColumnMapping,
   type CsvIssue,
+  type YMeasures,
 } from "@/shared/csv";
 import { X_UNIT_INFO, X_UNITS, Y_UNIT_INFO, Y_UNITS, type XUnit, type YUnit } from "@/shared/units";
 
@@ -124,6 +126,7 @@ export function DatasetUpload() {
     form.set("yColumn", mapping.yColumn);
     form.set("yUnit", mapping.yUnit);
     if (mapping.sigmaColumn) form.set("sigmaColumn", mapping.sigmaColumn);
+    if (mapping.yMeasures) form.set("yMeasures", mapping.yMeasures);
     if (mapping.temperatureColumn) form.set("temperatureColumn", mapping.temperatureColumn);
     try {
       const body = await api("POST /api/v1/datasets", { form });
@@ -210,7 +213,23 @@ export function DatasetUpload() {
                   ))}
                 </select>
               </Field>
-              <Field id="y-unit" label="y unit" hint={`${Y_UNIT_INFO[mapping.yUnit].label}; stored as conductance in e²/h`}>
+              <Field id="y-measures" label="y measures" hint={Y_MEASURES_INFO[mapping.yMeasures ?? "twoTerminal"].label}>
+                <select
+                  id="y-measures"
+                  className="tk-field"
+                  value={mapping.yMeasures ?? "twoTerminal"}
+                  onChange={(e) => set({ yMeasures: e.target.value === "twoTerminal" ? undefined : (e.target.value as YMeasures) })}
+                >
+                  <option value="twoTerminal">two-terminal conductance or resistance</option>
+                  <option value="longitudinal">R_xx of a Hall bar</option>
+                  <option value="hall">R_xy of a Hall bar</option>
+                </select>
+              </Field>
+              <Field
+                id="y-unit"
+                label="y unit"
+                hint={`${Y_UNIT_INFO[mapping.yUnit].label}; ${mapping.yMeasures && mapping.yMeasures !== "twoTerminal" ? "stored in Ω as measured" : "stored as conductance in e²/h"}`}
+              >
                 <select id="y-unit" className="tk-field" value={mapping.yUnit} onChange={(e) => set({ yUnit: e.target.value as YUnit })}>
                   {Y_UNITS.map((u) => (
                     <option key={u}>{u}</option>
@@ -278,9 +297,13 @@ export function DatasetUpload() {
             title="Preview in engine units"
             name="dataset-preview"
             xLabel={`${parsed.data.xQuantity} (${parsed.data.xCanonicalUnit})`}
-            yLabel="conductance (e²/h)"
+            yLabel={
+              parsed.data.mapping.yMeasures && parsed.data.mapping.yMeasures !== "twoTerminal"
+                ? `${Y_MEASURES_INFO[parsed.data.mapping.yMeasures].short} (Ω)`
+                : "conductance (e²/h)"
+            }
             xUnit={parsed.data.xCanonicalUnit}
-            yUnit="e²/h"
+            yUnit={parsed.data.mapping.yMeasures && parsed.data.mapping.yMeasures !== "twoTerminal" ? "Ω" : "e²/h"}
             series={[{ name: "data", x: parsed.data.x, y: parsed.data.y, err: parsed.data.sigma ?? undefined, points: true }]}
           />
         ) : null}

@@ -8,6 +8,11 @@ import { qk } from "@/lib/queryKeys";
 import { formatComputeSeconds, formatUsd } from "@/components/billing";
 import type { DatasetPeriod } from "@/shared/api";
 import { LK07_COMPUTATION, LK07_FIT_START, LK07_NAME, LK07_NETWORK } from "@/shared/lk07";
+import { Y_MEASURES_INFO, type YMeasures } from "@/shared/csv";
+
+/** The model a Hall-bar resistance starts from: the demo network with open edges and the default six-terminal bar. */
+const HALL_BAR_NETWORK = { ...LK07_NETWORK, size: { columns: 9, rows: 6 }, transverse: "open" as const };
+const HALL_BAR_COMPUTATION = { kind: "hallBar", energyMeV: 1.7, fieldTesla: 0, temperatureK: 1.5, temperaturePoints: 6 } as const;
 import { FIT_PARAMETERS, type FitParameterInfo } from "@/shared/fit-parameters";
 import { sig } from "./format";
 import { canCreate, useMe } from "@/components/shell/useMe";
@@ -68,15 +73,28 @@ function useSettled<T>(value: T, ms: number): T {
  * schema), the computation, the global stage and the descents; the estimate and cost (a dry run
  * of the same request) before it starts.
  */
-export function FitForm({ datasetId, datasetName, period }: { datasetId: string; datasetName: string; period: DatasetPeriod | null }) {
+export function FitForm({
+  datasetId,
+  datasetName,
+  period,
+  measures = "twoTerminal",
+}: {
+  datasetId: string;
+  datasetName: string;
+  period: DatasetPeriod | null;
+  /** What the dataset's y measures: a Hall-bar resistance is fitted with the hallBar kind on an open-edged network. */
+  measures?: YMeasures;
+}) {
+  const hallBar = measures !== "twoTerminal";
+  const defaultNetwork = hallBar ? HALL_BAR_NETWORK : LK07_NETWORK;
   const router = useRouter();
   const queryClient = useQueryClient();
   const demo = datasetName === LK07_NAME;
   const [rows, setRows] = useState<Record<string, Row>>(() => initialRows(demo));
   const [source, setSource] = useState<string>(DEMO_MODEL);
-  const [network, setNetwork] = useState(pretty(LK07_NETWORK));
+  const [network, setNetwork] = useState(pretty(defaultNetwork));
   const [scaleNote, setScaleNote] = useState<string | null>(null);
-  const [computation, setComputation] = useState(pretty(LK07_COMPUTATION));
+  const [computation, setComputation] = useState(pretty(hallBar ? HALL_BAR_COMPUTATION : LK07_COMPUTATION));
   const [globalStarts, setGlobalStarts] = useState("");
   const [multiStart, setMultiStart] = useState("");
   const [profilePoints, setProfilePoints] = useState("");
@@ -94,7 +112,7 @@ export function FitForm({ datasetId, datasetName, period }: { datasetId: string;
     setSource(id);
     setScaleNote(null);
     const n = saved.data?.networks.find((x) => x.id === id);
-    setNetwork(pretty(n ? n.network : LK07_NETWORK));
+    setNetwork(pretty(n ? n.network : defaultNetwork));
   }
 
   function applyEstimate() {
@@ -103,7 +121,7 @@ export function FitForm({ datasetId, datasetName, period }: { datasetId: string;
     try {
       current = JSON.parse(network) as Record<string, unknown>;
     } catch {
-      current = LK07_NETWORK as unknown as Record<string, unknown>;
+      current = defaultNetwork as unknown as Record<string, unknown>;
     }
     const reading = period.perTriangle;
     setNetwork(pretty(withScale(current, reading)));
@@ -313,6 +331,12 @@ export function FitForm({ datasetId, datasetName, period }: { datasetId: string;
         </fieldset>
         <details className="tk-card">
           <summary className="cursor-pointer text-body font-semibold">Computation at every point</summary>
+          {hallBar ? (
+            <p className="mt-2 text-caption text-fg-soft" data-testid="fit-hall-bar-note">
+              This dataset holds {Y_MEASURES_INFO[measures].label}: the model is a Hall bar (kind hallBar) on a network with open edges, current from source to
+              drain, with the six-terminal bar&apos;s contacts unless the computation names others.
+            </p>
+          ) : null}
           <label className="mt-2 block">
             <span className="tk-label">engine computation (JSON; fieldTesla is set from the data, temperatureK gives the thermal smearing)</span>
             <textarea

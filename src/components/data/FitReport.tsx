@@ -11,6 +11,7 @@ import { fitParameterInfo, fitParameterName } from "@/shared/fit-parameters";
 import { sig, withStderr } from "./format";
 import { FitQualityMark } from "./FitQualityMark";
 import { SyntheticMark } from "./SyntheticMark";
+import { Y_MEASURES_INFO } from "@/shared/csv";
 
 const finished = (s?: string) => s === "succeeded" || s === "failed" || s === "cancelled";
 
@@ -44,6 +45,11 @@ export function FitReport({ id }: { id: string }) {
   const f = q.data;
   const r = f.result;
   const d = dq.data;
+  // What the data measure (older fits: two-terminal conductance).
+  const measuredKey = f.settings.measured ?? "twoTerminal";
+  const measured = Y_MEASURES_INFO[measuredKey];
+  const hallBar = measuredKey !== "twoTerminal";
+  const yUnitText = hallBar ? "Ω" : "e²/h";
   return (
     <>
       <PageHeader
@@ -132,9 +138,9 @@ export function FitReport({ id }: { id: string }) {
               title="Data and model"
               name={`fit-${f.id.slice(0, 8)}-overlay`}
               xLabel="field (T)"
-              yLabel="conductance (e²/h)"
+              yLabel={`${measured.label} (${yUnitText})`}
               xUnit="T"
-              yUnit="e²/h"
+              yUnit={yUnitText}
               series={[
                 {
                   name: d.synthetic ? "data (synthetic)" : "data",
@@ -146,15 +152,18 @@ export function FitReport({ id }: { id: string }) {
                 },
                 { name: "model", x: r.curve.x, y: r.curve.y, color: "accent", points: false },
               ]}
-              csv={{ header: ["fieldTesla", "dataE2h", "modelE2h"], rows: r.curve.x.map((x, i) => [x, d.points.y[i], r.curve!.y[i]]) }}
+              csv={{
+                header: hallBar ? ["fieldTesla", `data_${measured.short}_ohm`, `model_${measured.short}_ohm`] : ["fieldTesla", "dataE2h", "modelE2h"],
+                rows: r.curve.x.map((x, i) => [x, d.points.y[i], r.curve!.y[i]]),
+              }}
             />
             <XYChart
               title="Residuals (data − model)"
               name={`fit-${f.id.slice(0, 8)}-residuals`}
               xLabel="field (T)"
-              yLabel="residual (e²/h)"
+              yLabel={`residual (${yUnitText})`}
               xUnit="T"
-              yUnit="e²/h"
+              yUnit={yUnitText}
               height={200}
               series={[{ name: "residual", x: r.curve.x, y: r.residuals ?? [], points: true, color: "warm" }]}
             />
@@ -199,7 +208,7 @@ export function FitReport({ id }: { id: string }) {
                 {sig(r.chi2PerDof, 4)}
               </span>
               {r.dof !== undefined ? ` (dof ${r.dof})` : ""}
-              {r.weighted === false ? " · no uncertainty column: unit weights, so χ²/dof is the residual variance in (e²/h)²" : ""}
+              {r.weighted === false ? ` · no uncertainty column: unit weights, so χ²/dof is the residual variance in (${yUnitText})²` : ""}
               {r.iterations !== undefined ? ` · ${r.iterations} iterations` : ""}
               {r.converged === false ? " · did not meet the convergence rule" : ""}
             </p>

@@ -14,7 +14,18 @@ import { beforeTime, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
 import { readBodyCapped } from "@/server/http/body";
 import { INLINE_LIMITS, runAnalysis } from "@/server/offload";
-import { countCsvRecords, DATASET_MAX_BYTES, DATASET_MAX_ROWS, DatasetCsvError, parseDatasetCsv, type ColumnMapping, type ParsedDataset } from "@/shared/csv";
+import {
+  countCsvRecords,
+  DATASET_MAX_BYTES,
+  DATASET_MAX_ROWS,
+  DatasetCsvError,
+  parseDatasetCsv,
+  Y_MEASURES,
+  Y_MEASURES_INFO,
+  yMeasuresOf,
+  type ColumnMapping,
+  type ParsedDataset,
+} from "@/shared/csv";
 import { X_UNITS, Y_UNITS } from "@/shared/units";
 import { PeriodAnalysisError, periodFftLength } from "@/shared/period";
 import type { DatasetDetail, DatasetPeriod, DatasetPoints, DatasetSummary } from "@/shared/api";
@@ -27,6 +38,7 @@ export const uploadFields = z.object({
   yUnit: z.enum(Y_UNITS, { message: `must be one of ${Y_UNITS.join(", ")}` }),
   sigmaColumn: z.string().trim().min(1).optional(),
   temperatureColumn: z.string().trim().min(1).optional(),
+  yMeasures: z.enum(Y_MEASURES, { message: `must be one of ${Y_MEASURES.join(", ")}` }).optional(),
   description: z.string().max(2000, "at most 2000 characters").optional(),
 });
 
@@ -46,7 +58,8 @@ export function datasetSummary(d: Row): DatasetSummary {
     rows: d.rows,
     xQuantity: d.xQuantity,
     xUnit: d.xUnit,
-    yUnit: "e2/h",
+    yUnit: Y_MEASURES_INFO[yMeasuresOf(d.mapping)].unit,
+    yMeasures: yMeasuresOf(d.mapping),
     hasSigma: !!p.sigma,
     hasTemperature: !!p.temperatureK,
     xRange: [p.x[0], p.x[p.x.length - 1]],
@@ -112,7 +125,7 @@ export async function insertDataset(workspaceId: string, userId: string | null, 
   return row;
 }
 
-/** `POST /api/v1/datasets` (multipart): fields file, name, xColumn, xUnit, yColumn, yUnit, sigmaColumn?, temperatureColumn?. */
+/** `POST /api/v1/datasets` (multipart): fields file, name, xColumn, xUnit, yColumn, yUnit, sigmaColumn?, temperatureColumn?, yMeasures?. */
 export async function createDatasetFromRequest(caller: Caller, req: Request) {
   requirePermission(caller, "work.create");
   const declared = Number(req.headers.get("content-length") ?? "0");
@@ -150,7 +163,7 @@ export async function createDatasetFromRequest(caller: Caller, req: Request) {
       limitBytes: DATASET_MAX_BYTES,
     });
   const fields: Record<string, string> = {};
-  for (const key of ["name", "xColumn", "xUnit", "yColumn", "yUnit", "sigmaColumn", "temperatureColumn", "description"]) {
+  for (const key of ["name", "xColumn", "xUnit", "yColumn", "yUnit", "sigmaColumn", "temperatureColumn", "yMeasures", "description"]) {
     const v = form.get(key);
     if (typeof v === "string" && v.trim() !== "") fields[key] = v;
   }
@@ -175,6 +188,7 @@ export async function createDatasetFromRequest(caller: Caller, req: Request) {
     yUnit: f.yUnit,
     ...(f.sigmaColumn ? { sigmaColumn: f.sigmaColumn } : {}),
     ...(f.temperatureColumn ? { temperatureColumn: f.temperatureColumn } : {}),
+    ...(f.yMeasures && f.yMeasures !== "twoTerminal" ? { yMeasures: f.yMeasures } : {}),
   };
   // Over the row limit: refused before the parse, when counting lines decides it (countCsvRecords).
   const records = countCsvRecords(bytes);

@@ -57,12 +57,17 @@ function runCurves(task: CurvesTask): CurvesOutcome {
   const counter = new Int32Array(task.counter, 0, 1);
   const spent = startCpuMeter(clock);
   try {
-    const { network, computation, sweepParameter } = task.input as { network: unknown; computation: unknown; sweepParameter: string };
+    const { network, computation, sweepParameter, measured } = task.input as {
+      network: unknown;
+      computation: unknown;
+      sweepParameter: string;
+      measured?: FitJobInput["measured"];
+    };
     const input = parseComputeInput({ network, computation });
     const shouldCancel = () => Atomics.load(flags, 0) === 1;
     const curves = task.values.map((v) => {
       if (shouldCancel()) throw new FitCancelled();
-      const curve = engineCurve(engine, input, sweepParameter, task.x, v, shouldCancel);
+      const curve = engineCurve(engine, input, sweepParameter, task.x, v, shouldCancel, measured);
       Atomics.add(counter, 0, 1);
       return curve;
     });
@@ -86,17 +91,27 @@ function runOneFit(task: FitTask): FitTaskOutcome {
   const floats = new Float64Array(task.control, 8, 2);
   const spent = startCpuMeter(clock);
   try {
-    const { network, computation, sweepParameter, fit, options } = task.input as {
+    const { network, computation, sweepParameter, fit, options, measured } = task.input as {
       network: unknown;
       computation: unknown;
       sweepParameter: string;
       fit: FitJobInput["fit"];
       options?: FitJobInput["options"];
+      measured?: FitJobInput["measured"];
     };
     const input = parseComputeInput({ network, computation });
     const result = runFit(
       engine,
-      { input, sweepParameter, x: task.points.x, y: task.points.y, sigma: task.points.sigma, fit, options: { ...options, globalCurves: task.globalCurves } },
+      {
+        input,
+        sweepParameter,
+        x: task.points.x,
+        y: task.points.y,
+        sigma: task.points.sigma,
+        fit,
+        measured,
+        options: { ...options, globalCurves: task.globalCurves },
+      },
       {
         shouldCancel: () => Atomics.load(flags, 0) === 1,
         onIteration: (i) => {

@@ -14,6 +14,7 @@ export interface EngineLike {
 
 export { FIT_PARAMETERS, FITTABLE, SWEEP_FOR_QUANTITY } from "@/shared/fit-parameters";
 import { FITTABLE } from "@/shared/fit-parameters";
+import { Y_MEASURES_INFO, type YMeasures } from "@/shared/csv";
 
 /**
  * The two-terminal conductance in e^2/h from an engine conductance result, including the series
@@ -26,6 +27,22 @@ export function conductanceOf(result: unknown): number {
   const total = r?.ensemble?.mean?.total ?? r?.conductance?.total;
   if (typeof total !== "number" || !Number.isFinite(total)) throw new Error("the engine result has no conductance.total");
   return total;
+}
+
+/**
+ * The model's value a dataset is compared with, by what the dataset measures: the two-terminal
+ * conductance in e2/h (conductanceOf), or a Hall bar's R_xx or R_xy in ohms (the ensemble mean
+ * when the computation has an ensemble). An undetermined resistance (an insulating model) is an
+ * error: a fit cannot compare with it.
+ */
+export function modelValueOf(result: unknown, measured: YMeasures = "twoTerminal"): number {
+  if (measured === "twoTerminal") return conductanceOf(result);
+  const key = measured === "longitudinal" ? "longitudinalOhms" : "hallOhms";
+  const r = result as { resistances?: Record<string, number | null>; ensemble?: { mean?: Record<string, number | null> } };
+  const v = r?.ensemble?.mean?.[key] ?? r?.resistances?.[key];
+  if (typeof v !== "number" || !Number.isFinite(v))
+    throw new Error(`the model's ${Y_MEASURES_INFO[measured].short} is undetermined here (no current path: an insulating model?); narrow the bounds`);
+  return v;
 }
 
 export function checkFitSpecs(specs: FitParameterSpec[]): void {
@@ -48,6 +65,8 @@ export interface FitJobInput {
   y: number[];
   sigma: number[] | null;
   fit: FitParameterSpec[];
+  /** What the data measure (default two-terminal conductance): the model value compared with them. */
+  measured?: YMeasures;
   options?: Pick<FitOptions, "maxIterations" | "multiStart" | "globalStarts" | "seed" | "profilePoints" | "profileIterations" | "globalCurves">;
 }
 
@@ -80,14 +99,15 @@ export function engineCurve(
   x: number[],
   values: Record<string, number>,
   shouldCancel?: () => boolean,
+  measured: YMeasures = "twoTerminal",
 ): number[] {
   const input = applyValues(engine, base, values);
-  return x.map((xi) => conductanceOf(engine.compute(engine.applyParameter(input as never, sweepParameter, xi) as never, { shouldCancel })));
+  return x.map((xi) => modelValueOf(engine.compute(engine.applyParameter(input as never, sweepParameter, xi) as never, { shouldCancel }), measured));
 }
 
 export function runFit(engine: EngineLike, job: FitJobInput, hooks: Pick<FitOptions, "onIteration" | "shouldCancel"> = {}): FitResult {
   checkFitSpecs(job.fit);
-  const model = (values: Record<string, number>) => engineCurve(engine, job.input, job.sweepParameter, job.x, values, hooks.shouldCancel);
+  const model = (values: Record<string, number>) => engineCurve(engine, job.input, job.sweepParameter, job.x, values, hooks.shouldCancel, job.measured);
   return fitCurve(model, { x: job.x, y: job.y, sigma: job.sigma }, job.fit, { ...job.options, ...hooks });
 }
 

@@ -6,6 +6,7 @@ import "@/server/server-only";
 import { and, desc, eq, lt } from "drizzle-orm";
 import { z } from "zod";
 import { computeCostUsd } from "@/shared/plans";
+import { Y_MEASURES_INFO, yMeasuresOf } from "@/shared/csv";
 import type { FitCreated, FitDetail, FitDryRun, FitExport, FitList, FitSettings } from "@/shared/api";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
@@ -90,9 +91,18 @@ async function prepareFit(caller: Caller, raw: unknown) {
   const sent = raw as { network?: unknown; computation?: Record<string, unknown> };
   const computation: Record<string, unknown> = Object.create(null);
   for (const key of Object.keys(sent.computation ?? {})) computation[key] = (sent.computation as Record<string, unknown>)[key];
-  if (computation.kind !== undefined && computation.kind !== "conductance")
-    throw new ApiError("invalid_input", 'computation.kind: fits compare conductance; use "conductance".', { field: "computation.kind" });
-  computation.kind = "conductance";
+  // What the data measure decides what the model computes: a two-terminal conductance, or a Hall bar's R_xx or R_xy.
+  const measured = yMeasuresOf(dataset.mapping);
+  const kind = measured === "twoTerminal" ? "conductance" : "hallBar";
+  if (computation.kind !== undefined && computation.kind !== kind)
+    throw new ApiError(
+      "invalid_input",
+      measured === "twoTerminal"
+        ? 'computation.kind: this dataset holds a two-terminal conductance; fit it with "conductance".'
+        : `computation.kind: this dataset holds ${Y_MEASURES_INFO[measured].label}; fit it with "hallBar" (a network with transverse "open").`,
+      { field: "computation.kind", allowed: [kind] },
+    );
+  computation.kind = kind;
   // The same network resolution and engine validation as runs (saved network in this workspace or
   // inline; engine errors answer 422 with the field through the engine door's mapper; plan limits).
   // A saved network may also be named by its id in `network` (then not also in `networkId`).
@@ -155,7 +165,7 @@ async function prepareFit(caller: Caller, raw: unknown) {
     costUsd: round(computeCostUsd(caller.plan, estimatedComputeSeconds), 4),
     engineEvaluations: evaluations * points.x.length,
   };
-  return { body, dataset, input, estimatedComputeSeconds, estimate };
+  return { body, dataset, input, estimatedComputeSeconds, estimate, measured };
 }
 
 /** POST /api/v1/fits?dryRun=true: the checks and the estimate (global and local stages as they would run), nothing written. */
@@ -179,9 +189,9 @@ export async function estimateFit(caller: Caller, raw: unknown): Promise<FitDryR
 }
 
 export async function createFit(caller: Caller, raw: unknown): Promise<FitCreated> {
-  const { body, dataset, input, estimatedComputeSeconds, estimate } = await prepareFit(caller, raw);
+  const { body, dataset, input, estimatedComputeSeconds, estimate, measured } = await prepareFit(caller, raw);
   const db = getDb();
-  const stored: FitSettings = { ...input, sweepParameter: body.sweepParameter, fit: body.fit, options: body.options ?? {} };
+  const stored: FitSettings = { ...input, sweepParameter: body.sweepParameter, fit: body.fit, options: body.options ?? {}, measured };
   // The queued fit is the reservation: written in the transaction that checked the budget under the workspace's lock.
   const row = await db.transaction(async (tx) => {
     await reserveBudget(tx, caller.workspaceId, estimatedComputeSeconds);
@@ -223,6 +233,7 @@ export function fitView(f: FitRow, datasetName?: string): Omit<FitDetail, "datas
       sweepParameter: f.input.sweepParameter,
       fit: f.input.fit,
       options: f.input.options,
+      measured: f.input.measured ?? "twoTerminal",
     },
     estimatedComputeSeconds: f.estimatedComputeSeconds,
     computeSeconds: f.computeSeconds,
@@ -317,7 +328,7 @@ export async function exportFit(caller: Caller, id: string): Promise<FitExport> 
       mapping: d.mapping,
       rows: d.rows,
       xUnit: d.xUnit,
-      yUnit: "e2/h",
+      yUnit: Y_MEASURES_INFO[yMeasuresOf(d.mapping)].unit,
       originalFilename: d.originalFilename,
     },
     settings: v.settings,
@@ -326,7 +337,10 @@ export async function exportFit(caller: Caller, id: string): Promise<FitExport> 
         "global stage: seeded Latin hypercube of model curves over the bounds (the initial values one of the points), then " +
         "Levenberg-Marquardt from the best distinct points (ml-levenberg-marquardt 5.1 steps; bounded, in coordinates scaled to the bounds)",
       uncertainties: "standard errors sqrt(diag((J^T W J)^-1 * chi2/dof)); J the model Jacobian by central differences at the optimum",
-      model: "engine two-terminal conductance, total over valleys and spins, in e2/h, at every data x",
+      model:
+        yMeasuresOf({ yMeasures: v.settings.measured }) === "twoTerminal"
+          ? "engine two-terminal conductance, total over valleys and spins, in e2/h, at every data x"
+          : `engine Hall bar (kind hallBar), ${Y_MEASURES_INFO[v.settings.measured!].label} in ohm for a current from source to drain, at every data x`,
     },
     result: v.result,
     caution:
@@ -342,7 +356,9 @@ export async function fitCurveCsv(caller: Caller, id: string): Promise<{ filenam
   if (!result?.curve) throw new ApiError("conflict", `Fit ${id} has no model curve yet (status ${r.fit.status}).`);
   const lines = [
     `# Triskel fit ${id}; engine ${r.fit.engineVersion}; dataset sha256 ${r.fit.dataHash}`,
-    "fieldTesla,modelConductanceE2h,residualE2h",
+    yMeasuresOf({ yMeasures: r.fit.input.measured }) === "twoTerminal"
+      ? "fieldTesla,modelConductanceE2h,residualE2h"
+      : `fieldTesla,model${r.fit.input.measured === "hall" ? "Hall" : "Longitudinal"}ResistanceOhm,residualOhm`,
     ...result.curve.x.map((x, i) => `${x},${result.curve!.y[i]},${result.residuals?.[i] ?? ""}`),
   ];
   return { filename: `fit-${id.slice(0, 8)}-model.csv`, csv: lines.join("\n") + "\n" };

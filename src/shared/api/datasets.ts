@@ -1,5 +1,5 @@
 /** Datasets (`/api/v1/datasets`): uploaded measurements with their column mapping and units. */
-import type { ColumnMapping } from "../csv";
+import type { ColumnMapping, YMeasures } from "../csv";
 
 /** The quantity on the x axis of a measurement. */
 export type DatasetXQuantity = "field" | "gateVoltage" | "density";
@@ -13,8 +13,10 @@ export interface DatasetSummary {
   rows: number;
   xQuantity: DatasetXQuantity;
   xUnit: string;
-  /** Conductance is stored in e2/h. */
-  yUnit: "e2/h";
+  /** A two-terminal conductance is stored in e2/h; a Hall-bar resistance (yMeasures longitudinal or hall) in ohms. */
+  yUnit: "e2/h" | "ohm";
+  /** What y measures (mapping.yMeasures, two-terminal when the mapping has none). */
+  yMeasures: YMeasures;
   hasSigma: boolean;
   hasTemperature: boolean;
   /** First and last x, in xUnit. */
@@ -28,7 +30,7 @@ export interface DatasetSummary {
   createdAt: string;
 }
 
-/** The points as stored (x in xUnit, y in e2/h). */
+/** The points as stored (x in xUnit, y in yUnit). */
 export interface DatasetPoints {
   x: number[];
   y: number[];

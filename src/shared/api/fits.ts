@@ -1,6 +1,6 @@
 /** Fits (`/api/v1/fits`): model parameters fitted to a measured dataset. */
 import type { Computation, Network } from "@/engine/browser";
-import type { ColumnMapping } from "../csv";
+import type { ColumnMapping, YMeasures } from "../csv";
 import type { Estimate, JobError, JobStatus } from "./common";
 
 /** One fitted parameter with its search range. */
@@ -128,6 +128,8 @@ export interface FitSettings {
   computation: Computation;
   sweepParameter: string;
   fit: FitParameterSpec[];
+  /** What the dataset measures, hence what the model computes: two-terminal conductance (e2/h) or a Hall bar's R_xx or R_xy (ohm). Absent on older fits: two-terminal. */
+  measured?: YMeasures;
   /** maxIterations, multiStart, globalStarts, seed, profilePoints, profileIterations as sent. */
   options: { maxIterations?: number; multiStart?: number; globalStarts?: number; seed?: number; profilePoints?: number; profileIterations?: number };
 }
