@@ -56,3 +56,4 @@ export type { DosResult } from "./compute/dos";
 export type { LdosResult } from "./compute/ldos";
 export type { LocalizationResult } from "./compute/localization";
 export type { HallBarResult } from "./compute/hall-bar";
+export { defaultContacts, type HallBarContact } from "./compute/hall-bar-check";

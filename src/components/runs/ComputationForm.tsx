@@ -8,6 +8,7 @@ import type { NetworkView } from "@/shared/api";
 import { estimateInput, validateComputation } from "@/lib/engineClient";
 import { Field, NumberInput, Select } from "@/components/ui/Field";
 import { buildComputation, defaultsFor, FIELDS, isShown, type ComputationKind, type FormValues } from "./computations";
+import { defaultBar, HallBarContacts, type ContactDraft } from "./HallBarContacts";
 
 /**
  * The computation part of the run form and of the sweep builder: its kind and field values, the
@@ -17,15 +18,23 @@ import { buildComputation, defaultsFor, FIELDS, isShown, type ComputationKind, t
 export function useComputationDraft(network: NetworkView) {
   const [kind, setKind] = useState<ComputationKind>("conductance");
   const [values, setValues] = useState<FormValues>(() => defaultsFor("conductance"));
-  const computation = useMemo(() => buildComputation(kind, values), [kind, values]);
+  // Hall bar: the side contacts (null: the engine's six-terminal bar)
+  const [contacts, setContacts] = useState<ContactDraft[] | null>(null);
+  const computation = useMemo(() => {
+    const c = buildComputation(kind, values);
+    return kind === "hallBar" && contacts !== null ? { ...c, contacts } : c;
+  }, [kind, values, contacts]);
   const check = useMemo(() => validateComputation(computation), [computation]);
   const seconds = useMemo(() => (check.ok ? estimateInput({ network: network.network, computation }) : null), [check.ok, network.network, computation]);
   /** Another kind of computation, starting from its default values. */
   const chooseKind = (k: ComputationKind) => {
     setKind(k);
     setValues(defaultsFor(k));
+    setContacts(null);
   };
-  return { kind, values, setValues, chooseKind, computation, check, seconds };
+  const columns = network.network.size.columns;
+  const openEdges = network.network.transverse === "open";
+  return { kind, values, setValues, chooseKind, computation, check, seconds, contacts, setContacts, columns, openEdges };
 }
 
 export type ComputationDraft = ReturnType<typeof useComputationDraft>;
@@ -45,6 +54,14 @@ export function ComputationFields({
   const { kind, values, setValues } = draft;
   return (
     <>
+      {kind === "hallBar" ? (
+        <HallBarContacts
+          columns={draft.columns}
+          openEdges={draft.openEdges}
+          contacts={draft.contacts ?? defaultBar(draft.columns)}
+          onChange={draft.setContacts}
+        />
+      ) : null}
       {FIELDS[kind]
         .filter((f) => isShown(f, values))
         .map((f) => {
