@@ -4,7 +4,7 @@ import { getDb } from "@/server/db";
 import { apiTokens, memberships, workspaces } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
 import { assertFailedBudgetLeft, consumeMemberBudget, countFailedRequest } from "@/server/http/rate-limit";
-import { can, describeAction, lesserRole, rolesAllowed, ROLE_LABELS, type Action, type Role } from "@/shared/permissions";
+import { can, lesserRole, refusalReason, type Action, type Role } from "@/shared/permissions";
 import { effectivePlan, type PlanId } from "@/shared/plans";
 import { hashToken, looksLikeToken } from "./tokens";
 
@@ -150,11 +150,9 @@ export async function callerFromToken(secret: string): Promise<Caller> {
 
 /** Throws 403 with a message naming the action and the roles that may do it. */
 export function requirePermission(caller: Caller, action: Action): void {
-  if (can(caller.role, action)) return;
-  const allowed = rolesAllowed(action)
-    .map((r) => ROLE_LABELS[r])
-    .join(", ");
-  throw new ApiError("forbidden", `Your role (${ROLE_LABELS[caller.role]}) cannot ${describeAction(action)}; allowed: ${allowed}.`, {
+  const reason = refusalReason(caller.role, action);
+  if (reason === null) return;
+  throw new ApiError("forbidden", reason, {
     action,
     role: caller.role,
   });

@@ -1,8 +1,7 @@
 import type { Metadata } from "next";
-import Link from "next/link";
 import katex from "katex";
 import "katex/dist/katex.min.css";
-import { Mark } from "@/components/shell/Mark";
+import { SiteHeader } from "@/components/shell/SiteHeader";
 import { CardTable } from "@/components/ui/Table";
 import { PLANS } from "@/shared/plans";
 import { CONDUCTANCE_QUANTUM_S, FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM, periodFromTwistNm, RESISTANCE_QUANTUM_OHM } from "@/engine/constants";
@@ -269,19 +268,7 @@ const TOC = [
 export default function ManualPage() {
   return (
     <div className="mx-auto max-w-6xl px-gutter py-10">
-      <header className="flex items-center justify-between border-b border-line pb-4">
-        <Link href="/" className="flex items-center gap-2 text-lead font-semibold">
-          <Mark /> Triskel
-        </Link>
-        <nav aria-label="Site" className="flex gap-5 text-body text-fg-soft">
-          <Link href="/pricing" className="hover:text-accent">
-            Pricing
-          </Link>
-          <Link href="/networks" className="hover:text-accent">
-            Open the app
-          </Link>
-        </nav>
-      </header>
+      <SiteHeader current="/manual" />
       <div className="mt-8 gap-10 lg:grid lg:grid-cols-[13rem_1fr]">
         <nav aria-label="Manual contents" className="hidden lg:block">
           <ol className="sticky top-8 space-y-1.5 text-caption text-fg-soft">
