@@ -37,9 +37,9 @@ export function UpgradeHint({ plan }: { plan: PlanId }) {
   const lab = PLANS.lab;
   return mayUpgrade ? (
     <Link href="/billing" className="font-medium underline" data-testid="upgrade-link">
-      Upgrade this group to {lab.label} ({lab.seatPriceUsdPerMonth} USD per seat per month, compute metered)
+      upgrade this group to {lab.label} ({lab.seatPriceUsdPerMonth} USD per seat per month, compute metered)
     </Link>
   ) : (
-    <span data-testid="upgrade-ask">Ask an Owner or Billing admin of this group to upgrade it to {lab.label}.</span>
+    <span data-testid="upgrade-ask">ask an Owner or Billing admin of this group to upgrade it to {lab.label}</span>
   );
 }
