@@ -143,7 +143,7 @@ describe("invalid run submissions get the documented status and write nothing", 
 
     const overPlan = await post("/api/v1/runs", { network: smallNetwork(44, 44), computation: { kind: "conductance" } }, "student");
     expect(overPlan.status).toBe(402);
-    expect(overPlan.body.error.message).toContain("maxCellsPerSide = 40");
+    expect(overPlan.body.error.message).toContain("over the Free plan's limit of 40 cells per side");
 
     const bigEnsemble = await post(
       "/api/v1/runs",

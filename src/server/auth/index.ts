@@ -67,7 +67,7 @@ export async function getCaller(req: Request): Promise<Caller> {
     return fromSession;
   }
   await countFailedRequest(req);
-  throw new ApiError("unauthenticated", "Sign in, or send `Authorization: Bearer <API token>` (create one under Workspace → API tokens).");
+  throw new ApiError("unauthenticated", "Sign in, or send `Authorization: Bearer <API token>` (create one under Group → API tokens).");
 }
 
 /** Hashes of tokens that authenticated in this process, with when (bounded; entries expire). */
@@ -128,7 +128,7 @@ export async function callerFromToken(secret: string): Promise<Caller> {
     .limit(1);
   if (!row) throw new ApiError("unauthenticated", "Unknown API token.");
   if (row.revokedAt) throw new ApiError("unauthenticated", "This API token was revoked; create a new one.");
-  if (!row.memberRole) throw new ApiError("unauthenticated", "The member who created this API token is no longer in its workspace.");
+  if (!row.memberRole) throw new ApiError("unauthenticated", "The member who created this API token is no longer in its group.");
   // Record last use at most once a minute per token.
   const now = Date.now();
   if ((lastUsedWrites.get(row.id) ?? 0) < now - 60_000) {

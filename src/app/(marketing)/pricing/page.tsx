@@ -69,7 +69,7 @@ export default function PricingPage() {
           upgrades it on the group&apos;s Billing page; the price is shown before anything is charged.
         </p>
       </div>
-      <p className="mt-6 text-caption text-fg-faint">Demo figures. A compute-second is one CPU second a Triskel worker spends on your run.</p>
+      <p className="mt-6 text-caption text-fg-faint">Demo figures. A compute-second is one CPU second a Triskel worker spends on your calculation.</p>
     </main>
   );
 }
