@@ -436,9 +436,9 @@ export default function ManualPage() {
             </section>
           ))}
           <p>
-            A sweep varies one or two of these fields, or a network field such as <span className="font-mono">node.forward</span>, over a list of values or a
-            range. Sweeping forward rescales left and right and keeps their ratio. Each point can be an ensemble of disorder seeds. Sweeps are limited to{" "}
-            {PLANS.free.maxSweepPoints} points on Free and {PLANS.lab.maxSweepPoints.toLocaleString("en")} on Lab.
+            A scan (API: sweep) varies one or two of these fields, or a network field such as <span className="font-mono">node.forward</span>, over a list of
+            values or a range. Scanning forward rescales left and right and keeps their ratio. Each point can be an ensemble of disorder seeds. Scans are
+            limited to {PLANS.free.maxSweepPoints} points on Free and {PLANS.lab.maxSweepPoints.toLocaleString("en")} on Lab.
           </p>
 
           <h2 id="constants">Constants</h2>
@@ -461,8 +461,9 @@ export default function ManualPage() {
               describes the device.
             </li>
             <li>
-              A run shows its estimated compute-seconds and cost before it starts. You are charged for the compute-seconds actually used, and jobs over the
-              plan, the free quota or the spend cap are refused with the reason.
+              A calculation (API: run) shows its estimated compute-seconds and cost before it starts. On Lab you are charged for the compute-seconds actually
+              used; on Free nothing is charged and they count against the included minutes. Jobs over the plan, the free quota or the spend cap are refused with
+              the reason.
             </li>
             <li>Nothing in Triskel controls instruments.</li>
           </ul>
