@@ -25,13 +25,13 @@ async function labNetworkId(): Promise<string> {
   return list.networks.find((n) => n.name === "Clean 0.11° triangular network")!.id;
 }
 
-/** The markup of the logo's mark on this page (the one Logo component draws it everywhere). */
+/** The drawing of the logo's mark on this page (the one Logo component draws it everywhere, at the page's size). */
 const logoMark = (page: Page) =>
   page
     .getByTestId("logo")
     .first()
     .locator("svg")
-    .evaluate((svg) => svg.outerHTML);
+    .evaluate((svg) => `${svg.getAttribute("viewBox")} ${svg.innerHTML}`);
 
 async function activeGroup(page: Page): Promise<string> {
   const groups = page.getByTestId("group-selector");

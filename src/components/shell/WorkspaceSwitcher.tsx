@@ -42,7 +42,8 @@ function GroupList({ currentName }: { currentName: string }) {
   if (!orgs.isLoaded || memberships.length === 0) return <p className="mt-1 break-words text-body font-medium">{currentName}</p>;
   const value = currentOrg?.organization.id ?? PERSONAL;
   const choices = [
-    { id: PERSONAL, name: currentOrg ? "Personal group" : currentName },
+    // The personal group under one name whichever group is active (its full name heads the Group page).
+    { id: PERSONAL, name: "Personal group" },
     ...memberships.map((m) => ({ id: m.organization.id, name: m.organization.name })),
   ];
   const choose = async (id: string) => {

@@ -7,7 +7,7 @@ import "@/server/server-only";
 import { and, eq } from "drizzle-orm";
 import { getDb } from "@/server/db";
 import { memberships, users, workspaces } from "@/server/db/schema";
-import { addExampleNetwork } from "@/server/networks/example";
+import { addExampleNetwork } from "@/server/onboarding/example-network";
 import type { Role } from "@/shared/permissions";
 
 export type UserRow = typeof users.$inferSelect;
