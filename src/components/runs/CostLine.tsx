@@ -33,9 +33,7 @@ export function CostLine({ seconds, plan, points = 1, jobSeconds }: { seconds: n
       ) : null}
       <p className="text-micro text-fg-faint">
         {points > 1 ? `For all ${points.toLocaleString("en")} points. ` : ""}
-        {p.id === "free"
-          ? `Nothing is charged on ${p.label}: the compute-seconds actually used count against the ${p.includedComputeSeconds / 60} compute-minutes included each month.`
-          : "You are charged for the compute-seconds actually used."}
+        {p.id === "free" ? `Nothing is charged on ${p.label}.` : "You are charged for the compute-seconds actually used."}
       </p>
     </div>
   );
