@@ -17,6 +17,7 @@ export {
   dosComputationSchema,
   ldosComputationSchema,
   localizationComputationSchema,
+  hallBarComputationSchema,
   parseComputeInput,
   parseNetwork,
   linkLengthNm,
@@ -29,6 +30,7 @@ export {
   type DosComputation,
   type LdosComputation,
   type LocalizationComputation,
+  type HallBarComputation,
 } from "./schema";
 export { EngineInputError, EngineLimitError, EngineCancelledError, SingularMatrixError, type EngineIssue } from "./errors";
 export { estimateCost, checkResourceLimits, type CostEstimate } from "./cost";
@@ -53,3 +55,4 @@ export type { SpectrumResult } from "./compute/spectrum";
 export type { DosResult } from "./compute/dos";
 export type { LdosResult } from "./compute/ldos";
 export type { LocalizationResult } from "./compute/localization";
+export type { HallBarResult } from "./compute/hall-bar";

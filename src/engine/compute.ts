@@ -9,10 +9,16 @@ import { computeSpectrum, type SpectrumResult } from "./compute/spectrum";
 import { computeDos, type DosResult } from "./compute/dos";
 import { computeLdos, type LdosResult } from "./compute/ldos";
 import { computeLocalization, type LocalizationResult } from "./compute/localization";
+import { computeHallBar, type HallBarResult } from "./compute/hall-bar";
 
 type WithHeader<T> = { engineVersion: string; inputHash: string } & T;
 export type ComputeResult =
-  WithHeader<ConductanceResult> | WithHeader<SpectrumResult> | WithHeader<DosResult> | WithHeader<LdosResult> | WithHeader<LocalizationResult>;
+  | WithHeader<ConductanceResult>
+  | WithHeader<SpectrumResult>
+  | WithHeader<DosResult>
+  | WithHeader<LdosResult>
+  | WithHeader<LocalizationResult>
+  | WithHeader<HallBarResult>;
 
 /**
  * Run one computation (synchronous, pure). Refuses up front a computation over the memory limit
@@ -33,5 +39,7 @@ export function compute(input: ComputeInput, options: ComputeOptions = {}): Comp
       return { ...header, ...computeLdos(network, computation, options) };
     case "localization":
       return { ...header, ...computeLocalization(network, computation, options) };
+    case "hallBar":
+      return { ...header, ...computeHallBar(network, computation, options) };
   }
 }

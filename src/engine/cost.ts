@@ -433,6 +433,21 @@ export function estimateCost(input: ComputeInput, options: CostOptions = {}): Co
       peak += 2 * s.peakMatrixBytes + 2 * s.graphBytes;
       break;
     }
+    case "hallBar": {
+      // Both valleys with every lead row kept (the side contacts' channels stay in the frontier
+      // until the end): the conductance sweep of valley K with reflection, for each valley.
+      const s = sweepCost(net, "conductance", backend);
+      const width = c.temperatureK > 0 && c.temperaturePoints === undefined ? estimatedResonanceWidth(net) : undefined;
+      const points = conductanceEnergyEvaluations(net, c as unknown as ConductanceComputation, width);
+      const samples = c.ensemble?.samples ?? 1;
+      const nIn = s.leadChannels + 2 * net.size.columns;
+      graphs(s, samples, 1);
+      add("slice composition with every terminal's rows (per valley, one energy)", samples * points * valleys, s.sweepK.work, s.sweepK.seconds);
+      add("terminal transmissions T_ij (per valley and energy)", samples * points * valleys, nIn * nIn, nIn * nIn * K.entryReadSeconds);
+      if (width !== undefined) add("narrowest-resonance search (per sample)", samples, s.nodes, resonanceSeconds(s, width));
+      peak += 2 * s.peakMatrixBytes + 2 * s.graphBytes;
+      break;
+    }
     case "localization": {
       const s = sweepCost(net, "localization", backend);
       const samples = c.ensemble.samples;

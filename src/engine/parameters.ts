@@ -19,7 +19,7 @@ export const SWEEPABLE_PARAMETERS: readonly SweepableParameter[] = [
     description: "Fermi energy",
     bounds: { min: -1e5, max: 1e5 },
     appliesTo: "computation",
-    kinds: ["conductance", "ldos", "localization"],
+    kinds: ["conductance", "ldos", "localization", "hallBar"],
   },
   {
     name: "fieldTesla",
@@ -27,7 +27,7 @@ export const SWEEPABLE_PARAMETERS: readonly SweepableParameter[] = [
     description: "perpendicular magnetic field",
     bounds: { min: -1000, max: 1000 },
     appliesTo: "computation",
-    kinds: ["conductance", "ldos", "localization", "dos"],
+    kinds: ["conductance", "ldos", "localization", "dos", "hallBar"],
   },
   {
     name: "temperatureK",
@@ -35,7 +35,7 @@ export const SWEEPABLE_PARAMETERS: readonly SweepableParameter[] = [
     description: "temperature of the thermal average",
     bounds: { min: 0, max: 1000 },
     appliesTo: "computation",
-    kinds: ["conductance"],
+    kinds: ["conductance", "hallBar"],
   },
   {
     name: "contactOhms",
@@ -43,7 +43,7 @@ export const SWEEPABLE_PARAMETERS: readonly SweepableParameter[] = [
     description: "series contact resistance",
     bounds: { min: 0, max: 1e9 },
     appliesTo: "computation",
-    kinds: ["conductance"],
+    kinds: ["conductance", "hallBar"],
   },
   { name: "periodNm", unit: "nm", description: "link length (moire period)", bounds: { min: 1, max: 100000 }, appliesTo: "network" },
   { name: "twistDegrees", unit: "degree", description: "twist angle (sets the period)", bounds: { min: 0.01, max: 5 }, appliesTo: "network" },

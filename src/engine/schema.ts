@@ -7,6 +7,7 @@ import { z } from "zod";
 import { EngineInputError, type EngineIssue } from "./errors";
 import { GRAPHENE_LATTICE_NM, periodFromTwistNm } from "./constants";
 import { checkTriangularNode, checkExplicitNodeMatrix, reachableForwardRange } from "./network/node-matrices";
+import { checkHallBar } from "./compute/hall-bar-check";
 
 export const MAX_COLUMNS = 2000;
 export const MAX_ROWS = 2000;
@@ -252,12 +253,49 @@ export const localizationComputationSchema = z.strictObject({
     .describe("first strip length (in columns) used in the fit of ln T; default max(rows, columns / 4)"),
 });
 
+const terminalName = z
+  .string()
+  .min(1)
+  .max(40)
+  .regex(/^[A-Za-z0-9_-]+$/, "letters, digits, '_' and '-' only");
+export const hallBarComputationSchema = z.strictObject({
+  kind: z.literal("hallBar"),
+  energyMeV: z.number().min(-1e5).max(1e5).default(0),
+  fieldTesla: z.number().min(-1000).max(1000).default(0),
+  temperatureK: z.number().min(0).max(1000).default(0),
+  temperaturePoints: z.int().min(2).max(400).optional().describe("a fixed Gauss-Legendre rule of this many points for the thermal average"),
+  temperatureTolerance: z.number().min(1e-8).max(0.1).default(1e-4).describe("relative accuracy of the adaptive thermal average"),
+  temperatureMaxEnergies: z.int().min(120).max(100000).default(20000).describe("most energies per sample the adaptive thermal average may use"),
+  contactOhms: z.number().min(0).max(1e9).default(0).describe("series contact resistance of the current path, added to the two-terminal resistance"),
+  contacts: z
+    .array(
+      z.strictObject({
+        name: terminalName,
+        edge: z.enum(["top", "bottom"]),
+        fromColumn: z.int().min(0).max(MAX_COLUMNS),
+        toColumn: z.int().min(0).max(MAX_COLUMNS),
+      }),
+    )
+    .max(32)
+    .optional()
+    .describe(
+      "side contacts on the open edges; default the six-terminal bar (top1, bottom1 at floor(C/3), top2, bottom2 at floor(2C/3)); [] leaves the two leads",
+    ),
+  measurements: z
+    .array(z.strictObject({ current: z.tuple([terminalName, terminalName]), voltage: z.tuple([terminalName, terminalName]) }))
+    .max(64)
+    .default([])
+    .describe("four-terminal resistances R = (V_voltage0 - V_voltage1) / I for a current from current0 to current1"),
+  ensemble: ensembleSchema.optional(),
+});
+
 export const computationSchema = z.discriminatedUnion("kind", [
   conductanceComputationSchema,
   spectrumComputationSchema,
   dosComputationSchema,
   ldosComputationSchema,
   localizationComputationSchema,
+  hallBarComputationSchema,
 ]);
 
 export const computeInputSchema = z.strictObject({ network: networkSchema, computation: computationSchema });
@@ -268,6 +306,7 @@ export type SpectrumComputation = z.output<typeof spectrumComputationSchema>;
 export type DosComputation = z.output<typeof dosComputationSchema>;
 export type LdosComputation = z.output<typeof ldosComputationSchema>;
 export type LocalizationComputation = z.output<typeof localizationComputationSchema>;
+export type HallBarComputation = z.output<typeof hallBarComputationSchema>;
 export interface ComputeInput {
   network: Network;
   computation: Computation;
@@ -325,7 +364,12 @@ function refineNodeIssues(raw: unknown, issues: EngineIssue[]): EngineIssue[] {
 /** Parse and validate a { network, computation } document; throws EngineInputError. */
 export function parseComputeInput(json: unknown): ComputeInput {
   const r = computeInputSchema.safeParse(json);
-  if (r.success) return r.data as ComputeInput;
+  if (r.success) {
+    const input = r.data as ComputeInput;
+    // checks that need the network; the contacts in force (the default bar when none are given) are filled in
+    if (input.computation.kind === "hallBar") input.computation.contacts = checkHallBar(input.network, input.computation);
+    return input;
+  }
   let issues = r.error.issues.map((x) => describeIssue(x, ""));
   issues = refineNodeIssues(json, issues);
   const first = issues[0];

@@ -146,8 +146,8 @@ describe("the measured-data workflow in the browser", () => {
     await page.locator("#fit-descents").fill("1");
     const stages = page.locator("[data-testid=fit-stages]");
     await stages.filter({ hasText: "6 global points, then 1 local descent" }).waitFor();
-    // 6 + 1 x 8 x 2 + 3 = 25 model curves over 120 points
-    await expect(stages.innerText()).resolves.toMatch(/25 model curves × 120 points = 3,000 engine computations/);
+    // 6 + 1 x 8 x 2 + 3 = 25 model curves, and 9 for the twist's chi2 profile, over 120 points
+    await expect(stages.innerText()).resolves.toMatch(/then χ² profiles of 9 points per parameter · 34 model curves × 120 points = 4,080 engine computations/);
     await expect(page.locator("[data-testid=fit-estimate-seconds]").innerText()).resolves.toMatch(/\d/);
     await expect(page.locator("[data-testid=fit-estimate]").innerText()).resolves.toMatch(/\d compute-seconds · .*USD on your plan/);
     await expect(seriousViolations(page)).resolves.toEqual([]);
@@ -181,6 +181,12 @@ describe("the measured-data workflow in the browser", () => {
     expect(Math.abs(fit.result.chi2PerDof - 1)).toBeLessThan(4 * Math.sqrt(2 / fit.result.dof));
     await expect(page.locator("[data-testid=fit-warnings]").count()).resolves.toBe(0);
     await expect(page.locator("[data-testid=poor-fit-mark]").count()).resolves.toBe(0);
+    // The chi2 profile of the twist is drawn, with its one-standard-error interval in words, and exported.
+    const profile = page.locator('[data-testid=fit-profiles] [data-chart$="-profile-twistDegrees"]');
+    await profile.locator("svg [data-points=profile] circle").first().waitFor();
+    await expect(page.locator("[data-testid=profile-interval]").innerText()).resolves.toMatch(/^Below the level from 0\.1\d+ ° to 0\.1\d+ °/);
+    await expect(page.locator("[data-testid=export-profiles]").getAttribute("href")).resolves.toBe(`/api/v1/fits/${fitId}/profiles.csv`);
+    expect(fit.result.profiles[0].points.length).toBe(10);
     await expect(seriousViolations(page)).resolves.toEqual([]);
     await shot("data-fit-report.png");
   }, 200_000);

@@ -153,6 +153,7 @@ export const TABLE: Entry[] = [
   { route: "v1/fits/[id]", method: "GET", path: (f) => `/api/v1/fits/${f.fitId}`, expect: seeObject },
   { route: "v1/fits/[id]/export", method: "GET", path: (f) => `/api/v1/fits/${f.fitId}/export`, expect: seeObject },
   { route: "v1/fits/[id]/curve.csv", method: "GET", path: (f) => `/api/v1/fits/${f.fitId}/curve.csv`, expect: seeObject },
+  { route: "v1/fits/[id]/profiles.csv", method: "GET", path: (f) => `/api/v1/fits/${f.fitId}/profiles.csv`, expect: seeObject },
   { route: "v1/fits/[id]/cancel", method: "POST", path: (f) => `/api/v1/fits/${f.fitId}/cancel`, expect: { ...CREATE, other: 404 } },
 
   // --- usage, workspace, tokens

@@ -36,11 +36,12 @@ describe("fit dry run", () => {
     expect(res.status).toBe(200);
     const d = await res.json();
     expect(d.dryRun).toBe(true);
-    // two fitted parameters: 8k + 8 = 24 global points, 3 descents, 40 iterations at most
-    expect(d.stages).toEqual({ globalStarts: 24, localStarts: 3, maxIterations: 40 });
+    // two fitted parameters: 8k + 8 = 24 global points, 3 descents, 40 iterations at most, profiles of 9 points refitted in 2 iterations
+    expect(d.stages).toEqual({ globalStarts: 24, localStarts: 3, maxIterations: 40, profilePoints: 9, profileIterations: 2 });
     expect(d.points).toBe(120);
-    // globalStarts + multiStart x 8 x (k + 1) + 2k + 1 model curves, one engine computation per point
-    expect(d.modelCurves).toBe(24 + 3 * 8 * 3 + 5);
+    // globalStarts + multiStart x 8 x (k + 1) + 2k + 1 model curves, then k x points x (1 + iterations x k) for the profiles;
+    // one engine computation per point
+    expect(d.modelCurves).toBe(24 + 3 * 8 * 3 + 5 + 2 * 9 * (1 + 2 * 2));
     expect(d.estimate.engineEvaluations).toBe(d.modelCurves * 120);
     expect(d.estimate.computeSeconds).toBeGreaterThan(0);
     expect(d.estimate.costUsd).toBeGreaterThanOrEqual(0);
@@ -56,8 +57,8 @@ describe("fit dry run", () => {
     expect(large.estimate.computeSeconds / small.estimate.computeSeconds).toBeCloseTo(large.modelCurves / small.modelCurves, 2);
     const off = await (await api("/api/v1/fits?dryRun=true", { method: "POST", json: body({ globalStarts: 0 }) })).json();
     // local only: one descent from the initial values, which also evaluates its start
-    expect(off.stages).toEqual({ globalStarts: 0, localStarts: 1, maxIterations: 40 });
-    expect(off.modelCurves).toBe(1 + 8 * 3 + 5);
+    expect(off.stages).toEqual({ globalStarts: 0, localStarts: 1, maxIterations: 40, profilePoints: 9, profileIterations: 2 });
+    expect(off.modelCurves).toBe(1 + 8 * 3 + 5 + 2 * 9 * (1 + 2 * 2));
   });
 
   it("makes the checks of a real submission: 422 with the field, 403 for a viewer, 404 across workspaces, 400 for a bad flag", async () => {
@@ -69,6 +70,28 @@ describe("fit dry run", () => {
     expect((await bad.json()).error.message).toMatch(/fit\.0\.initial/);
     expect((await api("/api/v1/fits?dryRun=true", { method: "POST", json: body(), as: "viewer" })).status).toBe(403);
     expect((await api("/api/v1/fits?dryRun=true", { method: "POST", json: body(), as: "student" })).status).toBe(404);
+    // bounds valid one by one but not together: node.forward up to 0.98 with a forward spread up to 0.2 leaves [0, 1]
+    const together = await api("/api/v1/fits?dryRun=true", {
+      method: "POST",
+      json: {
+        ...body(),
+        fit: [
+          { parameter: "node.forward", initial: 0.6, min: 0.3, max: 0.98 },
+          { parameter: "disorder.forwardSpread", initial: 0.05, min: 0, max: 0.2 },
+        ],
+      },
+    });
+    expect(together.status).toBe(422);
+    const e = (await together.json()).error;
+    expect(e.details.field).toBe("fit");
+    expect(e.message).toMatch(/bounds together are not a valid model at node\.forward = 0\.98, disorder\.forwardSpread = 0\.2.*narrow the bounds/);
+    // the profile options: counted in the cost, 0 turns them off, 1 is refused in words
+    const noProfiles = await (await api("/api/v1/fits?dryRun=true", { method: "POST", json: body({ profilePoints: 0 }) })).json();
+    expect(noProfiles.stages.profilePoints).toBe(0);
+    expect(noProfiles.modelCurves).toBe(24 + 3 * 8 * 3 + 5);
+    const one = await api("/api/v1/fits?dryRun=true", { method: "POST", json: body({ profilePoints: 1 }) });
+    expect(one.status).toBe(422);
+    expect((await one.json()).error.message).toMatch(/at least 2 points/);
     const flag = await api("/api/v1/fits?dryRun=maybe", { method: "POST", json: body() });
     expect(flag.status).toBe(400);
     expect((await flag.json()).error.message).toMatch(/dryRun/);

@@ -114,6 +114,26 @@ describe("fits", () => {
     expect(report.settings.sweepParameter).toBe("fieldTesla");
     const csv = await (await api(`/api/v1/fits/${id}/curve.csv`)).text();
     expect(csv.trim().split("\n")).toHaveLength(122);
+    // chi2 profiles of both parameters (on by default), in the report and as CSV: one row per point
+    expect(r.profiles.map((p: { parameter: string }) => p.parameter)).toEqual(["node.forward", "contactOhms"]);
+    for (const p of r.profiles) {
+      expect(p.refitted).toBe(true);
+      expect(p.points.length).toBeGreaterThanOrEqual(9);
+      // no profile point lies below the fit's chi2 (else the fit would have descended from it)
+      for (const pt of p.points) expect(pt.chi2).toBeGreaterThanOrEqual(r.chi2 * (1 - 1e-6));
+      const best = r.parameters.find((q: { parameter: string }) => q.parameter === p.parameter);
+      expect(p.interval.low).toBeLessThan(best.value);
+      expect(p.interval.high).toBeGreaterThan(best.value);
+    }
+    expect(report.result.profiles).toEqual(r.profiles);
+    const profilesCsv = await api(`/api/v1/fits/${id}/profiles.csv`);
+    expect(profilesCsv.headers.get("content-type")).toMatch(/text\/csv/);
+    const lines = (await profilesCsv.text()).trim().split("\n");
+    expect(lines[1]).toBe("profiledParameter,value,chi2,oneSigmaLevel,fitted:node.forward,fitted:contactOhms");
+    expect(lines.length - 2).toBe(r.profiles[0].points.length + r.profiles[1].points.length);
+    const first = lines[2].split(",");
+    expect(first[0]).toBe("node.forward");
+    expect(Number(first[2])).toBeCloseTo(r.profiles[0].points[0].chi2, 9);
 
     const list = await (await api(`/api/v1/fits?datasetId=${datasetId}`, { as: "viewer" })).json();
     expect(list.items.map((x: { id: string }) => x.id)).toContain(id);

@@ -223,6 +223,7 @@ describe("findings: 4xx JSON instead of 500", () => {
       `/api/v1/datasets/${DASHES}/original`,
       `/api/v1/fits/${DASHES}`,
       `/api/v1/fits/${DASHES}/curve.csv`,
+      `/api/v1/fits/${DASHES}/profiles.csv`,
     ]) {
       const a = await probe("dashes id", url);
       expect(a.status, url).toBe(404);
@@ -558,6 +559,7 @@ describe("property-based: never a 5xx, always a documented JSON error", () => {
       ["GET", "/api/v1/fits/{id}"],
       ["GET", "/api/v1/fits/{id}/export"],
       ["GET", "/api/v1/fits/{id}/curve.csv"],
+      ["GET", "/api/v1/fits/{id}/profiles.csv"],
       ["POST", "/api/v1/fits/{id}/cancel"],
       ["DELETE", "/api/v1/tokens/{id}"],
       ["DELETE", "/api/v1/workspace/invitations/{id}"],

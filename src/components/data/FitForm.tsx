@@ -10,6 +10,9 @@ import type { DatasetPeriod } from "@/shared/api";
 import { LK07_COMPUTATION, LK07_FIT_START, LK07_NAME, LK07_NETWORK } from "@/shared/lk07";
 import { FIT_PARAMETERS, type FitParameterInfo } from "@/shared/fit-parameters";
 import { sig } from "./format";
+import { canCreate, useMe } from "@/components/shell/useMe";
+import { PLANS } from "@/shared/plans";
+import { ROLE_LABELS } from "@/shared/permissions";
 
 type Row = { on: boolean; initial: string; min: string; max: string };
 
@@ -76,6 +79,13 @@ export function FitForm({ datasetId, datasetName, period }: { datasetId: string;
   const [computation, setComputation] = useState(pretty(LK07_COMPUTATION));
   const [globalStarts, setGlobalStarts] = useState("");
   const [multiStart, setMultiStart] = useState("");
+  const [profilePoints, setProfilePoints] = useState("");
+  // What this member may do, from the permissions table the server enforces: a viewer reads fits
+  // but does not start them (nor ask for their estimate), and sees why before any click.
+  const me = useMe();
+  const role = me.data?.role;
+  const plan = me.data?.workspace.plan;
+  const mayStart = canCreate(role);
 
   const saved = useQuery({ queryKey: qk.networks({ limit: 100 }), queryFn: () => api("GET /api/v1/networks", { query: { limit: 100 } }) });
   const savedNetwork = saved.data?.networks.find((n) => n.id === source);
@@ -137,10 +147,12 @@ export function FitForm({ datasetId, datasetName, period }: { datasetId: string;
     for (const [key, text] of [
       ["globalStarts", globalStarts],
       ["multiStart", multiStart],
+      ["profilePoints", profilePoints],
     ] as const) {
       if (text.trim() === "") continue;
       const v = Number(text);
-      if (!Number.isInteger(v)) return { error: `${key === "globalStarts" ? "global starts" : "descents"}: a whole number, or empty for the default.` };
+      const what = { globalStarts: "global starts", multiStart: "descents", profilePoints: "χ² profile points" }[key];
+      if (!Number.isInteger(v)) return { error: `${what}: a whole number, or empty for the default.` };
       options[key] = v;
     }
     // An unchanged saved network is sent by its id and version, so the fit records which one it used.
@@ -162,7 +174,7 @@ export function FitForm({ datasetId, datasetName, period }: { datasetId: string;
   const estimate = useQuery({
     queryKey: ["fit-estimate", settled],
     queryFn: () => api("POST /api/v1/fits?dryRun=true", { json: JSON.parse(settled!) }),
-    enabled: settled !== null,
+    enabled: settled !== null && mayStart,
     retry: false,
     staleTime: 60_000,
   });
@@ -287,6 +299,17 @@ export function FitForm({ datasetId, datasetName, period }: { datasetId: string;
               onChange={(e) => setMultiStart(e.target.value)}
             />
           </label>
+          <label className="block">
+            <span className="tk-label">χ² profile points per parameter (across its bounds, the others refitted; empty: 9; 0: no profiles)</span>
+            <input
+              id="fit-profile-points"
+              className="tk-field mt-1 w-28 font-mono"
+              inputMode="numeric"
+              value={profilePoints}
+              placeholder="default"
+              onChange={(e) => setProfilePoints(e.target.value)}
+            />
+          </label>
         </fieldset>
         <details className="tk-card">
           <summary className="cursor-pointer text-body font-semibold">Computation at every point</summary>
@@ -320,11 +343,16 @@ export function FitForm({ datasetId, datasetName, period }: { datasetId: string;
             </p>
             <p className="text-caption text-fg-soft" data-testid="fit-stages">
               {est.stages.globalStarts > 0 ? `${est.stages.globalStarts} global points, then ` : "No global stage: "}
-              {est.stages.localStarts} local descent{est.stages.localStarts === 1 ? "" : "s"} (at most {est.stages.maxIterations} iterations each) ·{" "}
-              {est.modelCurves} model curves × {est.points} points = {est.estimate.engineEvaluations.toLocaleString("en")} engine computations. You are charged
-              for the compute-seconds actually used.
+              {est.stages.localStarts} local descent{est.stages.localStarts === 1 ? "" : "s"} (at most {est.stages.maxIterations} iterations each)
+              {est.stages.profilePoints > 0 ? `, then χ² profiles of ${est.stages.profilePoints} points per parameter` : ", no χ² profiles"} · {est.modelCurves}{" "}
+              model curves × {est.points} points = {est.estimate.engineEvaluations.toLocaleString("en")} engine computations.{" "}
+              {plan === "free"
+                ? `The compute-seconds actually used count against the ${PLANS.free.includedComputeSeconds / 60} compute-minutes the Free plan includes each month.`
+                : "You are charged for the compute-seconds actually used."}
             </p>
           </>
+        ) : !mayStart && role ? (
+          <p className="text-caption text-fg-soft">No estimate: your role cannot start fits.</p>
         ) : (
           <p className="text-caption text-fg-faint">Estimating…</p>
         )}
@@ -349,9 +377,14 @@ export function FitForm({ datasetId, datasetName, period }: { datasetId: string;
           ) : null}
         </div>
       ) : null}
-      <button type="button" className="tk-btn" onClick={submit} disabled={m.isPending}>
+      <button type="button" className="tk-btn" onClick={submit} disabled={m.isPending || !mayStart} aria-describedby={mayStart ? undefined : "fit-start-why"}>
         {m.isPending ? "Submitting…" : "Start the fit"}
       </button>
+      {role && !mayStart ? (
+        <p id="fit-start-why" className="text-caption text-fg-soft" data-testid="fit-start-why">
+          As {ROLE_LABELS[role]} you can read fits and their reports but not start them; an Owner can give you the Researcher role on the Group page.
+        </p>
+      ) : null}
     </section>
   );
 }

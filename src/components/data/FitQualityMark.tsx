@@ -13,10 +13,22 @@ export const FIT_FLAG_WORDS: Record<FitFlag, string> = {
 
 /**
  * The "poor fit" mark a succeeded fit with any warning carries in lists and on its page: words,
- * not colour alone; the problems are named in its accessible description.
+ * not colour alone; the problems are named in its accessible description. A fit without a
+ * verdict (stored before the checks existed) carries a "not checked" mark instead.
  */
-export function FitQualityMark({ quality, flags }: { quality: FitQuality; flags: FitFlag[] }) {
-  if (quality !== "poor") return null;
+export function FitQualityMark({ quality, flags }: { quality: FitQuality | undefined; flags: FitFlag[] | undefined }) {
+  // A fit stored before the checks existed has no verdict: say so rather than look good.
+  if (quality === undefined)
+    return (
+      <span
+        className="ml-2 inline-flex items-center rounded-full border border-line-strong px-2 py-0.5 font-mono text-micro uppercase tracking-wider text-fg-soft"
+        title="This fit was made before Triskel checked fits for problems; run it again to have it checked."
+        data-testid="unchecked-fit-mark"
+      >
+        not checked<span className="sr-only">: made before fits were checked for problems; run it again</span>
+      </span>
+    );
+  if (quality !== "poor" || !flags) return null;
   const why = flags.map((f) => FIT_FLAG_WORDS[f] ?? f).join("; ");
   return (
     <span

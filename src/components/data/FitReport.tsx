@@ -7,7 +7,7 @@ import { api } from "@/lib/api";
 import { XYChart } from "@/components/charts/XYChart";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import type { FitIteration, FitResult } from "@/shared/api";
-import { fitParameterName } from "@/shared/fit-parameters";
+import { fitParameterInfo, fitParameterName } from "@/shared/fit-parameters";
 import { sig, withStderr } from "./format";
 import { FitQualityMark } from "./FitQualityMark";
 import { SyntheticMark } from "./SyntheticMark";
@@ -58,6 +58,11 @@ export function FitReport({ id }: { id: string }) {
               <a className="tk-btn-quiet" href={`/api/v1/fits/${f.id}/curve.csv`}>
                 Model curve CSV
               </a>
+              {r.profiles?.length ? (
+                <a className="tk-btn-quiet" href={`/api/v1/fits/${f.id}/profiles.csv`} data-testid="export-profiles">
+                  χ² profiles CSV
+                </a>
+              ) : null}
             </>
           ) : null
         }
@@ -221,7 +226,7 @@ export function FitReport({ id }: { id: string }) {
                       <tr key={i}>
                         <th className="pr-2 text-left text-fg-faint">{fitParameterName(r.parameters[i].parameter)}</th>
                         {row.map((c, j) => (
-                          <td key={j} className="px-2 tk-num">
+                          <td key={j} className="tk-num border border-line px-3 py-1.5 text-fg" style={correlationShade(c)} data-correlation={c.toFixed(3)}>
                             {c.toFixed(3)}
                           </td>
                         ))}
@@ -229,13 +234,81 @@ export function FitReport({ id }: { id: string }) {
                     ))}
                   </tbody>
                 </table>
+                <p className="mt-1 text-caption text-fg-soft">
+                  Shading: green for positive, amber for negative correlation, deeper for larger |ρ|; |ρ| near 1 means the data fix only a combination of the
+                  two.
+                </p>
               </div>
             ) : null}
             <StartsTable starts={r.starts} />
           </section>
         ) : null}
+
+        {r?.profiles?.length ? <Profiles result={r} fitId={f.id} /> : null}
       </div>
     </>
+  );
+}
+
+/** Cell shade of a correlation coefficient: accent for positive, warm for negative, stronger with |c| (kept light so the number stays readable). */
+function correlationShade(c: number): React.CSSProperties {
+  const pct = Math.round(Math.min(1, Math.abs(c)) * 35);
+  return { backgroundColor: `color-mix(in srgb, var(${c >= 0 ? "--tk-accent" : "--tk-warm"}) ${pct}%, transparent)` };
+}
+
+/** The chi2 profile of every fitted parameter, with the one-standard-error level and the interval where the profile stays under it. */
+function Profiles({ result, fitId }: { result: FitResult; fitId: string }) {
+  const profiles = result.profiles ?? [];
+  return (
+    <section className="space-y-4" aria-labelledby="fit-profiles-title" data-testid="fit-profiles">
+      <div>
+        <h2 id="fit-profiles-title" className="text-lead font-semibold">
+          χ² profiles
+        </h2>
+        <p className="text-caption text-fg-soft">
+          Each fitted parameter held at {result.diagnostics.profilePoints ?? profiles[0]?.points.length} values across its bounds
+          {profiles[0]?.refitted ? ", the other parameters refitted at each" : ""}. The dashed level is the best χ² + χ²/dof (one standard error, the scaling of
+          the standard errors); where the profile stays below it is the interval shown. A profile with several dips means minima the data hardly tell apart.
+          {result.diagnostics.profileImproved
+            ? " A profile point lay below the first best fit: the fit was refined from there and the profiles taken again."
+            : ""}
+        </p>
+      </div>
+      {profiles.map((p) => {
+        const info = fitParameterInfo(p.parameter);
+        const unit = info?.unit ?? "";
+        const best = result.parameters.find((q) => q.parameter === p.parameter);
+        const level = result.chi2 + p.deltaChi2;
+        const xs = p.points.map((pt) => pt.value);
+        const lo = Math.min(...xs),
+          hi = Math.max(...xs);
+        const fmt = (v: number | null) => (v === null ? "beyond the bound" : `${sig(v, 4)}${unit ? ` ${unit}` : ""}`);
+        return (
+          <div key={p.parameter} className="space-y-1" data-parameter={p.parameter}>
+            <XYChart
+              title={`χ² along ${fitParameterName(p.parameter)}`}
+              name={`fit-${fitId.slice(0, 8)}-profile-${p.parameter}`}
+              xLabel={fitParameterName(p.parameter)}
+              yLabel="χ²"
+              xUnit={unit}
+              height={220}
+              series={[
+                { name: "profile", x: xs, y: p.points.map((pt) => pt.chi2), points: true, color: "accent" },
+                { name: "best + χ²/dof", x: [lo, hi], y: [level, level], color: "warm", points: false },
+                ...(best ? [{ name: "best fit", x: [best.value], y: [result.chi2], points: true, color: "linkAlt" as const }] : []),
+              ]}
+              csv={{
+                header: ["value", "chi2", ...Object.keys(p.points[0]?.others ?? {}).map((n) => `fitted:${n}`)],
+                rows: p.points.map((pt) => [pt.value, pt.chi2, ...Object.values(pt.others)]),
+              }}
+            />
+            <p className="text-caption text-fg-soft" data-testid="profile-interval">
+              Below the level from {fmt(p.interval.low)} to {fmt(p.interval.high)} (as fine as the {p.points.length} points).
+            </p>
+          </div>
+        );
+      })}
+    </section>
   );
 }
 
@@ -243,7 +316,7 @@ export function FitReport({ id }: { id: string }) {
 function StartsTable({ starts }: { starts: FitResult["starts"] }) {
   if (!starts.length) return null;
   const names = Object.keys(starts[0].initial);
-  const local = starts.filter((s) => s.stage === "local");
+  const local = starts.filter((s) => s.stage !== "global");
   const global = starts.length - local.length;
   const best = Math.min(...starts.map((s) => s.chi2));
   return (

@@ -16,6 +16,7 @@ import { BandChart } from "@/components/charts/BandChart";
 import { Histogram } from "@/components/charts/Histogram";
 import { XYChart } from "@/components/charts/XYChart";
 import { LdosMap } from "./LdosMap";
+import { HallBarView } from "./HallBarView";
 
 /** An engine result (every engine result names its kind; a fit's companion row does not). */
 export const isEngineResult = (r: RunDetail["result"]): r is ComputeResult => r !== null && "kind" in r;
@@ -42,6 +43,8 @@ export function RunResult({ run }: { run: Pick<RunDetail, "id" | "input" | "resu
       return <LdosMap result={r} network={isEngineInput(run.input) ? run.input.network : undefined} runId={run.id} />;
     case "localization":
       return <LocalizationResult r={r} />;
+    case "hallBar":
+      return <HallBarView r={r} />;
   }
 }
 

@@ -3,7 +3,7 @@
  * engine's computation schema, label, unit and default. The engine's schema validates the
  * object these fields build; this table only lays the form out.
  */
-export type ComputationKind = "conductance" | "spectrum" | "dos" | "ldos" | "localization";
+export type ComputationKind = "conductance" | "spectrum" | "dos" | "ldos" | "localization" | "hallBar";
 
 export interface FieldSpec {
   path: string;
@@ -25,6 +25,12 @@ export const KINDS: { kind: ComputationKind; label: string; blurb: string }[] = 
   { kind: "dos", label: "Density of states", blurb: "Density of states versus energy, per moiré cell and per area, and the carrier density." },
   { kind: "ldos", label: "Local density of states", blurb: "Density of states on every link of the finite sample at one energy, drawn on the network." },
   { kind: "localization", label: "Localization length", blurb: "Decay of ln T along long strips: ξ and Λ = ξ / W." },
+  {
+    kind: "hallBar",
+    label: "Hall bar",
+    blurb:
+      "Multi-terminal (Landauer–Büttiker) transport of an open-edged sample with side contacts: R_xx, R_xy, the two-terminal resistance and the conductance matrix. Default six-terminal bar; other contacts through the API or the command line.",
+  },
 ];
 
 const energy: FieldSpec = { path: "energyMeV", label: "Energy E", unit: "meV", default: 0 };
@@ -64,6 +70,13 @@ export const FIELDS: Record<ComputationKind, FieldSpec[]> = {
     { path: "fieldTesla", label: "Magnetic field B", unit: "T", default: 0, when: { path: "source", value: "sample" } },
   ],
   ldos: [energy, field, { path: "broadeningMeV", label: "Broadening", unit: "meV", optional: true }],
+  hallBar: [
+    energy,
+    field,
+    { path: "temperatureK", label: "Temperature", unit: "K", default: 0, hint: "0 K: no thermal smearing" },
+    { path: "contactOhms", label: "Contact resistance (current path, series)", unit: "Ω", default: 0 },
+    { path: "ensemble.samples", label: "Ensemble size", unit: "disorder seeds", optional: true, integer: true, hint: "blank: one sample" },
+  ],
   localization: [
     energy,
     field,

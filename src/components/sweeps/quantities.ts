@@ -12,6 +12,12 @@ const KNOWN: Record<string, { label: string; unit: string }> = {
   "ohms.total": { label: "Resistance", unit: "Ω" },
   fano: { label: "Fano factor", unit: "" },
   lambda: { label: "Λ = ξ / W", unit: "" },
+  "resistances.longitudinalOhms": { label: "Longitudinal resistance R_xx", unit: "Ω" },
+  "resistances.hallOhms": { label: "Hall resistance R_xy", unit: "Ω" },
+  "resistances.twoTerminalOhms": { label: "Two-terminal resistance", unit: "Ω" },
+  "ensemble.mean.longitudinalOhms": { label: "Ensemble mean R_xx", unit: "Ω" },
+  "ensemble.mean.hallOhms": { label: "Ensemble mean R_xy", unit: "Ω" },
+  "ensemble.mean.twoTerminalOhms": { label: "Ensemble mean two-terminal resistance", unit: "Ω" },
 };
 
 export function quantityLabel(name: string): { label: string; unit: string } {
@@ -30,7 +36,8 @@ export function quantityLabel(name: string): { label: string; unit: string } {
 
 /** The quantity to show first: the ensemble mean if there is one, else the total conductance. */
 export function preferredQuantity(names: string[]): string | null {
-  for (const n of ["ensemble.mean.total", "conductance.total", "lambda"]) if (names.includes(n)) return n;
+  for (const n of ["ensemble.mean.total", "conductance.total", "lambda", "ensemble.mean.longitudinalOhms", "resistances.longitudinalOhms"])
+    if (names.includes(n)) return n;
   return names[0] ?? null;
 }
 

@@ -86,7 +86,7 @@ export interface SampleTransport {
 /** Channel lists of a graph, sorted by the y of their segment (bottom to top). */
 export function leadChannels(g: NetworkGraph): { leftIn: number[]; leftOut: number[]; rightIn: number[]; rightOut: number[] } {
   const lists: Record<number, number[]> = { [CH_LEFT_IN]: [], [CH_LEFT_OUT]: [], [CH_RIGHT_IN]: [], [CH_RIGHT_OUT]: [] };
-  for (let c = 0; c < g.channelCount; c++) if (g.chKind[c] !== 0) lists[g.chKind[c]].push(c);
+  for (let c = 0; c < g.channelCount; c++) lists[g.chKind[c]]?.push(c);
   const y = (c: number) => (g.chSegment[4 * c + 1] + g.chSegment[4 * c + 3]) / 2;
   for (const k of Object.keys(lists)) lists[Number(k)].sort((a, b) => y(a) - y(b) || a - b);
   return { leftIn: lists[CH_LEFT_IN], leftOut: lists[CH_LEFT_OUT], rightIn: lists[CH_RIGHT_IN], rightOut: lists[CH_RIGHT_OUT] };

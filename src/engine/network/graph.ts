@@ -9,7 +9,10 @@ export const CH_LINK = 0,
   CH_LEFT_IN = 1,
   CH_LEFT_OUT = 2,
   CH_RIGHT_IN = 3,
-  CH_RIGHT_OUT = 4;
+  CH_RIGHT_OUT = 4,
+  /** A side contact on an open edge (Hall bar): channels from the contact into the sample and from the sample into it. */
+  CH_CONTACT_IN = 5,
+  CH_CONTACT_OUT = 6;
 
 export interface NetworkGraph {
   nodeCount: number;
@@ -47,6 +50,8 @@ export interface NetworkGraph {
   cutX: Float64Array;
   /** Number of identical channel copies this graph stands for (channelsPerLink when not mixed). */
   copies: number;
+  /** Side contacts only: the contact (index into the sample's contact windows) of each channel, -1 for the others. */
+  chContact?: Int32Array;
 }
 
 /** Complex phase factor of every channel at energy phase thetaE = E tau and damping eta:
@@ -81,7 +86,7 @@ export function reverseGraph(g: NetworkGraph, withSchedule = true): NetworkGraph
       }
   }
   const kind = new Uint8Array(g.channelCount);
-  const swap = [CH_LINK, CH_LEFT_OUT, CH_LEFT_IN, CH_RIGHT_OUT, CH_RIGHT_IN];
+  const swap = [CH_LINK, CH_LEFT_OUT, CH_LEFT_IN, CH_RIGHT_OUT, CH_RIGHT_IN, CH_CONTACT_OUT, CH_CONTACT_IN];
   for (let c = 0; c < g.channelCount; c++) kind[c] = swap[g.chKind[c]];
   const seg = new Float64Array(g.chSegment.length);
   for (let c = 0; c < g.channelCount; c++) {

@@ -18,11 +18,15 @@
  * or bottom edge ends at a virtual node just outside, which sends it back into the sample along
  * the next lattice link (a perfect turn, no scattering); both pieces are ordinary links (same
  * length l, Peierls phase of their segment), so every elementary plaquette keeps its flux.
+ * Side contacts (Hall bars, open edges only): inside a contact's window of columns on the top or
+ * bottom edge there is no virtual node: the link that would end at it leaves the sample into the
+ * contact, and the link the virtual node would feed comes from the contact (an ideal reservoir,
+ * physics.md section 6). The window holds the edge sites whose column index lies in [from, to].
  * Periodic transverse: rows wrap (a cylinder; triangular needs an even row count).
  * Closed samples ("ring"): columns wrap as well; with periodic rows this is a torus.
  */
 import type { Network, TriangularProbabilityNode, MatrixNode, SquareNode } from "../schema";
-import { CH_LEFT_IN, CH_LEFT_OUT, CH_LINK, CH_RIGHT_IN, CH_RIGHT_OUT, type NetworkGraph } from "./graph";
+import { CH_CONTACT_IN, CH_CONTACT_OUT, CH_LEFT_IN, CH_LEFT_OUT, CH_LINK, CH_RIGHT_IN, CH_RIGHT_OUT, type NetworkGraph } from "./graph";
 import { squareNodeMatrix, triangularNodeFromSpec, triangularNodeMatrix } from "./node-matrices";
 import { randomStream, sampleSeed, mix32 } from "../rng";
 import { buildSchedule } from "./schedule";
@@ -172,6 +176,15 @@ export interface SampleOptions {
   sample: number;
   columns?: number;
   rows?: number;
+  /** Side contacts on the open edges (leads mode only); channel kinds CH_CONTACT_IN/OUT, g.chContact the window's index. */
+  contacts?: ContactWindow[];
+}
+
+/** A side contact: the edge sites of columns fromColumn..toColumn on the top or bottom edge. */
+export interface ContactWindow {
+  edge: "top" | "bottom";
+  fromColumn: number;
+  toColumn: number;
 }
 
 /** Build the valley-K graph of a finite sample. */
@@ -208,12 +221,29 @@ export function buildSample(net: Network, opts: SampleOptions): NetworkGraph {
       virtualTop.push(0);
       matrices.push(rules.nodeMatrix(i, r, nodeRand));
     }
-  type Where = { kind: "node"; id: number; X: number; Y: number } | { kind: "lead"; side: "left" | "right" } | { kind: "virtual"; X: number; Y: number };
+  type Where =
+    | { kind: "node"; id: number; X: number; Y: number }
+    | { kind: "lead"; side: "left" | "right" }
+    | { kind: "virtual"; X: number; Y: number }
+    | { kind: "contact"; contact: number };
+  const contacts = !periodicY && !ring ? (opts.contacts ?? []) : [];
+  /** The contact whose window holds the edge site (X, Y), or -1. */
+  const contactAt = (X: number, Y: number): number => {
+    if (contacts.length === 0) return -1;
+    const idx = rules.index(X, Y);
+    if (!idx) return -1;
+    const edge = Y >= yMaxExcl ? "top" : "bottom";
+    return contacts.findIndex((w) => w.edge === edge && idx[0] >= w.fromColumn && idx[0] <= w.toColumn);
+  };
   const resolve = (X: number, Y: number): Where => {
     let y = Y,
       x = X;
     if (periodicY) y = mod(y, rules.periodY);
-    else if (y < yMin || y >= yMaxExcl) return { kind: "virtual", X: ring ? mod(x, rules.periodX) : x, Y: y };
+    else if (y < yMin || y >= yMaxExcl) {
+      const k = contactAt(x, y);
+      if (k >= 0) return { kind: "contact", contact: k };
+      return { kind: "virtual", X: ring ? mod(x, rules.periodX) : x, Y: y };
+    }
     if (ring) x = mod(x, rules.periodX);
     const idx = rules.index(x, y);
     if (!idx) throw new Error(`internal: no node site at (${x}, ${y})`);
@@ -257,7 +287,7 @@ export function buildSample(net: Network, opts: SampleOptions): NetworkGraph {
           vY = Y - probe.outTo[1];
         if ((top && vY >= yMaxExcl) || (!top && vY < yMin)) {
           const vx = ring ? mod(vX, rules.periodX) : vX;
-          if (rules.index(vx, vY)) getVirtual(vx, vY);
+          if (rules.index(vx, vY) && contactAt(vx, vY) < 0) getVirtual(vx, vY);
         }
       }
     }
@@ -286,9 +316,11 @@ export function buildSample(net: Network, opts: SampleOptions): NetworkGraph {
     to: number[] = [],
     toSlot: number[] = [],
     kind: number[] = [],
+    contactOf: number[] = [],
     seg: number[] = [];
-  const addChannel = (fn: number, fs: number, tn: number, ts: number, k: number, x1: number, y1: number, x2: number, y2: number) => {
+  const addChannel = (fn: number, fs: number, tn: number, ts: number, k: number, x1: number, y1: number, x2: number, y2: number, contact = -1) => {
     const c = from.length;
+    contactOf.push(contact);
     from.push(fn);
     fromSlot.push(fs);
     to.push(tn);
@@ -319,6 +351,7 @@ export function buildSample(net: Network, opts: SampleOptions): NetworkGraph {
         const fs = real[n] ? c * latticeSlots + m : c;
         if (w.kind === "node") addChannel(n, fs, w.id, real[w.id] ? c * latticeSlots + o.slot : c, CH_LINK, X, Y, tX, tY);
         else if (w.kind === "virtual") addChannel(n, fs, getVirtualExisting(w.X, w.Y), c, CH_LINK, X, Y, tX, tY);
+        else if (w.kind === "contact") addChannel(n, fs, -1, -1, CH_CONTACT_OUT, X, Y, tX, tY, w.contact);
         else addChannel(n, fs, -1, -1, w.side === "left" ? CH_LEFT_OUT : CH_RIGHT_OUT, X, Y, tX, tY);
       }
     });
@@ -348,6 +381,10 @@ export function buildSample(net: Network, opts: SampleOptions): NetworkGraph {
         sY = Y + v.inFrom[1];
       }
       const w = resolve(sX, sY);
+      if (w.kind === "contact") {
+        addChannel(-1, -1, n, s, CH_CONTACT_IN, sX, sY, X, Y, w.contact);
+        continue;
+      }
       if (w.kind !== "lead") throw new Error(`internal: unconnected slot ${s} of node ${n} at (${X}, ${Y})`);
       addChannel(-1, -1, n, s, w.side === "left" ? CH_LEFT_IN : CH_RIGHT_IN, sX, sY, X, Y);
     }
@@ -378,6 +415,7 @@ export function buildSample(net: Network, opts: SampleOptions): NetworkGraph {
     cutX: new Float64Array(0),
     copies: net.lattice === "triangular" && !("matrix" in net.node) ? net.channelsPerLink : 1,
   };
+  if (contacts.length > 0) g.chContact = Int32Array.from(contactOf);
   for (let s = 0; s < so; s++) if (outChannel[s] < 0 || inChannel[s] < 0) throw new Error("internal: unconnected node slot");
   // Peierls phases
   const phi = opts.fluxPerPlaquette;

@@ -36,8 +36,8 @@
  */
 import { levenbergMarquardt } from "ml-levenberg-marquardt";
 import { EigenvalueDecomposition, Matrix, pseudoInverse } from "ml-matrix";
-import type { FitFlag, FitParameterResult, FitParameterSpec, FitResult, FitStart } from "@/shared/api";
-export type { FitFlag, FitParameterResult, FitParameterSpec, FitResult, FitStart };
+import type { FitFlag, FitParameterResult, FitParameterSpec, FitProfile, FitResult, FitStart } from "@/shared/api";
+export type { FitFlag, FitParameterResult, FitParameterSpec, FitProfile, FitResult, FitStart };
 
 export interface FitData {
   x: number[];
@@ -60,14 +60,27 @@ export interface FitOptions {
   /** Points of the global stage, the initial values included (default defaultGlobalStarts(k)); 0 or 1 turns it off. */
   globalStarts?: number;
   seed?: number;
+  /**
+   * Points of the chi2 profile of each fitted parameter, spread evenly across its bounds (default
+   * DEFAULT_PROFILE_POINTS; 0 turns the profiles off). The best value is added to each profile.
+   */
+  profilePoints?: number;
+  /** Levenberg-Marquardt iterations of the refit of the other parameters at each profile point (default 2). */
+  profileIterations?: number;
   /** Relative change of chi2 below which an iteration counts as quiet (default 1e-7). */
   tolerance?: number;
   onIteration?: (info: FitIterationInfo) => void;
   shouldCancel?: () => boolean;
+  /**
+   * The model curves at the global stage's points (globalStartPoints, same order), computed
+   * elsewhere (in parallel on the worker's threads); the fit then evaluates only the rest.
+   */
+  globalCurves?: number[][];
 }
 
 export interface FitIterationInfo {
-  stage: "global" | "local";
+  /** "profile": the chi2 profiles after the fit (start = the profiled parameter's number, iteration = the profile point). */
+  stage: "global" | "local" | "profile";
   /** Local descent number (1-based); 0 in the global stage. */
   start: number;
   starts: number;
@@ -85,6 +98,12 @@ export interface FitIterationInfo {
 export const MAX_GLOBAL_STARTS = 256;
 /** Most local descents (also the API's limit). */
 export const MAX_LOCAL_STARTS = 16;
+/** Default points of each chi2 profile (bounds included; the best value is added). */
+export const DEFAULT_PROFILE_POINTS = 9;
+/** Most points of a chi2 profile (also the API's limit). */
+export const MAX_PROFILE_POINTS = 41;
+/** Default refit iterations at each profile point. */
+export const DEFAULT_PROFILE_ITERATIONS = 2;
 
 /**
  * Thresholds of the outcome checks, in one place (docs/data-and-fits.md, "Warnings and their
@@ -160,14 +179,55 @@ export function defaultGlobalStarts(parameters: number): number {
   return Math.min(64, 8 * parameters + 8);
 }
 
-/** The two stages' sizes as the fitter will run them (also used for the estimate). */
-export function fitStages(parameters: number, options: Pick<FitOptions, "globalStarts" | "multiStart" | "maxIterations"> = {}) {
+/** The stages' sizes as the fitter will run them (also used for the estimate). */
+export function fitStages(
+  parameters: number,
+  options: Pick<FitOptions, "globalStarts" | "multiStart" | "maxIterations" | "profilePoints" | "profileIterations"> = {},
+) {
   const requested = Math.floor(options.globalStarts ?? defaultGlobalStarts(parameters));
   const globalStarts = requested <= 1 ? 0 : Math.min(MAX_GLOBAL_STARTS, requested);
   const localDefault = globalStarts > 0 ? 3 : 1;
   let localStarts = Math.max(1, Math.min(MAX_LOCAL_STARTS, Math.floor(options.multiStart ?? localDefault)));
   if (globalStarts > 0) localStarts = Math.min(localStarts, globalStarts);
-  return { globalStarts, localStarts, maxIterations: options.maxIterations ?? 40 };
+  const requestedProfile = Math.floor(options.profilePoints ?? DEFAULT_PROFILE_POINTS);
+  const profilePoints = requestedProfile < 2 ? 0 : Math.min(MAX_PROFILE_POINTS, requestedProfile);
+  const profileIterations = Math.max(1, Math.min(20, Math.floor(options.profileIterations ?? DEFAULT_PROFILE_ITERATIONS)));
+  return { globalStarts, localStarts, maxIterations: options.maxIterations ?? 40, profilePoints, profileIterations };
+}
+
+/**
+ * Model curves the chi2 profiles take at most: with one parameter one per point; with k > 1, per
+ * point its start and, per refit iteration, k curves (the step and the Jacobian of the k - 1 others).
+ */
+export function profileCurves(parameters: number, profilePoints: number, profileIterations: number): number {
+  if (profilePoints === 0) return 0;
+  return parameters === 1 ? profilePoints : parameters * profilePoints * (1 + profileIterations * parameters);
+}
+
+/**
+ * The global stage's points as fitCurve will draw them for these specs and options (the initial
+ * values first, then the seeded Latin hypercube), in the parameters' own units: for computing
+ * their curves elsewhere and passing them back as options.globalCurves.
+ */
+export function globalStartPoints(specs: FitParameterSpec[], options: Pick<FitOptions, "globalStarts" | "multiStart" | "maxIterations" | "seed"> = {}) {
+  const { globalStarts } = fitStages(specs.length, options);
+  if (globalStarts === 0) return [];
+  const random = rng(options.seed ?? 1);
+  const scaled = latinHypercube(globalStarts - 1, specs.length, random);
+  return [
+    Object.fromEntries(specs.map((s) => [s.parameter, s.initial])),
+    ...scaled.map((u) => Object.fromEntries(specs.map((s, j) => [s.parameter, s.min + Math.min(1, Math.max(0, u[j])) * (s.max - s.min)]))),
+  ];
+}
+
+/** Share of a fit's expected model curves that the global stage takes (for progress shown while it runs elsewhere). */
+export function globalStageShare(
+  parameters: number,
+  options: Pick<FitOptions, "globalStarts" | "multiStart" | "maxIterations" | "profilePoints" | "profileIterations"> = {},
+) {
+  const st = fitStages(parameters, options);
+  const total = st.globalStarts + st.localStarts * st.maxIterations * (parameters + 1) + profileCurves(parameters, st.profilePoints, st.profileIterations);
+  return total > 0 ? st.globalStarts / total : 0;
 }
 
 /** Deterministic generator for the start points (mulberry32). */
@@ -212,7 +272,7 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
   validateSpecs(specs, n);
   if (data.y.length !== n) throw new FitInputError("x and y must have the same length.", "data");
   const k = specs.length;
-  const { globalStarts, localStarts, maxIterations } = fitStages(k, options);
+  const { globalStarts, localStarts, maxIterations, profilePoints, profileIterations } = fitStages(k, options);
   const tolerance = options.tolerance ?? 1e-7;
   const weighted = !!data.sigma;
   const sigma = data.sigma ?? new Array<number>(n).fill(1);
@@ -253,21 +313,29 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
     }
     return s;
   };
-  // Progress: the global points' share of the expected evaluations, then the descents'.
+  // Progress: the global points' share of the expected evaluations, then the descents', then the profiles'.
   const perDescent = maxIterations * (k + 1);
-  const globalShare = globalStarts / (globalStarts + localStarts * perDescent || 1);
+  const profileTotal = profileCurves(k, profilePoints, profileIterations);
+  const expectedTotal = globalStarts + localStarts * perDescent + profileTotal || 1;
+  const globalShare = globalStarts / expectedTotal;
+  const localShare = (localStarts * perDescent) / expectedTotal;
 
   const random = rng(options.seed ?? 1);
   const allStarts: FitStart[] = [];
 
   // Global stage. The points are independent: evaluated here one after another (each a model
-  // curve), in a loop over a list so that a batch evaluator (e.g. on the worker pool) can
-  // replace it without touching the rest.
+  // curve), unless their curves were computed elsewhere in parallel (options.globalCurves).
   let globalPoints: { u: number[]; chi2: number }[] = [];
   if (globalStarts > 0) {
     const points = [initial, ...latinHypercube(globalStarts - 1, k, random)];
+    const given = options.globalCurves;
+    if (given && given.length !== points.length) throw new Error(`globalCurves holds ${given.length} curves for ${points.length} global points`);
     let bestSoFar = Infinity;
     globalPoints = points.map((u, i) => {
+      if (given) {
+        remember(keyOf(u), given[i]);
+        evaluations++;
+      }
       const chi2 = chi2Of(curveAt(u));
       if (chi2 < bestSoFar) bestSoFar = chi2;
       options.onIteration?.({
@@ -305,12 +373,23 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
   // pre-whitened (divided by sigma) and the library's own weights left at 1.
   const indices = Array.from({ length: n }, (_, i) => i);
   const lmData = { x: indices, y: data.y.map((v, i) => v / sigma[i]) };
-  const parameterized = (u: number[]) => {
-    const y = curveAt(u);
-    return (i: number) => y[i] / sigma[i];
-  };
+  const everyIndex = specs.map((_, j) => j);
 
-  const descend = (u0: number[], index: number): Descent => {
+  /**
+   * One Levenberg-Marquardt descent from u0, at most `limit` iterations. With `fixed` set, that
+   * coordinate stays at u0's value and the others are refitted (a point of a chi2 profile).
+   */
+  const descend = (u0: number[], index: number, limit = maxIterations, fixed: number | null = null, report = true): Descent => {
+    const free = fixed === null ? everyIndex : everyIndex.filter((j) => j !== fixed);
+    const expand = (r: ArrayLike<number>) => {
+      const full = u0.slice();
+      free.forEach((j, i) => (full[j] = r[i]));
+      return full;
+    };
+    const parameterized = (r: number[]) => {
+      const y = curveAt(expand(r));
+      return (i: number) => y[i] / sigma[i];
+    };
     let u = u0.slice();
     let chi2 = chi2Of(curveAt(u));
     let damping = 1e-2;
@@ -318,23 +397,23 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
     let accepted = 0;
     let converged = chi2 === 0;
     let quiet = 0;
-    while (!converged && iterations < maxIterations) {
+    while (!converged && iterations < limit) {
       iterations++;
       const r = levenbergMarquardt(lmData, parameterized, {
-        initialValues: u,
+        initialValues: free.map((j) => u[j]),
         damping,
         maxIterations: 1,
-        minValues: new Array(k).fill(0),
-        maxValues: new Array(k).fill(1),
+        minValues: new Array(free.length).fill(0),
+        maxValues: new Array(free.length).fill(1),
         gradientDifference: 1e-4,
         errorTolerance: 0,
       });
-      const next = r.parameterValues;
+      const next = expand(r.parameterValues);
       const nextChi2 = chi2Of(curveAt(next));
       let stalled = false;
       if (nextChi2 < chi2) {
         const rel = (chi2 - nextChi2) / Math.max(chi2, 1e-300);
-        u = next.slice();
+        u = next;
         chi2 = nextChi2;
         accepted++;
         damping = Math.max(damping / 9, 1e-7);
@@ -346,16 +425,17 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
         if (accepted > 0) quiet = damping >= 1e6 || (nextChi2 - chi2) / Math.max(chi2, 1e-300) < tolerance ? quiet + 1 : quiet;
         else stalled = damping >= 1e6;
       }
-      options.onIteration?.({
-        stage: "local",
-        start: index + 1,
-        starts: localFrom.length,
-        iteration: iterations,
-        maxIterations,
-        chi2,
-        values: toValues(u),
-        progress: Math.min(1, globalShare + ((1 - globalShare) * (index + iterations / maxIterations)) / localFrom.length),
-      });
+      if (report)
+        options.onIteration?.({
+          stage: "local",
+          start: index + 1,
+          starts: localFrom.length,
+          iteration: iterations,
+          maxIterations,
+          chi2,
+          values: toValues(u),
+          progress: Math.min(1, globalShare + (localShare * Math.min(localFrom.length, index + iterations / maxIterations)) / localFrom.length),
+        });
       if (quiet >= 2 || chi2 === 0) converged = true;
       if (stalled) break;
     }
@@ -363,18 +443,76 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
   };
 
   const descents = localFrom.map((u0, i) => descend(u0, i));
-  descents.forEach((d) =>
+  const recordDescent = (d: Descent, stage: FitStart["stage"]) =>
     allStarts.push({
       start: allStarts.length + 1,
-      stage: "local",
+      stage,
       initial: toValues(d.u0),
       final: toValues(d.u),
       chi2: d.chi2,
       iterations: d.iterations,
       converged: d.converged,
-    }),
-  );
-  const b = descents.reduce((best, d) => (d.chi2 < best.chi2 ? d : best));
+    });
+  descents.forEach((d) => recordDescent(d, "local"));
+  let b = descents.reduce((best, d) => (d.chi2 < best.chi2 ? d : best));
+
+  /**
+   * The chi2 profile of every fitted parameter around the best point: the parameter stepped across
+   * its bounds, outward from the best value, the others refitted at each point from their values
+   * at the neighbouring point (a short descent; with one fitted parameter, chi2 is evaluated).
+   */
+  let profilePass = 0;
+  const takeProfiles = (center: Descent) => {
+    profilePass++;
+    const grid = Array.from({ length: profilePoints }, (_, i) => i / (profilePoints - 1));
+    let done = 0;
+    return specs.map((_, j) => {
+      const points: { u: number[]; chi2: number }[] = [{ u: center.u.slice(), chi2: center.chi2 }];
+      const up = grid.filter((g) => g > center.u[j] + 1e-12);
+      const down = grid.filter((g) => g < center.u[j] - 1e-12).reverse();
+      for (const side of [up, down]) {
+        let from = center.u;
+        for (const g of side) {
+          const u0 = from.slice();
+          u0[j] = g;
+          const at = k === 1 ? { u: u0, chi2: chi2Of(curveAt(u0)) } : descend(u0, j, profileIterations, j, false);
+          points.push({ u: at.u.slice(), chi2: at.chi2 });
+          from = at.u;
+          done++;
+          options.onIteration?.({
+            stage: "profile",
+            start: j + 1,
+            starts: k,
+            iteration: done,
+            maxIterations: profilePoints * k,
+            chi2: center.chi2,
+            values: toValues(at.u),
+            progress: Math.min(1, globalShare + localShare + ((1 - globalShare - localShare) * done) / (profilePoints * k * profilePass)),
+          });
+        }
+      }
+      return points.sort((p, q) => p.u[j] - q.u[j]);
+    });
+  };
+  let profileRaw: { u: number[]; chi2: number }[][] = [];
+  let profileImproved = false;
+  if (profilePoints > 0) {
+    profileRaw = takeProfiles(b);
+    // A profile point below the best: the descents missed a lower minimum. Descend from the lowest
+    // such point once; if it ends lower, it is the fit, and the profiles are taken again around it.
+    const lowest = profileRaw.flat().reduce((m, p) => (p.chi2 < m.chi2 ? p : m));
+    if (lowest.chi2 < b.chi2 * (1 - 1e-6)) {
+      const again = descend(lowest.u, descents.length);
+      recordDescent(again, "profile");
+      descents.push(again);
+      if (again.chi2 < b.chi2) {
+        b = again;
+        profileImproved = true;
+        profileRaw = takeProfiles(b);
+      }
+    }
+  }
+
   const totalIterations = descents.reduce((s, d) => s + d.iterations, 0);
   const values = toValues(b.u);
   const curve = curveAt(b.u);
@@ -525,6 +663,19 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
     );
   }
 
+  // The profiles in physical units, with the one-standard-error level chi2 + chi2/dof (the
+  // scaling of the standard errors) and where each profile crosses it.
+  const deltaChi2 = s2 > 0 ? s2 : 1;
+  const profiles: FitProfile[] = profileRaw.map((raw, j) => {
+    const s = specs[j];
+    const points = raw.map((p) => {
+      const all = toValues(p.u);
+      const others = Object.fromEntries(Object.entries(all).filter(([name]) => name !== s.parameter));
+      return { value: all[s.parameter], chi2: p.chi2, others };
+    });
+    return { parameter: s.parameter, points, refitted: k > 1, deltaChi2, interval: profileInterval(points, values[s.parameter], b.chi2 + deltaChi2) };
+  });
+
   const flagList = [...flags];
   return {
     parameters,
@@ -543,8 +694,30 @@ export function fitCurve(model: CurveModel, data: FitData, specs: FitParameterSp
     warnings,
     quality: flagList.length ? "poor" : "good",
     flags: flagList,
-    diagnostics: { globalStarts, localStarts: descents.length, conditionNumber, residualStructure },
+    profiles,
+    diagnostics: { globalStarts, localStarts: descents.length, conditionNumber, residualStructure, profilePoints, profileImproved },
   };
+}
+
+/**
+ * Where a chi2 profile crosses `level` on either side of the best value, by linear interpolation
+ * between its points; null on a side where it stays below the level up to the bound.
+ */
+export function profileInterval(points: { value: number; chi2: number }[], best: number, level: number): { low: number | null; high: number | null } {
+  const at = points.findIndex((p) => p.value === best);
+  const i0 = at >= 0 ? at : points.reduce((m, p, i) => (Math.abs(p.value - best) < Math.abs(points[m].value - best) ? i : m), 0);
+  const cross = (step: 1 | -1): number | null => {
+    for (let i = i0; i + step >= 0 && i + step < points.length; i += step) {
+      const a = points[i],
+        c = points[i + step];
+      if (c.chi2 >= level) {
+        if (a.chi2 >= level) return a.value;
+        return a.value + ((level - a.chi2) / (c.chi2 - a.chi2)) * (c.value - a.value);
+      }
+    }
+    return null;
+  };
+  return { low: cross(-1), high: cross(1) };
 }
 
 /**

@@ -4,7 +4,7 @@
  * (the contract of src/engine: applyParameter + compute), so this module stays pure and testable.
  */
 import { CONDUCTANCE_QUANTUM_S } from "@/engine/constants";
-import { fitCurve, FitInputError, fitStages, type FitOptions, type FitParameterSpec, type FitResult } from "./fitter";
+import { fitCurve, FitInputError, fitStages, profileCurves, type FitOptions, type FitParameterSpec, type FitResult } from "./fitter";
 
 /** The part of the engine's API a fit uses. */
 export interface EngineLike {
@@ -48,7 +48,28 @@ export interface FitJobInput {
   y: number[];
   sigma: number[] | null;
   fit: FitParameterSpec[];
-  options?: Pick<FitOptions, "maxIterations" | "multiStart" | "globalStarts" | "seed">;
+  options?: Pick<FitOptions, "maxIterations" | "multiStart" | "globalStarts" | "seed" | "profilePoints" | "profileIterations" | "globalCurves">;
+}
+
+/**
+ * The engine input with every fitted value applied. The engine re-validates after each parameter,
+ * and parameters can constrain one another (node.forward +- forwardSpread / 2 must stay a valid
+ * probability), so a valid combination can pass through an invalid intermediate in one order:
+ * then the reverse order is tried before the first error is reported.
+ */
+export function applyValues(engine: EngineLike, base: unknown, values: Record<string, number>): unknown {
+  const entries = Object.entries(values);
+  const apply = (list: [string, number][]) => list.reduce<unknown>((input, [p, v]) => engine.applyParameter(input as never, p, v), base);
+  try {
+    return apply(entries);
+  } catch (err) {
+    if (entries.length < 2) throw err;
+    try {
+      return apply(entries.slice().reverse());
+    } catch {
+      throw err;
+    }
+  }
 }
 
 /** The model curve for given parameter values: one engine computation per data point. */
@@ -60,8 +81,7 @@ export function engineCurve(
   values: Record<string, number>,
   shouldCancel?: () => boolean,
 ): number[] {
-  let input = base;
-  for (const [p, v] of Object.entries(values)) input = engine.applyParameter(input as never, p, v);
+  const input = applyValues(engine, base, values);
   return x.map((xi) => conductanceOf(engine.compute(engine.applyParameter(input as never, sweepParameter, xi) as never, { shouldCancel })));
 }
 
@@ -75,11 +95,18 @@ export function runFit(engine: EngineLike, job: FitJobInput, hooks: Pick<FitOpti
  * Engine evaluations (model curves) a fit is expected to need, for the estimate shown before it
  * starts: one per global point, then per local descent up to 8 iterations of k + 1 curves (the
  * step and its forward-difference Jacobian; a descent from the initial values or a random point
- * also evaluates its start), then 2k + 1 for the Jacobian at the optimum.
+ * also evaluates its start), then 2k + 1 for the Jacobian at the optimum, then the chi2 profiles
+ * (profileCurves). A profile point below the best adds one more descent and a second set of
+ * profiles; that rare case is not in the estimate (the compute-seconds used are what is charged).
  */
-export function expectedEvaluations(parameters: number, options: { maxIterations?: number; multiStart?: number; globalStarts?: number } = {}): number {
-  const { globalStarts, localStarts, maxIterations } = fitStages(parameters, options);
+export function expectedEvaluations(
+  parameters: number,
+  options: { maxIterations?: number; multiStart?: number; globalStarts?: number; profilePoints?: number; profileIterations?: number } = {},
+): number {
+  const { globalStarts, localStarts, maxIterations, profilePoints, profileIterations } = fitStages(parameters, options);
   const iterations = Math.min(maxIterations, 8);
   const startCost = globalStarts > 0 ? 0 : 1;
-  return globalStarts + localStarts * (startCost + iterations * (parameters + 1)) + 2 * parameters + 1;
+  return (
+    globalStarts + localStarts * (startCost + iterations * (parameters + 1)) + 2 * parameters + 1 + profileCurves(parameters, profilePoints, profileIterations)
+  );
 }

@@ -18,8 +18,8 @@ import { ApiError, zodToApiError } from "@/server/http/errors";
 import { enqueueAfterCommit, JOB_KINDS, requestCancel } from "@/server/jobs";
 import { resolveSubmission } from "@/server/runs/service";
 import { ENGINE_VERSION, engine, inputHash, secondsPerEvaluation } from "./engine";
-import { FitInputError, fitStages, MAX_GLOBAL_STARTS, MAX_LOCAL_STARTS, validateSpecs } from "./fitter";
-import { checkFitSpecs, expectedEvaluations, SWEEP_FOR_QUANTITY } from "./model";
+import { FitInputError, fitStages, MAX_GLOBAL_STARTS, MAX_LOCAL_STARTS, MAX_PROFILE_POINTS, validateSpecs } from "./fitter";
+import { applyValues, checkFitSpecs, expectedEvaluations, SWEEP_FOR_QUANTITY } from "./model";
 
 const spec = z.object({ parameter: z.string().min(1), initial: z.number(), min: z.number(), max: z.number() }).strict();
 export const fitBody = z
@@ -36,6 +36,14 @@ export const fitBody = z
         multiStart: z.number().int().min(1).max(MAX_LOCAL_STARTS).optional(),
         globalStarts: z.number().int().min(0).max(MAX_GLOBAL_STARTS).optional(),
         maxIterations: z.number().int().min(1).max(200).optional(),
+        profilePoints: z
+          .number()
+          .int()
+          .min(0)
+          .max(MAX_PROFILE_POINTS)
+          .refine((v) => v !== 1, "a chi2 profile needs at least 2 points (0 turns the profiles off)")
+          .optional(),
+        profileIterations: z.number().int().min(1).max(20).optional(),
         seed: z
           .number()
           .int()
@@ -104,18 +112,35 @@ async function prepareFit(caller: Caller, raw: unknown) {
     throw err;
   }
   // Every bound and start must be a valid engine input (e.g. node.forward >= 1/9 for equal turns).
-  let worst: unknown = input;
   for (const [i, s] of body.fit.entries()) {
     for (const which of ["initial", "min", "max"] as const) {
       try {
-        const probe = engine.applyParameter(input as never, s.parameter, s[which]);
-        if (which === "max") worst = engine.applyParameter(worst as never, s.parameter, s.max);
-        void probe;
+        engine.applyParameter(input as never, s.parameter, s[which]);
       } catch (err) {
         throw new ApiError("invalid_input", `fit.${i}.${which}: ${(err as Error).message}`, { field: `fit.${i}.${which}` });
       }
     }
   }
+  // Parameters can constrain one another (node.forward +- forwardSpread / 2 must stay a valid
+  // probability): every corner of the box of bounds must be a valid engine input too. The allowed
+  // region is convex in these parameters, so the corners cover the inside (up to 2^5 corners).
+  if (body.fit.length > 1 && body.fit.length <= 5) {
+    for (let corner = 0; corner < 1 << body.fit.length; corner++) {
+      const at = Object.fromEntries(body.fit.map((s, j) => [s.parameter, corner & (1 << j) ? s.max : s.min]));
+      try {
+        applyValues(engine, input, at);
+      } catch (err) {
+        const where = Object.entries(at)
+          .map(([p, v]) => `${p} = ${v}`)
+          .join(", ");
+        throw new ApiError("invalid_input", `fit: the bounds together are not a valid model at ${where}: ${(err as Error).message}; narrow the bounds.`, {
+          field: "fit",
+        });
+      }
+    }
+  }
+  // The cost per evaluation at the upper bounds (e.g. the most temperature points).
+  const worst = applyValues(engine, input, Object.fromEntries(body.fit.map((s) => [s.parameter, s.max])));
   try {
     engine.applyParameter(input as never, body.sweepParameter, points.x[0]);
   } catch (err) {
@@ -140,7 +165,13 @@ export async function estimateFit(caller: Caller, raw: unknown): Promise<FitDryR
   return {
     dryRun: true as const,
     estimate,
-    stages: { globalStarts: stages.globalStarts, localStarts: stages.localStarts, maxIterations: stages.maxIterations },
+    stages: {
+      globalStarts: stages.globalStarts,
+      localStarts: stages.localStarts,
+      maxIterations: stages.maxIterations,
+      profilePoints: stages.profilePoints,
+      profileIterations: stages.profileIterations,
+    },
     points: dataset.points.x.length,
     modelCurves: estimate.engineEvaluations / dataset.points.x.length,
     inputHash: inputHash(input as never),
@@ -315,4 +346,28 @@ export async function fitCurveCsv(caller: Caller, id: string): Promise<{ filenam
     ...result.curve.x.map((x, i) => `${x},${result.curve!.y[i]},${result.residuals?.[i] ?? ""}`),
   ];
   return { filename: `fit-${id.slice(0, 8)}-model.csv`, csv: lines.join("\n") + "\n" };
+}
+
+/**
+ * CSV of the chi2 profiles: one row per profile point, the profiled parameter and its value, chi2,
+ * the one-standard-error level (best chi2 + chi2/dof) and the other fitted parameters after their refit.
+ */
+export async function fitProfilesCsv(caller: Caller, id: string): Promise<{ filename: string; csv: string }> {
+  const r = await loadFit(caller, id);
+  const result = r.fit.result as FitDetail["result"];
+  if (!result) throw new ApiError("conflict", `Fit ${id} has no result yet (status ${r.fit.status}).`);
+  const profiles = result.profiles ?? [];
+  if (profiles.length === 0)
+    throw new ApiError("conflict", `Fit ${id} has no chi2 profiles (they were turned off with options.profilePoints = 0, or the fit predates them).`);
+  const names = result.parameters.map((p) => p.parameter);
+  const lines = [
+    `# Triskel fit ${id}; engine ${r.fit.engineVersion}; dataset sha256 ${r.fit.dataHash}; chi2 of the fit ${result.chi2}; model predictions`,
+    ["profiledParameter", "value", "chi2", "oneSigmaLevel", ...names.map((n) => `fitted:${n}`)].join(","),
+    ...profiles.flatMap((p) =>
+      p.points.map((pt) =>
+        [p.parameter, pt.value, pt.chi2, result.chi2 + p.deltaChi2, ...names.map((n) => (n === p.parameter ? pt.value : (pt.others[n] ?? "")))].join(","),
+      ),
+    ),
+  ];
+  return { filename: `fit-${id.slice(0, 8)}-profiles.csv`, csv: lines.join("\n") + "\n" };
 }

@@ -10,7 +10,7 @@ import { sql, type SQL } from "drizzle-orm";
 import { QUEUES, type QueueName } from "@/server/queue";
 
 /** Run kinds the engine computes on the `runs` queue (other modules may keep companion rows of their own kinds). */
-export const ENGINE_RUN_KINDS = ["conductance", "spectrum", "dos", "ldos", "localization"] as const;
+export const ENGINE_RUN_KINDS = ["conductance", "spectrum", "dos", "ldos", "localization", "hallBar"] as const;
 
 export interface JobKind {
   /** The BullMQ job name, and the kind's name in logs. */

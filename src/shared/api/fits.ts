@@ -22,8 +22,11 @@ export interface FitParameterResult extends FitParameterSpec {
 export interface FitStart {
   /** 1-based, in the order run. */
   start: number;
-  /** "global": a point of the global stage (evaluated only: final = initial, iterations 0); "local": a Levenberg-Marquardt descent. */
-  stage: "global" | "local";
+  /**
+   * "global": a point of the global stage (evaluated only: final = initial, iterations 0); "local": a
+   * Levenberg-Marquardt descent; "profile": a descent from a chi2-profile point that lay below the best.
+   */
+  stage: "global" | "local" | "profile";
   initial: Record<string, number>;
   final: Record<string, number>;
   /** chi2 at final. */
@@ -53,6 +56,33 @@ export interface FitDiagnostics {
   conditionNumber: number | null;
   /** Without sigma: residual variance over the point-to-point noise estimated from the residuals (about 1 for noise); null with sigma. */
   residualStructure: number | null;
+  /** Points per chi2 profile (0: off). Absent on fits made before profiles existed. */
+  profilePoints?: number;
+  /** A profile point lay below the descents' best; a descent from it gave the reported fit and the profiles were taken again. */
+  profileImproved?: boolean;
+}
+
+/** One point of a chi2 profile. */
+export interface FitProfilePoint {
+  /** The profiled parameter's value, in its unit. */
+  value: number;
+  /** chi2 with the parameter held at value and the others refitted. */
+  chi2: number;
+  /** The other fitted parameters at this point (after their refit). */
+  others: Record<string, number>;
+}
+
+/** chi2 along one fitted parameter: stepped evenly across its bounds (the best value added), the others refitted. */
+export interface FitProfile {
+  parameter: string;
+  /** In ascending value; one of them is the best fit. */
+  points: FitProfilePoint[];
+  /** Whether the other parameters were refitted at each point (false with one fitted parameter). */
+  refitted: boolean;
+  /** chi2 + deltaChi2 marks one standard error: deltaChi2 = chi2/dof, the scaling the standard errors use. */
+  deltaChi2: number;
+  /** Where the profile crosses chi2 + deltaChi2 (linear between points; null: not within the bounds). Coarse: as fine as the points. */
+  interval: { low: number | null; high: number | null };
 }
 
 /** The fitter's answer, stored with the fit when it succeeds. */
@@ -79,6 +109,8 @@ export interface FitResult {
   quality: FitQuality;
   /** Machine-readable codes of the problems, one per kind (see FitFlag). */
   flags: FitFlag[];
+  /** chi2 profile of each fitted parameter (empty when turned off; absent on fits made before profiles existed). */
+  profiles?: FitProfile[];
   /** How the fit ran and the numbers its checks used. */
   diagnostics: FitDiagnostics;
   engineVersion?: string;
@@ -96,8 +128,8 @@ export interface FitSettings {
   computation: Computation;
   sweepParameter: string;
   fit: FitParameterSpec[];
-  /** maxIterations, multiStart, globalStarts, seed as sent. */
-  options: { maxIterations?: number; multiStart?: number; globalStarts?: number; seed?: number };
+  /** maxIterations, multiStart, globalStarts, seed, profilePoints, profileIterations as sent. */
+  options: { maxIterations?: number; multiStart?: number; globalStarts?: number; seed?: number; profilePoints?: number; profileIterations?: number };
 }
 
 interface FitViewBase {
@@ -148,8 +180,8 @@ export interface FitCreated {
 export interface FitDryRun {
   dryRun: true;
   estimate: Estimate & { engineEvaluations: number };
-  /** The global stage's points (0: off), the local descents and their iteration limit. */
-  stages: { globalStarts: number; localStarts: number; maxIterations: number };
+  /** The global stage's points (0: off), the local descents and their iteration limit, the points per chi2 profile (0: off) and their refit iterations. */
+  stages: { globalStarts: number; localStarts: number; maxIterations: number; profilePoints: number; profileIterations: number };
   /** Data points: one engine computation per point and model curve. */
   points: number;
   /** Model curves the estimate counts (engineEvaluations / points). */

@@ -141,6 +141,7 @@ export const FILE_ROUTES = [
   "GET /api/v1/sweeps/{id}/results.csv",
   "GET /api/v1/datasets/{id}/original",
   "GET /api/v1/fits/{id}/curve.csv",
+  "GET /api/v1/fits/{id}/profiles.csv",
 ] as const;
 
 /** The names of the `{…}` segments of a route, e.g. "id" for "GET /api/v1/runs/{id}". */

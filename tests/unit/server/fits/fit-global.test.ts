@@ -5,7 +5,15 @@
 import { describe, expect, it } from "vitest";
 import { parseComputeInput } from "@/engine";
 import { engine } from "@/server/fits/engine";
-import { defaultGlobalStarts, FIT_CHECKS, fitCurve, latinHypercube, type CurveModel } from "@/server/fits/fitter";
+import {
+  DEFAULT_PROFILE_ITERATIONS,
+  DEFAULT_PROFILE_POINTS,
+  defaultGlobalStarts,
+  FIT_CHECKS,
+  fitCurve,
+  latinHypercube,
+  type CurveModel,
+} from "@/server/fits/fitter";
 import { engineCurve, expectedEvaluations, runFit } from "@/server/fits/model";
 import { seededGaussian, seededUniform } from "../../../support/random";
 import { triangularNetwork } from "@/shared/networks";
@@ -31,7 +39,7 @@ describe("global stage", () => {
     const spec = [{ parameter: "p", initial: 0.45, min: 0.15, max: 0.95 }];
     for (const seed of [1, 2, 3]) {
       const data = { x: xs, y: noisy(rugged1({ p: 0.62 }), seed), sigma: sigmas };
-      const local = fitCurve(rugged1, data, spec, { globalStarts: 0 });
+      const local = fitCurve(rugged1, data, spec, { globalStarts: 0, profilePoints: 0 });
       expect(local.diagnostics.globalStarts).toBe(0);
       expect(Math.abs(local.parameters[0].value - 0.62)).toBeGreaterThan(0.05);
       expect(local.quality).toBe("poor");
@@ -56,7 +64,7 @@ describe("global stage", () => {
     const truth = { p: 0.62, q: 0.3 };
     for (const seed of [1, 2]) {
       const data = { x: xs, y: noisy(rugged2(truth), seed), sigma: sigmas };
-      const local = fitCurve(rugged2, data, spec, { globalStarts: 0 });
+      const local = fitCurve(rugged2, data, spec, { globalStarts: 0, profilePoints: 0 });
       expect(local.quality).toBe("poor");
       expect(within(local.parameters[0].value, truth.p, local.parameters[0].stderr, 10)).toBe(false);
       const global = fitCurve(rugged2, data, spec, { globalStarts: 48, multiStart: 4 });
@@ -131,9 +139,12 @@ describe("global stage", () => {
     expect(on.starts.filter((s) => s.stage === "local").length).toBe(5);
     expect(on.diagnostics).toMatchObject({ globalStarts: 12, localStarts: 5 });
     // evaluations: global points + descents of at most 8 iterations of (k + 1) curves + the final Jacobian (2k + 1)
-    expect(expectedEvaluations(1, { globalStarts: 12, multiStart: 5 })).toBe(12 + 5 * 8 * 2 + 3);
-    expect(expectedEvaluations(1, { globalStarts: 0, multiStart: 5 })).toBe(5 * (1 + 8 * 2) + 3);
-    expect(expectedEvaluations(2)).toBe(defaultGlobalStarts(2) + 3 * 8 * 3 + 5);
+    expect(expectedEvaluations(1, { globalStarts: 12, multiStart: 5, profilePoints: 0 })).toBe(12 + 5 * 8 * 2 + 3);
+    expect(expectedEvaluations(1, { globalStarts: 0, multiStart: 5, profilePoints: 0 })).toBe(5 * (1 + 8 * 2) + 3);
+    expect(expectedEvaluations(2, { profilePoints: 0 })).toBe(defaultGlobalStarts(2) + 3 * 8 * 3 + 5);
+    // ... and the chi2 profiles: one curve per point with one parameter; with k, per point a start and k curves per refit iteration
+    expect(expectedEvaluations(1, { globalStarts: 12, multiStart: 5 })).toBe(12 + 5 * 8 * 2 + 3 + DEFAULT_PROFILE_POINTS);
+    expect(expectedEvaluations(2)).toBe(defaultGlobalStarts(2) + 3 * 8 * 3 + 5 + 2 * DEFAULT_PROFILE_POINTS * (1 + DEFAULT_PROFILE_ITERATIONS * 2));
     expect(defaultGlobalStarts(1)).toBe(16);
     expect(defaultGlobalStarts(7)).toBe(64);
   });
@@ -145,7 +156,7 @@ describe("honest outcome", () => {
     // and every step is rejected. (The former rule called this converged after 2 iterations.)
     const plateau: CurveModel = (v) => xs.map((x) => Math.cos(2 * Math.PI * x * (1 + Math.floor(v.p * 20) / 20)));
     const data = { x: xs, y: noisy(plateau({ p: 0.8 }), 6, 0.02), sigma: xs.map(() => 0.02) };
-    const r = fitCurve(plateau, data, [{ parameter: "p", initial: 0.42, min: 0.3, max: 1 }], { globalStarts: 0 });
+    const r = fitCurve(plateau, data, [{ parameter: "p", initial: 0.42, min: 0.3, max: 1 }], { globalStarts: 0, profilePoints: 0 });
     expect(r.converged).toBe(false);
     expect(r.iterations).toBeGreaterThan(2);
     expect(r.parameters[0].value).toBe(0.42);
@@ -286,7 +297,7 @@ describe("global stage on the real engine", () => {
     const s = 0.01;
     const y = noisy(clean, 12, s);
     const job = { input, sweepParameter: "fieldTesla", x, y, sigma: x.map(() => s), fit: [{ parameter: "twistDegrees", initial: 0.13, min: 0.08, max: 0.14 }] };
-    const local = runFit(engine, { ...job, options: { globalStarts: 0 } });
+    const local = runFit(engine, { ...job, options: { globalStarts: 0, profilePoints: 0 } });
     expect(Math.abs(local.parameters[0].value - 0.11)).toBeGreaterThan(0.005);
     expect(local.quality).toBe("poor");
     expect(local.flags).toContain("chi2_high");

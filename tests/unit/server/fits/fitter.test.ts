@@ -57,8 +57,8 @@ describe("fitCurve (Levenberg-Marquardt, uncertainties from the Jacobian)", () =
     const g = seededGaussian(4);
     const y = model(truth).map((v) => v + 0.01 * g());
     const far = specs.map((s) => (s.parameter === "P" ? { ...s, initial: 0.085 } : s));
-    const single = fitCurve(model, { x: xs, y }, far, { globalStarts: 0 });
-    const multi = fitCurve(model, { x: xs, y }, far, { globalStarts: 0, multiStart: 8, seed: 2 });
+    const single = fitCurve(model, { x: xs, y }, far, { globalStarts: 0, profilePoints: 0 });
+    const multi = fitCurve(model, { x: xs, y }, far, { globalStarts: 0, multiStart: 8, seed: 2, profilePoints: 0 });
     expect(multi.chi2).toBeLessThanOrEqual(single.chi2);
     expect(multi.starts.length).toBe(8);
     expect(multi.starts.every((s) => s.stage === "local")).toBe(true);

@@ -68,3 +68,35 @@ describe("engine-backed fit model", () => {
     expect(expectedEvaluations(2)).toBeGreaterThan(2);
   });
 });
+
+describe("the fit form's parameter list on the real engine", () => {
+  it("every listed parameter's proposed start and bounds are a valid model of the demo network; a valid pair is found in either order", async () => {
+    const { engine } = await import("@/server/fits/engine");
+    const { parseComputeInput } = await import("@/engine");
+    const { FIT_PARAMETERS } = await import("@/shared/fit-parameters");
+    const { LK07_COMPUTATION, LK07_NETWORK } = await import("@/shared/lk07");
+    const { applyValues } = await import("@/server/fits/model");
+    const input = parseComputeInput({ network: LK07_NETWORK, computation: LK07_COMPUTATION });
+    for (const p of FIT_PARAMETERS) {
+      for (const v of [p.initial, p.min, p.max]) expect(() => engine.applyParameter(input as never, p.parameter, v), `${p.parameter} = ${v}`).not.toThrow();
+      // each changes the model: a parameter listed for fitting that the conductance ignored would be undetermined
+      const at = (v: number) => conductanceOf(engine.compute(engine.applyParameter(input as never, p.parameter, v) as never));
+      // (min against the middle: the node phase's bounds -pi and pi are the same model)
+      if (p.parameter !== "temperatureK") expect(at(p.min), p.parameter).not.toBeCloseTo(at((p.min + p.max) / 2), 6);
+    }
+    // The engine checks node.forward +- forwardSpread / 2 after every parameter applied: a valid
+    // pair can pass through an invalid intermediate in one order, and applyValues tries the other.
+    const spread = engine.applyParameter(input as never, "disorder.forwardSpread", 0.1);
+    expect(() => engine.applyParameter(spread as never, "node.forward", 0.97)).toThrow(/forwardSpread/);
+    const ok = applyValues(engine, spread, { "node.forward": 0.92 }) as { network: { node: { forward: number } } };
+    expect(ok.network.node.forward).toBe(0.92);
+    const wide = engine.applyParameter(input as never, "disorder.forwardSpread", 0.85);
+    // from a wide spread, forward 0.6 then spread 0.1 fails at the first step (0.6 +- 0.425 leaves the range) but the reverse order works
+    expect(() => engine.applyParameter(wide as never, "node.forward", 0.6)).toThrow();
+    const both = applyValues(engine, wide, { "node.forward": 0.6, "disorder.forwardSpread": 0.1 }) as {
+      network: { node: { forward: number }; disorder: { forwardSpread: number } };
+    };
+    expect(both.network.node.forward).toBe(0.6);
+    expect(both.network.disorder.forwardSpread).toBe(0.1);
+  });
+});
