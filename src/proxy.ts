@@ -8,7 +8,16 @@ import { clerkMiddleware, createRouteMatcher } from "@clerk/nextjs/server";
 import { NextResponse, type NextFetchEvent, type NextRequest } from "next/server";
 import { CLERK_PROXY_PREFIX, isClerkProxyPath, isFrontendApiPath } from "@/server/auth/frontend-api";
 
-const isPublicPage = createRouteMatcher(["/", "/pricing(.*)", "/manual(.*)", "/sign-in(.*)", "/sign-up(.*)", "/sign-out(.*)", "/accept-invitation(.*)"]);
+const isPublicPage = createRouteMatcher([
+  "/",
+  "/pricing(.*)",
+  "/manual(.*)",
+  "/status",
+  "/sign-in(.*)",
+  "/sign-up(.*)",
+  "/sign-out(.*)",
+  "/accept-invitation(.*)",
+]);
 const isApi = createRouteMatcher(["/api/(.*)"]);
 
 const withClerk = clerkMiddleware(async (auth, req) => {

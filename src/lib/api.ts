@@ -64,8 +64,8 @@ async function send<T>(path: string, init: { method: string; json?: unknown; for
 
 function describeStatus(status: number): string {
   if (status === 401) return "You are signed out; sign in again.";
-  if (status === 403) return "Your role in this workspace does not allow this.";
-  if (status === 404) return "Not found in this workspace.";
+  if (status === 403) return "Your role in this group does not allow this.";
+  if (status === 404) return "Not found in this group.";
   if (status >= 500) return `The server failed (HTTP ${status}); try again in a moment.`;
   return `Request failed (HTTP ${status}).`;
 }

@@ -56,3 +56,15 @@ export function squareNetwork(size: NetworkSize, turning: number, { transverse =
     ...(disorder ? { disorder } : {}),
   };
 }
+
+/**
+ * The example network every new group starts with (personal or a lab's): invented, in the style of
+ * the demo lab's networks, small enough for the Free plan, and marked as an example in its name
+ * (the first-steps card and the network list recognise it by this name).
+ */
+export const EXAMPLE_NETWORK: { name: string; definition: NetworkDefinition } = {
+  name: "Example: clean 0.11° triangular network, 12 × 8 (invented starting point)",
+  definition: triangularNetwork({ columns: 12, rows: 8 }, { forward: 0.6, left: 0.2, right: 0.2 }),
+};
+
+export const isExampleNetwork = (name: string) => name === EXAMPLE_NETWORK.name;

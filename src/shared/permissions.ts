@@ -1,7 +1,8 @@
 /**
  * Who may do what (product.md, "Roles"): the one table every route and server action consults
  * (src/server/auth: requirePermission) and the browser reads too (src/components/shell/useMe.ts).
- * The UI hides what a role cannot do; the server refuses it regardless.
+ * The interface disables or hides what a role cannot do and shows `refusalReason`, the very
+ * sentence the API answers a 403 with; the server refuses it regardless.
  */
 export const ROLES = ["owner", "billing_admin", "researcher", "viewer"] as const;
 export type Role = (typeof ROLES)[number];
@@ -21,7 +22,8 @@ export const ACTIONS = [
   "members.seats", // invite or remove Researchers and Viewers (a Billing admin fills and frees seats)
   "seats.manage", // change the number of seats
   "billing.manage", // plan, payment, spend cap, invoices
-  "usage.view", // compute use per member
+  "usage.view", // the group's compute use this period (totals, quota, cap) and one's own
+  "usage.members", // compute use per member
   "tokens.own", // create and revoke one's own API tokens
 ] as const;
 export type Action = (typeof ACTIONS)[number];
@@ -34,7 +36,8 @@ const TABLE: Record<Action, readonly Role[]> = {
   "members.seats": ["owner", "billing_admin"],
   "seats.manage": ["owner", "billing_admin"],
   "billing.manage": ["owner", "billing_admin"],
-  "usage.view": ["owner", "billing_admin", "researcher", "viewer"],
+  "usage.view": ["owner", "billing_admin", "researcher"],
+  "usage.members": ["owner", "billing_admin"],
   "tokens.own": ["owner", "billing_admin", "researcher", "viewer"],
 };
 
@@ -69,14 +72,15 @@ export function lesserRole(a: Role, b: Role): Role {
 
 export function describeAction(action: Action): string {
   const words: Record<Action, string> = {
-    "results.view": "see this workspace's work",
-    "work.create": "create networks, runs, sweeps, datasets or fits",
+    "results.view": "see this group's work",
+    "work.create": "create networks, calculations, scans, datasets or fits",
     "work.manageOthers": "cancel or delete another member's work",
     "members.manage": "invite or remove members or change roles",
     "members.seats": "invite or remove Researchers and Viewers",
     "seats.manage": "change seats",
     "billing.manage": "change the plan, payment, spend cap or read invoices",
-    "usage.view": "see compute use",
+    "usage.view": "see this group's billing and compute use",
+    "usage.members": "see every member's compute use",
     "tokens.own": "manage API tokens",
   };
   return words[action];
@@ -84,4 +88,16 @@ export function describeAction(action: Action): string {
 
 export function rolesAllowed(action: Action): readonly Role[] {
   return TABLE[action];
+}
+
+/**
+ * Why this role may not do this action, in words, or null when it may. The API's 403 message
+ * (src/server/auth: requirePermission) and the reason the interface shows beside a disabled
+ * control are this one sentence.
+ */
+export function refusalReason(role: Role, action: Action): string | null {
+  if (can(role, action)) return null;
+  const allowed = rolesAllowed(action).map((r) => ROLE_LABELS[r]);
+  const list = allowed.length > 1 ? `${allowed.slice(0, -1).join(", ")} or ${allowed[allowed.length - 1]}` : allowed[0];
+  return `Your role (${ROLE_LABELS[role]}) cannot ${describeAction(action)}; ask the group's Owner if you need to (allowed: ${list}).`;
 }

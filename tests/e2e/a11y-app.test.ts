@@ -17,20 +17,20 @@ describe("accessibility of the web app", () => {
   const pages: [string, string | (() => Promise<string>), string][] = [
     ["networks list", "/networks", "h1"],
     ["network editor", "/networks/new", "svg[data-renderer]"],
-    ["runs list", "/runs", "h1"],
-    ["sweeps list", "/sweeps", "h1"],
-    ["workspace", "/workspace", "h1"],
+    ["calculations list", "/runs", "h1"],
+    ["scans list", "/sweeps", "h1"],
+    ["group", "/workspace", "h1"],
     ["model manual", "/manual", ".katex"],
     [
-      "saved network with run and sweep forms",
+      "saved network with calculation and scan forms",
       async () => {
         const list = (await (await api("/api/v1/networks?limit=1", { as: "researcher" })).json()) as { networks: { id: string }[] };
         return `/networks/${list.networks[0].id}`;
       },
-      "form[aria-label='Build a sweep']",
+      "form[aria-label='Build a scan']",
     ],
     [
-      "finished conductance run with its figures",
+      "finished conductance calculation with its figures",
       async () => {
         const list = (await (await api("/api/v1/networks?limit=50", { as: "researcher" })).json()) as { networks: { id: string; name: string }[] };
         const networkId = list.networks.find((n) => n.name.startsWith("Clean"))!.id;
@@ -46,7 +46,7 @@ describe("accessibility of the web app", () => {
       '[data-chart="transmission-eigenvalues"] [data-layer=bars] rect',
     ],
     [
-      "sweep page",
+      "scan page",
       async () => {
         const list = (await (await api("/api/v1/sweeps?limit=1", { as: "researcher" })).json()) as { sweeps: { id: string }[] };
         return `/sweeps/${list.sweeps[0].id}`;

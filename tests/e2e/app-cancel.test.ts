@@ -7,7 +7,7 @@ import { api } from "../support/services";
 const browser = useBrowser();
 
 describe("cancel from the page", () => {
-  it("cancels a running sweep and shows it cancelled", async () => {
+  it("cancels a running scan and shows it cancelled", async () => {
     const network = {
       lattice: "triangular",
       size: { columns: 24, rows: 16 },
@@ -25,13 +25,13 @@ describe("cancel from the page", () => {
     const { id } = (await res.json()) as { id: string };
     const page = await browser.signedInPage("researcher");
     await page.goto(url(`/sweeps/${id}`));
-    const cancel = page.getByRole("button", { name: "Cancel sweep" });
+    const cancel = page.getByRole("button", { name: "Cancel scan" });
     await cancel.waitFor();
     await cancel.click();
     await page.locator('[data-status="cancelled"]').waitFor({ timeout: 60_000 });
     await expect.poll(() => page.getByTestId("sweep-counts").innerText(), { timeout: 30_000 }).toMatch(/0 running · 0 queued/);
     await expect(page.getByTestId("sweep-counts").innerText()).resolves.toMatch(/cancelled/);
-    await expect(page.getByRole("button", { name: "Cancel sweep" }).count()).resolves.toBe(0);
+    await expect(page.getByRole("button", { name: "Cancel scan" }).count()).resolves.toBe(0);
     const done = (await (await api(`/api/v1/sweeps/${id}`, { as: "researcher" })).json()) as { counts: { succeeded: number } };
     expect(done.counts.succeeded).toBeLessThan(60);
   });

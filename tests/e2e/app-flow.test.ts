@@ -1,6 +1,6 @@
-// The researcher's main flow in the browser, as a new user would walk it: sign in, create a
+// The researcher's main flow in the browser, as a new user would walk it: sign in (landing in the lab), create a
 // network and see it drawn, fix a refused node triple by following the message, run a
-// conductance and watch it finish with its plot, run a two-axis sweep and watch the heat map
+// conductance and watch it finish with its plot, run a two-axis scan and watch the heat map
 // fill in, export CSV. Screenshots go to tests/e2e/screenshots/.
 import { readFileSync } from "node:fs";
 import { beforeAll, describe, expect, it } from "vitest";
@@ -20,18 +20,16 @@ beforeAll(async () => {
 const shot = (file: string) => screenshot(page, file);
 
 describe("web app main flow", () => {
-  it("shows the signed-in shell, switches to the lab workspace, and shows the navigation for the role", async () => {
+  it("shows the signed-in shell in the lab (a lab member starts there), and shows the navigation for the role", async () => {
     await page.goto(url("/networks"));
     await expect(page.locator("h1").innerText()).resolves.toBe("Networks");
-    // Signing in lands in the personal workspace; switch to the lab through the switcher.
-    const switcher = page.getByRole("combobox", { name: "Workspace" });
-    await switcher.waitFor();
-    await switcher.selectOption({ label: "Larkspur Devices Lab" });
-    await page.waitForURL(/\/networks$/);
-    await page.waitForLoadState("load");
+    // A lab member's sign-in lands in the lab, not in the empty personal group.
+    const groups = page.getByTestId("group-selector");
+    await groups.waitFor();
+    await expect(groups.getByRole("button", { name: "Larkspur Devices Lab" }).getAttribute("aria-pressed")).resolves.toBe("true");
     await expect.poll(() => page.locator("aside").innerText(), { timeout: 30_000 }).toContain("Lab plan");
     const nav = page.getByRole("navigation", { name: "Main" });
-    for (const label of ["Networks", "Runs", "Sweeps", "Datasets", "Fits", "Workspace"]) {
+    for (const label of ["Networks", "Calculations", "Scans", "Datasets", "Fits", "Group"]) {
       await expect.poll(() => nav.getByRole("link", { name: new RegExp(`^${label}`) }).count()).toBe(1);
     }
     await expect.poll(() => page.locator("aside").innerText()).toMatch(/Mei Lindqvist\s*Researcher/i);
@@ -86,17 +84,17 @@ describe("web app main flow", () => {
     await shot("app-network.png");
   });
 
-  it("runs a conductance with the estimate shown first, then shows progress and the plot", async () => {
-    const form = page.getByRole("form", { name: "Run a computation" });
+  it("calculates a conductance with the estimate shown first, then shows progress and the plot", async () => {
+    const form = page.getByRole("form", { name: "Start a calculation" });
     await expect(form.getByTestId("estimate").innerText()).resolves.toMatch(/Estimate: [\d.]+ compute-(seconds|minutes)/);
     await fill(page, "run.energyMeV", 3);
     await fill(page, "run.fieldTesla", 0.5);
     await form.getByRole("button", { name: "Run conductance" }).click();
     await page.waitForURL(/\/runs\/[0-9a-f-]{36}$/);
-    await page.getByRole("progressbar", { name: "Run progress" }).waitFor();
+    await page.getByRole("progressbar", { name: "Calculation progress" }).waitFor();
     await expect(page.getByTestId("elapsed").count()).resolves.toBe(1);
     await page.locator('[data-status="succeeded"]').waitFor({ timeout: 90_000 });
-    await expect(page.getByRole("progressbar", { name: "Run progress" }).getAttribute("aria-valuenow")).resolves.toBe("100");
+    await expect(page.getByRole("progressbar", { name: "Calculation progress" }).getAttribute("aria-valuenow")).resolves.toBe("100");
     const figures = await page.getByTestId("conductance-figures").innerText();
     expect(figures).toMatch(/Total conductance G\s+[\d.]+(e-?\d+)? e²\/h/);
     expect(figures).toMatch(/ S/);
@@ -111,9 +109,9 @@ describe("web app main flow", () => {
     await shot("app-run.png");
   });
 
-  it("runs a two-axis sweep, draws the heat map as points arrive, and exports CSV", async () => {
+  it("runs a two-axis scan, draws the heat map as points arrive, and exports CSV", async () => {
     await page.goto(networkUrl + "#sweep");
-    const form = page.getByRole("form", { name: "Build a sweep" });
+    const form = page.getByRole("form", { name: "Build a scan" });
     await form.waitFor();
     await page.selectOption('[id="axis0.parameter"]', "fieldTesla");
     await fill(page, "axis0.from", 0);
@@ -128,10 +126,10 @@ describe("web app main flow", () => {
     await fill(page, "sweep.ensemble", 250);
     await expect(form.getByTestId("point-count").innerText()).resolves.toMatch(/^20 points × 250 seeds/);
     await expect(form.getByTestId("estimate").innerText()).resolves.toMatch(/Estimate: [\d.]+ compute-(seconds|minutes)[\s\S]*For all 20 points/);
-    await form.getByRole("button", { name: "Start sweep of 20 points" }).click();
+    await form.getByRole("button", { name: "Start scan of 20 points" }).click();
     await page.waitForURL(/\/sweeps\/[0-9a-f-]{36}$/);
     const sweepUrl = page.url();
-    await page.getByRole("progressbar", { name: "Sweep progress" }).waitFor();
+    await page.getByRole("progressbar", { name: "Scan progress" }).waitFor();
     const plot = page.getByTestId("sweep-plot");
     // Partial results: cells fill in while the sweep runs; the map always has all 20 cells.
     const cells = plot.locator("[data-layer=cells] rect");

@@ -21,7 +21,7 @@ beforeAll(async () => {
   }
 });
 
-describe("runs table", () => {
+describe("calculations table", () => {
   it("filters by computation through the API and sorts the page", async () => {
     const page = await browser.signedInPage("researcher");
     const asked: string[] = [];
@@ -29,13 +29,13 @@ describe("runs table", () => {
       if (r.url().includes("/api/v1/runs?")) asked.push(r.url());
     });
     await page.goto(url("/runs"));
-    const table = page.getByRole("table", { name: "runs" });
+    const table = page.getByRole("table", { name: "calculations" });
     await table.waitFor();
     await expect.poll(() => table.locator("tbody tr").count()).toBeGreaterThanOrEqual(2);
-    await page.getByRole("search", { name: "Filter runs" }).getByLabel("Computation").selectOption("spectrum");
+    await page.getByRole("search", { name: "Filter calculations" }).getByLabel("Computation").selectOption("spectrum");
     await expect.poll(() => asked.some((u) => new URL(u).searchParams.get("kind") === "spectrum")).toBe(true);
     await expect.poll(async () => (await table.locator("tbody tr").allInnerTexts()).every((t) => t.includes("Band structure"))).toBe(true);
-    await page.getByRole("search", { name: "Filter runs" }).getByLabel("Computation").selectOption("");
+    await page.getByRole("search", { name: "Filter calculations" }).getByLabel("Computation").selectOption("");
     await expect.poll(async () => (await table.locator("tbody tr").allInnerTexts()).some((t) => t.includes("Conductance"))).toBe(true);
     // Sort by computation: rows come in ascending order of the computation kind.
     await table.getByRole("button", { name: /Computation/ }).click();
@@ -57,16 +57,17 @@ describe("runs table", () => {
 });
 
 describe("roles in the interface", () => {
-  it("gives a viewer no buttons to create networks or start runs", async () => {
+  it("gives a viewer the create and start buttons disabled, each with the reason", async () => {
     const page = await browser.signedInPage("viewer");
     await page.goto(url("/networks"));
     await page.getByRole("table", { name: "networks" }).waitFor();
     await expect.poll(() => page.locator("aside").innerText()).toMatch(/Viewer/i);
     await expect(page.getByRole("link", { name: "New network" }).count()).resolves.toBe(0);
+    await expect(page.getByRole("button", { name: "New network" }).isDisabled()).resolves.toBe(true);
     await page.goto(url(`/networks/${networkId}`));
-    await page.getByText("Your role can read results but not start runs (Owner and Researcher can).").waitFor();
-    await expect(page.getByRole("button", { name: "Run conductance" }).count()).resolves.toBe(0);
-    await expect(page.getByRole("button", { name: /Save as new version/ }).count()).resolves.toBe(0);
+    await page.locator("#run-refusal").waitFor();
+    await expect(page.getByRole("button", { name: "Run conductance" }).isDisabled()).resolves.toBe(true);
+    await expect(page.getByRole("button", { name: /Save as new version/ }).isDisabled()).resolves.toBe(true);
     await page.close();
   });
 

@@ -29,7 +29,7 @@ async function signUp(page: Page, name: string, email: string, password: string)
 }
 
 describe("sign-up, sign-out, sign-in", () => {
-  it("a new person signs up, gets a personal Free workspace, signs out and signs in again", async () => {
+  it("a new person signs up, gets a personal Free group, signs out and signs in again", async () => {
     const page = await browser.newPage();
     const email = unique("signup");
     const password = "correct-horse-2026";
@@ -125,7 +125,7 @@ describe("invitations", () => {
 });
 
 describe("roles in the browser", () => {
-  it("a Viewer sees a network but no run button, and the API refuses the run (403); a Researcher has the button", async () => {
+  it("a Viewer sees a network with the start button disabled and the API's reason, and the API refuses the calculation (403); a Researcher may start it", async () => {
     const nets = await (await api("/api/v1/networks", { as: "viewer" })).json();
     const list = (nets.networks ?? nets.items ?? nets.data ?? nets) as { id: string; name: string }[];
     const net = list.find((n) => n.name === "Clean 0.11° triangular network")!;
@@ -133,8 +133,8 @@ describe("roles in the browser", () => {
 
     const viewer = await browser.signedInPage("viewer");
     await viewer.goto(url(`/networks/${net.id}`));
-    await viewer.getByText("Your role can read results but not start runs").waitFor({ timeout: 30_000 });
-    await expect(viewer.locator('#run button[type="submit"]').count()).resolves.toBe(0);
+    await viewer.locator("#run-refusal").waitFor({ timeout: 30_000 });
+    await expect(viewer.locator('#run button[type="submit"]').isDisabled()).resolves.toBe(true);
     const refused = await viewer.evaluate(async (networkId) => {
       const res = await fetch("/api/v1/runs", {
         method: "POST",
@@ -145,12 +145,15 @@ describe("roles in the browser", () => {
     }, net.id);
     expect(refused.status).toBe(403);
     expect(refused.body.error.code).toBe("forbidden");
+    // The reason shown before the click is the API's own sentence.
+    await expect(viewer.locator("#run-refusal").innerText()).resolves.toBe(refused.body.error.message);
     await screenshot(viewer, "auth-viewer-network.png");
     await viewer.context().close();
 
     const researcher = await browser.signedInPage("researcher");
     await researcher.goto(url(`/networks/${net.id}`));
-    await researcher.locator('#run button[type="submit"]').waitFor({ timeout: 30_000 });
+    await researcher.locator('#run button[type="submit"]:not([disabled])').waitFor({ timeout: 30_000 });
+    await expect(researcher.locator("#run-refusal").count()).resolves.toBe(0);
     await researcher.context().close();
   });
 });

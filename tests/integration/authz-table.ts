@@ -2,7 +2,9 @@
 // the status each caller gets. Expectations follow the Roles table of product.md:
 //   see work: everyone in the workspace; create work: Owner, Researcher; cancel or delete others'
 //   work: Owner; members: Owner (Billing admin: Researcher and Viewer seats only); plan, payment,
-//   spend cap, invoices: Owner, Billing admin; API tokens: each member their own.
+//   spend cap, invoices: Owner, Billing admin; the group's billing overview and compute use: Owner,
+//   Billing admin, Researcher (a Researcher's usage report holds only their own rows); API tokens:
+//   each member their own.
 // "other" is a member of another workspace (the student, Owner of a personal workspace): lists
 // and creations act in their own workspace (allowed), the lab's objects do not exist for them (404).
 // "ok" means the permission check passed: 2xx, or 409 when the object's state refuses the action
@@ -68,6 +70,7 @@ const unique = (p: string) => `${p}-${Date.now().toString(36)}-${seq++}@authz.ex
 const SEE = { owner: "ok", billingAdmin: "ok", researcher: "ok", viewer: "ok" } as const;
 const CREATE = { owner: "ok", billingAdmin: 403, researcher: "ok", viewer: 403 } as const;
 const BILLING = { owner: "ok", billingAdmin: "ok", researcher: 403, viewer: 403 } as const;
+const USAGE = { owner: "ok", billingAdmin: "ok", researcher: "ok", viewer: 403 } as const;
 /** Reads of one lab object: the other workspace does not see it. */
 const seeObject = { ...SEE, other: 404 } as const;
 /** Lists and own-workspace actions: the other workspace acts on its own data. */
@@ -154,7 +157,8 @@ export const TABLE: Entry[] = [
   { route: "v1/fits/[id]/cancel", method: "POST", path: (f) => `/api/v1/fits/${f.fitId}/cancel`, expect: { ...CREATE, other: 404 } },
 
   // --- usage, workspace, tokens
-  { route: "v1/usage", method: "GET", path: () => "/api/v1/usage", expect: seeList },
+  // A Viewer computes nothing and sees no compute use or billing (product.md Roles).
+  { route: "v1/usage", method: "GET", path: () => "/api/v1/usage", expect: { ...USAGE, other: "ok" } },
   { route: "v1/workspace", method: "GET", path: () => "/api/v1/workspace", expect: seeList },
   { route: "v1/tokens", method: "GET", path: () => "/api/v1/tokens", expect: seeList },
   { route: "v1/tokens", method: "POST", path: () => "/api/v1/tokens", body: () => ({ name: "authz matrix" }), expect: seeList },
@@ -203,7 +207,7 @@ export const TABLE: Entry[] = [
   },
 
   // --- billing (the other workspace is the student's own free workspace, where they are Owner)
-  { route: "v1/billing", method: "GET", path: () => "/api/v1/billing", expect: { ...SEE, other: "ok" } },
+  { route: "v1/billing", method: "GET", path: () => "/api/v1/billing", expect: { ...USAGE, other: "ok" } },
   { route: "v1/billing/invoices", method: "GET", path: () => "/api/v1/billing/invoices", expect: { ...BILLING, other: "ok" } },
   { route: "v1/billing/seats", method: "GET", path: () => "/api/v1/billing/seats", expect: { ...BILLING, other: "ok" } },
   // One seat is below what the demo lab uses (409 after the permission check) and the other workspace has no subscription (409).

@@ -52,8 +52,8 @@ describe("the per-job compute-time cap", () => {
       const r = await post(path, { network: heavyNetwork, computation: heavyComputation }, "student");
       expect(r.status).toBe(402);
       expect(r.body.error.code).toBe("payment_required");
-      expect(r.body.error.message).toContain("The run: the estimated compute time is");
-      expect(r.body.error.message).toContain("maxJobComputeSeconds = 600 compute-seconds (10.0 compute-minutes)");
+      expect(r.body.error.message).toContain("The calculation: the estimated compute time is");
+      expect(r.body.error.message).toContain("over the Free plan's limit of 600 compute-seconds (10.0 compute-minutes) per job");
       expect(r.body.error.message).toContain("The Lab plan allows 21,600 compute-seconds (6.00 compute-hours)");
       expect(r.body.error.details).toMatchObject({ limit: "maxJobComputeSeconds", value: FREE, plan: "free", unit: "compute-seconds" });
       expect(r.body.error.details.requested).toBeCloseTo(estimate, 0);
@@ -87,7 +87,7 @@ describe("the per-job compute-time cap", () => {
     for (const path of ["/api/v1/sweeps", "/api/v1/sweeps?dryRun=true"]) {
       const r = await post(path, body, "student");
       expect(r.status).toBe(402);
-      expect(r.body.error.message).toMatch(/^sweep point 0 \(energyMeV = 0\.1\): the estimated compute time is/);
+      expect(r.body.error.message).toMatch(/^scan point 0 \(energyMeV = 0\.1\): the estimated compute time is/);
       expect(r.body.error.details).toMatchObject({ limit: "maxJobComputeSeconds", value: FREE });
     }
     // Small points pass on Free: the cap is per point, the quota is for the sum.

@@ -73,7 +73,7 @@ describe("networks", () => {
   it("refuses a network over the Free plan's size with 402 naming the limit", async () => {
     const res = await post("/api/v1/networks", { name: "IT too big", network: smallNetwork(42, 42) }, "student");
     expect(res.status).toBe(402);
-    expect(res.body.error.message).toContain("maxCellsPerSide = 40");
+    expect(res.body.error.message).toContain("over the Free plan's limit of 40 cells per side");
     expect(res.body.error.details).toMatchObject({ limit: "maxCellsPerSide", value: 40 });
   });
 

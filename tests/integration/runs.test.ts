@@ -143,7 +143,7 @@ describe("invalid run submissions get the documented status and write nothing", 
 
     const overPlan = await post("/api/v1/runs", { network: smallNetwork(44, 44), computation: { kind: "conductance" } }, "student");
     expect(overPlan.status).toBe(402);
-    expect(overPlan.body.error.message).toContain("maxCellsPerSide = 40");
+    expect(overPlan.body.error.message).toContain("over the Free plan's limit of 40 cells per side");
 
     const bigEnsemble = await post(
       "/api/v1/runs",
@@ -151,7 +151,7 @@ describe("invalid run submissions get the documented status and write nothing", 
       "student",
     );
     expect(bigEnsemble.status).toBe(402);
-    expect(bigEnsemble.body.error.message).toContain("maxEnsembleSamples = 50");
+    expect(bigEnsemble.body.error.message).toContain("over the Free plan's limit of 50 disorder seeds per ensemble");
 
     const unknown = await post("/api/v1/runs", { networkId: "7d9e6a53-1111-4c1e-8a44-0a2b3c4d5e6f", computation: { kind: "conductance" } });
     expect(unknown.status).toBe(404);

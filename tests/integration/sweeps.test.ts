@@ -181,7 +181,7 @@ describe("invalid sweep submissions get the documented status and write nothing"
       axes: [{ parameter: "node.forward", values: [0.5, 0.05] }],
     });
     expect(badPoint.status).toBe(422);
-    expect(badPoint.body.error.message).toMatch(/sweep point 1/);
+    expect(badPoint.body.error.message).toMatch(/scan point 1/);
     const labNetwork = (await get("/api/v1/networks?limit=1")).body.networks[0].id;
     const foreign = await post(
       "/api/v1/sweeps",
@@ -200,7 +200,7 @@ describe("invalid sweep submissions get the documented status and write nothing"
       "student",
     );
     expect(tooMany.status).toBe(402);
-    expect(tooMany.body.error.message).toContain("maxSweepPoints = 100");
+    expect(tooMany.body.error.message).toContain("over the Free plan's limit of 100 points per scan");
     expect(tooMany.body.error.details).toMatchObject({ limit: "maxSweepPoints", value: 100, requested: 101 });
     expect(await counts(student.id)).toEqual(studentBefore);
 

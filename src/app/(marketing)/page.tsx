@@ -1,5 +1,5 @@
 import Link from "next/link";
-import { Mark } from "@/components/shell/Mark";
+import { SiteHeader } from "@/components/shell/SiteHeader";
 import { NetworkMotif } from "@/components/shell/NetworkMotif";
 
 const features = [
@@ -16,7 +16,7 @@ const features = [
       "densities of states per moiré cell and per area, carrier density, and local density-of-states maps.",
   },
   {
-    title: "Sweeps at scale",
+    title: "Scans at scale",
     text: "Grids over energy, field, node probabilities, disorder and size, each point optionally an ensemble of disorder seeds, shared across many workers.",
   },
   {
@@ -30,23 +30,7 @@ const features = [
 export default function LandingPage() {
   return (
     <main className="mx-auto max-w-5xl px-gutter py-16">
-      <header className="flex items-center justify-between">
-        <span className="flex items-center gap-2 text-title font-semibold tracking-tight">
-          <Mark size={30} />
-          Triskel
-        </span>
-        <nav className="flex gap-6 text-body text-fg-soft">
-          <Link href="/pricing" className="hover:text-accent">
-            Pricing
-          </Link>
-          <Link href="/manual" className="hover:text-accent">
-            Model manual
-          </Link>
-          <Link href="/sign-in" className="rounded-full bg-fg px-4 py-1.5 text-canvas hover:bg-accent">
-            Sign in
-          </Link>
-        </nav>
-      </header>
+      <SiteHeader />
 
       <section className="mt-20 grid items-center gap-10 lg:grid-cols-[minmax(0,1.3fr)_minmax(0,1fr)]">
         <div>
@@ -60,10 +44,9 @@ export default function LandingPage() {
             <Link href="/sign-up" className="rounded-full bg-accent px-5 py-2 text-accent-fg hover:bg-accent-strong">
               Start free
             </Link>
-            {/* eslint-disable-next-line @next/next/no-html-link-for-pages -- a JSON endpoint; the /api catch-all makes the rule see a page */}
-            <a href="/api/v1/health" className="rounded-full border border-line-strong px-5 py-2 hover:border-accent">
+            <Link href="/status" className="rounded-full border border-line-strong px-5 py-2 hover:border-accent">
               Service status
-            </a>
+            </Link>
           </div>
         </div>
         <figure className="rounded-card border border-line bg-surface p-4">

@@ -13,7 +13,7 @@ interface Preview {
   status: "pending" | "accepted" | "revoked" | "expired";
 }
 
-/** Signed in: accept and switch to the workspace. Signed out: sign in or create the account first. */
+/** Signed in: accept and switch to the group. Signed out: sign in or create the account first. */
 export function AcceptInvitation({ token, preview }: { token: string; preview: Preview }) {
   const { isLoaded, isSignedIn } = useAuth();
   const clerk = useClerk();
@@ -49,7 +49,7 @@ export function AcceptInvitation({ token, preview }: { token: string; preview: P
   return (
     <div className="space-y-5" data-testid="accept-invitation" data-ready={isLoaded ? "yes" : "no"}>
       <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-2 rounded-card border border-ink/10 bg-paper-raised p-4 text-body">
-        <dt className="text-ink-faint">Workspace</dt>
+        <dt className="text-ink-faint">Group</dt>
         <dd className="font-semibold">{preview.workspaceName}</dd>
         <dt className="text-ink-faint">Role</dt>
         <dd>{preview.roleLabel}</dd>

@@ -1,4 +1,4 @@
-import Link from "next/link";
+import { Logo } from "@/components/shell/Logo";
 import type { ReactNode } from "react";
 
 /** The frame of the sign-in, sign-up and invitation pages: a form card beside an ink panel. */
@@ -6,10 +6,7 @@ export function AuthFrame({ title, lead, children, aside }: { title: string; lea
   return (
     <main className="grid min-h-screen bg-paper text-ink md:grid-cols-[minmax(0,1fr)_minmax(0,0.9fr)]">
       <section className="flex flex-col px-gutter py-10 sm:px-12">
-        <Link href="/" className="flex items-center gap-2 text-title font-semibold tracking-tight">
-          <TriskelMark className="h-7 w-7 text-wall-700" />
-          Triskel
-        </Link>
+        <Logo className="self-start text-title" />
         <div className="my-auto w-full max-w-sm py-12">
           <h1 className="text-title font-semibold">{title}</h1>
           {lead ? <p className="mt-2 text-body text-ink-faint">{lead}</p> : null}
@@ -22,22 +19,14 @@ export function AuthFrame({ title, lead, children, aside }: { title: string; lea
           {aside ?? (
             <>
               <p className="font-mono text-caption uppercase tracking-widest text-spark-300">one-way channels</p>
-              <p className="mt-3 text-lead">Networks, runs and fits live in a workspace: your own, or your lab&apos;s, shared with the people you invite.</p>
+              <p className="mt-3 text-lead">
+                Networks, calculations and fits live in a group: your own, or your lab&apos;s, shared with the people you invite.
+              </p>
             </>
           )}
         </div>
       </aside>
     </main>
-  );
-}
-
-export function TriskelMark({ className }: { className?: string }) {
-  return (
-    <svg viewBox="0 0 32 32" className={className} aria-hidden="true" fill="none" stroke="currentColor" strokeWidth="2.4" strokeLinecap="round">
-      <path d="M16 16c0-6 4-9 8-7" />
-      <path d="M16 16c5 3 6 8 2 10" />
-      <path d="M16 16c-5 3-10 1-10-3" />
-    </svg>
   );
 }
 

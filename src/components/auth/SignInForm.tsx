@@ -1,14 +1,17 @@
 "use client";
 
+import { useClerk } from "@clerk/nextjs";
 import { useSignIn } from "@clerk/nextjs/legacy";
 import Link from "next/link";
 import { useSearchParams } from "next/navigation";
 import { useState, type FormEvent } from "react";
+import { groupToStartIn, rememberedGroup } from "@/components/shell/groupChoice";
 import { AuthButton, AuthInput, FormMessage, attemptSession, safeRedirect } from "./formParts";
 
 /** E-mail + password sign-in on Clerk's SignIn resource (a custom flow; no prebuilt UI). */
 export function SignInForm() {
   const { isLoaded, signIn, setActive } = useSignIn();
+  const clerk = useClerk();
   const params = useSearchParams();
   const redirect = safeRedirect(params.get("redirect_url"));
   const [email, setEmail] = useState(params.get("email") ?? "");
@@ -29,6 +32,12 @@ export function SignInForm() {
       incomplete: "This account needs a sign-in step Triskel does not offer yet; contact support.",
       setErrors,
       setBusy,
+      // Start in the last-used group (or a lab member's lab), not always in the personal group.
+      afterSession: async (session) => {
+        const orgIds = (clerk.user?.organizationMemberships ?? []).map((m) => m.organization.id);
+        const organization = groupToStartIn(rememberedGroup(), orgIds);
+        if (organization) await clerk.setActive({ session, organization });
+      },
     });
   }
 
@@ -51,7 +60,7 @@ export function SignInForm() {
         <Link className="font-semibold text-wall-700 underline-offset-2 hover:underline" href={`/sign-up${params.toString() ? `?${params}` : ""}`}>
           Create an account
         </Link>{" "}
-        — it comes with a personal workspace on the Free plan.
+        — it comes with a personal group on the Free plan.
       </p>
     </form>
   );

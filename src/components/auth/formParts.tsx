@@ -82,8 +82,11 @@ export async function attemptSession(
     incomplete,
     setErrors,
     setBusy,
+    afterSession,
   }: {
     setActive: (params: { session: string }) => Promise<unknown>;
+    /** Runs once the session is active, before the redirect (the sign-in form picks the group to start in). */
+    afterSession?: (sessionId: string) => Promise<void>;
     redirect: string;
     incomplete: string;
     setErrors: (errors: Record<string, string>) => void;
@@ -98,6 +101,7 @@ export async function attemptSession(
       return;
     }
     await setActive({ session: attempt.createdSessionId });
+    if (afterSession) await afterSession(attempt.createdSessionId);
     window.location.assign(redirect);
   } catch (err) {
     const { field, message } = clerkErrorFields(err);

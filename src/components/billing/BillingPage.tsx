@@ -7,7 +7,9 @@ import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import { api } from "@/lib/api";
 import type { BillingOverview } from "@/shared/api";
 import { SPEND_CAP_USD } from "@/shared/plans";
-import { ROLE_LABELS, ROLES, rolesAllowed, type Role } from "@/shared/permissions";
+import { refusalReason, ROLE_LABELS, ROLES, rolesAllowed, type Role } from "@/shared/permissions";
+import { useMe } from "@/components/shell/useMe";
+import { RefusalNote } from "@/components/ui/Permission";
 import { exportCsv } from "@/lib/exportFigure";
 import { formatComputeSeconds, formatUsd } from "./CostEstimate";
 import { readSpendCap } from "./spendCap";
@@ -18,7 +20,23 @@ const day = (iso: string) => iso.slice(0, 10);
 /** A member's role in words (the usage report carries it as a plain string; a former member has none). */
 const roleWord = (role: string | null) => (role && (ROLES as readonly string[]).includes(role) ? ROLE_LABELS[role as Role] : "–");
 
+/** The Billing page; a role that may not see billing (a Viewer) gets the reason in words and nothing is fetched. */
 export function BillingPage() {
+  const me = useMe();
+  if (me.isPending) return <Skeleton lines={6} />;
+  const reason = me.data ? refusalReason(me.data.role, "usage.view") : null;
+  if (me.data && reason) {
+    return (
+      <div className="space-y-6" data-testid="billing-refused">
+        <PageHeader kicker="Billing" title={me.data.workspace.name} />
+        <RefusalNote reason={reason} />
+      </div>
+    );
+  }
+  return <BillingContent />;
+}
+
+function BillingContent() {
   const client = useQueryClient();
   const params = useSearchParams();
   const returnedFromCheckout = params.get("checkout") === "success";
@@ -166,6 +184,15 @@ export function BillingPage() {
           <ErrorNote error={usage.error} />
         ) : (
           <>
+            {usage.data.membersShown === "own" ? (
+              <p className="text-caption text-fg-soft" data-testid="usage-own-only">
+                Only your own compute use is listed here;{" "}
+                {rolesAllowed("usage.members")
+                  .map((r) => `${ROLE_LABELS[r]}s`)
+                  .join(" and ")}{" "}
+                see every member&apos;s. The totals are the group&apos;s.
+              </p>
+            ) : null}
             <div className="flex justify-end">
               <button
                 type="button"

@@ -7,6 +7,7 @@ import { api } from "@/lib/api";
 import type { DatasetPeriod } from "@/shared/api";
 import { XYChart } from "@/components/charts/XYChart";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
+import { RefusalNote, usePermission } from "@/components/ui/Permission";
 import { FitForm } from "./FitForm";
 import { Y_MEASURES_INFO } from "@/shared/csv";
 import { FitQualityMark } from "./FitQualityMark";
@@ -17,6 +18,7 @@ export function DatasetDetail({ id }: { id: string }) {
   const q = useQuery({ queryKey: ["dataset", id], queryFn: () => api("GET /api/v1/datasets/{id}", { params: { id } }) });
   // The latest period estimate: the fit form can put its twist angle (or period) into the model network.
   const [period, setPeriod] = useState<DatasetPeriod | null>(null);
+  const fitPermission = usePermission("work.create");
   const fitsQ = useQuery({ queryKey: ["fits", { datasetId: id }], queryFn: () => api("GET /api/v1/fits", { query: { datasetId: id } }) });
   if (q.isPending) return <Skeleton lines={6} />;
   if (q.error) return <ErrorNote error={q.error} title="Dataset not available" />;
@@ -60,7 +62,21 @@ export function DatasetDetail({ id }: { id: string }) {
         ) : (
           <p className="text-body text-fg-soft">The period analysis and fits need a field axis; this dataset&apos;s x is {d.xQuantity}.</p>
         )}
-        {d.xQuantity === "field" ? <FitForm datasetId={d.id} datasetName={d.name} period={period} measures={yMeasures} /> : null}
+        {d.xQuantity === "field" ? (
+          fitPermission.allowed || fitPermission.loading ? (
+            <FitForm datasetId={d.id} datasetName={d.name} period={period} measures={yMeasures} />
+          ) : (
+            <section aria-labelledby="fit-refused-h" className="tk-card space-y-3">
+              <h2 id="fit-refused-h" className="text-lead font-semibold">
+                Fit the model to this dataset
+              </h2>
+              <RefusalNote id="fit-refusal" reason={fitPermission.reason ?? ""} />
+              <button type="button" className="tk-btn" disabled aria-describedby="fit-refusal">
+                Start the fit
+              </button>
+            </section>
+          )
+        ) : null}
         {fitsQ.data?.items.length ? (
           <section>
             <h2 className="text-lead font-semibold">Fits of this dataset</h2>

@@ -8,6 +8,7 @@ import { qk } from "@/lib/queryKeys";
 import { XYChart } from "@/components/charts/XYChart";
 import { Field } from "@/components/ui/Field";
 import { PageHeader } from "@/components/ui/Page";
+import { RefusalNote, usePermission } from "@/components/ui/Permission";
 import {
   assumeXUnit,
   assumeYUnit,
@@ -68,6 +69,7 @@ function UnitsAssumed({ mapping }: { mapping: ColumnMapping }) {
 export function DatasetUpload() {
   const router = useRouter();
   const queryClient = useQueryClient();
+  const permission = usePermission("work.create");
   const [file, setFile] = useState<File | null>(null);
   const [text, setText] = useState<string | null>(null);
   const [preview, setPreview] = useState<Preview | null>(null);
@@ -315,8 +317,15 @@ export function DatasetUpload() {
             {submitError.issues.length ? <IssueList issues={submitError.issues} /> : null}
           </div>
         ) : null}
+        {permission.reason ? <RefusalNote id="dataset-refusal" reason={permission.reason} /> : null}
         <div className="flex items-center gap-3">
-          <button type="button" className="tk-btn" disabled={!parsed?.ok || !name.trim() || busy} onClick={() => void submit()}>
+          <button
+            type="button"
+            className="tk-btn"
+            disabled={!permission.allowed || !parsed?.ok || !name.trim() || busy}
+            aria-describedby={permission.reason ? "dataset-refusal" : undefined}
+            onClick={() => void submit()}
+          >
             {busy ? "Saving…" : "Save dataset"}
           </button>
           {parsed?.ok ? (

@@ -17,7 +17,7 @@ import { FIT_PARAMETERS, type FitParameterInfo } from "@/shared/fit-parameters";
 import { sig } from "./format";
 import { canCreate, useMe } from "@/components/shell/useMe";
 import { PLANS } from "@/shared/plans";
-import { ROLE_LABELS } from "@/shared/permissions";
+import { refusalReason } from "@/shared/permissions";
 
 type Row = { on: boolean; initial: string; min: string; max: string };
 
@@ -223,7 +223,7 @@ export function FitForm({
         </h2>
         <p className="text-caption text-fg-soft">
           A global stage spreads starting points over the bounds of every fitted parameter and computes the model at each; Levenberg–Marquardt then refines the
-          best few. One engine computation per data point and model curve; runs as a job, metered in compute-seconds like a run.
+          best few. One engine computation per data point and model curve; runs as a job, metered in compute-seconds like a calculation.
         </p>
       </div>
 
@@ -406,7 +406,7 @@ export function FitForm({
       </button>
       {role && !mayStart ? (
         <p id="fit-start-why" className="text-caption text-fg-soft" data-testid="fit-start-why">
-          As {ROLE_LABELS[role]} you can read fits and their reports but not start them; an Owner can give you the Researcher role on the Group page.
+          {refusalReason(role, "work.create")}
         </p>
       ) : null}
     </section>

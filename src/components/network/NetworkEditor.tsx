@@ -12,6 +12,7 @@ import { GRAPHENE_LATTICE_NM, periodFromTwistNm, twistFromPeriodDegrees } from "
 import { num } from "@/lib/units";
 import { Field, NumberInput, Select } from "@/components/ui/Field";
 import { useMe } from "@/components/shell/useMe";
+import { RefusalNote, UpgradeHint, usePermission } from "@/components/ui/Permission";
 import { PLANS } from "@/shared/plans";
 import { defaultNetwork, linkLengthNm, setPath, shapeOf, type NetworkDraft } from "./draft";
 import { NetworkDrawing } from "./NetworkDrawing";
@@ -48,10 +49,13 @@ export function NetworkEditor({ initial, canEdit }: Props) {
   );
   const planId = mounted ? me.data?.workspace?.plan : undefined;
   const plan = PLANS[planId ?? "free"];
+  const isOverPlan = (v: unknown) => Boolean(planId) && typeof v === "number" && v > plan.maxCellsPerSide;
   const overPlan = (v: unknown) =>
-    planId && typeof v === "number" && v > plan.maxCellsPerSide
-      ? `the ${plan.label} plan allows up to ${plan.maxCellsPerSide} cells per side; the drawing still shows it, but runs will be refused`
+    isOverPlan(v)
+      ? `the ${plan.label} plan allows up to ${plan.maxCellsPerSide} cells per side; the drawing still shows it, but a network this large cannot be saved on ${plan.label}`
       : undefined;
+  const sizeOverPlan = isOverPlan(draft.size?.columns) || isOverPlan(draft.size?.rows);
+  const permission = usePermission("work.create");
   const triangular = draft.lattice !== "square";
   const scaleMode: "twist" | "period" = draft.periodNm !== undefined ? "period" : "twist";
   const set = (path: string, value: unknown) => {
@@ -95,7 +99,7 @@ export function NetworkEditor({ initial, canEdit }: Props) {
   });
 
   const nameError = name.trim() === "" ? "Give the network a name (shown in lists and on results)." : undefined;
-  const canSave = canEdit && validation.ok && tripleVerdict.ok && !nameError && !save.isPending;
+  const canSave = canEdit && validation.ok && tripleVerdict.ok && !nameError && !sizeOverPlan && !save.isPending;
 
   return (
     <div className="grid gap-6 xl:grid-cols-[minmax(22rem,26rem)_1fr]">
@@ -374,9 +378,20 @@ export function NetworkEditor({ initial, canEdit }: Props) {
             {serverError}
           </p>
         ) : null}
+        {canEdit && sizeOverPlan ? (
+          <p
+            id="plan-limit"
+            role="alert"
+            className="rounded-field border border-danger/40 bg-danger-soft p-2.5 text-caption text-danger"
+            data-testid="plan-limit"
+          >
+            Saving is refused: {draft.size?.columns} × {draft.size?.rows} cells is over the {plan.label} plan&apos;s {plan.maxCellsPerSide} ×{" "}
+            {plan.maxCellsPerSide}. Make it smaller, or <UpgradeHint plan={plan.id} />.
+          </p>
+        ) : null}
         {canEdit ? (
           <div className="flex flex-wrap items-center gap-3">
-            <button type="submit" className="tk-btn" disabled={!canSave}>
+            <button type="submit" className="tk-btn" disabled={!canSave} aria-describedby={sizeOverPlan ? "plan-limit" : undefined}>
               {save.isPending ? "Saving…" : initial?.id ? "Save as new version" : "Create network"}
             </button>
             {save.isSuccess && initial?.id ? <span className="text-caption text-accent">Saved as version {save.data.version ?? ""}</span> : null}
@@ -385,7 +400,12 @@ export function NetworkEditor({ initial, canEdit }: Props) {
             </button>
           </div>
         ) : (
-          <p className="text-caption text-fg-faint">Your role can read this network but not change it.</p>
+          <div className="space-y-2">
+            <RefusalNote id="network-refusal" reason={permission.reason ?? "Your role can read this network but not change it."} />
+            <button type="button" className="tk-btn" disabled aria-describedby="network-refusal">
+              {initial?.id ? "Save as new version" : "Create network"}
+            </button>
+          </div>
         )}
         {showJson ? <JsonEditor draft={draft} onChange={setDraft} /> : null}
       </form>

@@ -41,26 +41,26 @@ export function NetworkDetail({ id }: { id: string }) {
         actions={
           <>
             <Link className="tk-btn-quiet" href={`/runs?networkId=${n.id}`}>
-              Runs of this network
+              Calculations of this network
             </Link>
             <a className="tk-btn-quiet" href="#run">
-              Run
+              Calculate
             </a>
             <a className="tk-btn-quiet" href="#sweep">
-              Sweep
+              Scan
             </a>
           </>
         }
       >
-        Last changed {when(n.updatedAt ?? n.createdAt)}. Saving makes a new version; runs keep the version they used.
+        Last changed {when(n.updatedAt ?? n.createdAt)}. Saving makes a new version; calculations keep the version they used.
       </PageHeader>
       <NetworkEditor key={`${n.id}-${n.version}`} initial={n} canEdit={editable} />
       <section id="run" className="mt-10 scroll-mt-6">
-        <h2 className="mb-3 text-title font-semibold">Run a computation</h2>
+        <h2 className="mb-3 text-title font-semibold">Start a calculation</h2>
         <RunForm network={n} canSubmit={editable} />
       </section>
       <section id="sweep" className="mt-10 scroll-mt-6">
-        <h2 className="mb-3 text-title font-semibold">Build a sweep</h2>
+        <h2 className="mb-3 text-title font-semibold">Build a scan</h2>
         <SweepBuilder network={n} canSubmit={editable} />
       </section>
     </>

@@ -7,8 +7,11 @@ import { useMemberNames } from "@/components/shell/useMemberNames";
 import { num, when } from "@/lib/units";
 import { PageHeader } from "@/components/ui/Page";
 import { canCreate, useMe } from "@/components/shell/useMe";
+import { RefusalNote, usePermission } from "@/components/ui/Permission";
+import { FirstSteps } from "./FirstSteps";
 import { DataTable } from "@/components/tables/DataTable";
 import { linkLengthNm } from "@/engine/browser";
+import { isExampleNetwork } from "@/shared/networks";
 
 const columnsFor = (who: (id: string | null) => string): ColumnDef<NetworkView, unknown>[] => [
   {
@@ -16,9 +19,16 @@ const columnsFor = (who: (id: string | null) => string): ColumnDef<NetworkView, 
     header: "Name",
     accessorFn: (r) => r.name,
     cell: ({ row }) => (
-      <Link className="font-medium text-accent hover:underline" href={`/networks/${row.original.id}`}>
-        {row.original.name}
-      </Link>
+      <>
+        <Link className="font-medium text-accent hover:underline" href={`/networks/${row.original.id}`}>
+          {row.original.name}
+        </Link>
+        {isExampleNetwork(row.original.name) ? (
+          <span className="ml-2 rounded bg-surface-sunk px-1.5 py-0.5 text-micro uppercase tracking-wide text-fg-soft" data-testid="example-mark">
+            example
+          </span>
+        ) : null}
+      </>
     ),
   },
   {
@@ -55,21 +65,28 @@ export function NetworksList() {
   const me = useMe();
   const who = useMemberNames();
   const columns = columnsFor(who);
+  const create = usePermission("work.create");
   return (
     <>
       <PageHeader
-        kicker="workspace"
+        kicker="group"
         title="Networks"
         actions={
           canCreate(me.data?.role) ? (
             <Link href="/networks/new" className="tk-btn">
               New network
             </Link>
+          ) : create.reason ? (
+            <button type="button" className="tk-btn" disabled aria-describedby="new-network-refusal">
+              New network
+            </button>
           ) : null
         }
       >
-        Saved network descriptions. Each edit is kept as a new version, and every run points at the version it used.
+        Saved network descriptions. Each edit is kept as a new version, and every calculation points at the version it used.
       </PageHeader>
+      {create.reason ? <RefusalNote id="new-network-refusal" reason={create.reason} /> : null}
+      <FirstSteps />
       <DataTable route="GET /api/v1/networks" listKey="networks" columns={columns} label="networks" empty="No networks yet. Create one to see it drawn." />
     </>
   );

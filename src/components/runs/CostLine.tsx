@@ -24,7 +24,7 @@ export function CostLine({ seconds, plan, points = 1, jobSeconds }: { seconds: n
       <CostEstimate computeSeconds={seconds} plan={plan ?? "free"} />
       {overCap ? (
         <p role="alert" className="text-caption text-danger" data-testid="job-cap">
-          {points > 1 ? "One point" : "This run"} is estimated at {formatComputeSeconds(job)}, over the {p.label} plan&apos;s limit of{" "}
+          {points > 1 ? "One point" : "This calculation"} is estimated at {formatComputeSeconds(job)}, over the {p.label} plan&apos;s limit of{" "}
           {formatComputeSeconds(p.maxJobComputeSeconds)} per job; it would be refused.
           {p.id === "free"
             ? ` The ${PLANS.lab.label} plan allows ${formatComputeSeconds(PLANS.lab.maxJobComputeSeconds)}.`
@@ -32,7 +32,8 @@ export function CostLine({ seconds, plan, points = 1, jobSeconds }: { seconds: n
         </p>
       ) : null}
       <p className="text-micro text-fg-faint">
-        {points > 1 ? `For all ${points.toLocaleString("en")} points. ` : ""}You are charged for the compute-seconds actually used.
+        {points > 1 ? `For all ${points.toLocaleString("en")} points. ` : ""}
+        {p.id === "free" ? `Nothing is charged on ${p.label}.` : "You are charged for the compute-seconds actually used."}
       </p>
     </div>
   );

@@ -76,7 +76,7 @@ export function LdosMap({ result, network, runId }: { result: LdosResult; networ
               `ldos-${runId}.csv`,
               ["link", "fromXNm", "fromYNm", "toXNm", "toYNm", "ldosPerMeV"],
               values.map((v, i) => [i, links!.fromXNm[i], links!.fromYNm[i], links!.toXNm[i], links!.toYNm[i], v]),
-              [`Local density of states per link, run ${runId} (model prediction)`],
+              [`Local density of states per link, calculation ${runId} (model prediction)`],
             )
           }
         >

@@ -3,13 +3,18 @@
 import { api } from "@/lib/api";
 import type { NetworkView } from "@/shared/api";
 import { useMe } from "@/components/shell/useMe";
+import { RefusalNote, usePermission } from "@/components/ui/Permission";
 import { ComputationFields, ServerError, useComputationDraft, useStartJob } from "./ComputationForm";
 import { FIELDS, KINDS } from "./computations";
 import { CostLine } from "./CostLine";
 
-/** Form for one run of any computation on a saved network; shows the estimate before submit. */
+/**
+ * Form for one calculation (API: run) of any computation on a saved network; shows the estimate
+ * before submit. A role that may not start it sees the button disabled with the reason.
+ */
 export function RunForm({ network, canSubmit }: { network: NetworkView; canSubmit: boolean }) {
   const me = useMe();
+  const permission = usePermission("work.create");
   const draft = useComputationDraft(network);
   const { kind, computation, check, seconds } = draft;
   const issues = check.ok ? {} : check.issues;
@@ -18,7 +23,7 @@ export function RunForm({ network, canSubmit }: { network: NetworkView; canSubmi
     (run) => `/runs/${run.id}`,
   );
   return (
-    <form aria-label="Run a computation" className="tk-card space-y-4" onSubmit={onSubmit(check.ok)}>
+    <form aria-label="Start a calculation" className="tk-card space-y-4" onSubmit={onSubmit(check.ok)}>
       <div role="radiogroup" aria-label="Computation" className="flex flex-wrap gap-2">
         {KINDS.map((k) => (
           <button
@@ -49,13 +54,15 @@ export function RunForm({ network, canSubmit }: { network: NetworkView; canSubmi
         ))}
       <CostLine seconds={seconds} plan={me.data?.workspace?.plan} />
       <ServerError message={serverError} />
-      {canSubmit ? (
-        <button type="submit" className="tk-btn" disabled={!check.ok || submit.isPending}>
-          {submit.isPending ? "Submitting…" : `Run ${KINDS.find((k) => k.kind === kind)?.label.toLowerCase()}`}
-        </button>
-      ) : (
-        <p className="text-caption text-fg-faint">Your role can read results but not start runs (Owner and Researcher can).</p>
-      )}
+      {!canSubmit && permission.reason ? <RefusalNote id="run-refusal" reason={permission.reason} /> : null}
+      <button
+        type="submit"
+        className="tk-btn"
+        disabled={!canSubmit || !check.ok || submit.isPending}
+        aria-describedby={!canSubmit && permission.reason ? "run-refusal" : undefined}
+      >
+        {submit.isPending ? "Submitting…" : `Run ${KINDS.find((k) => k.kind === kind)?.label.toLowerCase()}`}
+      </button>
     </form>
   );
 }

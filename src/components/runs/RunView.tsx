@@ -30,7 +30,7 @@ export function RunView({ id }: { id: string }) {
     onSuccess: () => client.invalidateQueries({ queryKey: qk.run(id) }),
   });
   if (q.error instanceof ApiClientError && q.error.status === 404) notFound();
-  if (q.error) return <ErrorNote error={q.error} title="Could not load this run" />;
+  if (q.error) return <ErrorNote error={q.error} title="Could not load this calculation" />;
   if (!q.data) return <Skeleton lines={5} />;
   const run = q.data;
   const label = KINDS.find((k) => k.kind === run.kind)?.label ?? run.kind;
@@ -39,7 +39,7 @@ export function RunView({ id }: { id: string }) {
   return (
     <>
       <PageHeader
-        kicker="run"
+        kicker="calculation"
         title={`${label}`}
         actions={
           <>
@@ -55,7 +55,7 @@ export function RunView({ id }: { id: string }) {
             ) : null}
             {live && canCreate(me.data?.role) ? (
               <button type="button" className="tk-btn-quiet border-danger/50 text-danger" onClick={() => cancel.mutate()} disabled={cancel.isPending}>
-                {cancel.isPending ? "Cancelling…" : "Cancel run"}
+                {cancel.isPending ? "Cancelling…" : "Cancel calculation"}
               </button>
             ) : null}
           </>
@@ -71,7 +71,7 @@ export function RunView({ id }: { id: string }) {
           startedAt={run.startedAt}
           createdAt={run.createdAt}
           finishedAt={run.finishedAt}
-          label="Run progress"
+          label="Calculation progress"
         />
       </div>
       {cancel.error ? (

@@ -28,7 +28,7 @@ export function RunsList() {
         <Link
           href={`/runs/${row.original.id}`}
           className="inline-flex items-center gap-2"
-          aria-label={`Run ${row.original.id.slice(0, 8)}, ${row.original.status}`}
+          aria-label={`Calculation ${row.original.id.slice(0, 8)}, ${row.original.status}`}
         >
           <StatusBadge status={row.original.status} />
           {row.original.status === "running" ? <span className="tk-num text-caption text-fg-faint">{Math.round(row.original.progress * 100)}%</span> : null}
@@ -78,8 +78,8 @@ export function RunsList() {
   ];
   return (
     <>
-      <PageHeader kicker="workspace" title="Runs">
-        Single computations, newest first. Start one from a network&apos;s page.
+      <PageHeader kicker="group" title="Calculations">
+        One computation on one network each, newest first. Start one from a network&apos;s page.
       </PageHeader>
       <DataTable
         route="GET /api/v1/runs"
@@ -90,14 +90,14 @@ export function RunsList() {
           { id: "status", label: "Status", options: STATUS_OPTIONS },
           { id: "kind", label: "Computation", options: KINDS.map((k) => ({ value: k.kind, label: k.label })) },
         ]}
-        label="runs"
+        label="calculations"
         empty={
           <>
-            No runs yet. Open a{" "}
+            No calculations yet. Open a{" "}
             <Link href="/networks" className="text-accent underline">
               network
             </Link>{" "}
-            and run a computation.
+            and start one.
           </>
         }
       />

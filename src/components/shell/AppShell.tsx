@@ -4,7 +4,9 @@ import Link from "next/link";
 import { usePathname } from "next/navigation";
 import type { ReactNode } from "react";
 import { ROLE_LABELS, type Role } from "@/shared/permissions";
-import { Mark } from "./Mark";
+import { SignOutButton } from "@/components/auth/SignOut";
+import { Logo } from "./Logo";
+import { RememberGroup } from "./lastGroup";
 import { ThemeSwitch } from "./ThemeSwitch";
 import { WorkspaceSwitcher } from "./WorkspaceSwitcher";
 import { canBill, useMe } from "./useMe";
@@ -18,11 +20,11 @@ interface NavItem {
 
 const NAV: NavItem[] = [
   { href: "/networks", label: "Networks", hint: "descriptions, drawn" },
-  { href: "/runs", label: "Runs", hint: "single computations" },
-  { href: "/sweeps", label: "Sweeps", hint: "grids over parameters" },
+  { href: "/runs", label: "Calculations", hint: "one computation each" },
+  { href: "/sweeps", label: "Scans", hint: "grids over parameters" },
   { href: "/datasets", label: "Datasets", hint: "measured curves" },
   { href: "/fits", label: "Fits", hint: "model to data" },
-  { href: "/workspace", label: "Workspace", hint: "members, API tokens" },
+  { href: "/workspace", label: "Group", hint: "members, API tokens" },
   { href: "/billing", label: "Billing", hint: "plan, seats, spend cap", show: canBill },
 ];
 
@@ -39,12 +41,12 @@ export function AppShell({ children }: { children: ReactNode }) {
       >
         Skip to content
       </a>
-      <aside className="border-b border-line bg-surface-sunk lg:sticky lg:top-0 lg:h-screen lg:border-b-0 lg:border-r">
-        <div className="flex items-center gap-2 px-4 py-4">
-          <Mark />
-          <Link href="/networks" className="text-lead font-semibold tracking-tight">
-            Triskel
-          </Link>
+      <aside
+        data-testid="sidebar"
+        className="border-b border-line bg-surface-sunk lg:sticky lg:top-0 lg:h-screen lg:self-start lg:overflow-y-auto lg:border-b-0 lg:border-r"
+      >
+        <div className="px-4 py-4">
+          <Logo href="/networks" className="text-lead" />
         </div>
         <WorkspaceSwitcher />
         <nav aria-label="Main" className="px-2 pb-4">
@@ -72,19 +74,26 @@ export function AppShell({ children }: { children: ReactNode }) {
             })}
           </ul>
         </nav>
-        <div className="hidden space-y-3 border-t border-line px-4 py-4 lg:block">
-          <Link href="/manual" className="block text-caption text-accent hover:underline">
+        <div className="flex flex-wrap items-center gap-x-4 gap-y-3 border-t border-line px-4 py-4 lg:block lg:space-y-3">
+          <Link href="/manual" className="hidden text-caption text-accent underline lg:block">
             Model manual
           </Link>
-          <ThemeSwitch />
+          <Link href="/status" className="hidden text-caption text-accent underline lg:block">
+            Service status
+          </Link>
+          <div className="hidden lg:block">
+            <ThemeSwitch />
+          </div>
           {me.data?.user ? (
-            <p className="text-caption text-fg-faint">
+            <p className="text-caption text-fg-faint" data-testid="signed-in-as">
               {me.data.user.name || me.data.user.email}
               {role ? <span className="ml-1 rounded bg-surface px-1 text-micro uppercase tracking-wide text-fg-soft">{ROLE_LABELS[role]}</span> : null}
             </p>
           ) : null}
+          <SignOutButton className="tk-btn-quiet" />
         </div>
       </aside>
+      <RememberGroup />
       <main id="main" className="min-w-0 px-gutter py-6 lg:px-10">
         {children}
       </main>

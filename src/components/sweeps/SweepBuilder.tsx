@@ -7,6 +7,7 @@ import { axisLabel, PARAMETER_UNITS } from "@/lib/units";
 import { PLANS } from "@/shared/plans";
 import { Field, NumberInput, Select } from "@/components/ui/Field";
 import { useMe } from "@/components/shell/useMe";
+import { RefusalNote, UpgradeHint, usePermission } from "@/components/ui/Permission";
 import { ComputationFields, ServerError, useComputationDraft, useStartJob } from "@/components/runs/ComputationForm";
 import { KINDS } from "@/components/runs/computations";
 import { CostLine } from "@/components/runs/CostLine";
@@ -48,7 +49,10 @@ export function axisFromDraft(a: AxisDraft): { axis: SweepAxisRequest; count: nu
   return { axis: { parameter: a.parameter, from, to, points }, count: points };
 }
 
-/** A sweep over one or two parameters, values or ranges, with the point count and the estimate. */
+/**
+ * A scan (API: sweep) over one or two parameters, values or ranges, with the point count, the
+ * plan's limit (an over-limit scan cannot be started; the way to a larger plan is shown) and the estimate.
+ */
 export function SweepBuilder({ network, canSubmit }: { network: NetworkView; canSubmit: boolean }) {
   const me = useMe();
   const plan = me.data?.workspace?.plan ?? "free";
@@ -68,7 +72,8 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
     samples !== "" && (!Number.isInteger(ensembleN) || ensembleN < 1) ? "ensemble size must be a whole number, at least 1 (blank: one sample)" : undefined;
   const limit = PLANS[plan].maxSweepPoints;
   const overLimit = pointCount > limit;
-  const ok = check.ok && axisOk && !duplicate && !ensembleError && pointCount > 0;
+  const ok = check.ok && axisOk && !duplicate && !ensembleError && pointCount > 0 && !overLimit;
+  const permission = usePermission("work.create");
 
   const { submit, serverError, onSubmit } = useStartJob(
     () =>
@@ -85,7 +90,7 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
 
   const setAxis = (i: number, patch: Partial<AxisDraft>) => setAxes((list) => list.map((a, k) => (k === i ? { ...a, ...patch } : a)));
   return (
-    <form aria-label="Build a sweep" className="tk-card space-y-4" onSubmit={onSubmit(ok)}>
+    <form aria-label="Build a scan" className="tk-card space-y-4" onSubmit={onSubmit(ok)}>
       <div className="grid gap-3 sm:grid-cols-3">
         <Field id="sweep.kind" label="Computation at each point">
           <Select
@@ -207,9 +212,20 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
         {samples !== "" && !ensembleError ? ` × ${ensembleN} seeds` : ""}
         <span className={overLimit ? "text-danger" : "text-fg-faint"}>
           {" "}
-          · the {PLANS[plan].label} plan allows up to {limit.toLocaleString("en")} points per sweep
+          · the {PLANS[plan].label} plan allows up to {limit.toLocaleString("en")} points per scan
         </span>
       </p>
+      {overLimit && axisOk ? (
+        <p
+          id="scan-limit"
+          role="alert"
+          className="rounded-field border border-danger/40 bg-danger-soft p-2.5 text-caption text-danger"
+          data-testid="scan-limit"
+        >
+          {pointCount.toLocaleString("en")} points is over the {PLANS[plan].label} plan&apos;s {limit.toLocaleString("en")}; this scan would be refused. Use
+          fewer points, or <UpgradeHint plan={plan} /> (up to {PLANS.lab.maxSweepPoints.toLocaleString("en")} points).
+        </p>
+      ) : null}
       <CostLine
         seconds={perPoint === null || !axisOk ? null : perPoint * pointCount * (ensembleError ? 1 : ensembleN)}
         plan={plan}
@@ -217,13 +233,15 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
         jobSeconds={perPoint === null ? null : perPoint * (ensembleError ? 1 : ensembleN)}
       />
       <ServerError message={serverError} />
-      {canSubmit ? (
-        <button type="submit" className="tk-btn" disabled={!ok || submit.isPending}>
-          {submit.isPending ? "Submitting…" : `Start sweep of ${axisOk ? pointCount : "–"} points`}
-        </button>
-      ) : (
-        <p className="text-caption text-fg-faint">Your role can read results but not start sweeps.</p>
-      )}
+      {!canSubmit && permission.reason ? <RefusalNote id="scan-refusal" reason={permission.reason} /> : null}
+      <button
+        type="submit"
+        className="tk-btn"
+        disabled={!canSubmit || !ok || submit.isPending}
+        aria-describedby={!canSubmit && permission.reason ? "scan-refusal" : overLimit && axisOk ? "scan-limit" : undefined}
+      >
+        {submit.isPending ? "Submitting…" : `Start scan of ${axisOk ? pointCount : "–"} points`}
+      </button>
     </form>
   );
 }

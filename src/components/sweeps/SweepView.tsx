@@ -48,7 +48,7 @@ export function SweepView({ id }: { id: string }) {
   }, [s]);
   const quantity = chosen && names.includes(chosen) ? chosen : preferredQuantity(names);
   if (q.error instanceof ApiClientError && q.error.status === 404) notFound();
-  if (q.error) return <ErrorNote error={q.error} title="Could not load this sweep" />;
+  if (q.error) return <ErrorNote error={q.error} title="Could not load this scan" />;
   if (!s) return <Skeleton lines={5} />;
   const live = LIVE.has(s.status);
   const values = quantity ? (s.grid.quantities[quantity] ?? []) : [];
@@ -62,10 +62,10 @@ export function SweepView({ id }: { id: string }) {
     <>
       <PageHeader
         kicker={
-          `sweep · ${s.axes.length} axis${s.axes.length > 1 ? "es" : ""} · ` + `${s.pointCount} points${s.ensemble ? ` × ${s.ensemble.samples} seeds` : ""}`
+          `scan · ${s.axes.length} axis${s.axes.length > 1 ? "es" : ""} · ` + `${s.pointCount} points${s.ensemble ? ` × ${s.ensemble.samples} seeds` : ""}`
         }
         title={
-          `${KIND_LABEL[s.input?.computation?.kind ?? "conductance"] ?? "Sweep"} ` +
+          `${KIND_LABEL[s.input?.computation?.kind ?? "conductance"] ?? "Scan"} ` +
           `over ${s.axes.map((a) => (PARAMETER_UNITS[a.parameter]?.label ?? a.parameter).toLowerCase()).join(" and ")}`
         }
         actions={
@@ -80,7 +80,7 @@ export function SweepView({ id }: { id: string }) {
             </a>
             {live && canCreate(me.data?.role) ? (
               <button type="button" className="tk-btn-quiet border-danger/50 text-danger" onClick={() => cancel.mutate()} disabled={cancel.isPending}>
-                {cancel.isPending ? "Cancelling…" : "Cancel sweep"}
+                {cancel.isPending ? "Cancelling…" : "Cancel scan"}
               </button>
             ) : null}
           </>
@@ -90,7 +90,7 @@ export function SweepView({ id }: { id: string }) {
         {computeSeconds(s.computeSeconds ?? 0)}
       </PageHeader>
       <div className="max-w-3xl space-y-2">
-        <Progress status={s.status} progress={s.progress} startedAt={s.startedAt} createdAt={s.createdAt} finishedAt={s.finishedAt} label="Sweep progress" />
+        <Progress status={s.status} progress={s.progress} startedAt={s.startedAt} createdAt={s.createdAt} finishedAt={s.finishedAt} label="Scan progress" />
         {s.counts ? (
           <p className="text-caption text-fg-soft tk-num" data-testid="sweep-counts">
             {s.counts.succeeded} done · {s.counts.running} running · {s.counts.queued} queued{s.counts.failed ? ` · ${s.counts.failed} failed` : ""}
@@ -127,7 +127,7 @@ export function SweepView({ id }: { id: string }) {
             csv={{
               header: [a0.parameter, quantity, ...(errName ? [errName] : [])],
               rows: a0.values.map((x, i) => [x, values[i], ...(errs ? [errs[i]] : [])]),
-              comments: [`Sweep ${s.id}; ${done} of ${s.pointCount} points; model prediction`],
+              comments: [`Scan ${s.id}; ${done} of ${s.pointCount} points; model prediction`],
             }}
           />
         ) : (
@@ -144,7 +144,7 @@ export function SweepView({ id }: { id: string }) {
             csv={{
               header: [a0.parameter, a1.parameter, quantity],
               rows: values.map((v, i) => [a0.values[Math.floor(i / a1.values.length)], a1.values[i % a1.values.length], v]),
-              comments: [`Sweep ${s.id}; ${done} of ${s.pointCount} points; model prediction`],
+              comments: [`Scan ${s.id}; ${done} of ${s.pointCount} points; model prediction`],
             }}
           />
         )}

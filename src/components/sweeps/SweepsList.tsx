@@ -29,7 +29,7 @@ export function SweepsList() {
     },
     {
       id: "axes",
-      header: "Sweep",
+      header: "Scan",
       cell: ({ row }) => (
         <Link href={`/sweeps/${row.original.id}`} className="font-medium text-accent hover:underline">
           {row.original.name || row.original.axes.map((a) => axisLabel(a.parameter)).join(" × ")}
@@ -75,18 +75,18 @@ export function SweepsList() {
   ];
   return (
     <>
-      <PageHeader kicker="workspace" title="Sweeps">
-        Grids of runs over one or two parameters, each point optionally an ensemble of disorder seeds. Build one from a network&apos;s page.
+      <PageHeader kicker="group" title="Scans">
+        Grids of calculations over one or two parameters, each point optionally an ensemble of disorder seeds. Build one from a network&apos;s page.
       </PageHeader>
       <DataTable
         route="GET /api/v1/sweeps"
         listKey="sweeps"
         columns={columns}
         filters={[{ id: "status", label: "Status", options: STATUS_OPTIONS }]}
-        label="sweeps"
+        label="scans"
         empty={
           <>
-            No sweeps yet. Open a{" "}
+            No scans yet. Open a{" "}
             <Link href="/networks" className="text-accent underline">
               network
             </Link>{" "}

@@ -151,21 +151,24 @@ export function DataTable<R extends ListRoute & ApiRoute, K extends ListKey<R>>(
           </table>
         </div>
       ) : null}
-      <div className="flex items-center gap-2 text-caption text-fg-soft">
-        <button type="button" className="tk-btn-quiet" disabled={cursors.length <= 1} onClick={() => setCursors((c) => c.slice(0, -1))}>
-          ← Newer
-        </button>
-        <span>Page {cursors.length}</span>
-        <button
-          type="button"
-          className="tk-btn-quiet"
-          disabled={!q.data?.nextCursor}
-          onClick={() => q.data?.nextCursor && setCursors((c) => [...c, q.data!.nextCursor!])}
-        >
-          Older →
-        </button>
-        {q.isFetching ? <span className="text-fg-faint">updating…</span> : null}
-      </div>
+      {/* Paging only when there is more than one page (an empty or short list has none). */}
+      {cursors.length > 1 || q.data?.nextCursor ? (
+        <div className="flex items-center gap-2 text-caption text-fg-soft" data-testid="pagination">
+          <button type="button" className="tk-btn-quiet" disabled={cursors.length <= 1} onClick={() => setCursors((c) => c.slice(0, -1))}>
+            ← Newer
+          </button>
+          <span>Page {cursors.length}</span>
+          <button
+            type="button"
+            className="tk-btn-quiet"
+            disabled={!q.data?.nextCursor}
+            onClick={() => q.data?.nextCursor && setCursors((c) => [...c, q.data!.nextCursor!])}
+          >
+            Older →
+          </button>
+          {q.isFetching ? <span className="text-fg-faint">updating…</span> : null}
+        </div>
+      ) : null}
     </div>
   );
 }

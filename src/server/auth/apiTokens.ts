@@ -70,8 +70,8 @@ export async function createToken(caller: Caller, input: z.infer<typeof createTo
     if (active >= cap)
       throw new ApiError(
         "conflict",
-        `You already have ${active} active API tokens in this workspace, the most a member may hold (${cap}); ` +
-          "revoke one you no longer use first (Workspace → API tokens, or DELETE /api/v1/tokens/{id}).",
+        `You already have ${active} active API tokens in this group, the most a member may hold (${cap}); ` +
+          "revoke one you no longer use first (Group → API tokens, or DELETE /api/v1/tokens/{id}).",
         { limit: cap, active },
       );
     const [created] = await tx
@@ -101,7 +101,7 @@ export async function revokeToken(caller: Caller, id: string): Promise<TokenView
   const db = getDb();
   const where = and(eq(apiTokens.id, id), eq(apiTokens.workspaceId, caller.workspaceId), eq(apiTokens.userId, caller.userId));
   const [row] = await db.select(columns).from(apiTokens).where(where);
-  if (!row) throw new ApiError("not_found", `No API token with id ${id} among yours in this workspace.`);
+  if (!row) throw new ApiError("not_found", `No API token with id ${id} among yours in this group.`);
   if (row.revokedAt) return view(row);
   const [updated] = await db.update(apiTokens).set({ revokedAt: new Date() }).where(where).returning(columns);
   return view(updated);

@@ -4,7 +4,7 @@ import { getDb } from "@/server/db";
 import { apiTokens, memberships, workspaces } from "@/server/db/schema";
 import { ApiError } from "@/server/http/errors";
 import { assertFailedBudgetLeft, consumeMemberBudget, countFailedRequest } from "@/server/http/rate-limit";
-import { can, describeAction, lesserRole, rolesAllowed, ROLE_LABELS, type Action, type Role } from "@/shared/permissions";
+import { can, lesserRole, refusalReason, type Action, type Role } from "@/shared/permissions";
 import { effectivePlan, type PlanId } from "@/shared/plans";
 import { hashToken, looksLikeToken } from "./tokens";
 
@@ -67,7 +67,7 @@ export async function getCaller(req: Request): Promise<Caller> {
     return fromSession;
   }
   await countFailedRequest(req);
-  throw new ApiError("unauthenticated", "Sign in, or send `Authorization: Bearer <API token>` (create one under Workspace → API tokens).");
+  throw new ApiError("unauthenticated", "Sign in, or send `Authorization: Bearer <API token>` (create one under Group → API tokens).");
 }
 
 /** Hashes of tokens that authenticated in this process, with when (bounded; entries expire). */
@@ -128,7 +128,7 @@ export async function callerFromToken(secret: string): Promise<Caller> {
     .limit(1);
   if (!row) throw new ApiError("unauthenticated", "Unknown API token.");
   if (row.revokedAt) throw new ApiError("unauthenticated", "This API token was revoked; create a new one.");
-  if (!row.memberRole) throw new ApiError("unauthenticated", "The member who created this API token is no longer in its workspace.");
+  if (!row.memberRole) throw new ApiError("unauthenticated", "The member who created this API token is no longer in its group.");
   // Record last use at most once a minute per token.
   const now = Date.now();
   if ((lastUsedWrites.get(row.id) ?? 0) < now - 60_000) {
@@ -150,11 +150,9 @@ export async function callerFromToken(secret: string): Promise<Caller> {
 
 /** Throws 403 with a message naming the action and the roles that may do it. */
 export function requirePermission(caller: Caller, action: Action): void {
-  if (can(caller.role, action)) return;
-  const allowed = rolesAllowed(action)
-    .map((r) => ROLE_LABELS[r])
-    .join(", ");
-  throw new ApiError("forbidden", `Your role (${ROLE_LABELS[caller.role]}) cannot ${describeAction(action)}; allowed: ${allowed}.`, {
+  const reason = refusalReason(caller.role, action);
+  if (reason === null) return;
+  throw new ApiError("forbidden", reason, {
     action,
     role: caller.role,
   });

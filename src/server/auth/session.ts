@@ -71,8 +71,7 @@ export async function callerForSession(facts: SessionFacts): Promise<Caller> {
     const clerk = await clerkClient();
     const list = await clerk.users.getOrganizationMembershipList({ userId: facts.clerkUserId, limit: 100 });
     const m = list.data.find((x) => x.organization.id === facts.clerkOrgId);
-    if (!m)
-      throw new ApiError("forbidden", "You are not a member of the workspace this session has selected; switch workspace or ask its Owner for an invitation.");
+    if (!m) throw new ApiError("forbidden", "You are not a member of the group this session has selected; switch group or ask its Owner for an invitation.");
     ws = ws ?? (await upsertOrgWorkspace({ clerkOrgId: m.organization.id, name: m.organization.name, slug: m.organization.slug ?? "" }));
     role = roleFromClerk(m.role);
     await setMembership(ws.id, user.id, role);

@@ -7,6 +7,7 @@ import "@/server/server-only";
 import { and, eq } from "drizzle-orm";
 import { getDb } from "@/server/db";
 import { memberships, users, workspaces } from "@/server/db/schema";
+import { addExampleNetwork } from "@/server/onboarding/example-network";
 import type { Role } from "@/shared/permissions";
 
 export type UserRow = typeof users.$inferSelect;
@@ -66,15 +67,19 @@ export async function ensurePersonalWorkspace(user: UserRow): Promise<WorkspaceR
   const db = getDb();
   const slug = personalSlug(user.clerkUserId ?? user.id);
   let [ws] = await db.select().from(workspaces).where(eq(workspaces.slug, slug));
+  let created = false;
   if (!ws) {
     [ws] = await db
       .insert(workspaces)
       .values({ name: `${user.name || user.email} (personal)`, slug, kind: "personal", plan: "free" })
       .onConflictDoNothing({ target: workspaces.slug })
       .returning();
+    created = Boolean(ws);
     if (!ws) [ws] = await db.select().from(workspaces).where(eq(workspaces.slug, slug));
   }
   await db.insert(memberships).values({ workspaceId: ws.id, userId: user.id, role: "owner" }).onConflictDoNothing();
+  // A new group starts with its example network (only the request that created the row adds it).
+  if (created) await addExampleNetwork(ws.id, user.id);
   return ws;
 }
 
@@ -97,7 +102,10 @@ export async function upsertOrgWorkspace(facts: ClerkOrgFacts): Promise<Workspac
     .values({ name: facts.name, slug, kind: "lab", clerkOrgId: facts.clerkOrgId, plan: "free" })
     .onConflictDoNothing()
     .returning();
-  if (row) return row;
+  if (row) {
+    await addExampleNetwork(row.id, null);
+    return row;
+  }
   const [again] = await db.select().from(workspaces).where(eq(workspaces.clerkOrgId, facts.clerkOrgId));
   return again;
 }

@@ -43,7 +43,7 @@ export async function budgetState(workspaceId: string, db: Executor = getDb()): 
         + (select coalesce(sum(f.estimated_compute_seconds), 0)::float8 from fits f
           where f.workspace_id = w.id and f.status in ('queued', 'running')) as reserved
     from workspaces w where w.id = ${workspaceId}`);
-  if (!row) throw new ApiError("not_found", "Workspace not found.");
+  if (!row) throw new ApiError("not_found", "Group not found.");
   const plan = effectivePlan(row.plan, row.plan_state);
   const used = Number(row.used);
   const reserved = Number(row.reserved);

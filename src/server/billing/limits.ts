@@ -11,37 +11,66 @@ export type PlanLimitName = "maxCellsPerSide" | "maxSweepPoints" | "maxEnsembleS
 
 const count = (x: number) => x.toLocaleString("en-US");
 
+/** What each limit counts, in words (the message never quotes a field or limit name; `details.limit` carries it). */
+const PER: Record<PlanLimitName, string> = {
+  maxCellsPerSide: "cells per side",
+  maxSweepPoints: "points per scan",
+  maxEnsembleSamples: "disorder seeds per ensemble",
+  maxJobComputeSeconds: "per job",
+};
+
 function refuse(plan: PlanId, limit: PlanLimitName, value: number, requested: number, what: string, format = count, unit?: string): never {
   const p = PLANS[plan];
   const lab = PLANS.lab;
-  const upgrade = plan === "free" && lab[limit] > p[limit] ? ` The ${lab.label} plan allows ${format(lab[limit])}.` : "";
+  const upgrade =
+    plan === "free" && lab[limit] > p[limit]
+      ? ` The ${lab.label} plan allows ${format(lab[limit])} ${PER[limit]}; an Owner or Billing admin can upgrade the group on its Billing page.`
+      : "";
   throw new ApiError(
     plan === "free" ? "payment_required" : "invalid_input",
-    `${what} is ${format(requested)}, over the ${p.label} plan's limit ${limit} = ${format(value)}.${upgrade}`,
-    { limit, value, requested, plan, ...(unit ? { unit } : {}) },
+    `${what}, over the ${p.label} plan's limit of ${format(value)} ${PER[limit]}.${upgrade}`,
+    {
+      limit,
+      value,
+      requested,
+      plan,
+      ...(unit ? { unit } : {}),
+    },
   );
 }
 
 /**
- * The per-job compute-time cap: one run, one sweep point or one whole fit whose estimate is over
- * the plan's maxJobComputeSeconds is refused before anything is written (dry runs too).
+ * The per-job compute-time cap: one calculation, one scan point or one whole fit whose estimate is
+ * over the plan's maxJobComputeSeconds is refused before anything is written (dry runs too).
  */
 export function assertJobComputeWithinPlan(plan: PlanId, estimatedSeconds: number, what: string): void {
   const max = PLANS[plan].maxJobComputeSeconds;
   if (estimatedSeconds > max)
-    refuse(plan, "maxJobComputeSeconds", max, estimatedSeconds, `${what}: the estimated compute time`, formatComputeTime, "compute-seconds");
+    refuse(
+      plan,
+      "maxJobComputeSeconds",
+      max,
+      estimatedSeconds,
+      `${what}: the estimated compute time is ${formatComputeTime(estimatedSeconds)}`,
+      formatComputeTime,
+      "compute-seconds",
+    );
 }
 
+/** `where` names the network in the message when it is one of many ("point 3: network.size"). */
 export function assertNetworkWithinPlan(plan: PlanId, size: { columns: number; rows: number }, where = "network.size"): void {
   const max = PLANS[plan].maxCellsPerSide;
-  if (size.columns > max) refuse(plan, "maxCellsPerSide", max, size.columns, `${where}.columns`);
-  if (size.rows > max) refuse(plan, "maxCellsPerSide", max, size.rows, `${where}.rows`);
+  const lead = where.replace(/network\.size$/, "");
+  const what = `${lead}${lead ? "the" : "The"} network is ${count(size.columns)} × ${count(size.rows)} cells`;
+  if (size.columns > max) refuse(plan, "maxCellsPerSide", max, size.columns, what);
+  if (size.rows > max) refuse(plan, "maxCellsPerSide", max, size.rows, what);
 }
 
 export function assertSweepWithinPlan(plan: PlanId, gridPoints: number, ensembleSamples: number): void {
   const p = PLANS[plan];
-  if (gridPoints > p.maxSweepPoints) refuse(plan, "maxSweepPoints", p.maxSweepPoints, gridPoints, "The sweep's number of points");
-  if (ensembleSamples > p.maxEnsembleSamples) refuse(plan, "maxEnsembleSamples", p.maxEnsembleSamples, ensembleSamples, "ensemble.samples");
+  if (gridPoints > p.maxSweepPoints) refuse(plan, "maxSweepPoints", p.maxSweepPoints, gridPoints, `The scan has ${count(gridPoints)} points`);
+  if (ensembleSamples > p.maxEnsembleSamples)
+    refuse(plan, "maxEnsembleSamples", p.maxEnsembleSamples, ensembleSamples, `The ensemble has ${count(ensembleSamples)} disorder seeds`);
 }
 
 /** BullMQ priority of a plan's jobs (lower runs first). */
@@ -53,5 +82,5 @@ export function queuePriority(plan: PlanId): number {
 export function assertEnsembleWithinPlan(plan: PlanId, input: { computation: unknown }): void {
   const samples = (input.computation as { ensemble?: { samples?: number } })?.ensemble?.samples;
   const max = PLANS[plan].maxEnsembleSamples;
-  if (typeof samples === "number" && samples > max) refuse(plan, "maxEnsembleSamples", max, samples, "computation.ensemble.samples");
+  if (typeof samples === "number" && samples > max) refuse(plan, "maxEnsembleSamples", max, samples, `The ensemble has ${count(samples)} disorder seeds`);
 }

@@ -37,7 +37,7 @@ export function spendCapMessage(input: {
       : "When the cap is reached, new runs and sweeps whose estimate would exceed it are refused.",
     `Review usage per member or change the cap: ${input.billingUrl}`,
     "",
-    "You receive this as an Owner or Billing admin of the workspace.",
+    "You receive this as an Owner or Billing admin of the group.",
   ].join("\n");
   return { subject, text };
 }

@@ -21,7 +21,7 @@ export type { CheckoutStart, InvoiceView };
 
 async function workspaceOf(workspaceId: string, db: Executor = getDb()) {
   const [ws] = await db.select().from(workspaces).where(eq(workspaces.id, workspaceId));
-  if (!ws) throw new ApiError("not_found", "Workspace not found.");
+  if (!ws) throw new ApiError("not_found", "Group not found.");
   return ws;
 }
 
@@ -58,7 +58,7 @@ export async function startCheckout(caller: Caller): Promise<CheckoutStart> {
   requirePermission(caller, "billing.manage");
   const ws = await workspaceOf(caller.workspaceId);
   if (ws.plan === "lab" && ws.stripeSubscriptionId)
-    throw new ApiError("conflict", "This workspace is already on the Lab plan; change seats or payment details instead.");
+    throw new ApiError("conflict", "This group is already on the Lab plan; change seats or payment details instead.");
   const seats = Math.max(1, await memberCount(ws.id));
   const customer = await ensureCustomer(ws);
   try {
@@ -85,7 +85,7 @@ export async function startCheckout(caller: Caller): Promise<CheckoutStart> {
 export async function openPortal(caller: Caller): Promise<{ url: string }> {
   requirePermission(caller, "billing.manage");
   const ws = await workspaceOf(caller.workspaceId);
-  if (!ws.stripeCustomerId) throw new ApiError("conflict", "This workspace has no payment account yet: upgrade to Lab first.");
+  if (!ws.stripeCustomerId) throw new ApiError("conflict", "This group has no payment account yet: upgrade to Lab first.");
   try {
     const s = await getStripe().billingPortal.sessions.create({ customer: ws.stripeCustomerId, return_url: `${env().APP_URL}/billing` });
     return { url: s.url };
@@ -96,7 +96,7 @@ export async function openPortal(caller: Caller): Promise<{ url: string }> {
 
 /** The seat quantity of the Lab subscription in Stripe set to `seats` (Stripe prorates); the row mirrors Stripe's answer. */
 async function applySeats(db: Executor, ws: typeof workspaces.$inferSelect, seats: number): Promise<number> {
-  if (!ws.stripeSubscriptionId) throw new ApiError("conflict", "This workspace has no Lab subscription; seats are bought with the upgrade to Lab.");
+  if (!ws.stripeSubscriptionId) throw new ApiError("conflict", "This group has no Lab subscription; seats are bought with the upgrade to Lab.");
   const stripe = getStripe();
   try {
     const sub = await stripe.subscriptions.retrieve(ws.stripeSubscriptionId);
@@ -142,7 +142,7 @@ export async function getSeats(caller: Caller): Promise<SeatsView> {
 
 function requireSubscription(ws: typeof workspaces.$inferSelect) {
   if (ws.plan !== "lab" || !ws.stripeSubscriptionId)
-    throw new ApiError("conflict", "This workspace has no Lab subscription; seats are bought with the upgrade to Lab.");
+    throw new ApiError("conflict", "This group has no Lab subscription; seats are bought with the upgrade to Lab.");
 }
 
 /**

@@ -1,7 +1,7 @@
 import "@/server/server-only";
 import { sql } from "drizzle-orm";
 import { computeCostUsd } from "@/shared/plans";
-import { requirePermission, type Caller } from "@/server/auth";
+import { can, requirePermission, type Caller } from "@/server/auth";
 import { getDb } from "@/server/db";
 import { ApiError } from "@/server/http/errors";
 import { billingPeriod, budgetState } from "./budget";
@@ -20,6 +20,8 @@ export function parsePeriod(value: string | null): string {
 
 export async function usageReport(caller: Caller, period = billingPeriod()): Promise<UsageReport> {
   requirePermission(caller, "usage.view");
+  // Every member's rows for Owners and Billing admins; others see the group's totals and their own rows only.
+  const everyone = can(caller.role, "usage.members");
   const db = getDb();
   const state = await budgetState(caller.workspaceId);
   const members = (await db.execute(sql`
@@ -50,6 +52,7 @@ export async function usageReport(caller: Caller, period = billingPeriod()): Pro
     from usage_ledger l where l.workspace_id = ${caller.workspaceId} and l.period = ${period}
     group by 1, 2 order by 1, 2`)) as unknown as { date: string; user_id: string | null; seconds: number }[];
   const memberRows: MemberUsage[] = members
+    .filter((m) => everyone || m.user_id === caller.userId)
     .map((m) => ({
       userId: m.user_id,
       name: m.name,
@@ -61,15 +64,17 @@ export async function usageReport(caller: Caller, period = billingPeriod()): Pro
       costUsd: computeCostUsd("lab", Number(m.lab_seconds)),
     }))
     .sort((a, b) => b.computeSeconds - a.computeSeconds || a.name.localeCompare(b.name));
-  const total = memberRows.reduce((a, m) => a + m.computeSeconds, 0);
+  const allRows = members.map((m) => ({ seconds: Number(m.seconds), costUsd: computeCostUsd("lab", Number(m.lab_seconds)) }));
+  const total = allRows.reduce((a, m) => a + m.seconds, 0);
   return {
     period,
     plan: state.plan,
     computeSeconds: total,
-    costUsd: memberRows.reduce((a, m) => a + m.costUsd, 0),
+    costUsd: allRows.reduce((a, m) => a + m.costUsd, 0),
     includedComputeSeconds: state.includedComputeSeconds,
     spendCapUsd: state.spendCapUsd,
+    membersShown: everyone ? "all" : "own",
     members: memberRows,
-    days: days.map((d) => ({ date: d.date, userId: d.user_id, computeSeconds: Number(d.seconds) })),
+    days: days.filter((d) => everyone || d.user_id === caller.userId).map((d) => ({ date: d.date, userId: d.user_id, computeSeconds: Number(d.seconds) })),
   };
 }

@@ -237,7 +237,7 @@ async function applyEvent(tx: Tx, event: Stripe.Event, confirmed: Confirmed): Pr
       const mismatch = customerMismatch(ws, customer);
       if (mismatch) return mismatch;
       if (ws.stripeSubscriptionId && ws.stripeSubscriptionId !== sub.id && ws.plan === "lab")
-        return { workspaceId: ws.id, outcome: "ignored: not the workspace's current subscription" };
+        return { workspaceId: ws.id, outcome: "ignored: not the group's current subscription" };
       const seats = seatQuantity(sub);
       const base = { stripeSubscriptionId: sub.id, stripeCustomerId: customer, seats, updatedAt: new Date() };
       if (sub.status === "active" || sub.status === "trialing") {
@@ -284,7 +284,7 @@ async function applyEvent(tx: Tx, event: Stripe.Event, confirmed: Confirmed): Pr
       const mismatch = customerMismatch(ws, customer);
       if (mismatch) return mismatch;
       if (ws.stripeSubscriptionId && ws.stripeSubscriptionId !== sub.id)
-        return { workspaceId: ws.id, outcome: "ignored: not the workspace's current subscription" };
+        return { workspaceId: ws.id, outcome: "ignored: not the group's current subscription" };
       if (sub.status !== "canceled" && sub.status !== "incomplete_expired")
         return { workspaceId: ws.id, outcome: `ignored: Stripe says subscription ${sub.id} is ${sub.status}, not ended` };
       await tx

@@ -241,12 +241,12 @@ const uuidRe = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i
 
 export async function loadDataset(caller: Caller, id: string): Promise<Row> {
   requirePermission(caller, "results.view");
-  if (!uuidRe.test(id)) throw new ApiError("not_found", `No dataset ${id} in this workspace.`);
+  if (!uuidRe.test(id)) throw new ApiError("not_found", `No dataset ${id} in this group.`);
   const [row] = await getDb()
     .select()
     .from(datasets)
     .where(and(eq(datasets.id, id), eq(datasets.workspaceId, caller.workspaceId)));
-  if (!row) throw new ApiError("not_found", `No dataset ${id} in this workspace.`);
+  if (!row) throw new ApiError("not_found", `No dataset ${id} in this group.`);
   return row;
 }
 

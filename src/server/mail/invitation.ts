@@ -12,7 +12,7 @@ export function invitationMail(input: {
   const until = input.expiresAt.toUTCString().replace(/:\d\d GMT$/, " UTC");
   const subject = `${input.inviterName} invites you to ${input.workspaceName} on Triskel`;
   const text = [
-    `${input.inviterName} invites you to join the workspace "${input.workspaceName}" on Triskel as ${input.roleLabel}.`,
+    `${input.inviterName} invites you to join the group "${input.workspaceName}" on Triskel as ${input.roleLabel}.`,
     "",
     `Accept the invitation: ${input.link}`,
     "",

@@ -52,7 +52,7 @@ export function networkView(n: NetworkRow, v: VersionRow, inUse?: { runs: number
 }
 
 function notFound(id: string): never {
-  throw new ApiError("not_found", `No network with id ${id} in this workspace.`, { networkId: id });
+  throw new ApiError("not_found", `No network with id ${id} in this group.`, { networkId: id });
 }
 
 export async function createNetwork(caller: Caller, body: unknown) {

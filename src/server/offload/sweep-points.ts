@@ -41,7 +41,7 @@ export function checkSweepPoints(task: SweepPointsTask): { total: number; points
   for (let i = 0; i < pointCount; i++) {
     let input: ComputeInput;
     const coordinates = pointCoordinates(axes, i);
-    const where = `sweep point ${i} (${Object.entries(coordinates)
+    const where = `scan point ${i} (${Object.entries(coordinates)
       .map(([k, v]) => `${k} = ${v}`)
       .join(", ")})`;
     try {

@@ -57,7 +57,7 @@ export async function resolveSubmission(
   let network = body.network;
   let networkVersionId: string | null = null;
   if (hasId) {
-    if (!isUuid(body.networkId!)) throw new ApiError("not_found", `No network with id ${body.networkId} in this workspace.`, { field: "networkId" });
+    if (!isUuid(body.networkId!)) throw new ApiError("not_found", `No network with id ${body.networkId} in this group.`, { field: "networkId" });
     const saved = await resolveNetwork(caller, body.networkId!, body.networkVersion);
     network = saved.definition;
     networkVersionId = saved.networkVersionId;
@@ -79,7 +79,7 @@ async function prepareRun(caller: Caller, body: unknown) {
   if (!parsed.success) throw zodToApiError(parsed.error);
   const { input, networkVersionId } = await resolveSubmission(caller, parsed.data);
   const estimated = estimateSeconds(input);
-  assertJobComputeWithinPlan(caller.plan, estimated, "The run");
+  assertJobComputeWithinPlan(caller.plan, estimated, "The calculation");
   await assertWithinBudget(caller.workspaceId, estimated);
   return { input, networkVersionId, estimated };
 }
@@ -207,13 +207,13 @@ export async function listRuns(caller: Caller, query: URLSearchParams): Promise<
 }
 
 async function loadRun(caller: Caller, id: string): Promise<RunJoined> {
-  if (!isUuid(id)) throw new ApiError("not_found", `No run with id ${id} in this workspace.`, { runId: id });
+  if (!isUuid(id)) throw new ApiError("not_found", `No run with id ${id} in this group.`, { runId: id });
   const [row] = await getDb()
     .select(runColumns)
     .from(runs)
     .leftJoin(networkVersions, eq(networkVersions.id, runs.networkVersionId))
     .where(and(eq(runs.id, id), eq(runs.workspaceId, caller.workspaceId)));
-  if (!row) throw new ApiError("not_found", `No run with id ${id} in this workspace.`, { runId: id });
+  if (!row) throw new ApiError("not_found", `No run with id ${id} in this group.`, { runId: id });
   return row;
 }
 

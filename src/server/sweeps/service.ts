@@ -170,13 +170,13 @@ function defaultName(kind: string, axes: ResolvedAxis[]): string {
 const round = (x: number, digits: number) => Math.round(x * 10 ** digits) / 10 ** digits;
 
 async function loadSweep(caller: Caller, id: string) {
-  if (!isUuid(id)) throw new ApiError("not_found", `No sweep with id ${id} in this workspace.`, { sweepId: id });
+  if (!isUuid(id)) throw new ApiError("not_found", `No sweep with id ${id} in this group.`, { sweepId: id });
   const [row] = await getDb()
     .select({ sweep: sweeps, networkId: networkVersions.networkId, networkVersion: networkVersions.version })
     .from(sweeps)
     .leftJoin(networkVersions, eq(networkVersions.id, sweeps.networkVersionId))
     .where(and(eq(sweeps.id, id), eq(sweeps.workspaceId, caller.workspaceId)));
-  if (!row) throw new ApiError("not_found", `No sweep with id ${id} in this workspace.`, { sweepId: id });
+  if (!row) throw new ApiError("not_found", `No sweep with id ${id} in this group.`, { sweepId: id });
   return row;
 }
 

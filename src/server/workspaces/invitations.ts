@@ -55,7 +55,7 @@ export async function invite(caller: Caller, input: { email: string; role: Role 
   const ws = await workspaceOf(caller);
   const email = input.email.trim().toLowerCase();
   if (ws.kind === "personal" || !ws.clerkOrgId)
-    throw new ApiError("conflict", "A personal workspace has a single member; invite people to a lab workspace instead.", { field: "workspace" });
+    throw new ApiError("conflict", "A personal group has a single member; invite people to a lab's group instead.", { field: "workspace" });
   const db = getDb();
   const [already] = await db.select({ id: users.id }).from(users).where(eq(users.email, email));
   if (already && (await membershipRole(ws.id, already.id))) throw new ApiError("conflict", `${email} is already a member of ${ws.name}.`, { field: "email" });
@@ -72,7 +72,7 @@ export async function invite(caller: Caller, input: { email: string; role: Role 
     const seats = await seatUse(ws.id, tx, { lock: true });
     const taken = seats.members + seats.pending;
     if (seats.plan === "free" && taken >= seats.limit)
-      throw new ApiError("payment_required", `The Free plan allows ${seats.limit} member; move this workspace to the Lab plan to invite people.`, seats);
+      throw new ApiError("payment_required", `The Free plan allows ${seats.limit} member; move this group to the Lab plan to invite people.`, seats);
     if (taken >= seats.limit)
       throw new ApiError(
         "payment_required",
@@ -108,7 +108,7 @@ export async function revokeInvitation(caller: Caller, id: string): Promise<Invi
     .select()
     .from(invitations)
     .where(and(eq(invitations.id, id), eq(invitations.workspaceId, caller.workspaceId)));
-  if (!row) throw new ApiError("not_found", `No invitation with id ${id} in this workspace.`);
+  if (!row) throw new ApiError("not_found", `No invitation with id ${id} in this group.`);
   requireMemberChange(caller, row.role);
   if (row.acceptedAt) throw new ApiError("conflict", "This invitation was already accepted; remove the member instead.");
   const [updated] = await db
@@ -145,12 +145,12 @@ export async function acceptInvitation(user: { userId: string }, secret: string)
   const row = await findBySecret(secret);
   if (!row) throw new ApiError("not_found", "This invitation link is not valid; ask for a new invitation.", { field: "token" });
   const status = statusOf(row);
-  if (status !== "pending") throw new ApiError("conflict", `This invitation is ${status}; ask the workspace's Owner for a new one.`, { status });
+  if (status !== "pending") throw new ApiError("conflict", `This invitation is ${status}; ask the group's Owner for a new one.`, { status });
   const [me] = await db.select().from(users).where(eq(users.id, user.userId));
   if (!me || me.email.toLowerCase() !== row.email.toLowerCase())
     throw new ApiError("forbidden", `This invitation is for ${row.email}; sign in with that address to accept it.`, { field: "email" });
   const [ws] = await db.select().from(workspaces).where(eq(workspaces.id, row.workspaceId));
-  if (!ws?.clerkOrgId || !me.clerkUserId) throw new ApiError("conflict", "This workspace cannot take members right now.");
+  if (!ws?.clerkOrgId || !me.clerkUserId) throw new ApiError("conflict", "This group cannot take members right now.");
   const clerk = await clerkClient();
   try {
     await clerk.organizations.createOrganizationMembership({ organizationId: ws.clerkOrgId, userId: me.clerkUserId, role: CLERK_ROLE_FOR[row.role] });

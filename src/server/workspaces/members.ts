@@ -19,7 +19,7 @@ export type { MemberView };
 
 export async function workspaceOf(caller: Caller) {
   const [ws] = await getDb().select().from(workspaces).where(eq(workspaces.id, caller.workspaceId));
-  if (!ws) throw new ApiError("not_found", "Your workspace no longer exists.");
+  if (!ws) throw new ApiError("not_found", "Your group no longer exists.");
   return ws;
 }
 
@@ -71,7 +71,7 @@ async function memberRow(workspaceId: string, userId: string) {
     .innerJoin(users, eq(users.id, memberships.userId))
     .where(and(eq(memberships.workspaceId, workspaceId), eq(memberships.userId, userId)));
   // Another workspace's member and a stranger look the same: not found.
-  if (!row) throw new ApiError("not_found", `No member with id ${userId} in this workspace.`);
+  if (!row) throw new ApiError("not_found", `No member with id ${userId} in this group.`);
   return row;
 }
 
@@ -87,9 +87,9 @@ export async function changeRole(caller: Caller, userId: string, role: Role): Pr
   requirePermission(caller, "members.manage");
   const ws = await workspaceOf(caller);
   const m = await memberRow(ws.id, userId);
-  if (ws.kind === "personal") throw new ApiError("conflict", "A personal workspace has one member, its Owner; roles cannot change.");
+  if (ws.kind === "personal") throw new ApiError("conflict", "A personal group has one member, its Owner; roles cannot change.");
   if (m.role === "owner" && role !== "owner" && (await ownerCount(ws.id)) <= 1)
-    throw new ApiError("conflict", "This is the workspace's only Owner; make another member Owner first.");
+    throw new ApiError("conflict", "This is the group's only Owner; make another member Owner first.");
   if (m.role !== role) {
     if (ws.clerkOrgId && m.clerkUserId) {
       const clerk = await clerkClient();
@@ -108,8 +108,8 @@ export async function removeMember(caller: Caller, userId: string): Promise<void
   const ws = await workspaceOf(caller);
   const m = await memberRow(ws.id, userId);
   requireMemberChange(caller, m.role);
-  if (ws.kind === "personal") throw new ApiError("conflict", "A personal workspace cannot lose its Owner.");
-  if (m.role === "owner" && (await ownerCount(ws.id)) <= 1) throw new ApiError("conflict", "This is the workspace's only Owner; it cannot be removed.");
+  if (ws.kind === "personal") throw new ApiError("conflict", "A personal group cannot lose its Owner.");
+  if (m.role === "owner" && (await ownerCount(ws.id)) <= 1) throw new ApiError("conflict", "This is the group's only Owner; it cannot be removed.");
   if (ws.clerkOrgId && m.clerkUserId) {
     const clerk = await clerkClient();
     try {
@@ -132,7 +132,7 @@ export async function removeMember(caller: Caller, userId: string): Promise<void
 export async function seatUse(workspaceId: string, db: Executor = getDb(), opts: { lock?: boolean } = {}): Promise<SeatUse> {
   if (opts.lock) await db.execute(sql`select 1 from workspaces where id = ${workspaceId} for update`);
   const [ws] = await db.select({ plan: workspaces.plan, seats: workspaces.seats }).from(workspaces).where(eq(workspaces.id, workspaceId));
-  if (!ws) throw new ApiError("not_found", "Workspace not found.");
+  if (!ws) throw new ApiError("not_found", "Group not found.");
   const [{ members }] = await db
     .select({ members: sql<number>`count(*)::int` })
     .from(memberships)

@@ -118,6 +118,11 @@ export interface UsageReport {
   costUsd: number;
   includedComputeSeconds: number;
   spendCapUsd: number | null;
+  /**
+   * Whose rows `members` and `days` hold: "all" for an Owner or Billing admin (action
+   * `usage.members`), "own" for a Researcher (only their own; the totals stay the group's).
+   */
+  membersShown: "all" | "own";
   members: MemberUsage[];
   days: DayUsage[];
 }

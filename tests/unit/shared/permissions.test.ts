@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { ACTIONS, can, describeAction, lesserRole, ROLES, rolesAllowed, tokenRolesFor } from "@/shared/permissions";
+import { ACTIONS, can, describeAction, lesserRole, ROLES, rolesAllowed, refusalReason, tokenRolesFor } from "@/shared/permissions";
 
 // The expected values are the Roles table of product.md, copied by hand.
 describe("role permissions (product.md, Roles)", () => {
@@ -22,7 +22,7 @@ describe("role permissions (product.md, Roles)", () => {
 
   it("ACTIONS lists each action of the table once; the Owner may do all of them, a Viewer only look", () => {
     expect(new Set(ACTIONS).size).toBe(ACTIONS.length);
-    expect(ACTIONS.length).toBe(9);
+    expect(ACTIONS.length).toBe(10);
     for (const a of ACTIONS) {
       expect(can("owner", a), a).toBe(true);
       expect(
@@ -31,7 +31,19 @@ describe("role permissions (product.md, Roles)", () => {
       ).toBe(true);
       expect(describeAction(a), a).toMatch(/\w/);
     }
-    expect(ACTIONS.filter((a) => can("viewer", a))).toEqual(["results.view", "usage.view", "tokens.own"]);
+    expect(ACTIONS.filter((a) => can("viewer", a))).toEqual(["results.view", "tokens.own"]);
+    // Compute use per member: Owner and Billing admin (product.md); a Researcher sees the group's totals and their own.
+    expect(rolesAllowed("usage.members")).toEqual(["owner", "billing_admin"]);
+    expect(rolesAllowed("usage.view")).toEqual(["owner", "billing_admin", "researcher"]);
+  });
+
+  it("a refusal names the role, the action and who may, in words; null when allowed", () => {
+    expect(refusalReason("researcher", "work.create")).toBeNull();
+    expect(refusalReason("viewer", "work.create")).toBe(
+      "Your role (Viewer) cannot create networks, calculations, scans, datasets or fits; ask the group's Owner if you need to (allowed: Owner or Researcher).",
+    );
+    expect(refusalReason("viewer", "usage.view")).toContain("allowed: Owner, Billing admin or Researcher");
+    for (const a of ACTIONS) for (const r of ROLES) expect(refusalReason(r, a) === null, `${r} ${a}`).toBe(can(r, a));
   });
 
   it("a token never outranks its member", () => {

@@ -1,8 +1,7 @@
 import type { Metadata } from "next";
-import Link from "next/link";
 import katex from "katex";
 import "katex/dist/katex.min.css";
-import { Mark } from "@/components/shell/Mark";
+import { SiteHeader } from "@/components/shell/SiteHeader";
 import { CardTable } from "@/components/ui/Table";
 import { PLANS } from "@/shared/plans";
 import { CONDUCTANCE_QUANTUM_S, FLUX_QUANTUM_WB, GRAPHENE_LATTICE_NM, periodFromTwistNm, RESISTANCE_QUANTUM_OHM } from "@/engine/constants";
@@ -269,19 +268,7 @@ const TOC = [
 export default function ManualPage() {
   return (
     <div className="mx-auto max-w-6xl px-gutter py-10">
-      <header className="flex items-center justify-between border-b border-line pb-4">
-        <Link href="/" className="flex items-center gap-2 text-lead font-semibold">
-          <Mark /> Triskel
-        </Link>
-        <nav aria-label="Site" className="flex gap-5 text-body text-fg-soft">
-          <Link href="/pricing" className="hover:text-accent">
-            Pricing
-          </Link>
-          <Link href="/networks" className="hover:text-accent">
-            Open the app
-          </Link>
-        </nav>
-      </header>
+      <SiteHeader current="/manual" />
       <div className="mt-8 gap-10 lg:grid lg:grid-cols-[13rem_1fr]">
         <nav aria-label="Manual contents" className="hidden lg:block">
           <ol className="sticky top-8 space-y-1.5 text-caption text-fg-soft">
@@ -449,9 +436,9 @@ export default function ManualPage() {
             </section>
           ))}
           <p>
-            A sweep varies one or two of these fields, or a network field such as <span className="font-mono">node.forward</span>, over a list of values or a
-            range. Sweeping forward rescales left and right and keeps their ratio. Each point can be an ensemble of disorder seeds. Sweeps are limited to{" "}
-            {PLANS.free.maxSweepPoints} points on Free and {PLANS.lab.maxSweepPoints.toLocaleString("en")} on Lab.
+            A scan (API: sweep) varies one or two of these fields, or a network field such as <span className="font-mono">node.forward</span>, over a list of
+            values or a range. Scanning forward rescales left and right and keeps their ratio. Each point can be an ensemble of disorder seeds. Scans are
+            limited to {PLANS.free.maxSweepPoints} points on Free and {PLANS.lab.maxSweepPoints.toLocaleString("en")} on Lab.
           </p>
 
           <h2 id="constants">Constants</h2>
@@ -474,8 +461,9 @@ export default function ManualPage() {
               describes the device.
             </li>
             <li>
-              A run shows its estimated compute-seconds and cost before it starts. You are charged for the compute-seconds actually used, and jobs over the
-              plan, the free quota or the spend cap are refused with the reason.
+              A calculation (API: run) shows its estimated compute-seconds and cost before it starts. On Lab you are charged for the compute-seconds actually
+              used; on Free nothing is charged and they count against the included minutes. Jobs over the plan, the free quota or the spend cap are refused with
+              the reason.
             </li>
             <li>Nothing in Triskel controls instruments.</li>
           </ul>

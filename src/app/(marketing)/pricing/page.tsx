@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
+import { SiteHeader } from "@/components/shell/SiteHeader";
 import { PLANS } from "@/shared/plans";
 
 export const metadata: Metadata = { title: "Pricing" };
@@ -16,9 +17,9 @@ export default function PricingPage() {
     ],
     ["Included compute", `${free.includedComputeSeconds / 60} compute-minutes per month`, "none; every compute-second is metered"],
     ["Largest network", `${free.maxCellsPerSide} × ${free.maxCellsPerSide} cells`, `${lab.maxCellsPerSide} × ${lab.maxCellsPerSide} cells`],
-    ["Sweep points", free.maxSweepPoints.toLocaleString("en-US"), lab.maxSweepPoints.toLocaleString("en-US")],
+    ["Scan points", free.maxSweepPoints.toLocaleString("en-US"), lab.maxSweepPoints.toLocaleString("en-US")],
     [
-      "Longest job (estimated; a run, one sweep point or a whole fit)",
+      "Longest job (estimated; a calculation, one scan point or a whole fit)",
       `${free.maxJobComputeSeconds / 60} compute-minutes`,
       `${lab.maxJobComputeSeconds / 3600} compute-hours`,
     ],
@@ -27,13 +28,11 @@ export default function PricingPage() {
   ];
   return (
     <main className="mx-auto max-w-4xl px-gutter py-16">
-      <Link href="/" className="text-body text-accent">
-        ← Triskel
-      </Link>
+      <SiteHeader current="/pricing" />
       <h1 className="mt-6 text-display font-semibold">Pricing</h1>
       <p className="mt-4 max-w-2xl text-lead text-fg-soft">
-        Pay for the seats of your lab and for the compute-seconds your runs actually use. Every job shows its estimated compute-seconds and cost before it
-        starts; a job over your plan&apos;s limits, free quota or spend cap is refused with a message, never charged.
+        Pay for the seats of your lab and for the compute-seconds your calculations actually use. Every job shows its estimated compute-seconds and cost before
+        it starts; a job over your plan&apos;s limits, free quota or spend cap is refused with a message, never charged.
       </p>
       <table className="mt-10 w-full border-collapse text-left text-body">
         <thead>
@@ -61,7 +60,16 @@ export default function PricingPage() {
           ))}
         </tbody>
       </table>
-      <p className="mt-6 text-caption text-fg-faint">Demo figures. A compute-second is one CPU second a Triskel worker spends on your run.</p>
+      <div className="mt-8 flex flex-wrap items-center gap-4">
+        <Link href="/sign-up" className="tk-btn" data-testid="pricing-sign-up">
+          Sign up: start on {free.label}
+        </Link>
+        <p className="max-w-xl text-caption text-fg-soft">
+          Every account starts with a personal group on the {free.label} plan, no card needed. To move a group to {lab.label}, its Owner or Billing admin
+          upgrades it on the group&apos;s Billing page; the price is shown before anything is charged.
+        </p>
+      </div>
+      <p className="mt-6 text-caption text-fg-faint">Demo figures. A compute-second is one CPU second a Triskel worker spends on your calculation.</p>
     </main>
   );
 }

@@ -9,7 +9,7 @@ export const metadata: Metadata = { title: "Sign in" };
 
 export default function SignInPage() {
   return (
-    <AuthFrame title="Sign in" lead="Welcome back. Your workspaces are where you left them.">
+    <AuthFrame title="Sign in" lead="Welcome back. You start in the group you last worked in.">
       <Show when="signed-in">
         <AlreadySignedIn />
       </Show>

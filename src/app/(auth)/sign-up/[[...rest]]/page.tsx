@@ -9,7 +9,7 @@ export const metadata: Metadata = { title: "Create an account" };
 
 export default function SignUpPage() {
   return (
-    <AuthFrame title="Create your account" lead="You get a personal workspace on the Free plan; a lab can invite you to theirs.">
+    <AuthFrame title="Create your account" lead="You get a personal group on the Free plan; a lab can invite you to theirs.">
       <Show when="signed-in">
         <AlreadySignedIn />
       </Show>

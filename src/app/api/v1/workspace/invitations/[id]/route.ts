@@ -10,6 +10,6 @@ export const dynamic = "force-dynamic";
 export const DELETE = route(async (req: Request, ctx: { params: Promise<{ id: string }> }) => {
   const caller = await getCaller(req);
   const { id } = await ctx.params;
-  if (!z.string().uuid().safeParse(id).success) throw new ApiError("not_found", `No invitation with id ${id} in this workspace.`);
+  if (!z.string().uuid().safeParse(id).success) throw new ApiError("not_found", `No invitation with id ${id} in this group.`);
   return reply("DELETE /api/v1/workspace/invitations/{id}", { invitation: await revokeInvitation(caller, id) });
 });

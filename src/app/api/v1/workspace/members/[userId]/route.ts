@@ -9,7 +9,7 @@ export const dynamic = "force-dynamic";
 
 const uuid = z.string().uuid();
 function memberId(raw: string): string {
-  if (!uuid.safeParse(raw).success) throw new ApiError("not_found", `No member with id ${raw} in this workspace.`);
+  if (!uuid.safeParse(raw).success) throw new ApiError("not_found", `No member with id ${raw} in this group.`);
   return raw;
 }
 
