@@ -42,7 +42,7 @@ describe("command line on the fixtures (tests/fixtures/expected.json)", () => {
         return;
       }
       const out = JSON.parse(r.stdout);
-      expect(out.engineVersion).toMatch(/^2\.0\.0\+/);
+      expect(out.engineVersion).toMatch(/^2\.1\.0\+/);
       expect(out.inputHash).toMatch(/^[0-9a-f]{64}$/);
       for (const [k, v] of Object.entries(exp.equals ?? {})) expect(at(out, k), k).toEqual(v);
       for (const [k, [v, tol]] of Object.entries(exp.closeTo ?? {})) expect(Math.abs((at(out, k) as number) - v), k).toBeLessThanOrEqual(tol);
