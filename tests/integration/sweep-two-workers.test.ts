@@ -5,18 +5,20 @@
 // docs/reliability.md; never asserted: timing targets belong to `npm run bench`).
 import { spawn } from "node:child_process";
 import { closeSync, existsSync, openSync, readFileSync } from "node:fs";
-import { hostname } from "node:os";
+import { hostname, loadavg } from "node:os";
 import { dirname, join } from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { get, post, smallNetwork, sql, waitFor, workerPid } from "./runs-support";
 
 const POINTS = 16;
+const SIZE = 20,
+  SAMPLES = 16;
 const finished = (s: string) => ["succeeded", "failed", "cancelled"].includes(s);
-// points of a few tenths of a second each (14 x 14, 12 disorder samples)
-const sweepBody = (seed: number) => ({
-  network: { ...smallNetwork(14, 14), disorder: { linkPhaseWidthRad: 3.0, seed } },
-  computation: { kind: "conductance", energyMeV: 0.3, ensemble: { samples: 12 } },
-  axes: [{ parameter: "fieldTesla", from: 0, to: 0.2, points: POINTS }],
+// points of a few tenths of a second each (20 x 20, 16 disorder samples)
+const sweepBody = (seed: number, points = POINTS) => ({
+  network: { ...smallNetwork(SIZE, SIZE), disorder: { linkPhaseWidthRad: 3.0, seed } },
+  computation: { kind: "conductance", energyMeV: 0.3, ensemble: { samples: SAMPLES } },
+  axes: [{ parameter: "fieldTesla", from: 0, to: 0.2, points }],
 });
 
 let second: number | null = null;
@@ -62,8 +64,8 @@ async function startSecondWorker(): Promise<number> {
 }
 
 /** Submits a sweep and waits for it; returns its id and the seconds from submission to the last point. */
-async function runSweep(seed: number): Promise<{ id: string; seconds: number }> {
-  const created = await post("/api/v1/sweeps", sweepBody(seed));
+async function runSweep(seed: number, points = POINTS): Promise<{ id: string; seconds: number }> {
+  const created = await post("/api/v1/sweeps", sweepBody(seed, points));
   expect(created.status, JSON.stringify(created.body)).toBe(202);
   const id = created.body.id as string;
   const s = await waitFor(
@@ -82,8 +84,11 @@ async function runSweep(seed: number): Promise<{ id: string; seconds: number }> 
 
 describe("two worker processes share one sweep", () => {
   it("every point computed once, points taken by both processes; throughput with one and two processes", async () => {
+    // a short sweep first, so the timed ones start on warm processes (engine threads up, JIT done)
+    await runSweep(5, 4);
     const one = await runSweep(21);
     second = await startSecondWorker();
+    await runSweep(6, 8);
     const two = await runSweep(21);
 
     const points = await sql`select sweep_point_index as i, status, attempts, worker_id from runs where sweep_id = ${two.id} order by sweep_point_index`;
@@ -108,7 +113,7 @@ describe("two worker processes share one sweep", () => {
     expect(await results(two.id)).toEqual(await results(one.id));
 
     console.log(
-      `[sweep throughput] ${POINTS} points (14 x 14, 12 samples each) on ${hostname()}: one worker process ${one.seconds.toFixed(2)} s ` +
+      `[sweep throughput] ${POINTS} points (${SIZE} x ${SIZE}, ${SAMPLES} samples each) on ${hostname()}, load average ${loadavg()[0].toFixed(1)}: one worker process ${one.seconds.toFixed(2)} s ` +
         `(${(POINTS / one.seconds).toFixed(2)} points/s), two processes ${two.seconds.toFixed(2)} s (${(POINTS / two.seconds).toFixed(2)} points/s); ` +
         `points per process ${[...byWorker.values()].join(" + ")}`,
     );
