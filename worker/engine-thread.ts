@@ -21,6 +21,7 @@ import {
   helpWithBoard,
   inputHash,
   parseComputeInput,
+  releaseGraphs,
   runBoard,
   type ParallelRunner,
   type TransportBoard,
@@ -123,8 +124,13 @@ export default function runEngine(task: EngineTask): EngineOutcome {
   }
 }
 
+/** The graphs a helper keeps for the next board of the same run (a thermal average's energies) are dropped after this long idle. */
+const RELEASE_GRAPHS_MS = 2000;
+let releaseTimer: ReturnType<typeof setTimeout> | null = null;
+
 /** A helper thread's share of another run's pieces (src/engine/compute/parallel.ts): never waits, returns when no piece is open. */
 export function help(task: HelpTask): HelpOutcome {
+  if (releaseTimer) clearTimeout(releaseTimer);
   const cancelFlag = new Int32Array(task.control, 0, 1);
   const spent = startCpuMeter(clock);
   const pieces = helpWithBoard(
@@ -132,5 +138,8 @@ export function help(task: HelpTask): HelpOutcome {
     () => Atomics.load(cancelFlag, 0) === 1,
     () => startCpuMeter(clock),
   );
+  // counted from the end of this task: the next board of the same run finds its graphs still here
+  releaseTimer = setTimeout(releaseGraphs, RELEASE_GRAPHS_MS);
+  releaseTimer.unref();
   return { pieces, cpuSeconds: spent() };
 }

@@ -17,6 +17,7 @@ export {
   runBoard,
   helpWithBoard,
   markHelpersLost,
+  releaseGraphs,
   type ParallelRunner,
   type TransportBoard,
   type TransportJob,

@@ -143,6 +143,11 @@ function graphOf(job: TransportJob, piece: TransportPiece): NetworkGraph {
   return graph;
 }
 
+/** Drops the graphs a helper thread keeps between boards (worker/engine-thread.ts calls it once the thread has been idle a moment). */
+export function releaseGraphs(): void {
+  graphCache.length = 0;
+}
+
 /**
  * A helper thread's share: take open pieces one by one and compute them, until none is open.
  * Returns the number of pieces computed. `meter()` starts a CPU meter of this thread (the worker's
