@@ -19,6 +19,7 @@ export default defineConfig(
     "drizzle/",
     "public/",
     "src/engine/native/build/",
+    "dist/",
     "tests/e2e/screenshots/",
     "next-env.d.ts",
   ]),

@@ -9,16 +9,19 @@
  * default threads). The two sides run in alternating rounds and each keeps its best round, so a
  * burst of load from other processes hits both. Ratio = engine per valley (mean of K and K') / numpy.
  *
- * Then the TypeScript fallback's case: W = 64, both valleys, `compute` on the TypeScript kernels.
- * `--lab`: also the largest Lab network, 400 x 400, one energy, both valleys (`compute`), once, in
- * a child process: wall and CPU time and peak memory (maximum resident set).
+ * Then the TypeScript fallback's case: W = 64, both valleys, `compute` on the TypeScript kernels;
+ * the command line's start-up (the bundle, npm run, the tsx it replaced).
+ * `--lab`: also the largest Lab network, 400 x 400, one energy, both valleys, once in the worker's
+ * engine pool of two threads (valley K' on the helper thread, as the worker runs it) and once with
+ * `compute` on one thread, each in a child process: wall and CPU time and peak memory (maximum
+ * resident set).
  * `--sizes=32,64`: other sizes. `TRISKEL_BENCH_ROUNDS` (default 3; 2 at W >= 128) rounds per size.
  * `TRISKEL_BENCH_PATH=general`: the general path instead of the block path (the engine before the blocks).
  * Threads: the defaults on both sides (OpenBLAS's, one per core) unless OPENBLAS_NUM_THREADS is set,
  * in which case both sides get it.
  */
 import { spawnSync } from "node:child_process";
-import { existsSync } from "node:fs";
+import { existsSync, mkdtempSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
@@ -28,6 +31,8 @@ import { reverseGraph } from "../src/engine/network/graph";
 import { sampleTransport } from "../src/engine/compute/conductance";
 import { networkScale, energyPhase, fluxPerPlaquette } from "../src/engine/compute/common";
 import type { Network } from "../src/engine/schema";
+import { createEnginePool } from "../worker/pool";
+import { offerHelpers } from "../worker/helpers";
 
 const SELF = fileURLToPath(import.meta.url);
 /** TRISKEL_BENCH_PATH=general times the general path (groups of at most 16 unlinked nodes) instead of the block path. */
@@ -85,14 +90,21 @@ const load = () =>
     .join(" ");
 
 function lab(): void {
-  console.log("\nLargest Lab network: 400 x 400, one energy, both valleys (compute, own process)");
-  const r = spawnSync(path.join(ROOT, "node_modules/.bin/tsx"), [SELF, "--lab-child"], { encoding: "utf8", timeout: 3_600_000 });
-  if (r.status !== 0) console.log(`   failed: ${(r.stderr || String(r.error)).split("\n").slice(-3).join(" ")}`);
-  else console.log(`   ${r.stdout.trim()}`);
+  console.log("\nLargest Lab network: 400 x 400, one energy, both valleys (own process each)");
+  for (const mode of ["pool", "serial"]) {
+    const r = spawnSync(path.join(ROOT, "node_modules/.bin/tsx"), [SELF, "--lab-child", mode], { encoding: "utf8", timeout: 3_600_000 });
+    if (r.status !== 0) console.log(`   ${mode}: failed: ${(r.stderr || String(r.error)).split("\n").slice(-3).join(" ")}`);
+    else console.log(`   ${r.stdout.trim()}`);
+  }
   console.log(`   load average after: ${load()}`);
 }
 
-function labChild(): void {
+/**
+ * `pool`: as the worker runs it, in its engine pool (two threads, worker/pool.ts) with helpers
+ * (worker/helpers.ts): valley K' on the second thread. `serial`: `compute` on this thread.
+ * Wall and CPU time (all threads of the process), peak memory (maximum resident set).
+ */
+async function labChild(mode: string): Promise<void> {
   compute(input(16)); // JIT warm-up
   const c0 = process.cpuUsage(),
     t0 = performance.now();
@@ -107,15 +119,79 @@ function labChild(): void {
     );
     return;
   }
-  const r = compute(input(400));
+  let r: ReturnType<typeof compute>;
+  let label = `${getKernels().name}, compute on one thread`;
+  if (mode === "pool") {
+    const pool = createEnginePool(2);
+    const control = new SharedArrayBuffer(16);
+    // warm both threads up
+    await Promise.all([0, 1].map(() => pool.run({ input: input(16), control })));
+    const c1 = process.cpuUsage(),
+      t1 = performance.now();
+    const helpers = offerHelpers(pool, control);
+    const out = await pool.run({ input: input(400), control, helpers: helpers.port }, { transferList: [helpers.port] });
+    helpers.close();
+    const wall = (performance.now() - t1) / 1000,
+      c = process.cpuUsage(c1);
+    await pool.destroy();
+    if (out.outcome !== "succeeded") throw new Error(`pool run ${out.outcome}: ${JSON.stringify(out.error)}`);
+    r = JSON.parse(out.resultJson) as ReturnType<typeof compute>;
+    if (r.kind !== "conductance") throw new Error("unexpected kind");
+    console.log(
+      `worker pool, 2 threads (${r.engineVersion}, pieces on the helper thread: ${out.helped?.pieces ?? 0}): ${wall.toFixed(1)} s wall, ` +
+        `${((c.user + c.system) / 1e6).toFixed(1)} s CPU (billed ${out.cpuSeconds.toFixed(1)} s), peak RSS ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB; ` +
+        `G = ${r.conductance.total.toFixed(12)} e2/h, |R + T - N| = ${r.checks.currentConservationError.toExponential(1)}`,
+    );
+    return;
+  }
+  r = compute(input(400));
   const wall = (performance.now() - t0) / 1000,
     c = process.cpuUsage(c0);
   if (r.kind !== "conductance") throw new Error("unexpected kind");
-  const rssMB = process.resourceUsage().maxRSS / 1024;
+  label += ` (OpenBLAS threads ${process.env.OPENBLAS_NUM_THREADS ?? "default"})`;
   console.log(
-    `${getKernels().name}: ${wall.toFixed(1)} s wall, ${((c.user + c.system) / 1e6).toFixed(1)} s CPU, peak RSS ${rssMB.toFixed(0)} MB; ` +
-      `G = ${r.conductance.total.toFixed(6)} e2/h, |R + T - N| = ${r.checks.currentConservationError.toExponential(1)}`,
+    `${label}: ${wall.toFixed(1)} s wall, ${((c.user + c.system) / 1e6).toFixed(1)} s CPU, peak RSS ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB; ` +
+      `G = ${r.conductance.total.toFixed(12)} e2/h, |R + T - N| = ${r.checks.currentConservationError.toExponential(1)}`,
   );
+}
+
+/** Command-line start-up: a tiny computation (4 x 4, one energy) through each way of calling it, best of 5 (wall, whole process). */
+function cliStartup(): void {
+  const dir = mkdtempSync(path.join(os.tmpdir(), "triskel-bench-cli-"));
+  const file = path.join(dir, "tiny.json");
+  writeFileSync(
+    file,
+    JSON.stringify({
+      network: {
+        lattice: "triangular",
+        size: { columns: 4, rows: 4 },
+        transverse: "periodic",
+        twistDegrees: 0.11,
+        node: { forward: 0.6, left: 0.2, right: 0.2 },
+      },
+      computation: { kind: "conductance", energyMeV: 0.3 },
+    }),
+  );
+  const ways: [string, string, string[]][] = [
+    ["node scripts/cli.mjs (the bundle, dist/engine-cli.mjs)", process.execPath, [path.join(ROOT, "scripts/cli.mjs"), "compute", file]],
+    ["npm run -s cli (the same, after npm's own start-up)", "npm", ["run", "-s", "cli", "--", "compute", file]],
+    ["tsx src/engine/cli.ts (before the bundle)", path.join(ROOT, "node_modules/.bin/tsx"), [path.join(ROOT, "src/engine/cli.ts"), "compute", file]],
+    ["node -e 0 (Node itself)", process.execPath, ["-e", "0"]],
+  ];
+  console.log(`\nCommand-line start-up (4 x 4 conductance, best of 5, wall), load average ${load()}; target <= 0.2 s for the command line`);
+  const outputs = new Set<string>();
+  for (const [label, cmd, args] of ways) {
+    let best = Infinity;
+    for (let i = 0; i < 5; i++) {
+      const t0 = performance.now();
+      const r = spawnSync(cmd, args, { cwd: ROOT, encoding: "utf8" });
+      best = Math.min(best, (performance.now() - t0) / 1000);
+      if (r.status !== 0) throw new Error(`${label}: exit ${r.status}: ${r.stderr}`);
+      if (args[0] !== "-e") outputs.add(r.stdout);
+    }
+    console.log(`   ${label}: ${best.toFixed(3)} s`);
+  }
+  console.log(`   outputs identical: ${outputs.size === 1}`);
 }
 
 /** The TypeScript fallback's target case: W = 64, one energy, both valleys (compute), best of 3 rounds after a warm-up. */
@@ -179,8 +255,14 @@ function main(): void {
   }
   console.log(`numpy ${numpyVersion || "n/a"}; best of the rounds on each side, wall time; load average after: ${load()}`);
   tsFallback();
+  cliStartup();
   if (process.argv.includes("--lab")) lab();
 }
 
-if (process.argv.includes("--lab-child")) labChild();
+const child = process.argv.indexOf("--lab-child");
+if (child >= 0)
+  labChild(process.argv[child + 1] ?? "serial").catch((e) => {
+    console.error(e);
+    process.exit(1);
+  });
 else main();

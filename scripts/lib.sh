@@ -52,6 +52,8 @@ ensure_node_modules() {
   # The native OpenBLAS kernels are built by npm's install script; build them here too when
   # node_modules predates the system libraries or scripts were skipped (never fatal).
   [ -e src/engine/native/build/Release/triskel_kernels.node ] || node scripts/build-native.mjs || true
+  # Likewise the command line's JavaScript bundle (scripts/build-cli.mjs; never fatal either).
+  [ -e dist/engine-cli.mjs ] || node scripts/build-cli.mjs || true
 }
 
 # setup_instance NAME PORT_BASE: folders and every environment variable of one instance.

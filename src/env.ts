@@ -98,7 +98,7 @@ export const envSchema = z.object({
   /** Only for a standalone sender (`tsx worker/billing.ts`, tests): send this workspace's usage only. */
   METER_SENDER_WORKSPACE_ID: z.preprocess((v) => (v === "" ? undefined : v), z.uuid({ message: "must be a workspace id (a UUID)" }).optional()),
   // --- runs and sweeps worker (issue 4) ---
-  /** Engine threads per worker process (piscina pool); default: WORKER_CONCURRENCY. */
+  /** Engine threads per worker process (piscina pool); default: the larger of WORKER_CONCURRENCY and the number of cores. */
   WORKER_POOL_SIZE: z.coerce.number().int().min(1).max(64).optional(),
   /** How long a job's lock lives without renewal; a dead worker's jobs are retried after it. */
   WORKER_LOCK_MS: z.coerce.number().int().min(2000).max(600_000).default(10_000),

@@ -1,4 +1,4 @@
-import { hostname } from "node:os";
+import { availableParallelism, hostname } from "node:os";
 // Native linear-algebra kernels start no threads of their own (compute-seconds are measured per
 // engine thread): the engine's loader sets that in every engine thread (src/engine/native/index.ts).
 
@@ -20,7 +20,8 @@ const connection = newRedis(env.REDIS_URL);
 connection.on("error", (err) => console.error(`[worker] redis: ${err.message}`));
 
 const workerId = `${hostname()}:${process.pid}`;
-const poolSize = env.WORKER_POOL_SIZE ?? env.WORKER_CONCURRENCY;
+// At least one engine thread per core: a run's valleys and samples use the threads other runs leave free (worker/helpers.ts).
+const poolSize = env.WORKER_POOL_SIZE ?? Math.max(env.WORKER_CONCURRENCY, availableParallelism());
 const pool = createEnginePool(poolSize);
 const holdBeforeFinish = makeHoldBeforeFinish(env);
 

@@ -4,6 +4,7 @@ import { JOB_KINDS, rowIdOf } from "../src/server/jobs";
 import { claimRun, finishRun, shouldStop, writeProgress } from "../src/server/runs/execution";
 import type { HoldBeforeFinish } from "./drill-hold";
 import type { EngineOutcome, EngineTask } from "./engine-thread";
+import { offerHelpers } from "./helpers";
 
 const CANCEL_POLL_MS = 400;
 const PROGRESS_WRITE_MS = 1000;
@@ -49,11 +50,14 @@ export function makeRunProcessor(pool: Piscina<EngineTask, EngineOutcome>, worke
       })();
     }, CANCEL_POLL_MS);
 
+    // both valleys (and ensemble samples) of the run on the pool's free threads (worker/helpers.ts)
+    const helpers = offerHelpers(pool, control);
     let out: EngineOutcome;
     try {
-      out = await pool.run({ input: run.input, control });
+      out = await pool.run({ input: run.input, control, helpers: helpers.port }, { transferList: [helpers.port] });
     } finally {
       clearInterval(timer);
+      helpers.close();
     }
     // Fault drills only (worker/drill-hold.ts): a no-op unless the drill hook is on.
     await holdBeforeFinish("run", runId, { outcome: out.outcome, cpuSeconds: out.cpuSeconds });

@@ -12,3 +12,14 @@ export { ENGINE_VERSION, ENGINE_BASE_VERSION, engineVersion } from "./version";
 export { compute } from "./compute";
 export { inputHash, canonicalJson } from "./hash";
 export { getKernels, setKernels, tsKernels, type ComplexKernels } from "./linalg/kernels";
+export {
+  createBoard,
+  runBoard,
+  helpWithBoard,
+  markHelpersLost,
+  releaseGraphs,
+  type ParallelRunner,
+  type TransportBoard,
+  type TransportJob,
+  type TransportPiece,
+} from "./compute/parallel";

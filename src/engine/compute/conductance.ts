@@ -11,6 +11,7 @@ import { blockSchedule } from "../network/blocks";
 import { getKernels } from "../linalg/kernels";
 import { energyPhase, fluxPerPlaquette, mean, networkScale, std } from "./common";
 import { Progress, type ComputeOptions } from "./progress";
+import type { TransportPiece } from "./parallel";
 import { thermalAverage, thermalPlan, ThermalResolutionError, type ThermalAverage } from "./quadrature";
 import { narrowestResonance } from "./resonance";
 import { EngineInputError } from "../errors";
@@ -90,6 +91,13 @@ export function leadChannels(g: NetworkGraph): { leftIn: number[]; leftOut: numb
   const y = (c: number) => (g.chSegment[4 * c + 1] + g.chSegment[4 * c + 3]) / 2;
   for (const k of Object.keys(lists)) lists[Number(k)].sort((a, b) => y(a) - y(b) || a - b);
   return { leftIn: lists[CH_LEFT_IN], leftOut: lists[CH_LEFT_OUT], rightIn: lists[CH_RIGHT_IN], rightOut: lists[CH_RIGHT_OUT] };
+}
+
+/** Number of lead channels (in and out, both sides): a bound on the transmission eigenvalues of either valley. */
+function leadChannelCount(g: NetworkGraph): number {
+  let n = 0;
+  for (let c = 0; c < g.channelCount; c++) if (g.chKind[c] !== 0) n++;
+  return n;
 }
 
 /** Full composed scattering matrix of a sample with leads at link phase thetaE (block path by default, `path: "general"` for the groups of unlinked nodes). */
@@ -203,14 +211,39 @@ export function computeConductance(net: Network, c: ConductanceComputation, opts
   let chK = 0,
     chKp: number | null = null;
   let thermal: ConductanceResult["thermal"] = null;
+  // The graphs of one sample (built when first asked for; the last sample's are kept).
+  let built: { s: number; gK: NetworkGraph; gKp: NetworkGraph | null } | null = null;
+  const graphsOf = (s: number) => {
+    if (built?.s !== s) {
+      const gK = s === 0 ? g0 : buildSample(net, { mode: "leads", fluxPerPlaquette: phi, sample: s });
+      // valley K' is absorbed on the block path only: no general schedule
+      built = { s, gK, gKp: valleys === 2 ? reverseGraph(gK, false) : null };
+    }
+    return built;
+  };
+  const local = (p: TransportPiece): SampleTransport => {
+    const gr = graphsOf(p.sample);
+    return sampleTransport(p.valley === "K" ? gr.gK : (gr.gKp as NetworkGraph), p.thetaE, p.wantEigen, progress, p.withCheck);
+  };
+  // Independent pieces (valleys, samples): on the worker's free threads when it offers them
+  // (opts.parallel, compute/parallel.ts), else in order here; the results are the same either way.
+  const par = opts.parallel;
+  const maxEigenvalues = leadChannelCount(g0);
+  const runPieces = (list: TransportPiece[]): SampleTransport[] => {
+    if (!par || list.length < 2 || g0.nodeCount < par.minNodes) return list.map(local);
+    return par.run({ network: net, fluxPerPlaquette: phi, pieces: list, maxEigenvalues }, (i) => local(list[i]), progress);
+  };
+  // at the chemical potential: transmission, eigenvalues and shot noise (T = 0 quantities); the
+  // R + T = N check runs on valley K (K' skips the reflection rows)
+  const th0 = energyPhase(scale, c.energyMeV);
+  const atMu = (s: number): TransportPiece[] => [
+    { sample: s, valley: "K", thetaE: th0, wantEigen: s === 0, withCheck: true },
+    ...(valleys === 2 ? [{ sample: s, valley: "K'" as const, thetaE: th0, wantEigen: s === 0, withCheck: false }] : []),
+  ];
+  // without a thermal average every sample's pieces are independent: one batch
+  const allAtMu = thermalOn ? null : runPieces(Array.from({ length: samples }, (_, s) => atMu(s)).flat());
   for (let s = 0; s < samples; s++) {
-    const gK = s === 0 ? g0 : buildSample(net, { mode: "leads", fluxPerPlaquette: phi, sample: s });
-    // valley K' is absorbed on the block path only: no general schedule
-    const gKp = valleys === 2 ? reverseGraph(gK, false) : null;
-    // at the chemical potential: transmission, eigenvalues and shot noise (T = 0 quantities)
-    const th0 = energyPhase(scale, c.energyMeV);
-    const r0 = sampleTransport(gK, th0, s === 0, progress);
-    const r0p = gKp ? sampleTransport(gKp, th0, s === 0, progress, false) : null;
+    const [r0, r0p = null] = allAtMu ? allAtMu.slice(s * valleys, (s + 1) * valleys) : runPieces(atMu(s));
     err = Math.max(err, r0.conservationError);
     noiseSum += r0.noise + (r0p?.noise ?? 0);
     tSum += r0.transmission + (r0p?.transmission ?? 0);
@@ -223,12 +256,16 @@ export function computeConductance(net: Network, c: ConductanceComputation, opts
     let TK = r0.transmission,
       TKp = r0p?.transmission ?? 0;
     if (thermalOn) {
+      const { gK } = graphsOf(s);
       // the R + T = N check runs on valley K at every energy (K' skips the reflection rows)
       const f = (eMeV: number): number[] => {
         const th = energyPhase(scale, eMeV);
-        const rK = sampleTransport(gK, th, false, progress);
+        const [rK, rKp = null] = runPieces([
+          { sample: s, valley: "K", thetaE: th, wantEigen: false, withCheck: true },
+          ...(valleys === 2 ? [{ sample: s, valley: "K'" as const, thetaE: th, wantEigen: false, withCheck: false }] : []),
+        ]);
         err = Math.max(err, rK.conservationError);
-        return [rK.transmission, gKp ? sampleTransport(gKp, th, false, progress, false).transmission : 0];
+        return [rK.transmission, rKp ? rKp.transmission : 0];
       };
       const resonance = c.temperaturePoints === undefined ? narrowestResonance(gK) : null;
       const widthMeV = resonance ? resonance.widthRad * scale.energyScaleMeV : null;
@@ -254,9 +291,9 @@ export function computeConductance(net: Network, c: ConductanceComputation, opts
         narrowestResonanceMeV: widthMeV === null ? null : Math.min(prev?.narrowestResonanceMeV ?? Infinity, widthMeV),
       };
     }
-    const copies = gK.copies;
+    const copies = g0.copies;
     const gk = TK * copies,
-      gkp = gKp ? TKp * copies : null;
+      gkp = valleys === 2 ? TKp * copies : null;
     perSample.push({ gK: gk, gKp: gkp, total: spin * (gk + (gkp ?? 0)) });
   }
   const warnings: string[] = [];

@@ -1,8 +1,11 @@
 import { EngineCancelledError } from "../errors";
+import type { ParallelRunner } from "./parallel";
 
 export interface ComputeOptions {
   onProgress?: (fraction: number) => void;
   shouldCancel?: () => boolean;
+  /** Other threads for the independent pieces of a conductance (both valleys, ensemble samples): see parallel.ts. Absent: one thread. */
+  parallel?: ParallelRunner;
 }
 
 /** Work counter: reports progress (throttled to ~10 per second, at least every 0.2 s of work)

@@ -72,12 +72,15 @@ export function chooseCoreType(cpuinfo: string): string | null {
 const ADDON = "triskel_kernels.node";
 const ENV_ADDON = "triskel_env.node";
 
-/** Folders that may hold the built addons: beside this file, then from the working directory. */
+/** Folders that may hold the built addons: beside this file (or the bundle), then from the working directory. */
 function addonFolders(): string[] {
   const folders: string[] = [];
   if (process.env.TRISKEL_NATIVE_DIR) folders.push(process.env.TRISKEL_NATIVE_DIR);
   try {
-    folders.push(path.join(path.dirname(fileURLToPath(import.meta.url)), "build", "Release"));
+    const here = path.dirname(fileURLToPath(import.meta.url));
+    folders.push(path.join(here, "build", "Release"));
+    // the command line's bundle (dist/engine-cli.mjs, scripts/build-cli.mjs): from the repository root
+    folders.push(path.join(here, "..", "src", "engine", "native", "build", "Release"));
   } catch {
     // not a file: URL (bundled): fall through to the working directory
   }

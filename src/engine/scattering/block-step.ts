@@ -168,12 +168,16 @@ export function absorbBlock(a: Absorber, block: Int32Array): void {
   const nr = a.nr,
     nc = a.nc;
   a.ensure(nr + ny, nc + nx);
+  // The columns Q become internal: moved to the end first, so that the update and the new rows
+  // touch only the columns that survive (keep = nc - q of them, a third of the products' work on
+  // a strip) and the new columns X take the places of Q (no columns to move afterwards).
+  const keep = nc - q;
+  const Q = moveColumnsLast(a, Qcol);
   const S = a.S,
     C2 = 2 * a.capC;
   const small = tsKernels,
     big = getKernels();
-  const Q = Int32Array.from(Qcol),
-    QR = Int32Array.from(Qrow),
+  const QR = Int32Array.from(Qrow),
     PR = Int32Array.from(Prow);
   const rows = {
     start: Int32Array.from(outRows.start),
@@ -199,39 +203,94 @@ export function absorbBlock(a: Absorber, block: Int32Array): void {
         throw e;
       }
       const Z = transpose(ZT, q, nr, scratch(3, 2 * q * nr, false));
-      // 5. the rank-q update S[:, :nc] += Z (M S[rho, :])
-      if (p > 0 && nc > 0) {
-        const W = sparseTimesRows(S, C2, rows, QR, PR, p, nc);
-        (nr * nc * q >= BACKEND_MIN_UPDATE ? big : small).gemmAccumulate(nr, nc, q, Z, 0, q, W, 0, nc, S, 0, a.capC);
+      // 5. the rank-q update of the surviving columns S[:, :keep] += Z (M S[rho, :keep])
+      if (p > 0 && keep > 0) {
+        const W = sparseTimesRows(S, C2, rows, QR, PR, p, keep);
+        (nr * keep * q >= BACKEND_MIN_UPDATE ? big : small).gemmAccumulate(nr, keep, q, Z, 0, q, W, 0, keep, S, 0, a.capC);
       }
-      // 6. new columns S[:, nc + x] = Z T[Q, X] (sparse)
-      newColumns(S, C2, nr, nc, nx, Z, rows, QR, p);
+      // 6. new columns S[:, keep + x] = Z T[Q, X] (sparse), over the columns Q
+      newColumns(S, C2, nr, keep, nx, Z, rows, QR, p);
     }
   } else {
     if (a.stepDet) {
       a.stepDet[2 * a.nextGroup] = 1;
       a.stepDet[2 * a.nextGroup + 1] = 0;
     }
-    for (let r = 0; r < nr; r++) S.fill(0, r * C2 + 2 * nc, r * C2 + 2 * (nc + nx));
+    for (let r = 0; r < nr; r++) S.fill(0, r * C2 + 2 * keep, r * C2 + 2 * (keep + nx));
   }
+  // 7. the columns Q are internal now; X in their places and after them
+  for (let o = 0; o < q; o++) a.chCol[a.colCh[keep + o]] = -1;
   for (let x = 0; x < nx; x++) {
-    a.colCh[nc + x] = Xch[x];
-    a.chCol[Xch[x]] = nc + x;
+    a.colCh[keep + x] = Xch[x];
+    a.chCol[Xch[x]] = keep + x;
   }
-  // 7. new rows S[Y, :] = T[Y, P] S[rho, :] + T[Y, X] (rows rho already updated, new columns included)
-  newRows(S, C2, nr, nc, nx, rows, Int32Array.from(Yrow), PR, p);
+  a.nc = keep + nx;
+  // 8. new rows S[Y, :] = T[Y, P] S[rho, :] + T[Y, X] (rows rho already updated, new columns included)
+  newRows(S, C2, nr, keep, nx, rows, Int32Array.from(Yrow), PR, p);
   for (let y = 0; y < ny; y++) {
     a.rowCh[nr + y] = Ych[y];
     a.chRow[Ych[y]] = nr + y;
   }
   a.nr = nr + ny;
-  a.nc = nc + nx;
-  // 8. the rows rho and the columns Q are internal now
-  const colsToDrop = Qcol.map((c) => a.colCh[c]);
+  // 9. the rows rho are internal now
   for (const ch of Pch) a.removeRow(a.chRow[ch]);
-  a.removeCols(colsToDrop);
   for (const n of block) a.absorbed[n] = 1;
   a.nextGroup++;
+}
+
+/**
+ * Moves the columns `cols` of the frontier to its last q places, in the given order (column
+ * cols[o] to nc - q + o), swapping the surviving columns found there into the places they leave;
+ * returns the new indices (nc - q, ..., nc - 1).
+ */
+function moveColumnsLast(a: Absorber, cols: number[]): Int32Array {
+  const nc = a.nc,
+    q = cols.length,
+    start = nc - q;
+  const at = Int32Array.from({ length: q }, (_, o) => start + o);
+  if (q === 0) return at;
+  const isMoving = new Uint8Array(nc);
+  for (const c of cols) isMoving[c] = 1;
+  // (to, from) pairs: each moving column to its target, each surviving column of the tail to a freed place
+  const to: number[] = [],
+    from: number[] = [];
+  const holes: number[] = [];
+  for (let o = 0; o < q; o++) {
+    if (cols[o] !== start + o) {
+      to.push(start + o);
+      from.push(cols[o]);
+    }
+    if (cols[o] < start) holes.push(cols[o]);
+  }
+  let h = 0;
+  for (let c = start; c < nc; c++)
+    if (!isMoving[c]) {
+      to.push(holes[h]);
+      from.push(c);
+      h++;
+    }
+  const m = to.length;
+  if (m === 0) return at;
+  const chOf = Int32Array.from(from, (c) => a.colCh[c]);
+  for (let j = 0; j < m; j++) {
+    a.colCh[to[j]] = chOf[j];
+    a.chCol[chOf[j]] = to[j];
+  }
+  const S = a.S,
+    C2 = 2 * a.capC;
+  const tmp = scratch(5, 2 * m, false);
+  for (let r = 0; r < a.nr; r++) {
+    const ro = r * C2;
+    for (let j = 0; j < m; j++) {
+      tmp[2 * j] = S[ro + 2 * from[j]];
+      tmp[2 * j + 1] = S[ro + 2 * from[j] + 1];
+    }
+    for (let j = 0; j < m; j++) {
+      S[ro + 2 * to[j]] = tmp[2 * j];
+      S[ro + 2 * to[j] + 1] = tmp[2 * j + 1];
+    }
+  }
+  return at;
 }
 
 interface Rows {

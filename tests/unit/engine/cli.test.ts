@@ -1,13 +1,19 @@
 import { describe, expect, it } from "vitest";
 import { spawnSync } from "node:child_process";
 import { readFileSync, readdirSync } from "node:fs";
+import os from "node:os";
 import path from "node:path";
 
 const ROOT = path.resolve(import.meta.dirname, "../../..");
 const FIX = path.join(ROOT, "tests/fixtures");
 const expected = JSON.parse(readFileSync(path.join(FIX, "expected.json"), "utf8")) as Record<string, Record<string, unknown>>;
 
-function run(args: string[], input?: string) {
+/** `npm run cli`: the launcher, which runs the JavaScript bundle (dist/engine-cli.mjs, built when missing or stale). */
+function run(args: string[], input?: string, cwd = ROOT) {
+  return spawnSync(process.execPath, [path.join(ROOT, "scripts/cli.mjs"), ...args], { cwd, input, encoding: "utf8" });
+}
+/** The TypeScript source through tsx, as `npm run cli` ran before the bundle. */
+function runTsx(args: string[], input?: string) {
   return spawnSync(path.join(ROOT, "node_modules/.bin/tsx"), [path.join(ROOT, "src/engine/cli.ts"), ...args], { cwd: ROOT, input, encoding: "utf8" });
 }
 function at(obj: unknown, dotted: string): unknown {
@@ -51,6 +57,24 @@ describe("command line on the fixtures (tests/fixtures/expected.json)", () => {
       for (const [k, v] of Object.entries(exp.lengthOf ?? {})) expect((at(out, k) as unknown[]).length, k).toBe(v);
     });
   }
+  // The bundle against the TypeScript it was built from: the same bytes on standard output and
+  // standard error and the same exit code, on results, refusals and bad input, from another folder too.
+  for (const f of ["conductance-disordered-ensemble.json", "dos-bloch.json", "ldos-map.json", "spectrum-flux.json", "invalid-unknown-field.json"]) {
+    it(`${f}: the bundle prints exactly what the TypeScript prints`, () => {
+      const a = run(["compute", path.join(FIX, f)], undefined, os.tmpdir());
+      const b = runTsx(["compute", path.join(FIX, f)]);
+      expect(a.status).toBe(b.status);
+      expect(a.stdout).toBe(b.stdout);
+      expect(a.stderr).toBe(b.stderr);
+      expect(a.stdout.length + a.stderr.length).toBeGreaterThan(0);
+    });
+  }
+  it("the bundle loads the same kernel backend as the TypeScript (engineVersion)", () => {
+    const text = readFileSync(path.join(FIX, "spectrum-path.json"), "utf8");
+    const a = JSON.parse(run(["compute", "-"], text, os.tmpdir()).stdout) as { engineVersion: string };
+    const b = JSON.parse(runTsx(["compute", "-"], text).stdout) as { engineVersion: string };
+    expect(a.engineVersion).toBe(b.engineVersion);
+  });
   it("reads standard input with '-' and prints exactly one JSON object", () => {
     const r = run(["compute", "-"], readFileSync(path.join(FIX, "spectrum-path.json"), "utf8"));
     expect(r.status).toBe(0);
