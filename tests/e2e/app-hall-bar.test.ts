@@ -39,12 +39,28 @@ describe("Hall bar in the browser", () => {
     await form.getByRole("radio", { name: "Hall bar" }).click();
     const editor = page.getByTestId("hall-bar-contacts");
     await editor.waitFor();
-    await expect(editor.locator("[data-contact]").count()).resolves.toBe(4);
-    await expect(editor.locator("svg").getAttribute("aria-label")).resolves.toMatch(/top1 on the top edge, columns 3 to 3/);
+    const strip = editor.getByTestId("contact-strip");
+    await expect(strip.locator("[data-contact]").count()).resolves.toBe(4);
+    await expect(strip.getAttribute("aria-label")).resolves.toMatch(/top1 on the top edge, columns 3 to 3/);
+    // the contacts are drawn on the network drawing too, as named windows on its edges
+    const drawn = editor.locator("svg[data-renderer=svg] [data-layer=contacts] [data-contact]");
+    await expect(drawn.count()).resolves.toBe(4);
+    await expect(editor.locator('svg[data-renderer=svg] [data-contact="bottom2"] text').textContent()).resolves.toBe("bottom2");
+    // drag bottom1 two columns to the right along its edge (column 3 -> 5)
+    const box = (await strip.boundingBox())!;
+    const handle = (await strip.locator('[data-contact="bottom1"] rect').boundingBox())!;
+    const column = (box.width * ((640 - 2 * 36) / 9)) / 640;
+    await page.mouse.move(handle.x + handle.width / 2, handle.y + handle.height / 2);
+    await page.mouse.down();
+    await page.mouse.move(handle.x + handle.width / 2 + column, handle.y + handle.height / 2, { steps: 4 });
+    await page.mouse.move(handle.x + handle.width / 2 + 2 * column, handle.y + handle.height / 2, { steps: 4 });
+    await page.mouse.up();
+    await expect(strip.getAttribute("aria-label")).resolves.toMatch(/bottom1 on the bottom edge, columns 5 to 5/);
+    await expect(editor.getByLabel("bottom1: from column").inputValue()).resolves.toBe("5");
     // move top2 from column 6 to columns 5-7 by typing
     await editor.getByLabel("top2: to column").fill("7");
     await editor.getByLabel("top2: from column").fill("5");
-    await expect(editor.locator("svg").getAttribute("aria-label")).resolves.toMatch(/top2 on the top edge, columns 5 to 7/);
+    await expect(strip.getAttribute("aria-label")).resolves.toMatch(/top2 on the top edge, columns 5 to 7/);
     // an overlapping window is named before sending
     await editor.getByLabel("top1: to column").fill("5");
     await expect(page.getByTestId("hall-bar-contact-problems").innerText()).resolves.toMatch(/top2 overlaps top1 on the top edge/);

@@ -24,6 +24,15 @@ interface Props {
   label?: string;
   /** Draw these links instead of the lattice of `shape` (e.g. the links of a result). */
   custom?: NetworkGeometry;
+  /** Side contacts of a Hall bar: named windows of columns on the top and bottom edges. */
+  contacts?: DrawnContact[];
+}
+
+export interface DrawnContact {
+  name: string;
+  edge: "top" | "bottom";
+  fromColumn: number;
+  toColumn: number;
 }
 
 /**
@@ -33,7 +42,7 @@ interface Props {
  * (arrowheads and nodes appear once a link is long enough on screen to show them).
  * The time of the first draw (geometry + paint, performance.now) is in data-first-draw-ms.
  */
-export function NetworkDrawing({ shape, linkNm, height = 420, linkValues, label, custom }: Props) {
+export function NetworkDrawing({ shape, linkNm, height = 420, linkValues, label, custom, contacts }: Props) {
   const links = custom ? custom.linkCount : linkCountOf(shape);
   const mode = links > SVG_LINK_LIMIT ? "canvas" : "svg";
   const { ref: wrapRef, width } = useWidth(640, 240);
@@ -47,7 +56,7 @@ export function NetworkDrawing({ shape, linkNm, height = 420, linkValues, label,
       <div ref={wrapRef} style={{ height }} className="relative w-full">
         {palette ? (
           mode === "svg" ? (
-            <SvgNetwork {...{ shape, custom, width, height, palette, linkValues }} description={label ?? description} />
+            <SvgNetwork {...{ shape, custom, width, height, palette, linkValues, contacts }} description={label ?? description} />
           ) : (
             <CanvasNetwork {...{ shape, custom, width, height, palette, linkValues }} description={label ?? description} />
           )
@@ -57,6 +66,9 @@ export function NetworkDrawing({ shape, linkNm, height = 420, linkValues, label,
         <span>
           {shape.columns} × {shape.rows} · {links.toLocaleString("en")} links · valley {shape.valley}
           {linkNm ? ` · link ${linkNm.toFixed(1)} nm` : ""}
+          {contacts?.length && mode === "canvas"
+            ? ` · contacts (not drawn at this size): ${contacts.map((c) => `${c.name} ${c.edge} ${c.fromColumn}–${c.toColumn}`).join(", ")}`
+            : ""}
         </span>
         <span className="flex items-center gap-3">
           <span className="flex items-center gap-1">
@@ -88,9 +100,10 @@ interface RendererProps {
   palette: Palette;
   linkValues?: LinkValues;
   description: string;
+  contacts?: DrawnContact[];
 }
 
-function SvgNetwork({ shape, custom, width, height, palette, linkValues, description }: RendererProps) {
+function SvgNetwork({ shape, custom, width, height, palette, linkValues, description, contacts }: RendererProps) {
   const svgRef = useRef<SVGSVGElement>(null);
   const gRef = useRef<SVGGElement>(null);
   const geometry = useMemo(() => custom ?? networkGeometry(shape), [custom, shape]);
@@ -142,6 +155,34 @@ function SvgNetwork({ shape, custom, width, height, palette, linkValues, descrip
       .attr("stroke", palette.faint)
       .attr("stroke-width", 1.2)
       .attr("stroke-dasharray", shape.transverse === "periodic" ? "6 4" : null);
+    // Hall-bar side contacts: a named window over their columns just outside the top or bottom edge
+    // (a triangular column's nodes sit at x = i and i + 1/2; a square column's at x = i).
+    const half = shape.lattice === "triangular" ? [0.25, 0.75] : [0.4, 0.4];
+    const band = 0.35;
+    const windows = root
+      .append("g")
+      .attr("data-layer", "contacts")
+      .selectAll("g")
+      .data(contacts ?? [])
+      .join("g")
+      .attr("data-contact", (c) => c.name);
+    windows
+      .append("rect")
+      .attr("x", (c) => f.x(c.fromColumn - half[0]))
+      .attr("width", (c) => f.x(c.toColumn + half[1]) - f.x(c.fromColumn - half[0]))
+      .attr("y", (c) => (c.edge === "top" ? f.y(g.bounds.yMax + 0.45 + band) : f.y(g.bounds.yMin - 0.45)))
+      .attr("height", band * f.k)
+      .attr("rx", 3)
+      .attr("fill", palette.lead)
+      .attr("opacity", 0.85);
+    windows
+      .append("text")
+      .attr("x", (c) => (f.x(c.fromColumn - half[0]) + f.x(c.toColumn + half[1])) / 2)
+      .attr("y", (c) => (c.edge === "top" ? f.y(g.bounds.yMax + 0.45 + band) - 4 : f.y(g.bounds.yMin - 0.45 - band) + 12))
+      .attr("text-anchor", "middle")
+      .attr("font-size", 11)
+      .attr("fill", palette.node)
+      .text((c) => c.name);
     const idx = d3.range(g.linkCount);
     root
       .append("g")
@@ -189,7 +230,7 @@ function SvgNetwork({ shape, custom, width, height, palette, linkValues, descrip
     return () => {
       svg.on(".zoom", null);
     };
-  }, [geometry, width, height, palette, shape.transverse, linkValues]);
+  }, [geometry, width, height, palette, shape.transverse, shape.lattice, linkValues, contacts]);
   return (
     <svg
       ref={svgRef}

@@ -9,6 +9,7 @@ import { estimateInput, validateComputation } from "@/lib/engineClient";
 import { Field, NumberInput, Select } from "@/components/ui/Field";
 import { buildComputation, defaultsFor, FIELDS, isShown, type ComputationKind, type FormValues } from "./computations";
 import { defaultBar, HallBarContacts, type ContactDraft } from "./HallBarContacts";
+import type { NetworkShape } from "@/lib/lattice";
 
 /**
  * The computation part of the run form and of the sweep builder: its kind and field values, the
@@ -32,9 +33,12 @@ export function useComputationDraft(network: NetworkView) {
     setValues(defaultsFor(k));
     setContacts(null);
   };
-  const columns = network.network.size.columns;
-  const openEdges = network.network.transverse === "open";
-  return { kind, values, setValues, chooseKind, computation, check, seconds, contacts, setContacts, columns, openEdges };
+  const net = network.network;
+  const shape: NetworkShape = useMemo(
+    () => ({ lattice: net.lattice, columns: net.size.columns, rows: net.size.rows, transverse: net.transverse, valley: "K" }),
+    [net.lattice, net.size.columns, net.size.rows, net.transverse],
+  );
+  return { kind, values, setValues, chooseKind, computation, check, seconds, contacts, setContacts, shape };
 }
 
 export type ComputationDraft = ReturnType<typeof useComputationDraft>;
@@ -55,12 +59,7 @@ export function ComputationFields({
   return (
     <>
       {kind === "hallBar" ? (
-        <HallBarContacts
-          columns={draft.columns}
-          openEdges={draft.openEdges}
-          contacts={draft.contacts ?? defaultBar(draft.columns)}
-          onChange={draft.setContacts}
-        />
+        <HallBarContacts shape={draft.shape} contacts={draft.contacts ?? defaultBar(draft.shape.columns)} onChange={draft.setContacts} />
       ) : null}
       {FIELDS[kind]
         .filter((f) => isShown(f, values))

@@ -2,6 +2,8 @@
 
 import { useRef, useState, type PointerEvent } from "react";
 import { defaultContacts, type HallBarContact } from "@/engine/browser";
+import type { NetworkShape } from "@/lib/lattice";
+import { NetworkDrawing } from "@/components/network/NetworkDrawing";
 
 /** A side contact of a Hall bar: a window of columns on the top or bottom edge (engine schema, kind hallBar). */
 export type ContactDraft = HallBarContact;
@@ -41,16 +43,17 @@ const W = 640,
  * columns; add, remove, or go back to the six-terminal bar.
  */
 export function HallBarContacts({
-  columns,
-  openEdges,
+  shape,
   contacts,
   onChange,
 }: {
-  columns: number;
-  openEdges: boolean;
+  /** The network's lattice, size and edges (the drawing of the network with the contacts on it). */
+  shape: NetworkShape;
   contacts: ContactDraft[];
   onChange: (c: ContactDraft[]) => void;
 }) {
+  const columns = shape.columns;
+  const openEdges = shape.transverse === "open";
   const colW = (W - 2 * PAD) / Math.max(1, columns);
   const svg = useRef<SVGSVGElement>(null);
   const [drag, setDrag] = useState<{ index: number; grabColumn: number; from: number } | null>(null);
@@ -82,8 +85,11 @@ export function HallBarContacts({
           transverse edges to open.
         </p>
       ) : null}
+      {openEdges ? <NetworkDrawing shape={shape} height={260} contacts={contacts} label={`the network with the Hall bar's contacts on its edges`} /> : null}
+      <p className="text-caption text-fg-soft">Drag a window along its edge in the strip below, or type its columns in the table.</p>
       <svg
         ref={svg}
+        data-testid="contact-strip"
         viewBox={`0 0 ${W} ${H}`}
         className="w-full max-w-2xl touch-none select-none"
         role="img"
