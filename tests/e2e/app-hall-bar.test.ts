@@ -47,6 +47,7 @@ describe("Hall bar in the browser", () => {
     await expect(drawn.count()).resolves.toBe(4);
     await expect(editor.locator('svg[data-renderer=svg] [data-contact="bottom2"] text').textContent()).resolves.toBe("bottom2");
     // drag bottom1 two columns to the right along its edge (column 3 -> 5)
+    await strip.scrollIntoViewIfNeeded();
     const box = (await strip.boundingBox())!;
     const handle = (await strip.locator('[data-contact="bottom1"] rect').boundingBox())!;
     const column = (box.width * ((640 - 2 * 36) / 9)) / 640;
@@ -55,7 +56,7 @@ describe("Hall bar in the browser", () => {
     await page.mouse.move(handle.x + handle.width / 2 + column, handle.y + handle.height / 2, { steps: 4 });
     await page.mouse.move(handle.x + handle.width / 2 + 2 * column, handle.y + handle.height / 2, { steps: 4 });
     await page.mouse.up();
-    await expect(strip.getAttribute("aria-label")).resolves.toMatch(/bottom1 on the bottom edge, columns 5 to 5/);
+    await expect.poll(() => strip.getAttribute("aria-label")).toMatch(/bottom1 on the bottom edge, columns 5 to 5/);
     await expect(editor.getByLabel("bottom1: from column").inputValue()).resolves.toBe("5");
     // move top2 from column 6 to columns 5-7 by typing
     await editor.getByLabel("top2: to column").fill("7");
