@@ -77,7 +77,7 @@ export function HallBarContacts({
   const set = (i: number, patch: Partial<ContactDraft>) => onChange(contacts.map((k, j) => (j === i ? { ...k, ...patch } : k)));
   const problems = contactProblems(contacts, columns);
   return (
-    <fieldset className="tk-card space-y-3" data-testid="hall-bar-contacts">
+    <fieldset className="tk-card col-span-full space-y-3" data-testid="hall-bar-contacts">
       <legend className="px-1 text-body font-semibold">Contacts of the Hall bar</legend>
       {!openEdges ? (
         <p role="alert" className="rounded-field bg-danger-soft p-2 text-caption text-danger">
