@@ -49,6 +49,7 @@ describe("calculations table", () => {
           "Density of states": "dos",
           "Local density of states": "ldos",
           "Localization length": "localization",
+          "Hall bar": "hallBar",
         })[k] ?? k,
     );
     expect(kindsRaw).toEqual([...kindsRaw].sort());

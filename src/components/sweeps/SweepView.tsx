@@ -14,15 +14,11 @@ import { useMemberNames } from "@/components/shell/useMemberNames";
 import { HeatMap } from "@/components/charts/HeatMap";
 import { XYChart } from "@/components/charts/XYChart";
 import { quantityLabel, preferredQuantity, errorQuantityFor } from "./quantities";
+import { KINDS } from "@/components/runs/computations";
 
 const LIVE = new Set(["queued", "running"]);
-const KIND_LABEL: Record<string, string> = {
-  conductance: "Conductance",
-  dos: "Density of states",
-  ldos: "Local density of states",
-  localization: "Localization length",
-  spectrum: "Band structure",
-};
+/** A computation kind in words (the calculation form's table, one place for the names). */
+const kindLabel = (kind: string): string | undefined => KINDS.find((k) => k.kind === kind)?.label;
 
 /** A sweep: progress, partial results drawn as they arrive (1 axis: curve; 2 axes: heat map). */
 export function SweepView({ id }: { id: string }) {
@@ -65,7 +61,7 @@ export function SweepView({ id }: { id: string }) {
           `scan · ${s.axes.length} axis${s.axes.length > 1 ? "es" : ""} · ` + `${s.pointCount} points${s.ensemble ? ` × ${s.ensemble.samples} seeds` : ""}`
         }
         title={
-          `${KIND_LABEL[s.input?.computation?.kind ?? "conductance"] ?? "Scan"} ` +
+          `${kindLabel(s.input?.computation?.kind ?? "conductance") ?? "Scan"} ` +
           `over ${s.axes.map((a) => (PARAMETER_UNITS[a.parameter]?.label ?? a.parameter).toLowerCase()).join(" and ")}`
         }
         actions={
