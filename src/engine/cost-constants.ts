@@ -139,6 +139,11 @@ export const COST_CONSTANTS = {
    * 2-core machine by scripts/bench-cost.ts (the thermal cases print both: 1.08-1.10 in diffusive
    * samples, 1.35 for forward 0.9). */
   adaptiveRefinementFactor: 1.1,
+  /** Hall bar (compute/hall-bar.ts): its composition on the general path with every terminal's
+   * rows kept, over the replayed conductance sweep of valley K with reflection. Measured on this
+   * 2-core machine on 2026-12-03 (triangular W x W open bars, one OpenBLAS thread, CPU time, least
+   * of 3): the unscaled estimate was 0.52-0.63 of the CPU time at W = 32, 64, 96. */
+  hallBarSweepFactor: 1.8,
 
   // --- Bloch DOS (compute/dos.ts) ---
   /** Broadened sum per eigenphase and energy (a Poisson kernel and its integral). Calibrated on

@@ -442,7 +442,12 @@ export function estimateCost(input: ComputeInput, options: CostOptions = {}): Co
       const samples = c.ensemble?.samples ?? 1;
       const nIn = s.leadChannels + 2 * net.size.columns;
       graphs(s, samples, 1);
-      add("slice composition with every terminal's rows (per valley, one energy)", samples * points * valleys, s.sweepK.work, s.sweepK.seconds);
+      add(
+        "slice composition with every terminal's rows (per valley, one energy)",
+        samples * points * valleys,
+        s.sweepK.work,
+        s.sweepK.seconds * K.hallBarSweepFactor,
+      );
       add("terminal transmissions T_ij (per valley and energy)", samples * points * valleys, nIn * nIn, nIn * nIn * K.entryReadSeconds);
       if (width !== undefined) add("narrowest-resonance search (per sample)", samples, s.nodes, resonanceSeconds(s, width));
       peak += 2 * s.peakMatrixBytes + 2 * s.graphBytes;

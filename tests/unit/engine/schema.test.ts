@@ -179,7 +179,11 @@ describe("cost model, limits, progress and cancellation", () => {
     expect(r.engineVersion).toBe(ENGINE_VERSION);
     expect(seen[0]).toBe(0);
     expect(seen[seen.length - 1]).toBe(1);
+    // A cancel request ends the computation with EngineCancelledError whether it comes at the
+    // first check (every 20 ms of work) or at the last one before the result (a fast machine may
+    // finish this sample before 20 ms have passed; the count of checks depends on its speed).
     let calls = 0;
-    expect(() => compute(inp, { shouldCancel: () => ++calls > 3 })).toThrow(EngineCancelledError);
+    expect(() => compute(inp, { shouldCancel: () => ++calls >= 1 })).toThrow(EngineCancelledError);
+    expect(calls).toBe(1);
   });
 });
