@@ -2,6 +2,7 @@
 
 import type { HallBarResult } from "@/engine/browser";
 import { RESISTANCE_QUANTUM_OHM } from "@/engine/browser";
+import { ResultWarnings } from "./ResultWarnings";
 import { num, withUnit } from "@/lib/units";
 
 const EDGE_WORDS: Record<HallBarResult["terminals"][number]["edge"], string> = {
@@ -146,13 +147,7 @@ export function HallBarView({ r }: { r: HallBarResult }) {
           Thermal average: {r.thermal.energiesPerSample} energies per sample, estimated relative error {num(r.thermal.estimatedRelativeError)}.
         </p>
       ) : null}
-      {r.warnings.length > 0 ? (
-        <ul role="alert" className="tk-card space-y-1 text-caption" data-testid="result-warnings">
-          {r.warnings.map((w, i) => (
-            <li key={i}>Warning: {w}</li>
-          ))}
-        </ul>
-      ) : null}
+      <ResultWarnings warnings={r.warnings} />
       <p className="text-caption text-fg-faint">Model predictions of the network model, not measurements.</p>
     </div>
   );

@@ -11,6 +11,7 @@ import type {
   SpectrumResult as Spectrum,
 } from "@/engine/browser";
 import type { RunDetail } from "@/shared/api";
+import { ResultWarnings } from "./ResultWarnings";
 import { num, withUnit } from "@/lib/units";
 import { BandChart } from "@/components/charts/BandChart";
 import { Histogram } from "@/components/charts/Histogram";
@@ -110,13 +111,7 @@ function ConductanceResult({ r }: { r: Conductance }) {
           {num(r.thermal.relativeTolerance)}).
         </p>
       ) : null}
-      {r.warnings.length > 0 ? (
-        <ul role="alert" className="tk-card space-y-1 text-caption" data-testid="result-warnings">
-          {r.warnings.map((w, i) => (
-            <li key={i}>Warning: {w}</li>
-          ))}
-        </ul>
-      ) : null}
+      <ResultWarnings warnings={r.warnings} />
       <div className="grid gap-6 xl:grid-cols-2">
         {eig.length > 0 ? (
           <Histogram

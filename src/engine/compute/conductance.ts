@@ -17,7 +17,7 @@ import { narrowestResonance } from "./resonance";
 import { EngineInputError } from "../errors";
 
 /** A thermal average beyond what the rule can resolve is refused (CLI exit 2, API 422), naming the field. */
-function thermalOrRefuse(run: () => ThermalAverage): ThermalAverage {
+export function thermalOrRefuse(run: () => ThermalAverage): ThermalAverage {
   try {
     return run();
   } catch (e) {

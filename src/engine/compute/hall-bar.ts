@@ -9,7 +9,6 @@
  * with n grounded, the reduced system solved for the voltages, R_mn,kl = (V_k - V_l) / I.
  */
 import { BOLTZMANN_J_PER_K, CONDUCTANCE_QUANTUM_S, JOULE_PER_MEV } from "../constants";
-import { EngineInputError } from "../errors";
 import {
   CH_CONTACT_IN,
   CH_CONTACT_OUT,
@@ -27,7 +26,8 @@ import type { HallBarComputation, Network } from "../schema";
 import { Absorber } from "../scattering/absorber";
 import { energyPhase, fluxPerPlaquette, mean, networkScale, std } from "./common";
 import { Progress, type ComputeOptions } from "./progress";
-import { thermalAverage, ThermalResolutionError, type ThermalAverage } from "./quadrature";
+import { thermalAverage, type ThermalAverage } from "./quadrature";
+import { thermalOrRefuse } from "./conductance";
 import { narrowestResonance } from "./resonance";
 
 /** h / e^2 in ohms (the von Klitzing constant, exact in SI since 2019). */
@@ -262,19 +262,15 @@ export function computeHallBar(net: Network, c: HallBarComputation, opts: Comput
     if (kTMeV > 0) {
       const resonance = c.temperaturePoints === undefined ? narrowestResonance(gK) : null;
       const widthMeV = resonance ? resonance.widthRad * scale.energyScaleMeV : null;
-      let avg: ThermalAverage;
-      try {
-        avg = thermalAverage(at, c.energyMeV, kTMeV, scale.energyPeriodMeV, {
+      const avg = thermalOrRefuse(() =>
+        thermalAverage(at, c.energyMeV, kTMeV, scale.energyPeriodMeV, {
           relativeTolerance: c.temperatureTolerance,
           maxEnergies: c.temperatureMaxEnergies,
           fixedPoints: c.temperaturePoints,
           scale: nT * nT,
           panelMeV: widthMeV === null ? scale.energyPeriodMeV : 8 * widthMeV,
-        });
-      } catch (e) {
-        if (e instanceof ThermalResolutionError) throw new EngineInputError("computation.temperatureMaxEnergies", e.message);
-        throw e;
-      }
+        }),
+      );
       values = avg.values;
       const prev = thermal as HallBarResult["thermal"];
       thermal = {
