@@ -3,7 +3,7 @@
  * it); apart so that the schema's parser can run them without importing the computation.
  */
 import { EngineInputError } from "../errors";
-import { CH_CONTACT_IN } from "../network/graph";
+import { CH_CONTACT_IN, type NetworkGraph } from "../network/graph";
 import { buildSample, type ContactWindow } from "../network/lattice";
 import type { HallBarComputation, Network } from "../schema";
 
@@ -32,7 +32,7 @@ export function defaultContacts(columns: number): HallBarContact[] {
  * one edge channel, names unique and not source/drain, measurements naming terminals that exist.
  * Returns the contacts in force (the default six-terminal bar when none are given).
  */
-export function checkHallBar(net: Network, c: HallBarComputation): HallBarContact[] {
+export function checkHallBar(net: Network, c: HallBarComputation, opts: { windows?: boolean } = {}): HallBarContact[] {
   if (net.transverse !== "open")
     throw new EngineInputError(
       "network.transverse",
@@ -73,20 +73,25 @@ export function checkHallBar(net: Network, c: HallBarComputation): HallBarContac
         throw new EngineInputError(`computation.measurements.${i}.current`, "the current must flow between two different terminals");
     }
   });
-  if (contacts.length > 0) {
-    // every window must hold at least one edge channel (e.g. a square network's edge sites sit in every other column)
-    const g = buildSample(net, { mode: "leads", fluxPerPlaquette: 0, sample: 0, contacts });
-    const counts = new Array<number>(contacts.length).fill(0);
-    for (let ch = 0; ch < g.channelCount; ch++) if (g.chKind[ch] === CH_CONTACT_IN) counts[g.chContact![ch]]++;
-    counts.forEach((n, i) => {
-      if (n === 0)
-        throw new EngineInputError(
-          `computation.contacts.${i}`,
-          `the window [${contacts[i].fromColumn}, ${contacts[i].toColumn}] on the ${contacts[i].edge} edge touches no edge channel` +
-            (net.lattice === "square" ? " (the square network's edge sites are in the odd columns)" : "") +
-            "; widen or move it",
-        );
-    });
-  }
+  if (contacts.length > 0 && opts.windows !== false)
+    checkWindowsHoldChannels(net, contacts, buildSample(net, { mode: "leads", fluxPerPlaquette: 0, sample: 0, contacts }));
   return contacts;
+}
+
+/**
+ * Every window must hold at least one edge channel (a square network's edge sites sit in every
+ * other column), read off a sample graph built with these contacts.
+ */
+export function checkWindowsHoldChannels(net: Network, contacts: HallBarContact[], g: NetworkGraph): void {
+  const counts = new Array<number>(contacts.length).fill(0);
+  for (let ch = 0; ch < g.channelCount; ch++) if (g.chKind[ch] === CH_CONTACT_IN) counts[g.chContact![ch]]++;
+  counts.forEach((n, i) => {
+    if (n === 0)
+      throw new EngineInputError(
+        `computation.contacts.${i}`,
+        `the window [${contacts[i].fromColumn}, ${contacts[i].toColumn}] on the ${contacts[i].edge} edge touches no edge channel` +
+          (net.lattice === "square" ? " (the square network's edge sites are in the odd columns)" : "") +
+          "; widen or move it",
+      );
+  });
 }

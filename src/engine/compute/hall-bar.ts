@@ -21,7 +21,7 @@ import {
   type NetworkGraph,
 } from "../network/graph";
 import { buildSample } from "../network/lattice";
-import { checkHallBar, DRAIN, SOURCE } from "./hall-bar-check";
+import { checkHallBar, checkWindowsHoldChannels, DRAIN, SOURCE } from "./hall-bar-check";
 import type { HallBarComputation, Network } from "../schema";
 import { Absorber } from "../scattering/absorber";
 import { energyPhase, fluxPerPlaquette, mean, networkScale, std } from "./common";
@@ -221,7 +221,8 @@ export function fourTerminalOhms(G: number[][], m: number, n: number, k: number,
 }
 
 export function computeHallBar(net: Network, c: HallBarComputation, opts: ComputeOptions = {}): HallBarResult {
-  const contacts = checkHallBar(net, c);
+  // The windows are checked on the sample graph this computation builds anyway (not on a second one).
+  const contacts = checkHallBar(net, c, { windows: false });
   const scale = networkScale(net);
   const phi = fluxPerPlaquette(scale, c.fieldTesla);
   const valleys = net.degeneracy.valley;
@@ -232,6 +233,7 @@ export function computeHallBar(net: Network, c: HallBarComputation, opts: Comput
   const nT = names.length;
   const index = (name: string) => names.indexOf(name);
   const g0 = buildSample(net, { mode: "leads", fluxPerPlaquette: phi, sample: 0, contacts });
+  if (contacts.length > 0) checkWindowsHoldChannels(net, contacts, g0);
   const progress = new Progress(samples * (kTMeV > 0 ? 24 : 1) * g0.schedule.length * valleys, opts);
   const copies = g0.copies;
 
