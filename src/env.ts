@@ -100,6 +100,13 @@ export const envSchema = z.object({
   // --- runs and sweeps worker (issue 4) ---
   /** Engine threads per worker process (piscina pool); default: the larger of WORKER_CONCURRENCY and the number of cores. */
   WORKER_POOL_SIZE: z.coerce.number().int().min(1).max(64).optional(),
+  /**
+   * 1: one run's valleys and ensemble samples also use the pool's free threads (worker/helpers.ts).
+   * Off by default: a test run on 2026-12-03 lost its worker process without a word while two
+   * runs computed with helpers offered (suspected: OpenBLAS's per-process thread setting, see
+   * docs/reliability.md); until that is understood each run computes in its own thread.
+   */
+  WORKER_PARALLEL_RUNS: z.enum(["0", "1"]).default("0"),
   /** How long a job's lock lives without renewal; a dead worker's jobs are retried after it. */
   WORKER_LOCK_MS: z.coerce.number().int().min(2000).max(600_000).default(10_000),
   /** How often a worker looks for stalled jobs (whose worker died). */

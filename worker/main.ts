@@ -25,7 +25,7 @@ const poolSize = env.WORKER_POOL_SIZE ?? Math.max(env.WORKER_CONCURRENCY, availa
 const pool = createEnginePool(poolSize);
 const holdBeforeFinish = makeHoldBeforeFinish(env);
 
-const runsWorker = new Worker(QUEUES.runs, makeRunProcessor(pool, workerId, holdBeforeFinish), {
+const runsWorker = new Worker(QUEUES.runs, makeRunProcessor(pool, workerId, holdBeforeFinish, env.WORKER_PARALLEL_RUNS === "1"), {
   connection: connection as ConnectionOptions,
   prefix: env.QUEUE_PREFIX,
   concurrency: env.WORKER_CONCURRENCY,

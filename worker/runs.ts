@@ -15,7 +15,12 @@ const HEARTBEAT_MS = 5000;
  * poll for cancellation (within a second) and write progress (about once a second), then write
  * everything in one transaction.
  */
-export function makeRunProcessor(pool: Piscina<EngineTask, EngineOutcome>, workerId: string, holdBeforeFinish: HoldBeforeFinish = async () => {}) {
+export function makeRunProcessor(
+  pool: Piscina<EngineTask, EngineOutcome>,
+  workerId: string,
+  holdBeforeFinish: HoldBeforeFinish = async () => {},
+  parallelRuns = false,
+) {
   return async function processRun(job: Job) {
     const runId = rowIdOf(JOB_KINDS.run, job);
     const run = await claimRun(runId, workerId);
@@ -50,14 +55,16 @@ export function makeRunProcessor(pool: Piscina<EngineTask, EngineOutcome>, worke
       })();
     }, CANCEL_POLL_MS);
 
-    // both valleys (and ensemble samples) of the run on the pool's free threads (worker/helpers.ts)
-    const helpers = offerHelpers(pool, control);
+    // both valleys (and ensemble samples) of the run on the pool's free threads (worker/helpers.ts), when switched on (WORKER_PARALLEL_RUNS)
+    const helpers = parallelRuns ? offerHelpers(pool, control) : null;
     let out: EngineOutcome;
     try {
-      out = await pool.run({ input: run.input, control, helpers: helpers.port }, { transferList: [helpers.port] });
+      out = helpers
+        ? await pool.run({ input: run.input, control, helpers: helpers.port }, { transferList: [helpers.port] })
+        : await pool.run({ input: run.input, control });
     } finally {
       clearInterval(timer);
-      helpers.close();
+      helpers?.close();
     }
     // Fault drills only (worker/drill-hold.ts): a no-op unless the drill hook is on.
     await holdBeforeFinish("run", runId, { outcome: out.outcome, cpuSeconds: out.cpuSeconds });
