@@ -101,12 +101,11 @@ export const envSchema = z.object({
   /** Engine threads per worker process (piscina pool); default: the larger of WORKER_CONCURRENCY and the number of cores. */
   WORKER_POOL_SIZE: z.coerce.number().int().min(1).max(64).optional(),
   /**
-   * 1: one run's valleys and ensemble samples also use the pool's free threads (worker/helpers.ts).
-   * Off by default: a test run on 2026-12-03 lost its worker process without a word while two
-   * runs computed with helpers offered (suspected: OpenBLAS's per-process thread setting, see
-   * docs/reliability.md); until that is understood each run computes in its own thread.
+   * 1 (default): one run's valleys and ensemble samples also use the pool's free threads
+   * (worker/helpers.ts); 0: each run computes in its own thread only. See docs/reliability.md
+   * ("One run on several threads") for why it was off for a day.
    */
-  WORKER_PARALLEL_RUNS: z.enum(["0", "1"]).default("0"),
+  WORKER_PARALLEL_RUNS: z.enum(["0", "1"]).default("1"),
   /** How long a job's lock lives without renewal; a dead worker's jobs are retried after it. */
   WORKER_LOCK_MS: z.coerce.number().int().min(2000).max(600_000).default(10_000),
   /** How often a worker looks for stalled jobs (whose worker died). */

@@ -25,6 +25,8 @@
 
 #include <napi.h>
 
+#include "slack.h"
+
 #include <cmath>
 #include <cstdint>
 #include <malloc.h>
@@ -89,13 +91,14 @@ cd* Z(double* p) { return reinterpret_cast<cd*>(p); }
 // LAPACK's workspace protocol for routines with one complex work array: ask for its size
 // (lwork = -1; a failed query throws, naming `query`), allocate at least `minimum`, call again.
 // Returns the status of the real call, for the caller to read.
+// The work array has the slack of an n x n problem after it (slack.h).
 template <typename Routine>
-lapack_int WithWork(const Napi::Env& env, const std::string& query, lapack_int minimum, Routine routine) {
+lapack_int WithWork(const Napi::Env& env, const std::string& query, lapack_int minimum, int64_t n, Routine routine) {
   cd size;
   lapack_int st = routine(&size, -1);
   if (st != 0) ThrowLapack(env, query, st);
   lapack_int lwork = std::max<lapack_int>(static_cast<lapack_int>(size.real()), minimum);
-  std::vector<cd> work(lwork);
+  std::vector<cd> work = triskel::WithSlack<cd>(lwork, n);
   return routine(work.data(), lwork);
 }
 
@@ -162,8 +165,9 @@ Napi::Value Solve(const Napi::CallbackInfo& info) {
   Need(env, b, n * nrhs, "solve b");
   Napi::Float64Array out = Napi::Float64Array::New(env, static_cast<size_t>(2 * n * nrhs));
   if (n == 0) return out;
-  std::vector<cd> lu(Z(a.data), Z(a.data) + n * n);  // column-major view: A^T
-  std::vector<lapack_int> ipiv(n);
+  std::vector<cd> lu = triskel::WithSlack<cd>(n * n, n);  // column-major view: A^T
+  std::copy(Z(a.data), Z(a.data) + n * n, lu.begin());
+  std::vector<lapack_int> ipiv = triskel::WithSlack<lapack_int>(n, n);
   Factor(env, lu.data(), static_cast<lapack_int>(n), ipiv.data(), "solve");
   if (nrhs == 0) return out;
   cd* x = Z(out.Data());
@@ -190,9 +194,9 @@ Napi::Value Inverse(const Napi::CallbackInfo& info) {
   if (n == 0) return out;
   cd* w = Z(out.Data());
   std::memcpy(out.Data(), a.data, sizeof(double) * 2 * n * n);
-  std::vector<lapack_int> ipiv(n);
+  std::vector<lapack_int> ipiv = triskel::WithSlack<lapack_int>(n, n);
   Factor(env, w, static_cast<lapack_int>(n), ipiv.data(), "inverse");
-  lapack_int info2 = WithWork(env, "inverse (zgetri query)", static_cast<lapack_int>(n), [&](cd* work, lapack_int lwork) {
+  lapack_int info2 = WithWork(env, "inverse (zgetri query)", static_cast<lapack_int>(n), n, [&](cd* work, lapack_int lwork) {
     return LAPACKE_zgetri_work(LAPACK_COL_MAJOR, n, w, n, ipiv.data(), work, lwork);
   });
   if (info2 > 0) ThrowSingular(env, "inverse");
@@ -215,7 +219,8 @@ Napi::Value EigHermitian(const Napi::CallbackInfo& info) {
     return result;
   }
   // Column-major view of the buffer is A^T = conj(A); A's lower triangle is the view's upper one.
-  std::vector<cd> h(Z(a.data), Z(a.data) + n * n);
+  std::vector<cd> h = triskel::WithSlack<cd>(n * n, n);
+  std::copy(Z(a.data), Z(a.data) + n * n, h.begin());
   const char jobz = wantVectors ? 'V' : 'N';
   cd wq;
   double rwq;
@@ -225,9 +230,9 @@ Napi::Value EigHermitian(const Napi::CallbackInfo& info) {
   lapack_int lwork = std::max<lapack_int>(1, static_cast<lapack_int>(wq.real()));
   lapack_int lrwork = std::max<lapack_int>(1, static_cast<lapack_int>(rwq));
   lapack_int liwork = std::max<lapack_int>(1, iwq);
-  std::vector<cd> work(lwork);
-  std::vector<double> rwork(lrwork);
-  std::vector<lapack_int> iwork(liwork);
+  std::vector<cd> work = triskel::WithSlack<cd>(lwork, n);
+  std::vector<double> rwork = triskel::WithSlack<double>(lrwork, n);
+  std::vector<lapack_int> iwork = triskel::WithSlack<lapack_int>(liwork, n);
   st = LAPACKE_zheevd_work(LAPACK_COL_MAJOR, jobz, 'U', n, h.data(), n, values.Data(), work.data(), lwork, rwork.data(),
                            lrwork, iwork.data(), liwork);
   if (st > 0) throw Napi::Error::New(env, "eigHermitian: no convergence");
@@ -255,10 +260,11 @@ Napi::Value EigGeneral(const Napi::CallbackInfo& info) {
   Need(env, a, n * n, "eigGeneral a");
   Napi::Float64Array out = Napi::Float64Array::New(env, static_cast<size_t>(2 * n));
   if (n == 0) return out;
-  std::vector<cd> h(Z(a.data), Z(a.data) + n * n);  // A^T: same eigenvalues
-  std::vector<double> rwork(2 * n);
+  std::vector<cd> h = triskel::WithSlack<cd>(n * n, n);  // A^T: same eigenvalues
+  std::copy(Z(a.data), Z(a.data) + n * n, h.begin());
+  std::vector<double> rwork = triskel::WithSlack<double>(2 * n, n);
   cd dummy;
-  lapack_int st = WithWork(env, "eigGeneral (zgeev query)", static_cast<lapack_int>(2 * n), [&](cd* work, lapack_int lwork) {
+  lapack_int st = WithWork(env, "eigGeneral (zgeev query)", static_cast<lapack_int>(2 * n), n, [&](cd* work, lapack_int lwork) {
     return LAPACKE_zgeev_work(LAPACK_COL_MAJOR, 'N', 'N', n, h.data(), n, Z(out.Data()), &dummy, 1, &dummy, 1, work, lwork,
                               rwork.data());
   });
