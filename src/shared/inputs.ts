@@ -4,7 +4,7 @@
  * keys and named from the one quantity table (src/shared/quantities.ts). Values are shown exactly
  * as stored (inputs are what the user gave, not rounded results).
  */
-import { quantity, quantityText } from "./quantities";
+import { named, quantity } from "./quantities";
 
 export interface InputRow {
   /** Where it lives: "network" or "computation". */
@@ -41,7 +41,7 @@ export function inputRows(input: { network?: unknown; computation?: unknown }, s
     flatten(input[part], "", flat);
     for (const [key, v] of flat) {
       if (key === "kind" || skip.includes(key)) continue;
-      rows.push({ part, key, label: quantityText(key).replace(/ \([^)]*\)$/, ""), value: valueText(key, v) });
+      rows.push({ part, key, label: named(quantity(key)), value: valueText(key, v) });
     }
   }
   return rows;

@@ -164,7 +164,7 @@ describe("web app main flow", () => {
     const csv = readFileSync((await download.path())!, "utf8");
     const dataLines = csv.split("\n").filter((l) => l && !l.startsWith("#"));
     expect(dataLines[0].split(",").slice(0, 3)).toEqual(["point_index", "field_T", "energy_meV"]);
-    expect(csv).toMatch(/^# engine version: [\d.]+; input hash \(sha256\): [0-9a-f]{64}$/m);
+    expect(csv).toMatch(/^# engine version: [\w.+-]+; input hash \(sha256\): [0-9a-f]{64}$/m);
     expect(dataLines.length).toBe(21);
     const [figure] = await Promise.all([page.waitForEvent("download"), plot.getByRole("button", { name: "CSV" }).click()]);
     const figureCsv = readFileSync((await figure.path())!, "utf8");

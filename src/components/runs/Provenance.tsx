@@ -53,14 +53,14 @@ export function Provenance({
 }) {
   const me = useMe();
   const net = useQuery({
-    queryKey: qk.network(networkId ?? ""),
+    queryKey: [...qk.network(networkId ?? ""), "provenance"],
     queryFn: () => api("GET /api/v1/networks/{id}", { params: { id: networkId ?? "" } }),
     enabled: Boolean(networkId) && !networkName,
     staleTime: 60_000,
   });
   const url = usePageUrl(path);
   const name = networkName ?? net.data?.name ?? null;
-  const versionId = net.data?.versions.find((v) => v.version === networkVersion)?.versionId;
+  const versionId = net.data?.versions?.find((v) => v.version === networkVersion)?.versionId;
   const rows = [...extra, ...inputRows(input, skip).map((r) => ({ label: r.label, value: r.value }))];
   const group = me.data?.workspace.name ?? "Triskel group";
   const text = citation({ title, group, date, url, engineVersion, inputHash });
@@ -78,28 +78,34 @@ export function Provenance({
       <div className="tk-card space-y-3" data-testid="inputs-block">
         <h2 className="text-lead font-semibold">Inputs and provenance</h2>
         <dl className="grid grid-cols-[minmax(0,1fr)_minmax(0,1fr)] gap-x-4 gap-y-1 text-caption">
-          <dt className="text-fg-faint">Network</dt>
-          <dd data-testid="provenance-network">
-            {networkId ? (
-              <>
-                <Link className="underline" href={`/networks/${networkId}`}>
-                  {name ?? "saved network"}
-                </Link>
-                {networkVersion !== null ? `, version ${networkVersion}` : ""}
-                {versionId ? <span className="block font-mono text-fg-faint">version id {versionId}</span> : null}
-              </>
-            ) : (
-              "given inline (not a saved network)"
-            )}
-          </dd>
-          <dt className="text-fg-faint">Engine version</dt>
-          <dd className="font-mono" data-testid="provenance-engine">
-            {engineVersion ?? "not recorded yet"}
-          </dd>
-          <dt className="text-fg-faint">Input hash (sha256)</dt>
-          <dd className="break-all font-mono" data-testid="provenance-hash">
-            {inputHash}
-          </dd>
+          <div className="contents">
+            <dt className="text-fg-faint">Network</dt>
+            <dd data-testid="provenance-network">
+              {networkId ? (
+                <>
+                  <Link className="underline" href={`/networks/${networkId}`}>
+                    {name ?? "saved network"}
+                  </Link>
+                  {networkVersion !== null ? `, version ${networkVersion}` : ""}
+                  {versionId ? <span className="block font-mono text-fg-faint">version id {versionId}</span> : null}
+                </>
+              ) : (
+                "given inline (not a saved network)"
+              )}
+            </dd>
+          </div>
+          <div className="contents">
+            <dt className="text-fg-faint">Engine version</dt>
+            <dd className="font-mono" data-testid="provenance-engine">
+              {engineVersion ?? "not recorded yet"}
+            </dd>
+          </div>
+          <div className="contents">
+            <dt className="text-fg-faint">Input hash (sha256)</dt>
+            <dd className="break-all font-mono" data-testid="provenance-hash">
+              {inputHash}
+            </dd>
+          </div>
           {rows.map((r, i) => (
             <div key={`${r.label}-${i}`} className="contents">
               <dt className="text-fg-faint">{r.label}</dt>
