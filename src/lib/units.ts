@@ -3,6 +3,7 @@
  * twist/period conversion are the engine's (src/engine/constants.ts, browser-safe): import them
  * from there.
  */
+import { PARAMETER_KEYS, QUANTITIES } from "@/shared/quantities";
 
 /** A number with a sensible number of significant digits (no trailing noise). */
 export function num(x: number | null | undefined, digits = 4): string {
@@ -80,26 +81,10 @@ export function when(iso: string | null | undefined): string {
   return d.toISOString().replace("T", " ").slice(0, 16) + " UTC";
 }
 
-/** Physical units of the parameters a sweep or a form can vary (key: parameter path). */
-export const PARAMETER_UNITS: Record<string, { label: string; unit: string; symbol?: string }> = {
-  energyMeV: { label: "Energy", unit: "meV", symbol: "E" },
-  fieldTesla: { label: "Magnetic field", unit: "T", symbol: "B" },
-  temperatureK: { label: "Temperature", unit: "K", symbol: "T" },
-  contactOhms: { label: "Contact resistance", unit: "Ω", symbol: "R_c" },
-  "node.forward": { label: "Forward probability", unit: "", symbol: "P_f" },
-  "node.left": { label: "Left-turn probability", unit: "", symbol: "P_l" },
-  "node.right": { label: "Right-turn probability", unit: "", symbol: "P_r" },
-  "node.turning": { label: "Turning probability", unit: "", symbol: "p" },
-  "disorder.seed": { label: "Disorder seed", unit: "" },
-  "node.phaseRad": { label: "Node phase", unit: "rad", symbol: "χ" },
-  "disorder.linkPhaseWidthRad": { label: "Link-phase disorder width", unit: "rad", symbol: "w" },
-  "disorder.forwardSpread": { label: "Forward spread", unit: "", symbol: "δP_f" },
-  periodNm: { label: "Moiré period", unit: "nm", symbol: "l" },
-  twistDegrees: { label: "Twist angle", unit: "°", symbol: "θ" },
-  modeVelocityMps: { label: "Mode velocity", unit: "m/s", symbol: "v" },
-  "size.columns": { label: "Columns", unit: "cells" },
-  "size.rows": { label: "Rows", unit: "cells" },
-};
+/** Physical units of the parameters a sweep or a form can vary (key: parameter path), from the one quantity table (src/shared/quantities.ts). */
+export const PARAMETER_UNITS: Record<string, { label: string; unit: string; symbol?: string }> = Object.fromEntries(
+  PARAMETER_KEYS.map((k) => [k, { label: QUANTITIES[k].label, unit: QUANTITIES[k].unit, symbol: QUANTITIES[k].symbol }]),
+);
 
 export function axisLabel(parameter: string): string {
   const p = PARAMETER_UNITS[parameter];

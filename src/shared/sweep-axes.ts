@@ -79,28 +79,3 @@ export function scalarQuantities(result: unknown, prefix = "", out: Record<strin
   }
   return out;
 }
-
-/** Units read from a quantity's name (Triskel names carry their units): for CSV headers. */
-export function unitOf(name: string): string {
-  const last = name.split(".").pop() ?? name;
-  const rules: [RegExp, string][] = [
-    [/E2h$|E2OverH$|InE2h$/i, "e^2/h"],
-    [/Siemens$/, "S"],
-    [/Ohms?$/, "ohm"],
-    [/Tesla$/, "T"],
-    [/MeV$/, "meV"],
-    [/EV$/, "eV"],
-    [/Nm$/, "nm"],
-    [/Um$/, "um"],
-    [/Mps$/, "m/s"],
-    [/Rad$/, "rad"],
-    [/Degrees$/, "degree"],
-    [/Kelvin$|TemperatureK$/, "K"],
-    [/Seconds$/, "s"],
-    [/PerNm2$/, "1/nm^2"],
-    [/PerCm2$/, "1/cm^2"],
-    [/Bytes$/, "byte"],
-  ];
-  for (const [re, unit] of rules) if (re.test(last)) return unit;
-  return "1";
-}

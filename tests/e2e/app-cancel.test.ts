@@ -29,8 +29,11 @@ describe("cancel from the page", () => {
     await cancel.waitFor();
     await cancel.click();
     await page.locator('[data-status="cancelled"]').waitFor({ timeout: 60_000 });
-    await expect.poll(() => page.getByTestId("sweep-counts").innerText(), { timeout: 30_000 }).toMatch(/0 running · 0 queued/);
-    await expect(page.getByTestId("sweep-counts").innerText()).resolves.toMatch(/cancelled/);
+    // "12 done, 48 cancelled of 60": nothing running or queued, the cancelled share named, never 100 %.
+    await expect.poll(() => page.getByTestId("sweep-counts").innerText(), { timeout: 30_000 }).toMatch(/^\d+ done(, \d+ failed)?, \d+ cancelled of 60$/);
+    const percent = Number((await page.getByTestId("progress-percent").innerText()).replace("%", ""));
+    expect(percent).toBeLessThan(100);
+    await expect(page.locator('[data-share="cancelled"]').evaluate((e) => parseFloat((e as HTMLElement).style.width))).resolves.toBeGreaterThan(0);
     await expect(page.getByRole("button", { name: "Cancel scan" }).count()).resolves.toBe(0);
     const done = (await (await api(`/api/v1/sweeps/${id}`, { as: "researcher" })).json()) as { counts: { succeeded: number } };
     expect(done.counts.succeeded).toBeLessThan(60);

@@ -155,20 +155,20 @@ describe("web app main flow", () => {
     expect(seen.every((n, i) => i === 0 || n >= seen[i - 1])).toBe(true);
     await page.locator('[data-status="succeeded"]').first().waitFor({ timeout: 30_000 });
     await expect(plot.locator("[data-layer=colorbar] rect").count()).resolves.toBeGreaterThan(0);
-    await expect(plot.locator("[data-label=x]").textContent()).resolves.toBe("Energy (meV)");
-    await expect(plot.locator("[data-label=y]").textContent()).resolves.toBe("Magnetic field (T)");
+    await expect(plot.locator("[data-label=x]").textContent()).resolves.toBe("Energy E (meV)");
+    await expect(plot.locator("[data-label=y]").textContent()).resolves.toBe("Magnetic field B (T)");
     await shot("app-sweep.png");
 
     // CSV export of the sweep (the API's file) and of the figure.
     const [download] = await Promise.all([page.waitForEvent("download"), page.getByTestId("sweep-csv").click()]);
     const csv = readFileSync((await download.path())!, "utf8");
     const dataLines = csv.split("\n").filter((l) => l && !l.startsWith("#"));
-    expect(dataLines[0]).toMatch(/fieldTesla/);
-    expect(dataLines[0]).toMatch(/energyMeV/);
+    expect(dataLines[0].split(",").slice(0, 3)).toEqual(["point_index", "field_T", "energy_meV"]);
+    expect(csv).toMatch(/^# engine version: [\w.+-]+; input hash \(sha256\): [0-9a-f]{64}$/m);
     expect(dataLines.length).toBe(21);
     const [figure] = await Promise.all([page.waitForEvent("download"), plot.getByRole("button", { name: "CSV" }).click()]);
     const figureCsv = readFileSync((await figure.path())!, "utf8");
-    expect(figureCsv).toContain("fieldTesla,energyMeV,");
+    expect(figureCsv).toContain("field_T,energy_meV,");
     expect(figureCsv.split("\n").filter((l) => l && !l.startsWith("#")).length).toBe(21);
     const [svg] = await Promise.all([page.waitForEvent("download"), plot.getByRole("button", { name: "SVG" }).click()]);
     const svgText = readFileSync((await svg.path())!, "utf8");

@@ -53,7 +53,7 @@ describe("result figures", () => {
     const dos = page.locator('[data-chart="density-of-states"]');
     await dos.waitFor();
     await expect(dos.locator("[data-label=x]").textContent()).resolves.toBe("Energy E (meV)");
-    await expect(dos.locator("[data-label=y]").textContent()).resolves.toMatch(/DOS \(states \/ meV \/ moiré cell\)/);
+    await expect(dos.locator("[data-label=y]").textContent()).resolves.toBe("Density of states per moiré cell (1/(meV·cell))");
     expect(await dos.locator("[data-series]").getAttribute("d")).toMatch(/^M[\d.]+,[\d.]+(L[\d.]+,[\d.]+){20,}/);
     const n = page.locator('[data-chart="carrier-density"]');
     await expect(n.locator("[data-label=y]").textContent()).resolves.toMatch(/Carrier density n \(cm⁻²\)/);
@@ -91,11 +91,11 @@ describe("result figures", () => {
     const plot = page.getByTestId("sweep-plot");
     await plot.locator("[data-band]").waitFor();
     await expect(plot.locator("[data-points] circle").count()).resolves.toBe(5);
-    await expect(plot.locator("[data-label=x]").textContent()).resolves.toBe("Magnetic field (T)");
-    await expect(plot.locator("[data-label=y]").textContent()).resolves.toBe("Ensemble mean G (e²/h)");
+    await expect(plot.locator("[data-label=x]").textContent()).resolves.toBe("Magnetic field B (T)");
+    await expect(plot.locator("[data-label=y]").textContent()).resolves.toBe("Ensemble mean conductance G (e²/h)");
     const box = (await plot.locator("svg").boundingBox())!;
     await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2);
-    await expect.poll(() => plot.getByTestId("readout").innerText()).toMatch(/Magnetic field = [\d.]+ T · mean ± s\.e\. [\d.e-]+ ± [\d.e-]+ e²\/h/);
+    await expect.poll(() => plot.getByTestId("readout").innerText()).toMatch(/Magnetic field B = [\d.]+ T · mean ± s\.e\. [\d.e-]+ ± [\d.e-]+ e²\/h/);
     await screenshot(page, "app-result-sweep-band.png");
   });
 });

@@ -86,10 +86,14 @@ describe("a 50-point sweep", () => {
     expect(csv.headers.get("content-type")).toMatch(/text\/csv/);
     const lines = (await csv.text()).trim().split("\n");
     const comments = lines.filter((l) => l.startsWith("#"));
-    expect(comments.join("\n")).toContain(`engine version: ${done.engineVersion}`);
-    expect(comments.join("\n")).toContain("fieldTesla [T]");
+    expect(comments.join("\n")).toContain(`engine version: ${done.engineVersion}; input hash (sha256): ${done.inputHash}`);
+    expect(done.inputHash).toMatch(/^[0-9a-f]{64}$/);
+    expect(comments.join("\n")).toContain("# axis 1: Magnetic field B (T)");
+    expect(comments.join("\n")).toContain(`/sweeps/${id}`);
     const rows = lines.filter((l) => !l.startsWith("#"));
-    expect(rows[0].split(",").slice(0, 5)).toEqual(["pointIndex", "fieldTesla", "status", "runId", "computeSeconds"]);
+    expect(rows[0].split(",").slice(0, 5)).toEqual(["point_index", "field_T", "status", "run_id", "compute_s"]);
+    expect(rows[0].split(",").filter((c) => c === "field_T")).toHaveLength(1);
+    expect(rows[0].split(",")).toEqual(expect.arrayContaining(["conductance_e2h", "conductance_S", "resistance_ohm"]));
     expect(rows).toHaveLength(POINTS + 1);
     expect(rows[1].split(",")[2]).toBe("succeeded");
 
@@ -131,6 +135,16 @@ describe("a 50-point sweep", () => {
     expect(later.counts).toEqual(stopped.counts);
     const startedAfter = await sql`select count(*)::int as n from runs where sweep_id = ${id} and started_at > ${at}`;
     expect(startedAfter[0].n).toBe(0);
+    // Points still queued at the cancel never started: each ends cancelled, with no compute and no charge.
+    const neverStarted = await sql`select r.status, r.compute_seconds, (select count(*)::int from usage_ledger l where l.run_id = r.id) as charged
+      from runs r where r.sweep_id = ${id} and r.started_at is null`;
+    expect(neverStarted.length).toBeGreaterThan(0);
+    expect(neverStarted.length).toBeLessThanOrEqual(stopped.counts.cancelled);
+    for (const p of neverStarted) {
+      expect(p.status).toBe("cancelled");
+      expect(p.compute_seconds ?? 0).toBe(0);
+      expect(p.charged).toBe(0);
+    }
     // Billed: every succeeded point, and cancelled points that had spent compute; nothing twice.
     const [{ billed, spent }] = await sql`select
       (select count(*)::int from usage_ledger l join runs r on r.id = l.run_id where r.sweep_id = ${id}) as billed,
@@ -155,6 +169,8 @@ describe("a 50-point sweep", () => {
       return finished(b.status) ? b : undefined;
     });
     expect(s.status).toBe("succeeded");
+    // No name given: the default is in words, with units.
+    expect(s.name).toBe("Conductance versus forward probability and energy (meV)");
     expect(s.grid.shape).toEqual([2, 3]);
     expect(s.points[4].coordinates).toEqual({ "node.forward": 0.7, energyMeV: 0.5 });
     const run = (await get(`/api/v1/runs/${s.points[4].runId}`)).body;

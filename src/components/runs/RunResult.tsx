@@ -18,10 +18,12 @@ import { Histogram } from "@/components/charts/Histogram";
 import { XYChart } from "@/components/charts/XYChart";
 import { LdosMap } from "./LdosMap";
 import { HallBarView } from "./HallBarView";
+import { quantity, quantityText } from "@/shared/quantities";
 
 /** An engine result (every engine result names its kind; a fit's companion row does not). */
 export const isEngineResult = (r: RunDetail["result"]): r is ComputeResult => r !== null && "kind" in r;
-const isEngineInput = (i: RunDetail["input"]): i is ComputeInput => "network" in i && "computation" in i && !("fitId" in i);
+/** An engine input (a fit's companion row has none). */
+export const isEngineInput = (i: RunDetail["input"]): i is ComputeInput => "network" in i && "computation" in i && !("fitId" in i);
 
 /** The middle of each bin of the engine's ensemble histogram (binEdges has one more entry than counts). */
 export function binCenters(h: { binEdges: number[]; counts: number[] }): number[] {
@@ -166,7 +168,7 @@ function SpectrumResult({ r }: { r: Spectrum }) {
       </p>
       <BandChart energies={energies} distance={distance} ticks={ticks} periodMeV={r.energyPeriodMeV} />
       {r.valleyKPrimeEnergiesMeV ? (
-        <p className="text-caption text-fg-faint">Valley K′ energies are in the result JSON (valleyKPrimeEnergiesMeV); the plot shows valley K.</p>
+        <p className="text-caption text-fg-faint">The plot shows valley K; the energies of valley K′ are in the result JSON.</p>
       ) : null}
     </div>
   );
@@ -174,35 +176,46 @@ function SpectrumResult({ r }: { r: Spectrum }) {
 
 function DosResult({ r }: { r: Dos }) {
   const e = r.energiesMeV;
-  const density = { y: r.carrierDensityPerCm2, label: "Carrier density n (cm⁻²)", unit: "cm⁻²" };
-  const dos = { y: r.dosPerMeVPerCell.total, label: "DOS (states / meV / moiré cell)", unit: "1/meV/cell" };
+  const dos = quantity("dosPerMeVPerCell.total");
+  const density = quantity("carrierDensityPerCm2");
+  const energy = quantityText("energiesMeV");
   return (
-    <div className="grid gap-6 xl:grid-cols-2">
-      <XYChart
-        title="Density of states"
-        name="density-of-states"
-        xLabel="Energy E (meV)"
-        xUnit="meV"
-        yLabel={dos.label}
-        yUnit={dos.unit}
-        series={[{ name: "DOS", x: e, y: dos.y }]}
-        csv={{
-          header: ["energyMeV", "dosPerCellPerMeV", "carrierDensityPerCm2"],
-          rows: e.map((x, i) => [x, dos.y[i], density.y[i]]),
-          comments: ["Density of states and carrier density (model prediction)"],
-        }}
-      />
-      {density.y.length ? (
+    <div className="space-y-4">
+      <p className="text-body text-fg-soft" data-testid="dos-facts">
+        {r.source === "bloch" ? "From the Bloch spectrum of the periodic network" : "From the finite sample (trace formula)"}; broadening η ={" "}
+        <span className="font-mono">{withUnit(r.broadeningMeV, "meV")}</span>; energy period{" "}
+        <span className="font-mono">{withUnit(r.energyPeriodMeV, "meV")}</span>; moiré cell area{" "}
+        <span className="font-mono">{withUnit(r.cellAreaNm2, "nm²")}</span>; carrier density counted from{" "}
+        <span className="font-mono">{withUnit(r.carrierDensityFromMeV, "meV")}</span>; states per cell per period{" "}
+        <span className="font-mono">{num(r.checks.statesPerCellPerPeriod)}</span>.
+      </p>
+      <div className="grid gap-6 xl:grid-cols-2">
         <XYChart
-          title="Carrier density"
-          name="carrier-density"
-          xLabel="Energy E (meV)"
+          title="Density of states"
+          name="density-of-states"
+          xLabel={energy}
           xUnit="meV"
-          yLabel={density.label}
-          yUnit={density.unit}
-          series={[{ name: "n", x: e, y: density.y, color: "warm" }]}
+          yLabel={`${dos.label} (${dos.unit})`}
+          yUnit={dos.unit}
+          series={[{ name: "DOS", x: e, y: r.dosPerMeVPerCell.total }]}
+          csv={{
+            header: [quantity("energiesMeV").column, dos.column, quantity("dosPerMeVPerNm2").column, density.column],
+            rows: e.map((x, i) => [x, r.dosPerMeVPerCell.total[i], r.dosPerMeVPerNm2[i], r.carrierDensityPerCm2[i]]),
+            comments: ["Density of states and carrier density; model prediction"],
+          }}
         />
-      ) : null}
+        {r.carrierDensityPerCm2.length ? (
+          <XYChart
+            title="Carrier density"
+            name="carrier-density"
+            xLabel={energy}
+            xUnit="meV"
+            yLabel={quantityText("carrierDensityPerCm2")}
+            yUnit={density.unit}
+            series={[{ name: "n", x: e, y: r.carrierDensityPerCm2, color: "warm" }]}
+          />
+        ) : null}
+      </div>
     </div>
   );
 }
@@ -238,7 +251,7 @@ function LocalizationResult({ r }: { r: Localization }) {
           yLabel="⟨ln T⟩ (dimensionless)"
           series={series}
           csv={{
-            header: ["lengthNm", "meanLnTValleyK", "stderrLnTValleyK"],
+            header: [quantity("lengthsNm").column, quantity("meanLnT.valleyK").column, quantity("stderrLnT.valleyK").column],
             rows: L.map((x, i) => [x, mK[i], seK[i]]),
             comments: ["Mean ln T over the ensemble against strip length (model prediction)"],
           }}

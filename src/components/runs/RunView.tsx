@@ -11,7 +11,20 @@ import { canCreate, useMe } from "@/components/shell/useMe";
 import { KINDS } from "./computations";
 import { Progress } from "./Progress";
 import { useMemberNames } from "@/components/shell/useMemberNames";
-import { RunResult } from "./RunResult";
+import { isEngineInput, RunResult } from "./RunResult";
+import { Provenance } from "./Provenance";
+import type { RunDetail } from "@/shared/api";
+import { quantity } from "@/shared/quantities";
+
+/** The inputs that set a calculation's point, in words: "E = 1.2 meV, B = 0.35 T, T = 1.5 K". */
+function pointText(run: RunDetail): string {
+  if (!isEngineInput(run.input)) return "";
+  const c = run.input.computation as Record<string, unknown>;
+  return ["energyMeV", "fieldTesla", "temperatureK"]
+    .filter((k) => typeof c[k] === "number")
+    .map((k) => `${quantity(k).symbol} = ${c[k]} ${quantity(k).unit}`)
+    .join(", ");
+}
 
 const LIVE = new Set(["queued", "running"]);
 
@@ -43,6 +56,11 @@ export function RunView({ id }: { id: string }) {
         title={`${label}`}
         actions={
           <>
+            {run.sweepId ? (
+              <Link className="tk-btn-quiet" href={`/sweeps/${run.sweepId}`}>
+                Scan{run.sweepPointIndex !== null ? ` (point ${run.sweepPointIndex})` : ""}
+              </Link>
+            ) : null}
             {run.networkId ? (
               <Link className="tk-btn-quiet" href={`/networks/${run.networkId}`}>
                 Network
@@ -88,6 +106,18 @@ export function RunView({ id }: { id: string }) {
         <div className="mt-6">
           <RunResult run={run} />
         </div>
+      ) : null}
+      {isEngineInput(run.input) ? (
+        <Provenance
+          title={`${label}${pointText(run) ? ` at ${pointText(run)}` : ""}`}
+          path={`/runs/${run.id}`}
+          input={run.input}
+          networkId={run.networkId}
+          networkVersion={run.networkVersion}
+          engineVersion={run.engineVersion}
+          inputHash={run.inputHash}
+          date={run.finishedAt ?? run.createdAt}
+        />
       ) : null}
     </>
   );

@@ -3,7 +3,10 @@
  * engine's computation schema, label, unit and default. The engine's schema validates the
  * object these fields build; this table only lays the form out.
  */
-export type ComputationKind = "conductance" | "spectrum" | "dos" | "ldos" | "localization" | "hallBar";
+import { KINDS, type ComputationKind } from "@/shared/kinds";
+
+/** The kinds and their labels live in src/shared/kinds.ts (the server names scans with them too). */
+export { KINDS, type ComputationKind };
 
 export interface FieldSpec {
   path: string;
@@ -18,20 +21,6 @@ export interface FieldSpec {
   /** Only shown when this other field has this value. */
   when?: { path: string; value: string };
 }
-
-export const KINDS: { kind: ComputationKind; label: string; blurb: string }[] = [
-  { kind: "conductance", label: "Conductance", blurb: "Two-terminal Landauer conductance per valley and in total, transmission eigenvalues, Fano factor." },
-  { kind: "spectrum", label: "Band structure", blurb: "Bloch energies of the periodic network along a path through the Brillouin zone." },
-  { kind: "dos", label: "Density of states", blurb: "Density of states versus energy, per moiré cell and per area, and the carrier density." },
-  { kind: "ldos", label: "Local density of states", blurb: "Density of states on every link of the finite sample at one energy, drawn on the network." },
-  { kind: "localization", label: "Localization length", blurb: "Decay of ln T along long strips: ξ and Λ = ξ / W." },
-  {
-    kind: "hallBar",
-    label: "Hall bar",
-    blurb:
-      "Multi-terminal (Landauer–Büttiker) transport of an open-edged sample with side contacts: R_xx, R_xy, the two-terminal resistance and the conductance matrix. Default six-terminal bar; other contacts through the API or the command line.",
-  },
-];
 
 const energy: FieldSpec = { path: "energyMeV", label: "Energy E", unit: "meV", default: 0 };
 const field: FieldSpec = { path: "fieldTesla", label: "Magnetic field B", unit: "T", default: 0 };

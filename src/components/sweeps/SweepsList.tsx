@@ -3,7 +3,8 @@
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
 import { JOB_STATUSES, type SweepSummary } from "@/shared/api";
-import { axisLabel, computeSeconds, when } from "@/lib/units";
+import { computeSeconds, when } from "@/lib/units";
+import { scanName } from "@/shared/kinds";
 import { StatusBadge } from "@/components/ui/Status";
 import { PageHeader } from "@/components/ui/Page";
 import { DataTable } from "@/components/tables/DataTable";
@@ -32,7 +33,10 @@ export function SweepsList() {
       header: "Scan",
       cell: ({ row }) => (
         <Link href={`/sweeps/${row.original.id}`} className="font-medium text-accent hover:underline">
-          {row.original.name || row.original.axes.map((a) => axisLabel(a.parameter)).join(" × ")}
+          {scanName(
+            row.original.name,
+            row.original.axes.map((a) => a.parameter),
+          )}
         </Link>
       ),
     },

@@ -9,6 +9,7 @@ import {
   EngineInputError,
   EngineLimitError,
   applyParameter,
+  canonicalJson,
   checkResourceLimits,
   estimateCost,
   inputHash,
@@ -20,7 +21,7 @@ import {
 } from "@/engine";
 import { ApiError, registerErrorMapper } from "@/server/http/errors";
 
-export { ENGINE_VERSION, applyParameter, estimateCost, inputHash };
+export { ENGINE_VERSION, applyParameter, canonicalJson, estimateCost, inputHash };
 export type { ComputeInput };
 
 registerErrorMapper((err) => {

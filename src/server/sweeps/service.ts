@@ -9,14 +9,18 @@ import "@/server/server-only";
 import { and, asc, desc, eq, sql, type SQL } from "drizzle-orm";
 import { z } from "zod";
 import { computeCostUsd } from "@/shared/plans";
+import { scanTitle } from "@/shared/kinds";
+import { sweepCsv } from "@/shared/exports";
+import { env } from "@/env";
 import type { SweepCreated, SweepDetail, SweepDryRun, SweepGrid, SweepList, SweepSummary } from "@/shared/api";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
 import { assertWithinBudget, reserveBudget } from "@/server/billing/budget";
 import { assertSweepWithinPlan, queuePriority } from "@/server/billing/limits";
 import { getDb } from "@/server/db";
-import { networkVersions, runs, sweeps } from "@/server/db/schema";
-import { ENGINE_VERSION, kindOf, sweepableParameters } from "@/server/engine";
+import { networks, networkVersions, runs, sweeps } from "@/server/db/schema";
+import { ENGINE_VERSION, canonicalJson, kindOf, sweepableParameters } from "@/server/engine";
+import { createHash } from "node:crypto";
 import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
 import { isUuid } from "@/server/networks/service";
@@ -24,17 +28,7 @@ import { enqueueAfterCommit } from "@/server/jobs";
 import { INLINE_LIMITS, runAnalysis } from "@/server/offload";
 import { RUN_STATUSES, resolveSubmission } from "@/server/runs/service";
 import { deriveSweepStatus, refreshSweep, type SweepCounts } from "@/server/runs/sweep-progress";
-import {
-  axesSchema,
-  ensembleSchema,
-  gridShape,
-  gridSize,
-  pointCoordinates,
-  resolveAxis,
-  scalarQuantities,
-  unitOf,
-  type ResolvedAxis,
-} from "@/shared/sweep-axes";
+import { axesSchema, ensembleSchema, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, type ResolvedAxis } from "@/shared/sweep-axes";
 
 export const sweepBody = z
   .object({
@@ -165,16 +159,20 @@ export async function createSweep(caller: Caller, body: unknown): Promise<SweepC
 }
 
 function defaultName(kind: string, axes: ResolvedAxis[]): string {
-  return `${kind} versus ${axes.map((a) => a.parameter).join(" and ")}`;
+  return scanTitle(
+    kind,
+    axes.map((a) => a.parameter),
+  );
 }
 const round = (x: number, digits: number) => Math.round(x * 10 ** digits) / 10 ** digits;
 
 async function loadSweep(caller: Caller, id: string) {
   if (!isUuid(id)) throw new ApiError("not_found", `No sweep with id ${id} in this group.`, { sweepId: id });
   const [row] = await getDb()
-    .select({ sweep: sweeps, networkId: networkVersions.networkId, networkVersion: networkVersions.version })
+    .select({ sweep: sweeps, networkId: networkVersions.networkId, networkVersion: networkVersions.version, networkName: networks.name })
     .from(sweeps)
     .leftJoin(networkVersions, eq(networkVersions.id, sweeps.networkVersionId))
+    .leftJoin(networks, eq(networks.id, networkVersions.networkId))
     .where(and(eq(sweeps.id, id), eq(sweeps.workspaceId, caller.workspaceId)));
   if (!row) throw new ApiError("not_found", `No sweep with id ${id} in this group.`, { sweepId: id });
   return row;
@@ -224,7 +222,7 @@ function sweepSummary(s: SweepRow, plan: Caller["plan"], networkId: string | nul
 /** The sweep with live progress and the result grid (readable while it runs). */
 export async function getSweep(caller: Caller, id: string): Promise<SweepDetail> {
   requirePermission(caller, "results.view");
-  const { sweep, networkId, networkVersion } = await loadSweep(caller, id);
+  const { sweep, networkId, networkVersion, networkName } = await loadSweep(caller, id);
   const pts = await loadPoints(sweep.id);
   const axes = sweep.axes as ResolvedAxis[];
   const counts: SweepCounts = { queued: 0, running: 0, succeeded: 0, failed: 0, cancelled: 0 };
@@ -254,10 +252,17 @@ export async function getSweep(caller: Caller, id: string): Promise<SweepDetail>
     progress: pts.length === 0 ? 1 : status === "succeeded" ? 1 : Math.min(1, (done + partial) / pts.length),
     computeSeconds: seconds,
     counts,
+    networkName,
+    inputHash: sweepInputHash(sweep.input, axes, sweep.ensemble ?? null),
     input: sweep.input,
     grid: resultGrid(axes, points),
     points,
   };
+}
+
+/** sha256 (hex) of the canonical JSON of the scan's base input, axes and ensemble: the same inputs give the same hash. */
+export function sweepInputHash(input: unknown, axes: ResolvedAxis[], ensemble: unknown): string {
+  return createHash("sha256").update(canonicalJson({ input, axes, ensemble })).digest("hex");
 }
 
 /**
@@ -326,37 +331,9 @@ export async function cancelSweep(caller: Caller, id: string): Promise<SweepDeta
   return getSweep(caller, id);
 }
 
-function csvCell(v: unknown): string {
-  if (v === null || v === undefined) return "";
-  const s = typeof v === "number" ? String(v) : String(v);
-  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
-
-/** The sweep's results as CSV: `#` header lines (sweep, engine version, units), then one row per point. */
+/** The sweep's results as CSV (src/shared/exports.ts: `#` lines with the inputs, engine version, input hash, export time; unit-suffixed columns). */
 export async function sweepResultsCsv(caller: Caller, id: string): Promise<{ filename: string; body: string }> {
   const s = await getSweep(caller, id);
-  const axisNames = s.axes.map((a) => a.parameter);
-  const quantityNames = [...new Set(s.points.flatMap((p) => Object.keys(p.quantities ?? {})))];
-  const columns = ["pointIndex", ...axisNames, "status", "runId", "computeSeconds", ...quantityNames];
-  const units = columns.map((c) => `${c} [${c === "pointIndex" || c === "status" || c === "runId" ? "-" : unitOf(c)}]`);
-  const lines = [
-    `# Triskel sweep ${s.id}${s.name ? ` "${s.name.replace(/[\r\n]/g, " ")}"` : ""}`,
-    `# engine version: ${s.engineVersion ?? ENGINE_VERSION}; status: ${s.status}; points: ${s.counts.succeeded} of ${s.pointCount} succeeded; ` +
-      `generated ${new Date().toISOString()}`,
-    `# units: ${units.join(", ")}`,
-    `# model predictions of a phenomenological network model, not measurements`,
-    columns.join(","),
-  ];
-  for (const p of s.points) {
-    const row: unknown[] = [
-      p.index,
-      ...axisNames.map((a) => p.coordinates[a]),
-      p.status,
-      p.runId,
-      p.computeSeconds,
-      ...quantityNames.map((q) => p.quantities?.[q]),
-    ];
-    lines.push(row.map(csvCell).join(","));
-  }
-  return { filename: `triskel-sweep-${s.id}.csv`, body: lines.join("\n") + "\n" };
+  const url = `${env().APP_URL.replace(/\/$/, "")}/sweeps/${s.id}`;
+  return { filename: `triskel-sweep-${s.id}.csv`, body: sweepCsv(s, { engineVersion: ENGINE_VERSION, exportedAt: new Date(), url }) };
 }

@@ -77,6 +77,10 @@ export interface SweepGrid {
 /** GET /api/v1/sweeps/{id} and POST /api/v1/sweeps/{id}/cancel: live progress and partial results. */
 export interface SweepDetail extends SweepSummary {
   counts: SweepCounts;
+  /** The saved network's name (null for a network given inline). */
+  networkName: string | null;
+  /** sha256 (hex) of the canonical JSON of `{ input, axes, ensemble }`: the scan's inputs, for citing and reproducing it. */
+  inputHash: string;
   /** The base input every point starts from. */
   input: ComputeInput;
   grid: SweepGrid;

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { axesSchema, gridIndices, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, unitOf } from "@/shared/sweep-axes";
+import { axesSchema, gridIndices, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities } from "@/shared/sweep-axes";
 import { deriveSweepStatus } from "@/server/runs/sweep-progress";
 
 describe("sweep axes", () => {
@@ -38,14 +38,6 @@ describe("sweep axes", () => {
   it("flattens a result's numeric leaves, leaving arrays out", () => {
     const q = scalarQuantities({ kind: "conductance", total: { e2h: 3.5, siemens: 1e-4 }, transmissionEigenvalues: [0.1, 0.9], fano: 0.2 });
     expect(q).toEqual({ "total.e2h": 3.5, "total.siemens": 1e-4, fano: 0.2 });
-  });
-
-  it("reads units from Triskel's names", () => {
-    expect(unitOf("fieldTesla")).toBe("T");
-    expect(unitOf("energyMeV")).toBe("meV");
-    expect(unitOf("conductance.totalSiemens")).toBe("S");
-    expect(unitOf("resistanceOhms")).toBe("ohm");
-    expect(unitOf("node.forward")).toBe("1");
   });
 });
 

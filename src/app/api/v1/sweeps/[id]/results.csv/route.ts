@@ -6,7 +6,7 @@ import { sweepResultsCsv } from "@/server/sweeps/service";
 export const dynamic = "force-dynamic";
 type Ctx = { params: Promise<{ id: string }> };
 
-/** GET /api/v1/sweeps/{id}/results.csv: one row per point; `#` header lines state units and engine version. */
+/** GET /api/v1/sweeps/{id}/results.csv: one row per point, unit-suffixed columns; `#` header lines state the inputs, engine version and input hash. */
 export const GET = route(async (req: Request, ctx: Ctx) => {
   const caller = await getCaller(req);
   const { id } = await ctx.params;
