@@ -8,24 +8,22 @@
  */
 import { routeRequest, type ApiErrorBody, type ApiResponse, type ApiRoute, type FILE_ROUTES, type RouteParams } from "@/shared/api";
 
-/** The command line's exit codes (docs/scripts.md). */
-export const EXIT = {
-  done: 0,
-  /** Unexpected fault of the command line itself. */
-  fault: 1,
-  /** Invalid input: local parse errors, usage, and the API's 400, 404, 409, 413 and 422. */
-  invalid: 2,
-  /** Refused by the plan, the free quota or the spend cap (402). */
-  refused: 3,
-  /** The job failed or was cancelled. */
-  jobFailed: 4,
-  /** Authentication or permission (401, 403, no token). */
-  auth: 5,
-  /** The service is unreachable or failed (5xx, or 429/503 still after waiting). */
-  unreachable: 6,
-  /** Interrupted (Ctrl-C) while waiting; the job goes on. */
-  interrupted: 130,
-} as const;
+/** The command line's exit codes and what each means (the usage text, docs/scripts.md and the manual show this table). */
+export const EXIT_CODES = [
+  { name: "done", code: 0, meaning: "done: the job succeeded (or the request was answered)" },
+  { name: "fault", code: 1, meaning: "a fault of the command line itself" },
+  { name: "invalid", code: 2, meaning: "invalid input: the file, the usage, or the API's 400, 404, 409, 413 and 422" },
+  { name: "refused", code: 3, meaning: "refused by the plan, the free quota or the spend cap (402)" },
+  { name: "jobFailed", code: 4, meaning: "the job failed or was cancelled" },
+  { name: "auth", code: 5, meaning: "authentication or permission: no token, 401, 403" },
+  { name: "unreachable", code: 6, meaning: "the service is unreachable or failed: no answer, 5xx, or 429 and 503 still after waiting" },
+  { name: "interrupted", code: 130, meaning: "Ctrl-C while waiting without a terminal: the job goes on, its id is printed" },
+] as const;
+
+type ExitName = (typeof EXIT_CODES)[number]["name"];
+export const EXIT = Object.fromEntries(EXIT_CODES.map((e) => [e.name, e.code])) as {
+  readonly [K in ExitName]: Extract<(typeof EXIT_CODES)[number], { name: K }>["code"];
+};
 
 /** An error answer of the API (or no answer at all: status 0). */
 export class RemoteApiError extends Error {

@@ -7,7 +7,7 @@ import { writeFileSync } from "node:fs";
 import { createInterface } from "node:readline";
 import { readJsonFile } from "@/engine/cli-input";
 import { FINISHED_JOB_STATUSES, type RunDetail, type SweepDetail } from "@/shared/api";
-import { ClientSetupError, EXIT, RemoteApiError, TriskelClient } from "./api";
+import { ClientSetupError, EXIT, EXIT_CODES, RemoteApiError, TriskelClient } from "./api";
 import { describeState, ProgressReporter, type JobState } from "./progress";
 
 export const USAGE = `usage: npm run -s cli -- COMMAND ...
@@ -31,9 +31,8 @@ an API token: --token TOKEN or TRISKEL_TOKEN.
 
 Progress goes to standard error; Ctrl-C while waiting asks whether to cancel the job (without a
 terminal the job is left running, its id printed, exit 130).
-Exit codes: 0 done; 2 invalid input (the file, the usage, 400, 404, 409, 413, 422); 3 refused by
-the plan, the free quota or the spend cap (402); 4 the job failed or was cancelled;
-5 authentication or permission (401, 403); 6 unreachable or a server error (5xx).
+Exit codes:
+${EXIT_CODES.map((e) => `  ${String(e.code).padStart(3)}  ${e.meaning}`).join("\n")}
 `;
 
 /** An error found before or beside the API (usage, the file, the token): one line and its exit code. */
@@ -86,6 +85,8 @@ function parseFlags(command: string, args: string[]): Flags {
   const want = command === "submit" ? "FILE.json" : "ID";
   if (flags.positional.length !== 1) throw new CommandError(`${command}: give exactly one ${want} (npm run -s cli -- help)`);
   if (flags.dryRun && (!flags.wait || flags.csv)) throw new CommandError("submit: --dry-run submits nothing, so --no-wait and --csv do not apply");
+  if (!flags.wait && flags.csv)
+    throw new CommandError("submit: --csv writes the results of a finished scan, so it needs waiting (leave out --no-wait, or fetch ID --csv PATH later)");
   return flags;
 }
 

@@ -3,7 +3,7 @@
 // --no-wait, progress lines on standard error without a terminal, Ctrl-C without a terminal, and
 // every exit code (0, 2, 3, 4, 5, 6) with one line on standard error.
 import { spawn, spawnSync } from "node:child_process";
-import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
@@ -17,6 +17,7 @@ const EXAMPLES = path.join(ROOT, "docs/examples");
 const dir = mkdtempSync(path.join(tmpdir(), "triskel-remote-cli-"));
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/;
 const leftRunning: string[] = [];
+const PYTHON = existsSync("/usr/bin/python3") ? "/usr/bin/python3" : "python3";
 
 afterAll(async () => {
   // a job a test left running on purpose is cancelled, so later files find an idle worker
@@ -231,5 +232,30 @@ describe("exit codes", () => {
     expect(stderr.trimEnd().split("\n").at(-1)).toBe(`interrupted: scan ${id} is left running (npm run -s cli -- fetch ${id} waits for it again)`);
     const [row] = await sql`select cancel_requested_at from sweeps where id = ${id}`;
     expect(row.cancel_requested_at).toBeNull();
+  });
+
+  it("on a terminal: a bar redrawn in place; Ctrl-C asks whether to cancel, y cancels (exit 4)", () => {
+    const big = {
+      network: smallNetwork(48, 48),
+      computation: { kind: "conductance", energyMeV: 0.5 },
+      sweep: { axes: [{ parameter: "fieldTesla", from: 0, to: 1, points: 30 }] },
+    };
+    const env = { ...process.env, TRISKEL_URL: appUrl(), TRISKEL_TOKEN: demoTokens().researcher };
+    const driver = path.join(ROOT, "tests/integration/python/tty_driver.py");
+    const r = spawnSync(PYTHON, [driver, "y", process.execPath, CLI, "submit", file("terminal-scan.json", big)], {
+      cwd: ROOT,
+      env,
+      encoding: "utf8",
+      timeout: 170_000,
+    });
+    expect(r.status, r.stderr).toBe(0);
+    const { exit, terminal } = JSON.parse(r.stdout) as { exit: number; terminal: string };
+    expect(exit, terminal).toBe(4);
+    const id = /scan ([0-9a-f-]{36}) submitted/.exec(terminal)?.[1] ?? "";
+    expect(id).toMatch(UUID);
+    expect(terminal).toContain(`\r\u001b[2K[${"-".repeat(24)}] scan ${id}: `);
+    expect(terminal).toContain("cancel the job? [y/N] ");
+    expect(terminal).toContain(`cancelling scan ${id}`);
+    expect(terminal.trimEnd().endsWith(`scan ${id} was cancelled`)).toBe(true);
   });
 });
