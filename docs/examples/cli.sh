@@ -17,4 +17,4 @@ npm run -s cli -- submit docs/examples/scan.json --dry-run > estimate.json
 
 # Exit codes for scripts: 0 done, 2 invalid input, 3 refused by plan, quota or spend cap,
 # 4 the job failed or was cancelled, 5 token or role, 6 service unreachable.
-npm run -s cli -- submit docs/examples/run.json > /dev/null || echo "submit failed with exit code $?"
+npm run -s cli -- submit docs/examples/run.json > /dev/null || echo "failed: exit code $?"

@@ -13,10 +13,12 @@ print(c.estimate(example["network"], example["computation"])["estimate"])
 # A calculation: waits and returns it; "result" is what `compute` prints.
 run = c.run(example["network"], example["computation"])
 g = run["result"]["conductance"]
-print("G =", g["total"], g["unit"], "checks:", run["result"]["checks"], "warnings:", run["result"]["warnings"])
+print("G =", g["total"], g["unit"], "checks:", run["result"]["checks"])
+print("warnings:", run["result"]["warnings"])
 
 # A scan over the field, its results as CSV (units in the # lines).
-scan = c.sweep(example["network"], {"kind": "conductance", "energyMeV": 0.5}, axes=[{"parameter": "fieldTesla", "from": 0, "to": 0.2, "points": 5}])
+field = {"parameter": "fieldTesla", "from": 0, "to": 0.2, "points": 5}
+scan = c.sweep(example["network"], {"kind": "conductance", "energyMeV": 0.5}, axes=[field])
 print(scan["grid"]["quantities"]["conductance.total"])
 open("scan.csv", "w").write(c.sweep_csv(scan["id"]))
 

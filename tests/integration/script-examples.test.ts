@@ -71,10 +71,11 @@ describe("script examples", () => {
     const local = computeOf("docs/examples/run.json");
     expect(lines[0]).toMatch(/^\{'computeSeconds': [0-9.e-]+, 'costUsd': [0-9.e-]+\}$/);
     expect(lines[1]).toMatch(new RegExp(`^G = ${local.conductance.total.toString().slice(0, 10)}\\d* e2/h checks: \\{'currentConservationError': `));
-    const grid = JSON.parse(lines[2]) as number[];
+    expect(lines[2]).toBe("warnings: []");
+    const grid = JSON.parse(lines[3]) as number[];
     expect(grid).toHaveLength(5);
     expect(grid.every((g) => g > 0)).toBe(true);
-    expect(lines[3]).toMatch(/^422 invalid_input computation\.energyMeV: /);
+    expect(lines[4]).toMatch(/^422 invalid_input computation\.energyMeV: /);
     expect(readFileSync(path.join(dir, "scan.csv"), "utf8")).toMatch(/\npointIndex,fieldTesla,/);
   });
 

@@ -23,7 +23,12 @@ function Example({ e }: { e: ScriptExample }) {
       <figcaption className="text-caption text-fg-soft">
         <span className="font-semibold text-fg">{e.title}</span> · <span className="font-mono">{e.file}</span> · {e.about}
       </figcaption>
-      <pre className="mt-1.5 overflow-x-auto rounded-field border border-line bg-surface-sunk p-3 font-mono text-caption leading-5">
+      {/* focusable, so a keyboard can scroll a wide example */}
+      <pre
+        tabIndex={0}
+        aria-label={e.file}
+        className="mt-1.5 overflow-x-auto rounded-field border border-line bg-surface-sunk p-3 font-mono text-caption leading-5"
+      >
         <code>{source(e)}</code>
       </pre>
     </figure>
