@@ -1,16 +1,17 @@
 /**
  * The command line's entry (`npm run -s cli -- COMMAND ...`, bundled into dist/engine-cli.mjs by
  * scripts/build-cli.mjs): `compute` runs the engine here (src/engine/cli.ts); `submit`, `status`,
- * `cancel` and `fetch` talk to a Triskel service (src/client/commands.ts). Each side is loaded only
- * when its command is asked for, so `compute` starts as fast as before and the remote commands
- * never load the engine's kernels.
+ * `cancel` and `fetch` talk to a Triskel service (src/client/commands.ts). The engine is imported
+ * as before, so `compute` starts exactly as it did; the remote commands are loaded only when one
+ * is asked for.
  */
+import { computeCommand } from "./engine/cli";
+
 const REMOTE = ["submit", "status", "cancel", "fetch"];
 
 async function main(argv: string[]): Promise<void> {
   const [command, ...args] = argv;
   if (command === "compute") {
-    const { computeCommand } = await import("./engine/cli");
     computeCommand(args);
     return;
   }
