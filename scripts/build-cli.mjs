@@ -1,6 +1,7 @@
 #!/usr/bin/env node
-// Bundles the engine's command line (src/engine/cli.ts and everything it imports) into one
-// JavaScript file, dist/engine-cli.mjs, with esbuild, so `npm run cli` starts without compiling
+// Bundles the command line (its entry src/cli.ts: the engine's `compute`, src/engine/cli.ts, and
+// the remote commands, src/client/, with everything they import) into one JavaScript file,
+// dist/engine-cli.mjs, with esbuild, so `npm run cli` starts without compiling
 // TypeScript at every call. Run by package.json's `install` script after the native build (so
 // `npm ci` builds it), and by scripts/cli.mjs when the bundle is missing or older than a source.
 //
@@ -12,7 +13,7 @@ import path from "node:path";
 import { fileURLToPath } from "node:url";
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
-export const CLI_ENTRY = path.join(root, "src", "engine", "cli.ts");
+export const CLI_ENTRY = path.join(root, "src", "cli.ts");
 export const CLI_BUNDLE = path.join(root, "dist", "engine-cli.mjs");
 /** The repository files the bundle was built from (esbuild's inputs outside node_modules), for the staleness check of scripts/cli.mjs. */
 export const CLI_INPUTS = path.join(root, "dist", "engine-cli.inputs.json");
@@ -42,7 +43,7 @@ export async function buildCli() {
       logLevel: "silent",
       metafile: true,
       legalComments: "none",
-      banner: { js: "// Built by scripts/build-cli.mjs from src/engine/cli.ts: do not edit, rebuild (npm run build:cli)." },
+      banner: { js: "// Built by scripts/build-cli.mjs from src/cli.ts: do not edit, rebuild (npm run build:cli)." },
     });
     const inputs = Object.keys(out.metafile.inputs)
       .filter((f) => !f.split("/").includes("node_modules"))

@@ -1,5 +1,5 @@
 #!/usr/bin/env node
-// `npm run cli`: the engine's command line (src/engine/cli.ts) from its JavaScript bundle,
+// `npm run cli`: the command line (src/cli.ts: the engine's `compute` and the remote commands) from its JavaScript bundle,
 // dist/engine-cli.mjs (scripts/build-cli.mjs, built at install). When the bundle is missing or
 // older than one of the files it was built from, it is built first (about 0.1 s, once); without
 // esbuild the TypeScript runs through tsx as before. Output and exit codes are the command line's.
@@ -29,7 +29,7 @@ if (!fresh()) {
   if (!r.ok) {
     // no bundle (r.line says why): the TypeScript through tsx, as before the bundle existed;
     // nothing more is printed, so standard error keeps the command line's one-line contract
-    const tsx = spawnSync(path.join(root, "node_modules", ".bin", "tsx"), [path.join(root, "src", "engine", "cli.ts"), ...process.argv.slice(2)], {
+    const tsx = spawnSync(path.join(root, "node_modules", ".bin", "tsx"), [path.join(root, "src", "cli.ts"), ...process.argv.slice(2)], {
       stdio: "inherit",
     });
     process.exit(tsx.status ?? 1);

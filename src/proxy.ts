@@ -17,6 +17,8 @@ const isPublicPage = createRouteMatcher([
   "/sign-up(.*)",
   "/sign-out(.*)",
   "/accept-invitation(.*)",
+  // the Python client (public/clients/), fetched by scripts without a session
+  "/clients/(.*)",
 ]);
 const isApi = createRouteMatcher(["/api/(.*)"]);
 

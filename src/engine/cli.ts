@@ -1,9 +1,10 @@
 /**
- * Command line: `npm run -s cli -- compute FILE.json` (or `-` for standard input) prints one JSON
- * object on standard output. Invalid input or a refused computation: exit code 2 and one line on
- * standard error naming the field. Other failures: exit code 1.
+ * The `compute` command: `npm run -s cli -- compute FILE.json` (or `-` for standard input) prints
+ * one JSON object on standard output. Invalid input or a refused computation: exit code 2 and one
+ * line on standard error naming the field. Other failures: exit code 1. The command line's entry,
+ * src/cli.ts, hands `compute` here and the remote commands to src/client/commands.ts.
  */
-import { readFileSync } from "node:fs";
+import { readJsonFile } from "./cli-input";
 // Through the engine's entry point, so the kernel backend is chosen exactly as for the worker
 // (and engineVersion names it): the command line and the API give the same result.
 import { compute, EngineInputError, EngineLimitError, parseComputeInput } from "./index";
@@ -13,25 +14,17 @@ function usage(): never {
   process.exit(2);
 }
 
-function main(argv: string[]): void {
-  const [command, file, ...rest] = argv;
-  if (command !== "compute" || !file || rest.length > 0) usage();
-  let text: string;
-  try {
-    text = readFileSync(file === "-" ? 0 : file, "utf8");
-  } catch (e) {
-    process.stderr.write(`input: cannot read ${file === "-" ? "standard input" : file}: ${(e as Error).message}\n`);
-    process.exit(2);
-  }
-  let json: unknown;
-  try {
-    json = JSON.parse(text);
-  } catch (e) {
-    process.stderr.write(`input: not valid JSON: ${(e as Error).message.split("\n")[0]}\n`);
+/** `compute FILE`: the arguments after the command's name. */
+export function computeCommand(args: string[]): void {
+  const [file, ...rest] = args;
+  if (!file || rest.length > 0) usage();
+  const read = readJsonFile(file);
+  if (!read.ok) {
+    process.stderr.write(`${read.line}\n`);
     process.exit(2);
   }
   try {
-    const input = parseComputeInput(json);
+    const input = parseComputeInput(read.json);
     const result = compute(input);
     process.stdout.write(`${JSON.stringify(result)}\n`);
   } catch (e) {
@@ -47,5 +40,3 @@ function main(argv: string[]): void {
     process.exit(1);
   }
 }
-
-main(process.argv.slice(2));

@@ -21,6 +21,7 @@ describe("accessibility of the web app", () => {
     ["scans list", "/sweeps", "h1"],
     ["group", "/workspace", "h1"],
     ["model manual", "/manual", ".katex"],
+    ["from a script", "/manual/scripts", "figure[data-example] code"],
     [
       "saved network with calculation and scan forms",
       async () => {

@@ -91,6 +91,8 @@ function allowed(r: EnvRead): boolean {
   if (r.file.startsWith("src/engine/")) return true;
   // Next.js's own runtime flag, set by Next and not by a deployment.
   if (r.file === "src/instrumentation.ts") return r.name === "NEXT_RUNTIME" && !r.assigned;
+  // The command line's remote commands run on a user's machine, not in the service: the service's address and an API token.
+  if (r.file === "src/client/commands.ts") return (r.name === "TRISKEL_URL" || r.name === "TRISKEL_TOKEN") && !r.assigned;
   return false;
 }
 

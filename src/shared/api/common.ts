@@ -7,6 +7,8 @@
 export const JOB_STATUSES = ["queued", "running", "succeeded", "failed", "cancelled"] as const;
 /** Status of a calculation, a scan point, a scan or a fit. */
 export type JobStatus = (typeof JOB_STATUSES)[number];
+/** The statuses a job never leaves. */
+export const FINISHED_JOB_STATUSES: readonly JobStatus[] = ["succeeded", "failed", "cancelled"];
 
 /** What a job is expected to cost, shown before it is charged. */
 export interface Estimate {

@@ -14,7 +14,7 @@ function run(args: string[], input?: string, cwd = ROOT) {
 }
 /** The TypeScript source through tsx, as `npm run cli` ran before the bundle. */
 function runTsx(args: string[], input?: string) {
-  return spawnSync(path.join(ROOT, "node_modules/.bin/tsx"), [path.join(ROOT, "src/engine/cli.ts"), ...args], { cwd: ROOT, input, encoding: "utf8" });
+  return spawnSync(path.join(ROOT, "node_modules/.bin/tsx"), [path.join(ROOT, "src/cli.ts"), ...args], { cwd: ROOT, input, encoding: "utf8" });
 }
 function at(obj: unknown, dotted: string): unknown {
   return dotted.split(".").reduce<unknown>((o, k) => (o === null || o === undefined ? undefined : (o as Record<string, unknown>)[k]), obj);

@@ -299,6 +299,18 @@ export default function ManualPage() {
             </p>
           </aside>
 
+          <p>
+            From a script: the command line and the Python client (
+            <a className="font-mono text-accent underline" href="/clients/triskel.py">
+              /clients/triskel.py
+            </a>
+            ) are described, with examples, in{" "}
+            <a className="text-accent underline" href="/manual/scripts">
+              Triskel from a script
+            </a>
+            .
+          </p>
+
           <h2 id="model">The model</h2>
           <p>
             Electrons travel along the links of a network in one direction only. Along a link a mode picks up a phase. Where links meet, at a node, the mode is
