@@ -8,6 +8,7 @@ import { EngineInputError, type EngineIssue } from "./errors";
 import { GRAPHENE_LATTICE_NM, periodFromTwistNm } from "./constants";
 import { checkTriangularNode, checkExplicitNodeMatrix, reachableForwardRange } from "./network/node-matrices";
 import { checkHallBar } from "./compute/hall-bar-check";
+import { checkTorusField, runsOnClosedSample } from "./network/torus";
 
 export const MAX_COLUMNS = 2000;
 export const MAX_ROWS = 2000;
@@ -368,6 +369,11 @@ export function parseComputeInput(json: unknown): ComputeInput {
     const input = r.data as ComputeInput;
     // checks that need the network; the contacts in force (the default bar when none are given) are filled in
     if (input.computation.kind === "hallBar") input.computation.contacts = checkHallBar(input.network, input.computation);
+    // a closed periodic sample holds a whole number of flux quanta (network/torus.ts): refused here, before any work
+    if (runsOnClosedSample(input.computation)) {
+      const problem = checkTorusField(input.network, (input.computation as { fieldTesla: number }).fieldTesla);
+      if (problem) throw new EngineInputError("computation.fieldTesla", problem);
+    }
     return input;
   }
   let issues = r.error.issues.map((x) => describeIssue(x, ""));
