@@ -34,7 +34,7 @@ export const triangularProbabilityNodeSchema = z.strictObject({
   branch: z
     .union([z.literal(1), z.literal(-1)])
     .default(1)
-    .describe("which of the two mirror unitary solutions (physics.md section 2)"),
+    .describe("which of the two mirror unitary solutions with the same probabilities (the model manual, /manual#node)"),
   phaseRad: z.number().min(-100).max(100).default(0).describe("overall node phase chi (an energy offset)"),
 });
 
