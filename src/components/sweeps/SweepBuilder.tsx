@@ -329,6 +329,15 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
           </fieldset>
         );
       })}
+      {!check.ok ? (
+        <div role="alert" className="rounded-field border border-danger/40 bg-danger-soft p-2.5 text-caption text-danger" data-testid="scan-fixed-problem">
+          {Object.entries(check.issues).map(([path, message]) => (
+            <p key={path}>
+              Fixed value {PARAMETER_UNITS[path]?.label.toLowerCase() ?? path}: {message}
+            </p>
+          ))}
+        </div>
+      ) : null}
       {base && "error" in base ? (
         <p role="alert" className="rounded-field border border-danger/40 bg-danger-soft p-2.5 text-caption text-danger" data-testid="scan-base-problem">
           The fixed values are refused: {base.error}
