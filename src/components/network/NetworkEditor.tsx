@@ -354,7 +354,7 @@ export function NetworkEditor({ initial, canEdit }: Props) {
                   error={err("disorder.linkPhaseWidthRad")}
                 />
               </Field>
-              <Field id="disorder.forwardSpread" label="Forward spread" error={err("disorder.forwardSpread")}>
+              <Field id="disorder.forwardSpread" label={triangular ? "Forward spread" : "Turning spread"} error={err("disorder.forwardSpread")}>
                 <NumberInput
                   id="disorder.forwardSpread"
                   value={draft.disorder.forwardSpread}
