@@ -35,7 +35,25 @@ export {
 export { EngineInputError, EngineLimitError, EngineCancelledError, SingularMatrixError, type EngineIssue } from "./errors";
 export { estimateCost, checkResourceLimits, type CostEstimate } from "./cost";
 export { COST_CONSTANTS } from "./cost-constants";
-export { applyParameter, SWEEPABLE_PARAMETERS, type SweepableParameter } from "./parameters";
+export {
+  applyParameter,
+  nodeWithParameter,
+  reachableParameterRanges,
+  SWEEPABLE_PARAMETERS,
+  type NodeProbabilityParameter,
+  type SweepableParameter,
+} from "./parameters";
+export { checkTriangularNode, isReachableNode, reachableForwardRange } from "./network/node-matrices";
+export {
+  allowedTorusFields,
+  checkTorusField,
+  runsOnClosedSample,
+  torusAllowsField,
+  torusFieldStepTesla,
+  torusFluxQuanta,
+  torusPlaquettes,
+  TORUS_FLUX_TOLERANCE,
+} from "./network/torus";
 export * as constants from "./constants";
 export {
   CONDUCTANCE_QUANTUM_S,

@@ -1,6 +1,7 @@
 /** Sweeps and fits: change one parameter of a parsed input and re-validate. */
 import { EngineInputError } from "./errors";
-import { parseComputeInput, type ComputeInput } from "./schema";
+import { reachableIntervals } from "./network/node-matrices";
+import { parseComputeInput, type ComputeInput, type Network } from "./schema";
 
 export interface SweepableParameter {
   name: string;
@@ -120,19 +121,8 @@ export function applyParameter(input: ComputeInput, parameter: string, value: nu
           `network.node.${key}`,
           `node.${key} needs a probability node ({ forward, left, right }); this network has ${"matrix" in node ? "an explicit matrix" : "a square node"}`,
         );
-      if (key === "forward") {
-        const turn = node.left + node.right;
-        const t = turn > 0 ? node.left / turn : 0.5;
-        node.forward = value;
-        node.left = (1 - value) * t;
-        node.right = (1 - value) * (1 - t);
-      } else if (key === "left") {
-        node.left = value;
-        node.right = 1 - node.forward - value;
-      } else if (key === "right") {
-        node.right = value;
-        node.left = 1 - node.forward - value;
-      } else if (key === "phaseRad") node.phaseRad = value;
+      if (key === "forward" || key === "left" || key === "right") Object.assign(node, nodeWithParameter(node as NodeProbabilities, key, value));
+      else if (key === "phaseRad") node.phaseRad = value;
     }
   } else if (parameter.startsWith("disorder.")) {
     const key = parameter.slice(9);
@@ -141,4 +131,52 @@ export function applyParameter(input: ComputeInput, parameter: string, value: nu
     net.size[parameter.slice(5)] = Math.round(value);
   }
   return parseComputeInput(raw);
+}
+
+type NodeProbabilities = { forward: number; left: number; right: number };
+/** The node probabilities a scan over it can change: forward (left:right kept), left or right (forward kept). */
+export type NodeProbabilityParameter = "node.forward" | "node.left" | "node.right";
+
+/**
+ * The node a scan point sets: forward rescales left and right in their ratio (equal when both are
+ * 0); left or right keeps forward and gives the rest to the other turn.
+ */
+export function nodeWithParameter(node: NodeProbabilities, key: "forward" | "left" | "right", value: number): NodeProbabilities {
+  if (key === "forward") {
+    const turn = node.left + node.right;
+    const t = turn > 0 ? node.left / turn : 0.5;
+    return { forward: value, left: (1 - value) * t, right: (1 - value) * (1 - t) };
+  }
+  if (key === "left") return { forward: node.forward, left: value, right: 1 - node.forward - value };
+  return { forward: node.forward, left: 1 - node.forward - value, right: value };
+}
+
+/**
+ * The values of a node probability (node.forward, node.left, node.right on a triangular
+ * probability node; node.turning on a square node) that the engine accepts on this network when a
+ * scan sets it as applyParameter does, as disjoint intervals in increasing order (every value
+ * inside one is accepted; a turn on a node with forward < 1/9 has two). It is the node rule of the
+ * schema (the triangle of the circulant amplitudes, network/node-matrices.ts) and, for
+ * node.forward and node.turning, the disorder rule that the value +- forwardSpread / 2 stays
+ * reachable. Left out: forward = 1 with left != right (an isolated reachable point). null when the
+ * parameter is not such a probability of this network's node, and for node.left and node.right on
+ * a node with a forward spread (each value is then checked by parsing it).
+ */
+export function reachableParameterRanges(network: Network, parameter: string): { min: number; max: number }[] | null {
+  const node = network.node as Partial<NodeProbabilities> & { turning?: number; matrix?: unknown };
+  const spread = network.disorder.forwardSpread;
+  if (parameter === "node.turning") return "turning" in node ? (spread <= 1 ? [{ min: spread / 2, max: 1 - spread / 2 }] : []) : null;
+  if (parameter !== "node.forward" && parameter !== "node.left" && parameter !== "node.right") return null;
+  if (node.forward === undefined || node.left === undefined || node.right === undefined) return null;
+  const base = node as NodeProbabilities;
+  const key = parameter.slice(5) as "forward" | "left" | "right";
+  if (key !== "forward" && spread > 0) return null;
+  const family = (x: number): [number, number, number] => {
+    const n = nodeWithParameter(base, key, x);
+    return [n.forward, n.left, n.right];
+  };
+  // forward runs over [0, 1]; a turn over [0, 1 - forward] (the other turn takes the rest)
+  const ranges = reachableIntervals(family, 0, key === "forward" ? 1 : 1 - base.forward);
+  if (spread === 0) return ranges;
+  return ranges.map((r) => ({ min: r.min + spread / 2, max: r.max - spread / 2 })).filter((r) => r.min <= r.max);
 }

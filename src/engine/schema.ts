@@ -8,6 +8,7 @@ import { EngineInputError, type EngineIssue } from "./errors";
 import { GRAPHENE_LATTICE_NM, periodFromTwistNm } from "./constants";
 import { checkTriangularNode, checkExplicitNodeMatrix, reachableForwardRange } from "./network/node-matrices";
 import { checkHallBar } from "./compute/hall-bar-check";
+import { checkTorusField, runsOnClosedSample } from "./network/torus";
 
 export const MAX_COLUMNS = 2000;
 export const MAX_ROWS = 2000;
@@ -33,7 +34,7 @@ export const triangularProbabilityNodeSchema = z.strictObject({
   branch: z
     .union([z.literal(1), z.literal(-1)])
     .default(1)
-    .describe("which of the two mirror unitary solutions (physics.md section 2)"),
+    .describe("which of the two mirror unitary solutions with the same probabilities (the model manual, /manual#node)"),
   phaseRad: z.number().min(-100).max(100).default(0).describe("overall node phase chi (an energy offset)"),
 });
 
@@ -368,6 +369,11 @@ export function parseComputeInput(json: unknown): ComputeInput {
     const input = r.data as ComputeInput;
     // checks that need the network; the contacts in force (the default bar when none are given) are filled in
     if (input.computation.kind === "hallBar") input.computation.contacts = checkHallBar(input.network, input.computation);
+    // a closed periodic sample holds a whole number of flux quanta (network/torus.ts): refused here, before any work
+    if (runsOnClosedSample(input.computation)) {
+      const problem = checkTorusField(input.network, (input.computation as { fieldTesla: number }).fieldTesla);
+      if (problem) throw new EngineInputError("computation.fieldTesla", problem);
+    }
     return input;
   }
   let issues = r.error.issues.map((x) => describeIssue(x, ""));

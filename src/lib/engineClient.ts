@@ -5,7 +5,16 @@
  */
 // The engine's browser-safe entry (no Node built-ins, no native addon, no compute code); the
 // engine's index would bring the kernel backend and node:crypto into the browser bundle.
-import { computationSchema, estimateCost, networkSchema, SWEEPABLE_PARAMETERS, type Computation, type Network } from "@/engine/browser";
+import {
+  checkTorusField,
+  computationSchema,
+  estimateCost,
+  networkSchema,
+  runsOnClosedSample,
+  SWEEPABLE_PARAMETERS,
+  type Computation,
+  type Network,
+} from "@/engine/browser";
 
 export type Issues = Record<string, string>;
 
@@ -28,6 +37,20 @@ export function validateComputation(computation: unknown): { ok: true; data: Com
   const r = computationSchema.safeParse(computation);
   if (r.success) return { ok: true, data: r.data };
   return { ok: false, issues: collect(r.error) };
+}
+
+/**
+ * A computation checked on its network too: the schema's rules that need both (a closed periodic
+ * sample, a torus, allows only whole flux quanta: the engine's checkTorusField) join the
+ * computation's own issues under the field they concern.
+ */
+export function validateComputationOn(network: unknown, computation: unknown): { ok: true; data: Computation } | { ok: false; issues: Issues } {
+  const c = validateComputation(computation);
+  if (!c.ok || !runsOnClosedSample(c.data)) return c;
+  const n = networkSchema.safeParse(network);
+  if (!n.success) return c;
+  const problem = checkTorusField(n.data, (c.data as { fieldTesla: number }).fieldTesla);
+  return problem ? { ok: false, issues: { fieldTesla: problem } } : c;
 }
 
 /**

@@ -6,8 +6,10 @@
  * the sum of the other two. With left = right this is forward >= 1/9.
  *
  * This module is pure: it serves the ternary diagram and the inline messages of the network
- * form. The server refuses with the engine's own check regardless.
+ * form, with the engine's own rule (isReachableNode, reachableForwardRange from @/engine/browser).
  */
+import { isReachableNode, reachableForwardRange } from "@/engine/browser";
+
 export interface Triple {
   forward: number;
   left: number;
@@ -15,7 +17,6 @@ export interface Triple {
 }
 
 export const SUM_TOLERANCE = 1e-6;
-const EDGE_TOLERANCE = 1e-12;
 
 export type TripleVerdict =
   | { ok: true }
@@ -33,7 +34,7 @@ export type TripleVerdict =
 
 const fmt = (x: number, d = 3) => (Math.abs(x) < 1e-12 ? "0" : x.toFixed(d));
 
-/** Triangle inequality on sqrt(fr), sqrt(lf), sqrt(rl); returns the worst violation (<= 0 means reachable). */
+/** Triangle inequality on sqrt(fr), sqrt(lf), sqrt(rl); returns the worst violation (<= 0 means reachable), for the message's numbers. */
 export function triangleExcess({ forward: f, left: l, right: r }: Triple): { excess: number; longest: 0 | 1 | 2; sides: [number, number, number] } {
   const sides: [number, number, number] = [Math.sqrt(f * r), Math.sqrt(l * f), Math.sqrt(r * l)];
   let longest: 0 | 1 | 2 = 0;
@@ -43,11 +44,12 @@ export function triangleExcess({ forward: f, left: l, right: r }: Triple): { exc
   return { excess: sides[longest] - others, longest, sides };
 }
 
+/** A probability triple summing to 1 that the engine's own node rule accepts (isReachableNode). */
 export function isReachable(t: Triple): boolean {
   const { forward, left, right } = t;
   if ([forward, left, right].some((x) => !Number.isFinite(x) || x < 0 || x > 1)) return false;
   if (Math.abs(forward + left + right - 1) > SUM_TOLERANCE) return false;
-  return triangleExcess(t).excess <= EDGE_TOLERANCE;
+  return isReachableNode(forward, left, right);
 }
 
 /** Triple at a given forward value with left : right in the ratio share : (1 - share). */
@@ -56,34 +58,12 @@ export function onRay(forward: number, share: number): Triple {
 }
 
 /**
- * The allowed interval of forward with left : right held at `share` : 1 - share, found by a fine
- * scan refined by bisection. Null when no forward value works (for example left = 0 < right).
+ * The allowed interval of forward with left : right held at `share` : 1 - share: the engine's
+ * reachableForwardRange. Null when no forward value below 1 works (for example left = 0 < right).
  */
 export function forwardRangeForShare(share: number): [number, number] | null {
-  const N = 2000;
-  let lo = -1;
-  let hi = -1;
-  for (let i = 0; i <= N; i++) {
-    const f = i / N;
-    if (isReachable(onRay(f, share))) {
-      if (lo < 0) lo = i;
-      hi = i;
-    }
-  }
-  if (lo < 0) return null;
-  const refine = (inside: number, outside: number) => {
-    let a = inside;
-    let b = outside;
-    for (let k = 0; k < 50; k++) {
-      const m = (a + b) / 2;
-      if (isReachable(onRay(m, share))) a = m;
-      else b = m;
-    }
-    return a;
-  };
-  const fMin = lo === 0 ? 0 : refine(lo / N, (lo - 1) / N);
-  const fMax = hi === N ? 1 : refine(hi / N, (hi + 1) / N);
-  return [fMin, fMax];
+  const { min, max } = reachableForwardRange(share, 1 - share, 1);
+  return min === max ? null : [min, max];
 }
 
 /** Checks a triple and explains a refusal in words that say what to change. */
@@ -115,8 +95,8 @@ export function checkTriple(t: Triple): TripleVerdict {
       suggestion: suggestion && isReachable(suggestion) ? suggestion : null,
     };
   }
-  const { excess, longest, sides } = triangleExcess(t);
-  if (excess <= EDGE_TOLERANCE) return { ok: true };
+  if (isReachableNode(t.forward, t.left, t.right)) return { ok: true };
+  const { longest, sides } = triangleExcess(t);
   const labels = ["√(forward·right)", "√(left·forward)", "√(right·left)"];
   const others = [0, 1, 2].filter((i) => i !== longest);
   const turn = t.left + t.right;

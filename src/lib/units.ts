@@ -74,11 +74,23 @@ export function computeSeconds(s: number | null | undefined): string {
   return `${num(s / 3600, 3)} compute-h`;
 }
 
+/**
+ * The app's one date format, on every page and table: a moment as "2026-12-04 01:20 UTC" (ISO
+ * order, 24-hour clock, always UTC, so no reader mistakes the day, the month or the zone).
+ */
 export function when(iso: string | null | undefined): string {
   if (!iso) return "–";
   const d = new Date(iso);
   if (Number.isNaN(d.getTime())) return iso;
   return d.toISOString().replace("T", " ").slice(0, 16) + " UTC";
+}
+
+/** A calendar day in the same format, "2026-12-04" (the UTC date: billing periods, invoices). */
+export function day(iso: string | null | undefined): string {
+  if (!iso) return "–";
+  const d = new Date(iso);
+  if (Number.isNaN(d.getTime())) return iso;
+  return d.toISOString().slice(0, 10);
 }
 
 /** Physical units of the parameters a sweep or a form can vary (key: parameter path), from the one quantity table (src/shared/quantities.ts). */

@@ -40,7 +40,7 @@ export function readingsFromArea(areaNm2: number): { perTriangle: PeriodReading;
     perTriangle: {
       assumption:
         "One flux quantum h/e through each triangle of the network: A_triangle = (sqrt3/4) l^2 " +
-        "(the elementary plaquette of the triangular network; physics.md section 2).",
+        "(the smallest loop of the triangular network; the model manual describes it under Geometry and direction, /manual#geometry).",
       areaNm2,
       periodNm: lTri,
       twistDegrees: twistDegreesFromPeriodNm(lTri),

@@ -197,7 +197,33 @@ describe("invalid sweep submissions get the documented status and write nothing"
       axes: [{ parameter: "node.forward", values: [0.5, 0.05] }],
     });
     expect(badPoint.status).toBe(422);
-    expect(badPoint.body.error.message).toMatch(/scan point 1/);
+    // in words: which values, why, and what is allowed (the scan builder's sentence); the first point's engine text in the details
+    expect(badPoint.body.error.message).toMatch(
+      /^Axis 1, forward probability: 1 of 2 values \(0\.05\) is not reachable: no unitary node has them .*keeps left and right turning in the network's ratio 0\.5 : 0\.5; at that setting the forward probability must lie between 0\.111111 and 1\.$/,
+    );
+    expect(badPoint.body.error.message).not.toMatch(/sqrt\(|network\.node/);
+    expect(badPoint.body.error.details).toMatchObject({
+      field: "axes.0",
+      reason: "node",
+      refusedValues: [0.05],
+      nearestValidAxis: { parameter: "node.forward", values: [0.5] },
+    });
+    expect(badPoint.body.error.details.pointError).toMatch(/^scan point 1 \(node\.forward = 0\.05\): network\.node\.forward: unreachable node probabilities/);
+    // a local density of states map over field on a periodic sample (a torus): only whole flux quanta, refused before anything runs
+    const torus = await post("/api/v1/sweeps?dryRun=true", {
+      network: smallNetwork(4, 4),
+      computation: { kind: "ldos", energyMeV: 1 },
+      axes: [{ parameter: "fieldTesla", from: 0, to: 1, points: 6 }],
+    });
+    expect(torus.status).toBe(422);
+    expect(torus.body.error.message).toMatch(
+      /^Axis 1, perpendicular magnetic field: 5 of 6 values \(0\.2 T, 0\.4 T, 0\.6 T, 0\.8 T, 1 T\) are not allowed: .*a torus/,
+    );
+    expect(torus.body.error.details).toMatchObject({ reason: "torusField", refusedValues: [0.2, 0.4, 0.6, 0.8, 1] });
+    const snapped = torus.body.error.details.nearestValidAxis;
+    const dry = await post("/api/v1/sweeps?dryRun=true", { network: smallNetwork(4, 4), computation: { kind: "ldos", energyMeV: 1 }, axes: [snapped] });
+    expect(dry.status).toBe(200);
+    expect(dry.body.pointCount).toBe(6);
     const labNetwork = (await get("/api/v1/networks?limit=1")).body.networks[0].id;
     const foreign = await post(
       "/api/v1/sweeps",

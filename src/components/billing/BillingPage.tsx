@@ -14,9 +14,9 @@ import { exportCsv } from "@/lib/exportFigure";
 import { formatComputeSeconds, formatUsd } from "./CostEstimate";
 import { readSpendCap } from "./spendCap";
 import { UsageByDayChart } from "./UsageByDayChart";
+import { day } from "@/lib/units";
 
 const keys = { overview: ["billing"] as const, usage: ["usage"] as const, invoices: ["billing", "invoices"] as const, seats: ["billing", "seats"] as const };
-const day = (iso: string) => iso.slice(0, 10);
 /** A member's role in words (the usage report carries it as a plain string; a former member has none). */
 const roleWord = (role: string | null) => (role && (ROLES as readonly string[]).includes(role) ? ROLE_LABELS[role as Role] : "–");
 

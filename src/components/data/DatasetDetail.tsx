@@ -13,6 +13,7 @@ import { Y_MEASURES_INFO } from "@/shared/csv";
 import { FitQualityMark } from "./FitQualityMark";
 import { PeriodPanel } from "./PeriodPanel";
 import { SyntheticMark } from "./SyntheticMark";
+import { when } from "@/lib/units";
 
 export function DatasetDetail({ id }: { id: string }) {
   const q = useQuery({ queryKey: ["dataset", id], queryFn: () => api("GET /api/v1/datasets/{id}", { params: { id } }) });
@@ -84,7 +85,7 @@ export function DatasetDetail({ id }: { id: string }) {
               {fitsQ.data.items.map((f) => (
                 <li key={f.id}>
                   <Link href={`/fits/${f.id}`} className="text-accent underline">
-                    {new Date(f.createdAt).toLocaleString()} · {f.status}
+                    {when(f.createdAt)} · {f.status}
                     {f.result ? ` · χ²/dof ${f.result.chi2PerDof.toPrecision(3)}` : ""}
                   </Link>
                   {f.result ? <FitQualityMark quality={f.result.quality} flags={f.result.flags} /> : null}

@@ -7,6 +7,7 @@ import { qk } from "@/lib/queryKeys";
 import { Empty, ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import { sig } from "./format";
 import { SyntheticMark } from "./SyntheticMark";
+import { when } from "@/lib/units";
 
 export function DatasetsList() {
   const q = useQuery({ queryKey: qk.datasets, queryFn: () => api("GET /api/v1/datasets") });
@@ -55,7 +56,7 @@ export function DatasetsList() {
                 <td className="tk-num font-mono text-caption">
                   {sig(d.xRange[0])} … {sig(d.xRange[1])} {d.xUnit}
                 </td>
-                <td className="tk-num text-caption">{new Date(d.createdAt).toLocaleString()}</td>
+                <td className="tk-num text-caption">{when(d.createdAt)}</td>
               </tr>
             ))}
           </tbody>

@@ -8,6 +8,7 @@ import { Empty, ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import { fitParameterName } from "@/shared/fit-parameters";
 import { withStderr } from "./format";
 import { FitQualityMark } from "./FitQualityMark";
+import { when } from "@/lib/units";
 
 export function FitsList() {
   const q = useQuery({ queryKey: qk.fits, queryFn: () => api("GET /api/v1/fits"), refetchInterval: 3000 });
@@ -57,7 +58,7 @@ export function FitsList() {
                     : f.settings.fit.map((p) => fitParameterName(p.parameter)).join(", ")}
                 </td>
                 <td className="tk-num">{f.result ? f.result.chi2PerDof.toPrecision(3) : "–"}</td>
-                <td className="tk-num text-caption">{new Date(f.createdAt).toLocaleString()}</td>
+                <td className="tk-num text-caption">{when(f.createdAt)}</td>
               </tr>
             ))}
           </tbody>

@@ -14,7 +14,7 @@ import { Field, NumberInput, Select } from "@/components/ui/Field";
 import { useMe } from "@/components/shell/useMe";
 import { RefusalNote, UpgradeHint, usePermission } from "@/components/ui/Permission";
 import { PLANS } from "@/shared/plans";
-import { defaultNetwork, linkLengthNm, setPath, shapeOf, type NetworkDraft } from "./draft";
+import { defaultNetwork, linkLengthNm, setPath, shapeOf, switchLattice, type NetworkDraft } from "./draft";
 import { NetworkDrawing } from "./NetworkDrawing";
 import { TernaryDiagram } from "./TernaryDiagram";
 
@@ -74,7 +74,8 @@ export function NetworkEditor({ initial, canEdit }: Props) {
   const err = (path: string) => issues[path];
 
   const deferredDraft = useDeferredValue(draft);
-  const shape = useMemo(() => shapeOf(deferredDraft, valley), [deferredDraft, valley]);
+  // the square network has no valleys: it is drawn as it runs
+  const shape = useMemo(() => shapeOf(deferredDraft, triangular ? valley : "K"), [deferredDraft, triangular, valley]);
   const l = linkLengthNm(draft);
 
   const save = useMutation({
@@ -130,7 +131,7 @@ export function NetworkEditor({ initial, canEdit }: Props) {
                 id="lattice"
                 value={draft.lattice ?? "triangular"}
                 options={LATTICE_OPTIONS}
-                onChange={(v) => setDraft((d) => ({ ...defaultNetwork(v as "triangular" | "square"), size: d.size }))}
+                onChange={(v) => setDraft((d) => switchLattice(d, v as "triangular" | "square"))}
               />
             </Field>
             <Field
@@ -164,33 +165,40 @@ export function NetworkEditor({ initial, canEdit }: Props) {
 
         <fieldset className="tk-card space-y-3" disabled={!canEdit}>
           <legend className="px-1 text-caption font-semibold uppercase tracking-[0.14em] text-fg-faint">Scale and modes</legend>
-          <div role="radiogroup" aria-label="Scale given as" className="flex gap-4 text-caption">
-            {(["twist", "period"] as const).map((m) => (
-              <label key={m} className="flex items-center gap-1.5">
-                <input
-                  type="radio"
-                  name="scale-mode"
-                  checked={scaleMode === m}
-                  onChange={() =>
-                    setDraft((d) => {
-                      const out = { ...d };
-                      const len = linkLengthNm(d) ?? 128;
-                      if (m === "period") {
-                        delete out.twistDegrees;
-                        out.periodNm = Number(len.toFixed(2));
-                      } else {
-                        delete out.periodNm;
-                        out.twistDegrees = Number(twistFromPeriodDegrees(len).toFixed(4));
-                      }
-                      return out;
-                    })
-                  }
-                />
-                {m === "twist" ? "Twist angle" : "Moiré period"}
-              </label>
-            ))}
-          </div>
-          {scaleMode === "twist" ? (
+          {/* The square network has no moiré: its scale is the link length alone, with no twist angle, channels per link or valleys. */}
+          {triangular ? (
+            <div role="radiogroup" aria-label="Scale given as" className="flex gap-4 text-caption">
+              {(["twist", "period"] as const).map((m) => (
+                <label key={m} className="flex items-center gap-1.5">
+                  <input
+                    type="radio"
+                    name="scale-mode"
+                    checked={scaleMode === m}
+                    onChange={() =>
+                      setDraft((d) => {
+                        const out = { ...d };
+                        const len = linkLengthNm(d) ?? 128;
+                        if (m === "period") {
+                          delete out.twistDegrees;
+                          out.periodNm = Number(len.toFixed(2));
+                        } else {
+                          delete out.periodNm;
+                          out.twistDegrees = Number(twistFromPeriodDegrees(len).toFixed(4));
+                        }
+                        return out;
+                      })
+                    }
+                  />
+                  {m === "twist" ? "Twist angle" : "Moiré period"}
+                </label>
+              ))}
+            </div>
+          ) : null}
+          {!triangular ? (
+            <Field id="periodNm" label="Link length l" unit="nm" error={err("periodNm") ?? err("twistDegrees")} hint="length of one link between two nodes">
+              <NumberInput id="periodNm" value={draft.periodNm} onChange={(v) => set("periodNm", v)} error={err("periodNm")} />
+            </Field>
+          ) : scaleMode === "twist" ? (
             <Field
               id="twistDegrees"
               label="Twist angle θ"
@@ -227,9 +235,11 @@ export function NetworkEditor({ initial, canEdit }: Props) {
             <Field id="modeVelocityMps" label="Mode velocity v" unit="m/s" error={err("modeVelocityMps")} hint="fitted, not a material constant">
               <NumberInput id="modeVelocityMps" value={draft.modeVelocityMps} onChange={(v) => set("modeVelocityMps", v)} error={err("modeVelocityMps")} />
             </Field>
-            <Field id="channelsPerLink" label="Channels per link" error={err("channelsPerLink")}>
-              <Select id="channelsPerLink" value={draft.channelsPerLink ?? 1} options={ONE_OR_TWO} onChange={(v) => set("channelsPerLink", v)} />
-            </Field>
+            {triangular ? (
+              <Field id="channelsPerLink" label="Channels per link" error={err("channelsPerLink")}>
+                <Select id="channelsPerLink" value={draft.channelsPerLink ?? 1} options={ONE_OR_TWO} onChange={(v) => set("channelsPerLink", v)} />
+              </Field>
+            ) : null}
             <Field id="degeneracy.spin" label="Spin degeneracy" error={err("degeneracy.spin")}>
               <Select
                 id="degeneracy.spin"
@@ -238,14 +248,11 @@ export function NetworkEditor({ initial, canEdit }: Props) {
                 onChange={(v) => set("degeneracy.spin", v)}
               />
             </Field>
-            <Field id="degeneracy.valley" label="Valley degeneracy" error={err("degeneracy.valley")}>
-              <Select
-                id="degeneracy.valley"
-                value={draft.degeneracy?.valley ?? (triangular ? 2 : 1)}
-                options={ONE_OR_TWO}
-                onChange={(v) => set("degeneracy.valley", v)}
-              />
-            </Field>
+            {triangular ? (
+              <Field id="degeneracy.valley" label="Valley degeneracy" error={err("degeneracy.valley")}>
+                <Select id="degeneracy.valley" value={draft.degeneracy?.valley ?? 2} options={ONE_OR_TWO} onChange={(v) => set("degeneracy.valley", v)} />
+              </Field>
+            ) : null}
           </div>
         </fieldset>
 
@@ -347,7 +354,7 @@ export function NetworkEditor({ initial, canEdit }: Props) {
                   error={err("disorder.linkPhaseWidthRad")}
                 />
               </Field>
-              <Field id="disorder.forwardSpread" label="Forward spread" error={err("disorder.forwardSpread")}>
+              <Field id="disorder.forwardSpread" label={triangular ? "Forward spread" : "Turning spread"} error={err("disorder.forwardSpread")}>
                 <NumberInput
                   id="disorder.forwardSpread"
                   value={draft.disorder.forwardSpread}
@@ -413,25 +420,29 @@ export function NetworkEditor({ initial, canEdit }: Props) {
       <section aria-label="Drawing" className="min-w-0 space-y-2 xl:sticky xl:top-6 xl:self-start">
         <div className="flex items-center justify-between">
           <h2 className="text-lead font-semibold">Drawing</h2>
-          <div role="radiogroup" aria-label="Valley drawn" className="flex gap-1 rounded-full border border-line p-0.5 text-caption">
-            {(["K", "K'"] as const).map((v) => (
-              <button
-                key={v}
-                type="button"
-                role="radio"
-                aria-checked={valley === v}
-                onClick={() => setValley(v)}
-                className={`rounded-full px-2.5 py-0.5 ${valley === v ? "bg-accent text-accent-fg" : "text-fg-soft"}`}
-              >
-                valley {v}
-              </button>
-            ))}
-          </div>
+          {triangular ? (
+            <div role="radiogroup" aria-label="Valley drawn" className="flex gap-1 rounded-full border border-line p-0.5 text-caption">
+              {(["K", "K'"] as const).map((v) => (
+                <button
+                  key={v}
+                  type="button"
+                  role="radio"
+                  aria-checked={valley === v}
+                  onClick={() => setValley(v)}
+                  className={`rounded-full px-2.5 py-0.5 ${valley === v ? "bg-accent text-accent-fg" : "text-fg-soft"}`}
+                >
+                  valley {v}
+                </button>
+              ))}
+            </div>
+          ) : null}
         </div>
         <NetworkDrawing shape={shape} linkNm={l} height={460} />
         <p className="text-caption text-fg-faint">
-          Arrows show the direction of motion in valley {valley}
-          {triangular ? "; the other valley runs every link the opposite way" : ""}. Leads (amber) sit on the left and right faces; the{" "}
+          {triangular
+            ? `Arrows show the direction of motion in valley ${valley}; the other valley runs every link the opposite way`
+            : "Arrows show the direction of motion"}
+          . Leads (amber) sit on the left and right faces; the{" "}
           {draft.transverse === "open" ? "solid lines are the open edges" : "dashed lines are the periodic boundary, identified with each other"}.
         </p>
       </section>

@@ -49,3 +49,23 @@ export function setPath(obj: NetworkDraft, path: string, value: unknown): Networ
   else cur[keys[keys.length - 1]] = value;
   return out;
 }
+
+/**
+ * The draft on the other lattice, keeping what still applies (engine schema v1): size, transverse
+ * boundary, mode velocity, spin degeneracy, disorder and the link length (the square network has
+ * no twist angle: a triangular network's scale becomes its period). The node, channels per link
+ * and valley degeneracy start from the new lattice's defaults: the square network has its own
+ * two-in, two-out node, one channel per link and no valleys.
+ */
+export function switchLattice(d: NetworkDraft, lattice: "triangular" | "square"): NetworkDraft {
+  if ((d.lattice ?? "triangular") === lattice) return d;
+  const out = defaultNetwork(lattice);
+  for (const key of ["size", "transverse", "modeVelocityMps", "disorder"]) if (d[key] !== undefined) out[key] = structuredClone(d[key]);
+  if (d.degeneracy?.spin !== undefined) out.degeneracy = { ...out.degeneracy, spin: d.degeneracy.spin };
+  const l = linkLengthNm(d);
+  if (l !== undefined) {
+    delete out.twistDegrees;
+    out.periodNm = Number(l.toFixed(2));
+  }
+  return out;
+}

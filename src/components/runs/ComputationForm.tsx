@@ -5,7 +5,7 @@ import { useRouter } from "next/navigation";
 import { useMemo, useState, type FormEvent } from "react";
 import { ApiClientError } from "@/lib/api";
 import type { NetworkView } from "@/shared/api";
-import { estimateInput, validateComputation } from "@/lib/engineClient";
+import { estimateInput, validateComputationOn } from "@/lib/engineClient";
 import { Field, NumberInput, Select } from "@/components/ui/Field";
 import { buildComputation, defaultsFor, FIELDS, isShown, type ComputationKind, type FormValues } from "./computations";
 import { defaultBar, HallBarContacts, type ContactDraft } from "./HallBarContacts";
@@ -25,7 +25,7 @@ export function useComputationDraft(network: NetworkView) {
     const c = buildComputation(kind, values);
     return kind === "hallBar" && contacts !== null ? { ...c, contacts } : c;
   }, [kind, values, contacts]);
-  const check = useMemo(() => validateComputation(computation), [computation]);
+  const check = useMemo(() => validateComputationOn(network.network, computation), [network.network, computation]);
   const seconds = useMemo(() => (check.ok ? estimateInput({ network: network.network, computation }) : null), [check.ok, network.network, computation]);
   /** Another kind of computation, starting from its default values. */
   const chooseKind = (k: ComputationKind) => {

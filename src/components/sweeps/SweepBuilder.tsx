@@ -1,10 +1,12 @@
 "use client";
 
-import { useState } from "react";
+import { useMemo, useState } from "react";
+import { EngineInputError, parseComputeInput, type ComputeInput } from "@/engine/browser";
 import { api } from "@/lib/api";
 import type { NetworkView, SweepAxisRequest } from "@/shared/api";
 import { axisLabel, PARAMETER_UNITS } from "@/lib/units";
-import { PLANS } from "@/shared/plans";
+import { PLANS, type PlanId } from "@/shared/plans";
+import { checkSweepAxes, type AxisFix, type AxisProblem } from "@/shared/sweep-checks";
 import { Field, NumberInput, Select } from "@/components/ui/Field";
 import { useMe } from "@/components/shell/useMe";
 import { RefusalNote, UpgradeHint, usePermission } from "@/components/ui/Permission";
@@ -49,9 +51,113 @@ export function axisFromDraft(a: AxisDraft): { axis: SweepAxisRequest; count: nu
   return { axis: { parameter: a.parameter, from, to, points }, count: points };
 }
 
+/** The axis draft that a check's nearest valid axis stands for. */
+export function draftOfFix(fix: AxisFix): Partial<AxisDraft> {
+  return "values" in fix ? { mode: "values", values: fix.values.join(", ") } : { mode: "range", from: fix.from, to: fix.to, points: fix.points };
+}
+
+/** The scan's base input as the server builds it (the network, the computation, the ensemble), or the engine's reason it is refused. */
+function baseInput(network: unknown, computation: object, samples: number | null): { input: ComputeInput } | { error: string } {
+  try {
+    return { input: parseComputeInput({ network, computation: samples === null ? computation : { ...computation, ensemble: { samples } } }) };
+  } catch (err) {
+    if (err instanceof EngineInputError) return { error: err.message };
+    throw err;
+  }
+}
+
+interface PlanProblem {
+  key: string;
+  /** What is over which limit, with the numbers. */
+  text: string;
+  /** What to do instead on this plan. */
+  instead: string;
+  /** The Lab plan's figure, when it allows more. */
+  labAllows: string | null;
+}
+
+/** The plan's limits a scan would be refused by (src/shared/plans.ts; the server's checks: src/server/billing/limits.ts). */
+function planProblems(
+  plan: PlanId,
+  pointCount: number,
+  samples: number,
+  size: { columns: number; rows: number },
+  sizeAxes: { axis: number; parameter: string; max: number }[],
+): PlanProblem[] {
+  const p = PLANS[plan];
+  const lab = PLANS.lab;
+  const more = (ours: number, theirs: number, what: string) => (plan === "free" && theirs > ours ? `${theirs.toLocaleString("en")} ${what}` : null);
+  const out: PlanProblem[] = [];
+  if (pointCount > p.maxSweepPoints)
+    out.push({
+      key: "points",
+      text: `${pointCount.toLocaleString("en")} points is over the ${p.label} plan's ${p.maxSweepPoints.toLocaleString("en")} points per scan`,
+      instead: "Use fewer points",
+      labAllows: more(p.maxSweepPoints, lab.maxSweepPoints, "points"),
+    });
+  if (samples > p.maxEnsembleSamples)
+    out.push({
+      key: "ensemble",
+      text: `${samples.toLocaleString("en")} disorder seeds per point is over the ${p.label} plan's ${p.maxEnsembleSamples.toLocaleString("en")} seeds per ensemble`,
+      instead: "Use fewer seeds",
+      labAllows: more(p.maxEnsembleSamples, lab.maxEnsembleSamples, "seeds"),
+    });
+  if (size.columns > p.maxCellsPerSide || size.rows > p.maxCellsPerSide)
+    out.push({
+      key: "size",
+      text: `the network is ${size.columns} × ${size.rows} cells, over the ${p.label} plan's ${p.maxCellsPerSide} cells per side`,
+      instead: "Scan a smaller network",
+      labAllows: more(p.maxCellsPerSide, lab.maxCellsPerSide, "cells per side"),
+    });
+  for (const a of sizeAxes)
+    if (a.max > p.maxCellsPerSide)
+      out.push({
+        key: `axis${a.axis}`,
+        text: `axis ${a.axis + 1} reaches ${a.max} ${a.parameter === "size.columns" ? "columns" : "rows"}, over the ${p.label} plan's ${p.maxCellsPerSide} cells per side`,
+        instead: `Keep axis ${a.axis + 1} at or below ${p.maxCellsPerSide}`,
+        labAllows: more(p.maxCellsPerSide, lab.maxCellsPerSide, "cells per side"),
+      });
+  return out;
+}
+
+/** What an axis asks that the engine refuses, in words, and the nearest valid axis as a button. */
+function AxisWarning({ index, problem, onFix }: { index: number; problem: AxisProblem; onFix: (fix: AxisFix) => void }) {
+  return (
+    <div
+      role="alert"
+      id={`axis${index}-problem`}
+      className="mt-3 rounded-field border border-danger/40 bg-danger-soft p-2.5 text-caption text-danger"
+      data-testid={`axis${index}-problem`}
+      data-reason={problem.reason}
+    >
+      <p>{problem.message}</p>
+      {problem.reason === "torusField" && problem.allowedFields.length > 0 ? (
+        <p className="mt-1" data-testid={`axis${index}-allowed`}>
+          Allowed fields near the chosen range:{" "}
+          <span className="font-mono tk-num">{problem.allowedFields.map((f) => `${Number(f.toPrecision(6))} T`).join(", ")}</span>
+        </p>
+      ) : null}
+      {problem.fix && problem.fixLabel ? (
+        <button
+          type="button"
+          className="mt-2 rounded-full border border-danger/50 px-2.5 py-0.5 font-medium hover:bg-surface"
+          data-testid={`axis${index}-fix`}
+          onClick={() => onFix(problem.fix!)}
+        >
+          {problem.fixLabel}
+        </button>
+      ) : null}
+    </div>
+  );
+}
+
 /**
  * A scan (API: sweep) over one or two parameters, values or ranges, with the point count, the
- * plan's limit (an over-limit scan cannot be started; the way to a larger plan is shown) and the estimate.
+ * plan's limits (an over-limit scan cannot be started; the way to a larger plan is shown) and the
+ * estimate. Before submitting it checks every axis value with the engine's own rules (reachable
+ * node probabilities, the field steps of a torus, every bound: src/shared/sweep-checks.ts) and says
+ * in words what is refused, with the nearest valid axis one click away; the server's dry run is the
+ * final word before the scan is created.
  */
 export function SweepBuilder({ network, canSubmit }: { network: NetworkView; canSubmit: boolean }) {
   const me = useMe();
@@ -63,7 +169,7 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
   const [axes, setAxes] = useState<AxisDraft[]>([{ parameter: "fieldTesla", mode: "range", from: 0, to: 1, points: 11, values: "" }]);
   const [samples, setSamples] = useState<number | string>("");
 
-  const parsed = axes.map(axisFromDraft);
+  const parsed = useMemo(() => axes.map(axisFromDraft), [axes]);
   const axisOk = parsed.every((p) => "axis" in p);
   const duplicate = axes.length === 2 && axes[0].parameter === axes[1].parameter;
   const pointCount = parsed.reduce((n, p) => n * ("count" in p ? p.count : 0), 1);
@@ -71,20 +177,48 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
   const ensembleError =
     samples !== "" && (!Number.isInteger(ensembleN) || ensembleN < 1) ? "ensemble size must be a whole number, at least 1 (blank: one sample)" : undefined;
   const limit = PLANS[plan].maxSweepPoints;
-  const overLimit = pointCount > limit;
-  const ok = check.ok && axisOk && !duplicate && !ensembleError && pointCount > 0 && !overLimit;
+  const requestAxes = useMemo(() => parsed.flatMap((p) => ("axis" in p ? [p.axis] : [])), [parsed]);
+  const samplesOk = samples !== "" && !ensembleError ? ensembleN : null;
+  const base = useMemo(() => (check.ok ? baseInput(network.network, computation, samplesOk) : null), [check.ok, network.network, computation, samplesOk]);
+  // Every axis value through the engine's own rules, once the axes and the base input are valid.
+  const axisProblems = useMemo(
+    () => (base && "input" in base && axisOk && !duplicate ? checkSweepAxes(base.input, requestAxes) : []),
+    [base, axisOk, duplicate, requestAxes],
+  );
+  const limits = planProblems(
+    plan,
+    pointCount,
+    samplesOk ?? 1,
+    network.network.size,
+    requestAxes.flatMap((a, axis) =>
+      a.parameter === "size.columns" || a.parameter === "size.rows"
+        ? [{ axis, parameter: a.parameter, max: Math.max(...("values" in a ? a.values : [a.from, a.to])) }]
+        : [],
+    ),
+  );
+  const overLimit = limits.length > 0;
+  const ok =
+    check.ok && axisOk && !duplicate && !ensembleError && pointCount > 0 && !overLimit && base !== null && "input" in base && axisProblems.length === 0;
   const permission = usePermission("work.create");
 
+  const body = () => ({
+    networkId: network.id,
+    computation,
+    axes: requestAxes,
+    ...(samples !== "" ? { ensemble: { samples: ensembleN } } : {}),
+  });
+  // The server's dry run checks every point (and the budget) first: a refusal shows in words and nothing is created.
+  const [checking, setChecking] = useState(false);
   const { submit, serverError, onSubmit } = useStartJob(
-    () =>
-      api("POST /api/v1/sweeps", {
-        json: {
-          networkId: network.id,
-          computation,
-          axes: parsed.map((p) => ("axis" in p ? p.axis : null)),
-          ...(samples !== "" ? { ensemble: { samples: ensembleN } } : {}),
-        },
-      }),
+    async () => {
+      setChecking(true);
+      try {
+        await api("POST /api/v1/sweeps?dryRun=true", { json: body() });
+      } finally {
+        setChecking(false);
+      }
+      return api("POST /api/v1/sweeps", { json: body() });
+    },
     (s) => `/sweeps/${s.id}`,
   );
 
@@ -187,9 +321,28 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
                 </div>
               )}
             </div>
+            {axisProblems
+              .filter((x) => x.axis === i)
+              .map((x) => (
+                <AxisWarning key={x.parameter} index={i} problem={x} onFix={(fix) => setAxis(i, draftOfFix(fix))} />
+              ))}
           </fieldset>
         );
       })}
+      {!check.ok ? (
+        <div role="alert" className="rounded-field border border-danger/40 bg-danger-soft p-2.5 text-caption text-danger" data-testid="scan-fixed-problem">
+          {Object.entries(check.issues).map(([path, message]) => (
+            <p key={path}>
+              Fixed value {PARAMETER_UNITS[path]?.label.toLowerCase() ?? path}: {message}
+            </p>
+          ))}
+        </div>
+      ) : null}
+      {base && "error" in base ? (
+        <p role="alert" className="rounded-field border border-danger/40 bg-danger-soft p-2.5 text-caption text-danger" data-testid="scan-base-problem">
+          The fixed values are refused: {base.error}
+        </p>
+      ) : null}
       <div className="flex flex-wrap gap-2">
         {axes.length === 1 ? (
           <button
@@ -216,15 +369,24 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
         </span>
       </p>
       {overLimit && axisOk ? (
-        <p
+        <div
           id="scan-limit"
           role="alert"
-          className="rounded-field border border-danger/40 bg-danger-soft p-2.5 text-caption text-danger"
+          className="space-y-1 rounded-field border border-danger/40 bg-danger-soft p-2.5 text-caption text-danger"
           data-testid="scan-limit"
         >
-          {pointCount.toLocaleString("en")} points is over the {PLANS[plan].label} plan&apos;s {limit.toLocaleString("en")}; this scan would be refused. Use
-          fewer points, or <UpgradeHint plan={plan} /> (up to {PLANS.lab.maxSweepPoints.toLocaleString("en")} points).
-        </p>
+          {limits.map((l) => (
+            <p key={l.key} data-testid={`scan-limit-${l.key}`}>
+              {l.text[0].toUpperCase() + l.text.slice(1)}; this scan would be refused. {l.instead}
+              {l.labAllows ? (
+                <>
+                  , or <UpgradeHint plan={plan} /> (up to {l.labAllows})
+                </>
+              ) : null}
+              .
+            </p>
+          ))}
+        </div>
       ) : null}
       <CostLine
         seconds={perPoint === null || !axisOk ? null : perPoint * pointCount * (ensembleError ? 1 : ensembleN)}
@@ -238,9 +400,17 @@ export function SweepBuilder({ network, canSubmit }: { network: NetworkView; can
         type="submit"
         className="tk-btn"
         disabled={!canSubmit || !ok || submit.isPending}
-        aria-describedby={!canSubmit && permission.reason ? "scan-refusal" : overLimit && axisOk ? "scan-limit" : undefined}
+        aria-describedby={
+          !canSubmit && permission.reason
+            ? "scan-refusal"
+            : overLimit && axisOk
+              ? "scan-limit"
+              : axisProblems.length > 0
+                ? axisProblems.map((x) => `axis${x.axis}-problem`).join(" ")
+                : undefined
+        }
       >
-        {submit.isPending ? "Submitting…" : `Start scan of ${axisOk ? pointCount : "–"} points`}
+        {checking ? "Checking every point…" : submit.isPending ? "Submitting…" : `Start scan of ${axisOk ? pointCount : "–"} points`}
       </button>
     </form>
   );

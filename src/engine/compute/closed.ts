@@ -3,6 +3,7 @@ import { EngineInputError } from "../errors";
 import { buildSample } from "../network/lattice";
 import type { NetworkGraph } from "../network/graph";
 import type { Network } from "../schema";
+import { checkTorusField } from "../network/torus";
 import { fluxPerPlaquette, type Scale } from "./common";
 
 export function checkClosedSample(net: Network, fieldField: string): void {
@@ -16,25 +17,11 @@ export function checkClosedSample(net: Network, fieldField: string): void {
   void fieldField;
 }
 
-/** Number of elementary plaquettes of the torus (periodic rows and columns). */
-export function torusPlaquettes(net: Network): number {
-  return net.lattice === "triangular" ? 2 * net.size.columns * net.size.rows : net.size.columns * net.size.rows;
-}
-
 export function buildClosedSample(net: Network, scale: Scale, fieldTesla: number, sample: number, fieldField: string): NetworkGraph {
   checkClosedSample(net, fieldField);
+  const problem = checkTorusField(net, fieldTesla);
+  if (problem) throw new EngineInputError(fieldField, problem);
   const phi = fluxPerPlaquette(scale, fieldTesla);
-  if (net.transverse === "periodic" && phi !== 0) {
-    const total = phi * torusPlaquettes(net);
-    if (Math.abs(total - Math.round(total)) > 1e-6) {
-      const step = scale.fieldPeriodTesla / torusPlaquettes(net);
-      throw new EngineInputError(
-        fieldField,
-        `a closed periodic sample (a torus) holds a whole number of flux quanta: fieldTesla must be a multiple of ${step.toPrecision(8)} T here ` +
-          `(got ${fieldTesla} T, ${total.toPrecision(8)} quanta); or use transverse "open"`,
-      );
-    }
-  }
   return buildSample(net, { mode: "ring", fluxPerPlaquette: phi, sample });
 }
 

@@ -18,6 +18,66 @@ function reachable(f: number, l: number, r: number, tolerance = TRIANGLE_TOLERAN
 }
 
 /**
+ * Whether a unitary three-fold node has the probabilities (forward, left, right): the exact rule
+ * checkTriangularNode refuses by (the triangle of sqrt(f r), sqrt(l f), sqrt(r l) closes).
+ */
+export function isReachableNode(f: number, l: number, r: number): boolean {
+  return reachable(f, l, r);
+}
+
+/**
+ * The reachable values of x along a one-parameter family of nodes x -> (forward, left, right) on
+ * [lo, hi], as disjoint intervals in increasing order (none when no value is reachable). Found on
+ * a grid of 4000 steps and refined by bisection, with no tolerance: every x inside a reported
+ * interval closes its triangle exactly. An isolated reachable point at hi (forward = 1 with
+ * left != right) is left out.
+ */
+export function reachableIntervals(family: (x: number) => [number, number, number], lo: number, hi: number): { min: number; max: number }[] {
+  const ok = (x: number) => {
+    const [f, l, r] = family(x);
+    return reachable(f, l, r, 0);
+  };
+  const N = 4000;
+  // An end of the family can be an isolated reachable point (forward = 1 with left != right: just
+  // below it the node is unreachable, since |sqrt r - sqrt l| <= sqrt(r l) needs
+  // 1 - f >= (sqrt(1-t) - sqrt t)^2 / (t (1-t))). The last grid point is therefore taken a hair
+  // below hi, so that point cannot join the interval below it across a gap narrower than a step.
+  const TOP = hi - 1e-12 * Math.max(1, hi - lo);
+  const at = (i: number) => (i === N ? TOP : lo + ((hi - lo) * i) / N);
+  const grid: boolean[] = [];
+  for (let i = 0; i <= N; i++) grid.push(ok(at(i)));
+  const refine = (a: number, b: number): number => {
+    // ok(a) !== ok(b); return the boundary
+    const okA = ok(a);
+    for (let it = 0; it < 60; it++) {
+      const mid = (a + b) / 2;
+      if (ok(mid) === okA) a = mid;
+      else b = mid;
+    }
+    return okA ? a : b;
+  };
+  // intervals of reachable grid points, their ends refined
+  const out: { min: number; max: number }[] = [];
+  for (let i = 0; i <= N; i++) {
+    if (!grid[i]) continue;
+    let j = i;
+    while (j + 1 <= N && grid[j + 1]) j++;
+    out.push({ min: i === 0 ? lo : refine(at(i - 1), at(i)), max: j === N ? hi : refine(at(j), at(j + 1)) });
+    i = j;
+  }
+  return out;
+}
+
+/** Of reachableIntervals, the one that contains `near` (within a grid step), else the first; null when none. */
+export function reachableInterval(family: (x: number) => [number, number, number], lo: number, hi: number, near: number): { min: number; max: number } | null {
+  const all = reachableIntervals(family, lo, hi);
+  const step = (hi - lo) / 4000;
+  let best = all[0] ?? null;
+  for (const iv of all) if (near >= iv.min - step && near <= iv.max + step) best = iv;
+  return best;
+}
+
+/**
  * The reachable forward probabilities at a fixed left:right ratio (left / (left + right)), as the
  * interval that contains `near` (or the widest one). For left = right this is [1/9, 1].
  */
@@ -25,42 +85,7 @@ export function reachableForwardRange(left: number, right: number, near: number)
   const turn = left + right;
   if (turn <= 0) return { min: 1, max: 1 };
   const t = left / turn;
-  // No tolerance here: every forward inside the reported range closes its triangle exactly.
-  const ok = (f: number) => reachable(f, (1 - f) * t, (1 - f) * (1 - t), 0);
-  const N = 4000;
-  // forward = 1 (no turning at all) is always reachable, but for left != right it is an isolated
-  // point: just below it the node is unreachable (|sqrt r - sqrt l| <= sqrt(r l) needs
-  // 1 - f >= (sqrt(1-t) - sqrt t)^2 / (t (1-t))). The last grid point is therefore taken a hair
-  // below 1, so that point cannot join the interval below it across a gap narrower than a step.
-  const TOP = 1 - 1e-12;
-  const at = (i: number) => (i === N ? TOP : i / N);
-  const grid: boolean[] = [];
-  for (let i = 0; i <= N; i++) grid.push(ok(at(i)));
-  // intervals of reachable grid points
-  const intervals: [number, number][] = [];
-  for (let i = 0; i <= N; i++) {
-    if (!grid[i]) continue;
-    let j = i;
-    while (j + 1 <= N && grid[j + 1]) j++;
-    intervals.push([i, j]);
-    i = j;
-  }
-  if (intervals.length === 0) return { min: 1, max: 1 };
-  const refine = (lo: number, hi: number): number => {
-    // ok(lo) !== ok(hi); return the boundary
-    const okLo = ok(lo);
-    for (let it = 0; it < 60; it++) {
-      const mid = (lo + hi) / 2;
-      if (ok(mid) === okLo) lo = mid;
-      else hi = mid;
-    }
-    return okLo ? lo : hi;
-  };
-  let best = intervals[0];
-  for (const iv of intervals) if (near >= iv[0] / N - 1 / N && near <= iv[1] / N + 1 / N) best = iv;
-  const min = best[0] === 0 ? 0 : refine((best[0] - 1) / N, best[0] / N);
-  const max = best[1] === N ? 1 : refine(best[1] / N, at(best[1] + 1));
-  return { min, max };
+  return reachableInterval((f) => [f, (1 - f) * t, (1 - f) * (1 - t)], 0, 1, near) ?? { min: 1, max: 1 };
 }
 
 /** null if (forward, left, right) is reachable; otherwise a one-line explanation with the allowed range. */

@@ -19,7 +19,7 @@ import { assertWithinBudget, reserveBudget } from "@/server/billing/budget";
 import { assertSweepWithinPlan, queuePriority } from "@/server/billing/limits";
 import { getDb } from "@/server/db";
 import { networks, networkVersions, runs, sweeps } from "@/server/db/schema";
-import { ENGINE_VERSION, canonicalJson, kindOf, sweepableParameters } from "@/server/engine";
+import { ENGINE_VERSION, canonicalJson, kindOf, sweepableParameters, type ComputeInput } from "@/server/engine";
 import { createHash } from "node:crypto";
 import { beforeCursor, createdAtText, decodeCursor, encodeCursor, pageLimit } from "@/server/http/cursor";
 import { ApiError, zodToApiError } from "@/server/http/errors";
@@ -29,6 +29,7 @@ import { INLINE_LIMITS, runAnalysis } from "@/server/offload";
 import { RUN_STATUSES, resolveSubmission } from "@/server/runs/service";
 import { deriveSweepStatus, refreshSweep, type SweepCounts } from "@/server/runs/sweep-progress";
 import { axesSchema, ensembleSchema, gridShape, gridSize, pointCoordinates, resolveAxis, scalarQuantities, type ResolvedAxis } from "@/shared/sweep-axes";
+import { checkSweepAxes } from "@/shared/sweep-checks";
 
 export const sweepBody = z
   .object({
@@ -58,6 +59,27 @@ function checkParameters(axes: ResolvedAxis[]) {
     throw new ApiError("invalid_input", "axes.1.parameter: the two axes must sweep different parameters.", { field: "axes.1.parameter" });
 }
 
+/**
+ * A point the engine refused because its axis asks for values the engine never accepts (a node
+ * probability out of the reachable range, a field a torus does not allow, ...): the scan builder's
+ * sentence for that axis (src/shared/sweep-checks.ts) in place of the first point's engine text,
+ * with the refused values, the allowed ones and the nearest valid axis in the details.
+ */
+function explainRefusedAxis(err: unknown, base: ComputeInput, axes: ResolvedAxis[]): unknown {
+  if (!(err instanceof ApiError) || err.code !== "invalid_input") return err;
+  const [problem] = checkSweepAxes(base, axes);
+  if (!problem) return err;
+  return new ApiError("invalid_input", problem.message, {
+    field: `axes.${problem.axis}`,
+    reason: problem.reason,
+    refusedValues: problem.refused,
+    ...(problem.reason === "node" ? { allowedRanges: problem.allowedRanges } : {}),
+    ...(problem.reason === "torusField" ? { fieldStepTesla: problem.fieldStepTesla, allowedFields: problem.allowedFields } : {}),
+    ...(problem.fix ? { nearestValidAxis: { parameter: problem.parameter, ...problem.fix } } : {}),
+    pointError: err.message,
+  });
+}
+
 async function prepareSweep(caller: Caller, body: unknown, dryRun: boolean) {
   requirePermission(caller, "work.create");
   const parsed = sweepBody.safeParse(body);
@@ -77,7 +99,9 @@ async function prepareSweep(caller: Caller, body: unknown, dryRun: boolean) {
   const { total, points } = await runAnalysis(
     { kind: "sweepPoints", plan: caller.plan, base, axes, pointCount, keepPoints: !dryRun },
     pointCount <= INLINE_LIMITS.sweepPoints,
-  );
+  ).catch((err: unknown) => {
+    throw explainRefusedAxis(err, base, axes);
+  });
   await assertWithinBudget(caller.workspaceId, total);
   return { b, base, networkVersionId, axes, pointCount, points, total };
 }

@@ -104,10 +104,13 @@ describe("trace formula on finite closed networks against numpy", () => {
       expect(r.ldosPerMeV.total.every((x) => x > 0)).toBe(true);
     }
   });
-  it("a torus refuses a field that is not a whole number of flux quanta", () => {
-    const inp = make({ size: { columns: 4, rows: 4 } }, { kind: "ldos", fieldTesla: 0.1 });
-    expect(() => computeLdos(inp.network, inp.computation as LdosComputation)).toThrow(
-      /computation.fieldTesla: a closed periodic sample \(a torus\) holds a whole number of flux quanta/,
-    );
+  it("a torus refuses a field that is not a whole number of flux quanta: at parse time and in the computation", () => {
+    const torus = /computation.fieldTesla: a closed periodic sample \(a torus\) holds a whole number of flux quanta/;
+    expect(() => make({ size: { columns: 4, rows: 4 } }, { kind: "ldos", fieldTesla: 0.1 })).toThrow(torus);
+    expect(() => make({ size: { columns: 4, rows: 4 } }, { kind: "dos", source: "sample", fieldTesla: 0.1 })).toThrow(torus);
+    // open transverse edges make the closed sample a ring, which holds any flux
+    expect(() => make({ size: { columns: 4, rows: 4 }, transverse: "open" }, { kind: "ldos", fieldTesla: 0.1 })).not.toThrow();
+    const inp = make({ size: { columns: 4, rows: 4 } }, { kind: "ldos", fieldTesla: 0 });
+    expect(() => computeLdos(inp.network, { ...(inp.computation as LdosComputation), fieldTesla: 0.1 })).toThrow(torus);
   });
 });

@@ -38,12 +38,12 @@ const NETWORK: Param[] = [
   },
   {
     name: "size.columns",
-    unit: "nodes",
+    unit: "cells",
     range: "1 – 2000 (plan limit applies)",
     dflt: "–",
-    meaning: "Nodes along the transport direction a₁, from the left lead to the right lead.",
+    meaning: "Cells along the transport direction a₁, from the left lead to the right lead. A cell is one node with the links that leave it.",
   },
-  { name: "size.rows", unit: "nodes", range: "1 – 2000; even for a periodic triangular sample", dflt: "–", meaning: "Nodes across the sample." },
+  { name: "size.rows", unit: "cells", range: "1 – 2000; even for a periodic triangular sample", dflt: "–", meaning: "Cells across the sample." },
   {
     name: "transverse",
     unit: "–",
@@ -53,13 +53,19 @@ const NETWORK: Param[] = [
       "Periodic closes the sample into a cylinder (no edges); " +
       "open leaves two edges where an edge rule sends every current back into the sample, so the whole scattering matrix stays unitary.",
   },
-  { name: "periodNm", unit: "nm", range: "1 – 100 000", dflt: "– (give this or twistDegrees)", meaning: "Link length l, equal to the moiré period." },
+  {
+    name: "periodNm",
+    unit: "nm",
+    range: "1 – 100 000",
+    dflt: "– (give this or twistDegrees)",
+    meaning: "Link length l: the moiré period of a triangular network; the square network's scale (it has no twist angle).",
+  },
   {
     name: "twistDegrees",
     unit: "degrees",
     range: "0.01 – 5",
     dflt: "–",
-    meaning: "Twist angle θ; converted to the period with the graphene lattice constant (formula below).",
+    meaning: "Triangular network only: twist angle θ, converted to the period with the graphene lattice constant (formula below).",
   },
   {
     name: "modeVelocityMps",
@@ -75,7 +81,7 @@ const NETWORK: Param[] = [
     unit: "–",
     range: "1 | 2",
     dflt: "1",
-    meaning: "Independent copies of the mode on each link, unless an explicit node matrix mixes them.",
+    meaning: "Independent copies of the mode on each link, unless an explicit node matrix mixes them. The square network has one.",
   },
   {
     name: "degeneracy.spin",
@@ -89,7 +95,8 @@ const NETWORK: Param[] = [
     unit: "–",
     range: "1 | 2",
     dflt: "triangular 2, square 1",
-    meaning: "Valleys counted. Valley K′ is the time-reversed network: links reversed, node matrix transposed, magnetic phases negated.",
+    meaning:
+      "Valleys counted (triangular network; the square network has none). Valley K′ is the time-reversed network: links reversed, node matrix transposed, magnetic phases negated.",
   },
   {
     name: "node.forward",
@@ -342,8 +349,9 @@ export default function ManualPage() {
             network drawing shows the arrows for the valley you choose.
           </p>
           <p>
-            The two leads sit on the faces perpendicular to <M>{String.raw`\mathbf a_1`}</M>, on the left and on the right. Columns count nodes from lead to
-            lead and rows count them across. The scale comes from the twist angle through the graphene lattice constant:
+            The two leads sit on the faces perpendicular to <M>{String.raw`\mathbf a_1`}</M>, on the left and on the right. Sizes are counted in cells, a cell
+            being one node with the links that leave it: columns count cells from lead to lead and rows count them across. The scale comes from the twist angle
+            through the graphene lattice constant:
           </p>
           <M block>
             {String.raw`l = \frac{a}{2\sin(\theta/2)},\qquad a = ${GRAPHENE_LATTICE_NM}\ \text{nm}` +

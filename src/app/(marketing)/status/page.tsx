@@ -2,6 +2,7 @@ import type { Metadata } from "next";
 import { SiteHeader } from "@/components/shell/SiteHeader";
 import { healthReport } from "@/server/health";
 import type { ServiceHealth } from "@/shared/api";
+import { when } from "@/lib/units";
 
 export const metadata: Metadata = { title: "Service status" };
 export const dynamic = "force-dynamic";
@@ -19,7 +20,7 @@ function say(check: ServiceHealth): string {
 export default async function StatusPage() {
   const report = await healthReport();
   const ok = report.status === "ok";
-  const checked = new Date(report.time).toUTCString();
+  const checked = when(report.time);
   return (
     <main className="mx-auto max-w-4xl px-gutter py-10">
       <SiteHeader current="/status" />
