@@ -2,7 +2,7 @@
 
 import * as d3 from "d3";
 import { num } from "@/lib/units";
-import { drawAxes } from "./axes";
+import { drawFrame } from "./axes";
 import { D3Chart, useD3Chart } from "./D3Chart";
 
 /** Histogram of values in [0, 1] by default (transmission eigenvalues), count on the y axis. */
@@ -34,14 +34,21 @@ export function Histogram({
     )(values);
   const chart = useD3Chart(
     height,
-    ({ g, innerW, innerH, palette, setReadout }) => {
-      const x = d3.scaleLinear().domain(domain).range([0, innerW]);
-      const y = d3
-        .scaleLinear()
-        .domain([0, d3.max(binned, (b) => b.length) || 1])
-        .nice()
-        .range([innerH, 0]);
-      drawAxes(g, x, y, innerW, innerH, xLabel, "Count", palette);
+    ({ svg, width, height: h, palette, setReadout }) => {
+      const { g, x, y, innerH } = drawFrame(
+        svg,
+        width,
+        h,
+        palette,
+        { scale: d3.scaleLinear().domain(domain), title: xLabel },
+        {
+          scale: d3
+            .scaleLinear()
+            .domain([0, d3.max(binned, (b) => b.length) || 1])
+            .nice(),
+          title: "Count",
+        },
+      );
       g.append("g")
         .attr("data-layer", "bars")
         .selectAll("rect")
