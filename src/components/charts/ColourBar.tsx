@@ -13,6 +13,9 @@ export function colourFor(scale: ColourScale, palette: Palette): (v: number) => 
   return (v: number) => interp(scale.position(v));
 }
 
+/** 0.0200 -> 0.02, 2.50·10⁹ -> 2.5·10⁹, 1.000 GΩ -> 1 GΩ. */
+const trimZeros = (label: string) => label.replace(/^([−\d]+)\.(\d*?)0+(?=\D|$)/, (_, i: string, f: string) => (f ? `${i}.${f}` : i));
+
 /** Labels of the colour bar: both ends (told apart with enough digits) and round values between them. */
 export function colourBarTicks(scale: ColourScale, unit: string): { at: number; label: string; end?: "low" | "high" }[] {
   const [lo, hi] = scale.domain;
@@ -22,13 +25,12 @@ export function colourBarTicks(scale: ColourScale, unit: string): { at: number; 
     .ticks(4)
     .filter((t) => Math.abs(t - lo) > 0.15 * (hi - lo) && Math.abs(hi - t) > 0.15 * (hi - lo));
   const values = [lo, ...inner, hi];
-  // Four significant digits at the ends; the round values between them without trailing zeros.
-  const labels = formatTicks(values, unit, 4).map((l, i) => (i === 0 || i === values.length - 1 ? l : trimZeros(l)));
+  // The ends with four significant digits (more when they are close), told apart; the round
+  // values between them on their own; no trailing zeros.
+  const [low, high] = formatTicks([lo, hi], unit, 4).map(trimZeros);
+  const labels = [low, ...formatTicks(inner, unit).map(trimZeros), high];
   return values.map((at, i) => ({ at, label: labels[i], end: i === 0 ? "low" : i === values.length - 1 ? "high" : undefined }));
 }
-
-/** 0.0200 -> 0.02, 2.50·10⁹ -> 2.5·10⁹, 1.000 GΩ -> 1 GΩ. */
-const trimZeros = (label: string) => label.replace(/^([−\d]+)\.(\d*?)0+(?=\D|$)/, (_, i: string, f: string) => (f ? `${i}.${f}` : i));
 
 const BAR = 14;
 
@@ -85,7 +87,27 @@ export function drawColourBar(
     .scaleLinear()
     .domain([lo, hi])
     .range(vertical ? [length, 0] : [0, length]);
-  const ticks = colourBarTicks(scale, unit);
+  let ticks = colourBarTicks(scale, unit);
+  if (!vertical) {
+    // Horizontal: keep only the labels between the ends that clear their neighbours by 6 px.
+    const widths = measureTexts(
+      svg,
+      ticks.map((d) => d.label),
+      TICK_FONT,
+    );
+    const span = (i: number): [number, number] => {
+      const x = pos(ticks[i].at);
+      return ticks[i].end === "low" ? [x, x + widths[i]] : ticks[i].end === "high" ? [x - widths[i], x] : [x - widths[i] / 2, x + widths[i] / 2];
+    };
+    const highSpan = span(ticks.length - 1);
+    const kept = [0];
+    for (let i = 1; i < ticks.length - 1; i++) {
+      const [a, b] = span(i);
+      if (a >= span(kept[kept.length - 1])[1] + 6 && b <= highSpan[0] - 6) kept.push(i);
+    }
+    kept.push(ticks.length - 1);
+    ticks = kept.map((i) => ticks[i]);
+  }
   const t = bar
     .append("g")
     .selectAll("g")

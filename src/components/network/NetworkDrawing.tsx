@@ -71,9 +71,11 @@ export function NetworkDrawing({ shape, linkNm, height = 420, linkValues, label,
             : ""}
         </span>
         <span className="flex items-center gap-3">
-          <span className="flex items-center gap-1">
-            <span aria-hidden className="inline-block h-2 w-4 rounded-sm" style={{ background: palette?.lead }} /> lead and its channels, in and out
-          </span>
+          {custom?.hasLeads === false ? null : (
+            <span className="flex items-center gap-1">
+              <span aria-hidden className="inline-block h-2 w-4 rounded-sm" style={{ background: palette?.lead }} /> lead and its channels, in and out
+            </span>
+          )}
           <span>scroll to zoom · drag to pan</span>
         </span>
       </figcaption>
@@ -229,7 +231,7 @@ function SvgNetwork({ shape, custom, width, height, palette, linkValues, descrip
       .selectAll("line")
       .data(stubs)
       .join("line")
-      .attr("class", "tk-link")
+      .attr("class", "tk-lead-stub")
       .attr("data-kind", "lead")
       .attr("data-lead-channel", leadDirection(g, "stub"))
       .attr("data-side", (i) => leadSide(g, S[4 * i], S[4 * i + 2]))
