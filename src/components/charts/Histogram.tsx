@@ -58,8 +58,21 @@ export function Histogram({
         .attr("width", (b) => Math.max(0, x(b.x1!) - x(b.x0!) - 2))
         .attr("y", (b) => y(b.length))
         .attr("height", (b) => innerH - y(b.length))
-        .attr("fill", palette.link)
-        .on("mouseenter", (_, b) => setReadout(`${num(b.x0!)} – ${num(b.x1!)}: ${b.length} eigenvalue${b.length === 1 ? "" : "s"}`));
+        .attr("fill", palette.link);
+      // Hover: each bin's whole column (an empty or short bar is as easy to read as a tall one).
+      const read = (b: (typeof binned)[number]) => setReadout(`${num(b.x0!)} – ${num(b.x1!)}: ${b.length} eigenvalue${b.length === 1 ? "" : "s"}`);
+      g.append("g")
+        .attr("data-layer", "hover")
+        .selectAll("rect")
+        .data(binned)
+        .join("rect")
+        .attr("x", (b) => x(b.x0!))
+        .attr("width", (b) => Math.max(0, x(b.x1!) - x(b.x0!)))
+        .attr("y", 0)
+        .attr("height", innerH + 1)
+        .attr("fill", "transparent")
+        .on("mouseenter", (_, b) => read(b))
+        .on("mousemove", (_, b) => read(b));
     },
     [values, bins, xLabel],
   );
