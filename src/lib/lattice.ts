@@ -37,6 +37,15 @@ export interface NetworkGeometry {
   leads: { leftX: number; rightX: number };
   /** False for a closed sample (no leads drawn). */
   hasLeads?: boolean;
+  /**
+   * The lead channels that run the other way from the lead links (kind 1) of `links`: in valley K
+   * the channels entering the sample from a lead (the kind-1 links leave into it), in valley K'
+   * the reverse. x0, y0, x1, y1 per stub, tail to head in the chosen valley; with the kind-1 links
+   * they show the current at every lead in both directions. Not counted in linkCount.
+   */
+  leadStubs?: Float32Array;
+  /** The valley the links are drawn in (lattice samples). */
+  valley?: NetworkShape["valley"];
 }
 
 const S3 = Math.sqrt(3) / 2;
@@ -90,7 +99,23 @@ function triangular({ columns: C, rows: Rn, transverse, valley }: NetworkShape):
         out.put(x0, y0, x1, y1, kind);
       }
     }
-  return geometry(nodes, out, xMax, (Rn - 1) * S3);
+  // Channels from the leads: the link of direction j arriving at node R comes from R - a_j; when
+  // that lies beyond a lead face it is a channel of the lead (across an open edge it is the edge rule's).
+  const stubs = stubWriter(valley);
+  for (let m = 0; m < Rn; m++)
+    for (let i = 0; i < C; i++) {
+      const x0 = xOf(i, m);
+      const y0 = yOf(m);
+      for (let j = 0; j < 3; j++) {
+        const [dx, dy] = dirs[j];
+        const ms = m - (j === 1 ? 1 : j === 2 ? -1 : 0);
+        if (transverse === "open" && (ms < 0 || ms >= Rn)) continue;
+        const xs = x0 - dx;
+        // Along a1 the stub starts at the lead bar (x = -0.6 + its half width), else half a link out.
+        if (xs < -1e-6 || xs > xMax + 1e-6) stubs.put(j === 0 ? -0.48 : x0 - dx * 0.5, y0 - dy * 0.5 * (j === 0 ? 0 : 1), x0, y0);
+      }
+    }
+  return { ...geometry(nodes, out, xMax, (Rn - 1) * S3), leadStubs: stubs.done(), valley };
 }
 
 function square({ columns: C, rows: Rn, valley }: NetworkShape): NetworkGeometry {
@@ -115,7 +140,23 @@ function square({ columns: C, rows: Rn, valley }: NetworkShape): NetworkGeometry
       if (yt < 0 || yt >= Rn) put(i, m, i, m + vy * 0.45, 2);
       else put(i, m, i, yt, 0);
     }
-  return geometry(nodes, out, C - 1, Rn - 1);
+  // Channels from the leads: the horizontal link arriving at (i, m) comes from i - hx.
+  const stubs = stubWriter(valley);
+  for (let m = 0; m < Rn; m++)
+    for (let i = 0; i < C; i++) {
+      const hx = m % 2 === 0 ? 1 : -1;
+      if (i - hx < 0 || i - hx >= C) stubs.put(i - hx * 0.5, m, i, m);
+    }
+  return { ...geometry(nodes, out, C - 1, Rn - 1), leadStubs: stubs.done(), valley };
+}
+
+/** Lead stubs written tail to head in valley K (reversed in K'). */
+function stubWriter(valley: NetworkShape["valley"]) {
+  const v: number[] = [];
+  return {
+    put: (x0: number, y0: number, x1: number, y1: number) => (valley === "K'" ? v.push(x1, y1, x0, y0) : v.push(x0, y0, x1, y1)),
+    done: () => Float32Array.from(v),
+  };
 }
 
 /** x, y of the nodes of a columns x rows grid, row by row. */

@@ -41,9 +41,9 @@ describe("result figures", () => {
     await page.goto(url(`/runs/${id}`));
     const chart = page.locator('[data-chart="band-structure"]');
     await chart.waitFor();
-    expect(await chart.locator("[data-band] circle").count()).toBeGreaterThan(20);
+    expect(await chart.locator("[data-valley] circle").count()).toBeGreaterThan(20);
     await expect(chart.locator("[data-label=y]").textContent()).resolves.toBe("Energy (meV)");
-    await expect(chart.locator("[data-axis=x] text").allTextContents()).resolves.toEqual(["Γ", "K", "M", "Γ"]);
+    await expect(chart.locator("[data-layer=zone-points] text").allTextContents()).resolves.toEqual(["Γ", "K", "M", "Γ"]);
     await screenshot(page, "app-result-bands.png");
   });
 

@@ -3,29 +3,25 @@
 import * as d3 from "d3";
 import { useEffect, useRef, useState, type ReactNode } from "react";
 import { ChartFrame, type CsvData } from "./ChartFrame";
-import { MARGIN } from "./axes";
 import type { Palette } from "./palette";
 import { useChartBox } from "./useWidth";
 
 export interface ChartDrawing {
+  /** The cleared SVG, width x height; lay the plot out in it with drawFrame (axes.ts). */
   svg: d3.Selection<SVGSVGElement, unknown, null, undefined>;
-  /** The plot area: a group shifted by the margin, innerW x innerH. */
-  g: d3.Selection<SVGGElement, unknown, null, undefined>;
   width: number;
-  innerW: number;
-  innerH: number;
+  height: number;
   palette: Palette;
   setReadout: (text: string | null) => void;
 }
 
-export type Margin = typeof MARGIN;
-
 /**
  * What every d3 chart needs around its own drawing: the width of its box, the theme's colours,
- * the SVG and the hover read-out. `draw` gets a cleared SVG with the plot group already in place,
- * and runs again whenever the theme, the width, the height or one of `deps` changes.
+ * the SVG and the hover read-out. `draw` gets a cleared SVG and runs again whenever the theme,
+ * the width, the height or one of `deps` changes; it lays out its axes with drawFrame, which
+ * measures the tick labels and titles for the margins.
  */
-export function useD3Chart(height: number, draw: (c: ChartDrawing) => void, deps: readonly unknown[], margin: Margin = MARGIN) {
+export function useD3Chart(height: number, draw: (c: ChartDrawing) => void, deps: readonly unknown[]) {
   const { ref, width, palette } = useChartBox();
   const svgRef = useRef<SVGSVGElement>(null);
   const [readout, setReadout] = useState<string | null>(null);
@@ -33,10 +29,7 @@ export function useD3Chart(height: number, draw: (c: ChartDrawing) => void, deps
     if (!palette || !svgRef.current) return;
     const svg = d3.select(svgRef.current);
     svg.selectAll("*").remove();
-    const innerW = width - margin.left - margin.right;
-    const innerH = height - margin.top - margin.bottom;
-    const g = svg.append("g").attr("transform", `translate(${margin.left},${margin.top})`);
-    draw({ svg, g, width, innerW, innerH, palette, setReadout });
+    draw({ svg, width, height, palette, setReadout });
   }, [palette, width, height, ...deps]); // eslint-disable-line react-hooks/exhaustive-deps
   return { ref, svgRef, width, palette, readout };
 }
@@ -52,6 +45,7 @@ export function D3Chart({
   height,
   csv,
   extra,
+  children,
 }: {
   chart: D3ChartState;
   title: string;
@@ -60,6 +54,8 @@ export function D3Chart({
   height: number;
   csv?: CsvData;
   extra?: ReactNode;
+  /** Controls or notes shown under the figure (e.g. a valley toggle, a colour-scale note). */
+  children?: ReactNode;
 }) {
   // The refs of useD3Chart go to ref attributes and to the frame's export buttons (read on click,
   // never during render); the hook rules cannot see that through the chart object.
@@ -69,6 +65,7 @@ export function D3Chart({
       <div ref={chart.ref}>
         <svg ref={chart.svgRef} width={chart.width} height={height} role="img" aria-label={label} />
       </div>
+      {children}
     </ChartFrame>
   );
   /* eslint-enable react-hooks/refs */

@@ -1,19 +1,19 @@
 "use client";
 
 import * as d3 from "d3";
+import { useMemo, useState } from "react";
 import { num } from "@/lib/units";
 import type { CsvData } from "./ChartFrame";
-import { drawAxes } from "./axes";
-import { D3Chart, useD3Chart, type Margin } from "./D3Chart";
-import { SEQUENTIAL_STOPS } from "./palette";
-
-const tkSequential = d3.interpolateRgbBasis(SEQUENTIAL_STOPS);
-
-const M: Margin = { top: 14, right: 86, bottom: 44, left: 62 };
+import { drawFrame } from "./axes";
+import { colourBarWidth, colourFor, ColourScaleNote, drawColourBar } from "./ColourBar";
+import { chooseColourScale } from "./colorScale";
+import { D3Chart, useD3Chart } from "./D3Chart";
 
 /**
  * Two-axis sweep as a heat map: rows are the first axis (y), columns the second (x); points not
- * computed yet are plain grey. A colour bar shows the scale of the quantity.
+ * computed yet are plain grey. A colour bar with labelled ends shows the scale of the quantity,
+ * and a line beside it says whether the scale is absolute or relative (with the spread); a
+ * uniform map is not stretched unless the user asks.
  */
 export function HeatMap({
   title,
@@ -25,6 +25,7 @@ export function HeatMap({
   yLabel,
   zLabel,
   zUnit = "",
+  zRange,
   csv,
   height = 360,
 }: {
@@ -37,12 +38,16 @@ export function HeatMap({
   yLabel: string;
   zLabel: string;
   zUnit?: string;
+  /** The quantity's physical range, for the absolute scale (default: from 0). */
+  zRange?: [number, number];
   csv?: CsvData;
   height?: number;
 }) {
+  const [relative, setRelative] = useState<boolean | null>(null);
+  const scale = useMemo(() => chooseColourScale(values, { relative, range: zRange }), [values, relative, zRange]);
   const chart = useD3Chart(
     height,
-    ({ svg, g, width, innerW, innerH, palette, setReadout }) => {
+    ({ svg, width, height: h, palette, setReadout }) => {
       const nx = xValues.length;
       const ny = yValues.length;
       // Cell edges halfway between grid values (uniform or not).
@@ -55,17 +60,17 @@ export function HeatMap({
       };
       const xe = edges(xValues);
       const ye = edges(yValues);
-      const x = d3
-        .scaleLinear()
-        .domain(d3.extent(xe) as [number, number])
-        .range([0, innerW]);
-      const y = d3
-        .scaleLinear()
-        .domain(d3.extent(ye) as [number, number])
-        .range([innerH, 0]);
-      const finite = values.filter((v): v is number => v !== null && Number.isFinite(v));
-      const zExt = (finite.length ? d3.extent(finite) : [0, 1]) as [number, number];
-      const z = d3.scaleSequential(tkSequential).domain(zExt[0] === zExt[1] ? [zExt[0] - 1, zExt[0] + 1] : zExt);
+      const right = scale ? colourBarWidth(svg, scale, zUnit) : 18;
+      const { g, x, y, innerH, margin } = drawFrame(
+        svg,
+        width,
+        h,
+        palette,
+        { scale: d3.scaleLinear().domain(d3.extent(xe) as [number, number]), title: xLabel, tickValues: xValues.length <= 8 ? xValues : undefined },
+        { scale: d3.scaleLinear().domain(d3.extent(ye) as [number, number]), title: yLabel, tickValues: yValues.length <= 8 ? yValues : undefined },
+        { right, grid: false },
+      );
+      const colour = scale ? colourFor(scale, palette) : () => palette.grid;
       const cells: { i: number; j: number; v: number | null }[] = [];
       for (let i = 0; i < ny; i++) for (let j = 0; j < nx; j++) cells.push({ i, j, v: values[i * nx + j] ?? null });
       g.append("g")
@@ -77,7 +82,7 @@ export function HeatMap({
         .attr("width", (c) => Math.abs(x(xe[c.j + 1]) - x(xe[c.j])) + 0.5)
         .attr("y", (c) => Math.min(y(ye[c.i]), y(ye[c.i + 1])))
         .attr("height", (c) => Math.abs(y(ye[c.i + 1]) - y(ye[c.i])) + 0.5)
-        .attr("fill", (c) => (c.v === null ? palette.grid : z(c.v)))
+        .attr("fill", (c) => (c.v === null ? palette.grid : colour(c.v)))
         .attr("data-filled", (c) => (c.v === null ? "no" : "yes"))
         .on("mouseenter", (_, c) =>
           setReadout(
@@ -85,32 +90,21 @@ export function HeatMap({
               `· ${zLabel} = ${c.v === null ? "not computed yet" : `${num(c.v)}${zUnit ? " " + zUnit : ""}`}`,
           ),
         );
-      drawAxes(g, x, y, innerW, innerH, xLabel, yLabel, palette);
-      g.select("[data-layer=grid]").remove();
-      // Colour bar.
-      const barH = innerH;
-      const bar = svg
-        .append("g")
-        .attr("transform", `translate(${width - M.right + 16},${M.top})`)
-        .attr("data-layer", "colorbar");
-      const id = `hm-grad-${name}`;
-      const grad = svg.append("defs").append("linearGradient").attr("id", id).attr("x1", 0).attr("x2", 0).attr("y1", 1).attr("y2", 0);
-      d3.range(0, 1.01, 0.1).forEach((t) => grad.append("stop").attr("offset", t).attr("stop-color", tkSequential(t)));
-      bar.append("rect").attr("width", 14).attr("height", barH).attr("fill", `url(#${id})`);
-      const zs = d3.scaleLinear().domain(z.domain()).range([barH, 0]);
-      const za = bar.append("g").attr("transform", "translate(14,0)").call(d3.axisRight(zs).ticks(5));
-      za.selectAll("path, line").attr("stroke", palette.faint);
-      za.selectAll("text").attr("fill", palette.fg).attr("font-size", 10);
-      bar
-        .append("text")
-        .attr("transform", `translate(62,${barH / 2}) rotate(90)`)
-        .attr("text-anchor", "middle")
-        .attr("font-size", 11)
-        .attr("fill", palette.fg)
-        .text(zUnit ? `${zLabel} (${zUnit})` : zLabel);
+      g.selectAll("[data-axis]").raise();
+      if (scale) {
+        const bar = svg.append("g").attr("transform", `translate(${width - margin.right + 16},${margin.top})`);
+        drawColourBar(svg, bar, {
+          scale,
+          palette,
+          length: innerH,
+          id: `hm-grad-${name}`,
+          unit: zUnit,
+          title: zUnit ? `${zLabel} (${zUnit})` : zLabel,
+          orientation: "vertical",
+        });
+      }
     },
-    [xValues, yValues, values, xLabel, yLabel, zLabel, zUnit, name],
-    M,
+    [xValues, yValues, values, xLabel, yLabel, zLabel, zUnit, name, scale],
   );
   return (
     <D3Chart
@@ -128,6 +122,8 @@ export function HeatMap({
           </span>
         ) : null
       }
-    />
+    >
+      {scale ? <ColourScaleNote scale={scale} unit={zUnit} onToggle={() => setRelative(scale.mode !== "relative")} /> : null}
+    </D3Chart>
   );
 }

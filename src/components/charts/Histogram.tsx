@@ -2,7 +2,7 @@
 
 import * as d3 from "d3";
 import { num } from "@/lib/units";
-import { drawAxes } from "./axes";
+import { drawFrame } from "./axes";
 import { D3Chart, useD3Chart } from "./D3Chart";
 
 /** Histogram of values in [0, 1] by default (transmission eigenvalues), count on the y axis. */
@@ -34,14 +34,21 @@ export function Histogram({
     )(values);
   const chart = useD3Chart(
     height,
-    ({ g, innerW, innerH, palette, setReadout }) => {
-      const x = d3.scaleLinear().domain(domain).range([0, innerW]);
-      const y = d3
-        .scaleLinear()
-        .domain([0, d3.max(binned, (b) => b.length) || 1])
-        .nice()
-        .range([innerH, 0]);
-      drawAxes(g, x, y, innerW, innerH, xLabel, "Count", palette);
+    ({ svg, width, height: h, palette, setReadout }) => {
+      const { g, x, y, innerH } = drawFrame(
+        svg,
+        width,
+        h,
+        palette,
+        { scale: d3.scaleLinear().domain(domain), title: xLabel },
+        {
+          scale: d3
+            .scaleLinear()
+            .domain([0, d3.max(binned, (b) => b.length) || 1])
+            .nice(),
+          title: "Count",
+        },
+      );
       g.append("g")
         .attr("data-layer", "bars")
         .selectAll("rect")
@@ -51,8 +58,21 @@ export function Histogram({
         .attr("width", (b) => Math.max(0, x(b.x1!) - x(b.x0!) - 2))
         .attr("y", (b) => y(b.length))
         .attr("height", (b) => innerH - y(b.length))
-        .attr("fill", palette.link)
-        .on("mouseenter", (_, b) => setReadout(`${num(b.x0!)} – ${num(b.x1!)}: ${b.length} eigenvalue${b.length === 1 ? "" : "s"}`));
+        .attr("fill", palette.link);
+      // Hover: each bin's whole column (an empty or short bar is as easy to read as a tall one).
+      const read = (b: (typeof binned)[number]) => setReadout(`${num(b.x0!)} – ${num(b.x1!)}: ${b.length} eigenvalue${b.length === 1 ? "" : "s"}`);
+      g.append("g")
+        .attr("data-layer", "hover")
+        .selectAll("rect")
+        .data(binned)
+        .join("rect")
+        .attr("x", (b) => x(b.x0!))
+        .attr("width", (b) => Math.max(0, x(b.x1!) - x(b.x0!)))
+        .attr("y", 0)
+        .attr("height", innerH + 1)
+        .attr("fill", "transparent")
+        .on("mouseenter", (_, b) => read(b))
+        .on("mousemove", (_, b) => read(b));
     },
     [values, bins, xLabel],
   );

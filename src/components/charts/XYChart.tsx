@@ -3,7 +3,7 @@
 import * as d3 from "d3";
 import { num } from "@/lib/units";
 import type { CsvData } from "./ChartFrame";
-import { drawAxes } from "./axes";
+import { drawFrame } from "./axes";
 import { D3Chart, useD3Chart } from "./D3Chart";
 
 export interface Series {
@@ -34,7 +34,7 @@ interface Props {
 export function XYChart({ title, name, xLabel, yLabel, xUnit = "", yUnit = "", series, height = 300, csv, xDomain }: Props) {
   const chart = useD3Chart(
     height,
-    ({ g, innerW, innerH, palette, setReadout }) => {
+    ({ svg, width, height: h, palette, setReadout }) => {
       const all = series.flatMap((s) => s.x.map((x, i) => ({ x, y: s.y[i], e: s.err?.[i] ?? 0 }))).filter((d) => d.y !== null && Number.isFinite(d.y)) as {
         x: number;
         y: number;
@@ -42,18 +42,27 @@ export function XYChart({ title, name, xLabel, yLabel, xUnit = "", yUnit = "", s
       }[];
       const xs = series.flatMap((s) => s.x);
       const xExt = xDomain ?? (d3.extent(xs) as [number, number]);
-      const x = d3
-        .scaleLinear()
-        .domain(xExt[0] === undefined ? [0, 1] : xExt[0] === xExt[1] ? [xExt[0] - 1, xExt[0] + 1] : xExt)
-        .range([0, innerW]);
       const lo = d3.min(all, (d) => d.y - d.e) ?? 0;
       const hi = d3.max(all, (d) => d.y + d.e) ?? 1;
-      const y = d3
-        .scaleLinear()
-        .domain(lo === hi ? [lo - 1, hi + 1] : [lo, hi])
-        .nice()
-        .range([innerH, 0]);
-      drawAxes(g, x, y, innerW, innerH, xLabel, yLabel, palette);
+      const { g, x, y, innerW, innerH } = drawFrame(
+        svg,
+        width,
+        h,
+        palette,
+        {
+          scale: d3.scaleLinear().domain(xExt[0] === undefined ? [0, 1] : xExt[0] === xExt[1] ? [xExt[0] - 1, xExt[0] + 1] : xExt),
+          title: xLabel,
+          unit: xUnit || undefined,
+        },
+        {
+          scale: d3
+            .scaleLinear()
+            .domain(lo === hi ? [lo - 1, hi + 1] : [lo, hi])
+            .nice(),
+          title: yLabel,
+          unit: yUnit || undefined,
+        },
+      );
       series.forEach((s) => {
         const color = palette[s.color ?? "link"];
         const pts = s.x.map((xv, i) => ({ x: xv, y: s.y[i], e: s.err?.[i] ?? null })).filter((d) => d.y !== null && Number.isFinite(d.y)) as {

@@ -8,6 +8,8 @@ export interface Palette {
   fg: string;
   faint: string;
   surface: string;
+  /** The page background behind the cards. */
+  canvas: string;
   accent: string;
   warm: string;
   danger: string;
@@ -25,14 +27,9 @@ export function readPalette(): Palette {
     fg: v("fg", "#14212b"),
     faint: v("fg-faint", "#5b6b75"),
     surface: v("surface", "#ffffff"),
+    canvas: v("canvas", "#f6f4ee"),
     accent: v("accent", "#146657"),
     warm: v("warm", "#9a5b08"),
     danger: v("danger", "#8e2417"),
   };
 }
-
-/**
- * Triskel's sequential colour scale for maps: ink -> wall teal -> pale mint -> spark amber ->
- * pale amber. Lightness rises monotonically, so it reads in grey and for colour-blind readers.
- */
-export const SEQUENTIAL_STOPS = ["#101b23", "#0b3b33", "#146657", "#3e9c8a", "#9fd3c4", "#f6c56b", "#fdf0d5"];

@@ -71,9 +71,11 @@ export function NetworkDrawing({ shape, linkNm, height = 420, linkValues, label,
             : ""}
         </span>
         <span className="flex items-center gap-3">
-          <span className="flex items-center gap-1">
-            <span aria-hidden className="inline-block h-2 w-4 rounded-sm" style={{ background: palette?.lead }} /> lead
-          </span>
+          {custom?.hasLeads === false ? null : (
+            <span className="flex items-center gap-1">
+              <span aria-hidden className="inline-block h-2 w-4 rounded-sm" style={{ background: palette?.lead }} /> lead and its channels, in and out
+            </span>
+          )}
           <span>scroll to zoom · drag to pan</span>
         </span>
       </figcaption>
@@ -90,6 +92,24 @@ function fitTransform(g: NetworkGeometry, width: number, height: number) {
   const cy = (g.bounds.yMin + g.bounds.yMax) / 2;
   return { k, x: (u: number) => width / 2 + (u - cx) * k, y: (v: number) => height / 2 - (v - cy) * k };
 }
+
+/**
+ * Whether a lead channel enters the sample from its lead or leaves into it: the lead links of
+ * `links` (kind 1) leave in valley K, the `leadStubs` enter (and the reverse in valley K').
+ */
+export function leadDirection(g: NetworkGeometry, of: "link" | "stub"): "in" | "out" {
+  return (g.valley === "K'") === (of === "link") ? "in" : "out";
+}
+
+/** Which lead a channel with these end abscissae belongs to. */
+export const leadSide = (g: NetworkGeometry, x0: number, x1: number): "left" | "right" =>
+  (x0 + x1) / 2 < (g.bounds.xMin + g.bounds.xMax) / 2 ? "left" : "right";
+
+/**
+ * On-screen size of an arrowhead (px) for links `linkPx` long on screen: a fixed fraction of the
+ * link, between 4 and 9 px, so that zooming in on a large network does not blow the heads up.
+ */
+export const arrowPx = (linkPx: number) => Math.max(4, Math.min(9, linkPx * 0.18));
 
 /** What the SVG and the canvas renderers both draw from. */
 interface RendererProps {
@@ -113,7 +133,6 @@ function SvgNetwork({ shape, custom, width, height, palette, linkValues, descrip
     const root = d3.select(gRef.current!);
     const g = geometry;
     const f = fitTransform(g, width, height);
-    const arrowScale = Math.max(0.6, Math.min(1.6, f.k / 40));
     root.selectAll("*").remove();
     svg.select("marker#tk-arrow path").attr("fill", palette.link);
     svg.select("marker#tk-arrow-lead path").attr("fill", palette.lead);
@@ -200,7 +219,30 @@ function SvgNetwork({ shape, custom, width, height, palette, linkValues, descrip
       .attr("stroke", (i) => (linkValues ? linkValues.color(linkValues.values[i]) : g.linkKind[i] === 1 ? palette.lead : palette.link))
       .attr("stroke-width", linkValues ? Math.max(2, f.k * 0.12) : Math.max(1, Math.min(2.4, f.k * 0.05)))
       .attr("stroke-linecap", "round")
-      .attr("marker-end", linkValues ? null : (i) => (g.linkKind[i] === 1 ? "url(#tk-arrow-lead)" : "url(#tk-arrow)"));
+      .attr("marker-end", linkValues ? null : (i) => (g.linkKind[i] === 1 ? "url(#tk-arrow-lead)" : "url(#tk-arrow)"))
+      .attr("data-lead-channel", (i) => (g.linkKind[i] === 1 ? leadDirection(g, "link") : null))
+      .attr("data-side", (i) => (g.linkKind[i] === 1 ? leadSide(g, g.links[4 * i], g.links[4 * i + 2]) : null));
+    // The lead channels of the other direction (entering from the leads in valley K), so both show.
+    const stubs = linkValues || g.hasLeads === false ? [] : d3.range((g.leadStubs?.length ?? 0) / 4);
+    const S = g.leadStubs ?? new Float32Array(0);
+    root
+      .append("g")
+      .attr("data-layer", "lead-stubs")
+      .selectAll("line")
+      .data(stubs)
+      .join("line")
+      .attr("class", "tk-lead-stub")
+      .attr("data-kind", "lead")
+      .attr("data-lead-channel", leadDirection(g, "stub"))
+      .attr("data-side", (i) => leadSide(g, S[4 * i], S[4 * i + 2]))
+      .attr("x1", (i) => f.x(S[4 * i]))
+      .attr("y1", (i) => f.y(S[4 * i + 1]))
+      .attr("x2", (i) => f.x(S[4 * i] + (S[4 * i + 2] - S[4 * i]) * 0.84))
+      .attr("y2", (i) => f.y(S[4 * i + 1] + (S[4 * i + 3] - S[4 * i + 1]) * 0.84))
+      .attr("stroke", palette.lead)
+      .attr("stroke-width", Math.max(1, Math.min(2.4, f.k * 0.05)))
+      .attr("stroke-linecap", "round")
+      .attr("marker-end", "url(#tk-arrow-lead)");
     root
       .append("g")
       .attr("data-layer", "nodes")
@@ -212,18 +254,25 @@ function SvgNetwork({ shape, custom, width, height, palette, linkValues, descrip
       .attr("cy", (i) => f.y(g.nodes[2 * i + 1]))
       .attr("r", Math.max(1.5, Math.min(5, f.k * 0.08)))
       .attr("fill", palette.node);
-    svg
-      .select("marker#tk-arrow")
-      .attr("markerWidth", 7 * arrowScale)
-      .attr("markerHeight", 7 * arrowScale);
-    svg
-      .select("marker#tk-arrow-lead")
-      .attr("markerWidth", 7 * arrowScale)
-      .attr("markerHeight", 7 * arrowScale);
+    // Arrowheads keep their on-screen size under zoom: the markers live in the zoomed group's
+    // units, so their size is divided by the zoom factor.
+    const sizeArrows = (zoomK: number) => {
+      const px = arrowPx(f.k * zoomK);
+      svg
+        .selectAll("marker")
+        .attr("markerWidth", px / zoomK)
+        .attr("markerHeight", px / zoomK);
+      svg.attr("data-arrow-px", px.toFixed(2)).attr("data-zoom", zoomK.toFixed(3));
+    };
+    sizeArrows(d3.zoomTransform(svg.node()!).k);
+    root.attr("transform", d3.zoomTransform(svg.node()!).toString());
     const zoom = d3
       .zoom<SVGSVGElement, unknown>()
       .scaleExtent([0.5, 20])
-      .on("zoom", (ev) => root.attr("transform", ev.transform.toString()));
+      .on("zoom", (ev) => {
+        root.attr("transform", ev.transform.toString());
+        sizeArrows(ev.transform.k);
+      });
     svg.call(zoom);
     const ms = performance.now() - t0;
     svg.attr("data-first-draw-ms", ms.toFixed(1));
@@ -336,25 +385,27 @@ export function paintNetwork(
         ctx.beginPath();
         for (let i = 0; i < g.linkCount; i++) {
           if (g.linkKind[i] !== kind || !visible(i)) continue;
-          const x0 = X(L[4 * i]);
-          const y0 = Y(L[4 * i + 1]);
-          const x1 = X(L[4 * i + 2]);
-          const y1 = Y(L[4 * i + 3]);
-          const dx = x1 - x0;
-          const dy = y1 - y0;
-          const len = Math.hypot(dx, dy) || 1;
-          const ux = dx / len;
-          const uy = dy / len;
-          // Arrowhead at 62% of the link so heads of neighbouring links never overlap.
-          const tipX = x0 + dx * 0.62;
-          const tipY = y0 + dy * 0.62;
-          ctx.moveTo(tipX, tipY);
-          ctx.lineTo(tipX - ux * head * 1.6 - uy * head * 0.8, tipY - uy * head * 1.6 + ux * head * 0.8);
-          ctx.lineTo(tipX - ux * head * 1.6 + uy * head * 0.8, tipY - uy * head * 1.6 - ux * head * 0.8);
-          ctx.closePath();
+          arrowHead(ctx, X(L[4 * i]), Y(L[4 * i + 1]), X(L[4 * i + 2]), Y(L[4 * i + 3]), head);
         }
         ctx.fill();
       }
+    }
+  }
+  // The lead channels of the other direction, so both directions show at every lead.
+  const S = g.leadStubs;
+  if (S && !linkValues && g.hasLeads !== false) {
+    ctx.strokeStyle = palette.lead;
+    ctx.fillStyle = palette.lead;
+    ctx.beginPath();
+    for (let i = 0; i < S.length / 4; i++) {
+      ctx.moveTo(X(S[4 * i]), Y(S[4 * i + 1]));
+      ctx.lineTo(X(S[4 * i + 2]), Y(S[4 * i + 3]));
+    }
+    ctx.stroke();
+    if (arrows) {
+      ctx.beginPath();
+      for (let i = 0; i < S.length / 4; i++) arrowHead(ctx, X(S[4 * i]), Y(S[4 * i + 1]), X(S[4 * i + 2]), Y(S[4 * i + 3]), head);
+      ctx.fill();
     }
   }
   if (k >= 14) {
@@ -371,6 +422,21 @@ export function paintNetwork(
     ctx.fill();
   }
   return painted;
+}
+
+/** An arrowhead (a sub-path to fill) at 62 % of the link from (x0, y0) to (x1, y1), so heads of neighbouring links never overlap. */
+function arrowHead(ctx: CanvasRenderingContext2D, x0: number, y0: number, x1: number, y1: number, head: number) {
+  const dx = x1 - x0;
+  const dy = y1 - y0;
+  const len = Math.hypot(dx, dy) || 1;
+  const ux = dx / len;
+  const uy = dy / len;
+  const tipX = x0 + dx * 0.62;
+  const tipY = y0 + dy * 0.62;
+  ctx.moveTo(tipX, tipY);
+  ctx.lineTo(tipX - ux * head * 1.6 - uy * head * 0.8, tipY - uy * head * 1.6 + ux * head * 0.8);
+  ctx.lineTo(tipX - ux * head * 1.6 + uy * head * 0.8, tipY - uy * head * 1.6 - ux * head * 0.8);
+  ctx.closePath();
 }
 
 function CanvasNetwork({ shape, custom, width, height, palette, linkValues, description }: RendererProps) {

@@ -1,20 +1,23 @@
 "use client";
 
-import * as d3 from "d3";
-import { useMemo, useRef } from "react";
+import { useMemo, useRef, useState } from "react";
 import { num } from "@/lib/units";
 import { geometryFromSegments } from "@/lib/lattice";
-import { SEQUENTIAL_STOPS } from "@/components/charts/palette";
+import { chooseColourScale } from "@/components/charts/colorScale";
+import { ColourBar, ColourScaleNote, colourFor } from "@/components/charts/ColourBar";
+import { usePalette } from "@/components/charts/useWidth";
 import { NetworkDrawing } from "@/components/network/NetworkDrawing";
 import { shapeOf, linkLengthNm } from "@/components/network/draft";
 import { download, exportCsv, exportPng, exportSvg } from "@/lib/exportFigure";
 import type { LdosResult, Network } from "@/engine/browser";
 
-const scale = d3.interpolateRgbBasis(SEQUENTIAL_STOPS);
+const UNIT = "states/meV";
 
 /**
  * The local density of states on every link, drawn on the links of the closed sample the engine
- * used (their positions come with the result), with a colour legend.
+ * used (their positions come with the result), with a colour bar whose ends are labelled and a
+ * line saying whether the scale is absolute or relative; a uniform map (spread under 1 %) is
+ * drawn on an absolute scale from 0 unless the user stretches it.
  */
 export function LdosMap({ result, network, runId }: { result: LdosResult; network?: Network; runId: string }) {
   const values = result.ldosPerMeV.total;
@@ -26,11 +29,10 @@ export function LdosMap({ result, network, runId }: { result: LdosResult; networ
     [links, l],
   );
   const shape = useMemo(() => shapeOf(network ?? {}, "K"), [network]);
-  const [lo, hi] = useMemo(() => {
-    const e = d3.extent(values.filter(Number.isFinite));
-    return [e[0] ?? 0, e[1] ?? 1];
-  }, [values]);
-  const linkValues = useMemo(() => ({ values, color: (v: number) => scale(hi > lo ? (v - lo) / (hi - lo) : 0.5) }), [values, lo, hi]);
+  const palette = usePalette(true);
+  const [relative, setRelative] = useState<boolean | null>(null);
+  const scale = useMemo(() => chooseColourScale(values, { relative }), [values, relative]);
+  const linkValues = useMemo(() => (scale && palette ? { values, color: colourFor(scale, palette) } : undefined), [values, scale, palette]);
   const box = useRef<HTMLDivElement>(null);
   const exportImage = (kind: "svg" | "png") => {
     const svg = box.current?.querySelector("svg[data-renderer]") as SVGSVGElement | null;
@@ -46,20 +48,20 @@ export function LdosMap({ result, network, runId }: { result: LdosResult; networ
         states/meV, both valleys and spins.
       </p>
       <div ref={box}>
-        <NetworkDrawing
-          shape={shape}
-          custom={custom}
-          linkNm={l}
-          linkValues={linkValues}
-          height={480}
-          label={`Local density of states on ${values.length} links, colour scale from ${num(lo)} to ${num(hi)} states per meV`}
-        />
+        {linkValues ? (
+          <NetworkDrawing
+            shape={shape}
+            custom={custom}
+            linkNm={l}
+            linkValues={linkValues}
+            height={480}
+            label={`Local density of states on ${values.length} links, colour scale from ${num(scale?.domain[0])} to ${num(scale?.domain[1])} states per meV`}
+          />
+        ) : null}
       </div>
       <div className="flex flex-wrap items-center gap-3" data-testid="ldos-legend">
         <span className="text-caption text-fg-soft">LDOS per link (states / meV)</span>
-        <span className="font-mono text-caption tk-num">{num(lo)}</span>
-        <span aria-hidden className="h-3 w-48 rounded-sm" style={{ background: `linear-gradient(to right, ${SEQUENTIAL_STOPS.join(",")})` }} />
-        <span className="font-mono text-caption tk-num">{num(hi)}</span>
+        {scale && palette ? <ColourBar scale={scale} palette={palette} unit={UNIT} id={`ldos-bar-${runId}`} /> : null}
         {custom.linkCount <= 3000 ? (
           <button type="button" className="tk-btn-quiet" onClick={() => exportImage("svg")}>
             SVG
@@ -83,6 +85,7 @@ export function LdosMap({ result, network, runId }: { result: LdosResult; networ
           CSV
         </button>
       </div>
+      {scale ? <ColourScaleNote scale={scale} unit={UNIT} onToggle={() => setRelative(scale.mode !== "relative")} /> : null}
     </div>
   );
 }

@@ -139,25 +139,8 @@ function ConductanceResult({ r }: { r: Conductance }) {
   );
 }
 
-/** Distance along the path from the k points (1/nm), when the result gives them. */
-function pathDistance(k: number[][]): number[] {
-  const d = [0];
-  for (let i = 1; i < k.length; i++) d.push(d[i - 1] + Math.hypot(k[i][0] - k[i - 1][0], k[i][1] - k[i - 1][1]));
-  return d;
-}
-
 function SpectrumResult({ r }: { r: Spectrum }) {
   const energies = r.energiesMeV;
-  const k = r.kPointsPerNm;
-  const distance = k.length === energies.length && k.length > 0 ? pathDistance(k) : energies.map((_, i) => i);
-  const labels = r.pathLabels ?? [];
-  const greek = (x: string) => (x === "Gamma" ? "Γ" : x);
-  const ticks = labels.length
-    ? labels.map((l) => ({ at: distance[l.index] ?? 0, label: greek(l.label) }))
-    : [
-        { at: distance[0] ?? 0, label: "start" },
-        { at: distance[distance.length - 1] ?? 1, label: "end" },
-      ];
   return (
     <div className="space-y-4">
       {/* prettier-ignore */}
@@ -166,10 +149,7 @@ function SpectrumResult({ r }: { r: Spectrum }) {
         period. {energies.length}{" "}
         k points.
       </p>
-      <BandChart energies={energies} distance={distance} ticks={ticks} periodMeV={r.energyPeriodMeV} />
-      {r.valleyKPrimeEnergiesMeV ? (
-        <p className="text-caption text-fg-faint">The plot shows valley K; the energies of valley K′ are in the result JSON.</p>
-      ) : null}
+      <BandChart result={r} />
     </div>
   );
 }
