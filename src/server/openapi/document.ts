@@ -187,7 +187,7 @@ const OPERATIONS: Record<OperationKey, Operation> = {
     summary: "Save a network (version 1)",
     body: { schema: withFields(createNetworkBody, { network: ref("NetworkDefinition") }) },
     success: [{ status: 201, route: "POST /api/v1/networks", description: "The saved network." }],
-    errors: BODY_ERRORS,
+    errors: [402, ...BODY_ERRORS],
   },
   "GET /api/v1/networks/{id}": {
     tag: "Networks",
@@ -207,7 +207,7 @@ const OPERATIONS: Record<OperationKey, Operation> = {
     summary: "Replace the description (a new version)",
     body: { schema: withFields(replaceNetworkBody, { network: ref("NetworkDefinition") }) },
     success: [{ status: 200, route: "PUT /api/v1/networks/{id}", description: "The network at its new version." }],
-    errors: [404, ...BODY_ERRORS],
+    errors: [402, 404, ...BODY_ERRORS],
   },
   "PATCH /api/v1/networks/{id}": {
     tag: "Networks",
@@ -215,7 +215,7 @@ const OPERATIONS: Record<OperationKey, Operation> = {
     description: "`network` holds the fields to change; the merged description must pass the network schema.",
     body: { schema: jsonSchemaOf(patchNetworkBody) },
     success: [{ status: 200, route: "PATCH /api/v1/networks/{id}", description: "The network at its new version." }],
-    errors: [404, ...BODY_ERRORS],
+    errors: [402, 404, ...BODY_ERRORS],
   },
   "DELETE /api/v1/networks/{id}": {
     tag: "Networks",
@@ -560,7 +560,7 @@ const COMMON_ERRORS = { authenticated: [401, 403, 429], always: [400, 500, 503] 
 const STATUS_TEXT: Record<number, string> = {
   400: "Malformed request (a path, parameter or body that cannot be read)",
   401: "No credentials, or an unknown or revoked API token",
-  402: "Over the free quota or the spend cap, or the plan does not allow it",
+  402: "Over the free quota or the spend cap, or over a limit of the Free plan (the Lab plan allows more)",
   403: "The caller's role does not allow it",
   404: "No such item in the caller's group",
   409: "Conflicts with the item's current state",
