@@ -46,9 +46,6 @@ import { ZOD_TYPES, type ZodTypeName } from "./zod-types";
 
 export type JsonSchema = Record<string, unknown>;
 
-/** The document's own route (a file answer, listed in FILE_ROUTES). */
-export const OPENAPI_ROUTE = "GET /api/v1/openapi.json";
-
 type BaseOf<R extends string> = R extends `${infer B}?${string}` ? B : R;
 /** One OpenAPI operation per method and path: the `?dryRun=true` variants are answers of their base operation. */
 export type OperationKey = BaseOf<ApiRoute> | (typeof FILE_ROUTES)[number];
