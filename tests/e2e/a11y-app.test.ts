@@ -21,6 +21,7 @@ describe("accessibility of the web app", () => {
     ["scans list", "/sweeps", "h1"],
     ["group", "/workspace", "h1"],
     ["model manual", "/manual", ".katex"],
+    ["API reference", "/manual/api", "h3#postRuns"],
     [
       "saved network with calculation and scan forms",
       async () => {
