@@ -1,6 +1,6 @@
 // Next 16 "proxy" (formerly middleware): Clerk's clerkMiddleware reads the session on every page
 // and API request, so `auth()` works in server code. Signed-out visitors of the signed-in area are
-// sent to our sign-in page. Public pages, the health check and Bearer-token API calls pass untouched.
+// sent to our sign-in page. Public pages, the health check, the API document and Bearer-token API calls pass untouched.
 // Under /__clerk only the sign-in service's browser-facing Frontend API goes on to the rewrite in
 // next.config.ts; its admin (Backend) API and the stand-in's helpers answer 404 here.
 import "@/server/server-only";
@@ -49,7 +49,7 @@ export async function proxy(req: NextRequest, event: NextFetchEvent) {
     );
   }
   // Scripts with an API token never need a session; webhooks carry their own signature.
-  if (path === "/api/v1/health" || path.startsWith("/api/webhooks/")) return NextResponse.next();
+  if (path === "/api/v1/health" || path === "/api/v1/openapi.json" || path.startsWith("/api/webhooks/")) return NextResponse.next();
   if (/^Bearer\s+trk_/i.test(req.headers.get("authorization") ?? "")) return NextResponse.next();
   return sameUrlRewriteAsNext(req, await withClerk(req, event));
 }

@@ -22,6 +22,7 @@ describe("accessibility of the web app", () => {
     ["group", "/workspace", "h1"],
     ["model manual", "/manual", ".katex"],
     ["from a script", "/manual/scripts", "figure[data-example] code"],
+    ["API reference", "/manual/api", "h3#postRuns"],
     [
       "saved network with calculation and scan forms",
       async () => {

@@ -29,7 +29,7 @@ function apiRoutes(): { path: string; method: string }[] {
     }
   };
   walk(API_DIR);
-  return out.filter((r) => r.path !== "/api/v1/health");
+  return out.filter((r) => r.path !== "/api/v1/health" && r.path !== "/api/v1/openapi.json");
 }
 
 async function call(path: string, method: string, headers: Record<string, string> = {}) {

@@ -6,7 +6,7 @@ import { readdirSync, readFileSync, statSync } from "node:fs";
 import { join, relative } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import postgres from "postgres";
-import { appUrl, databaseUrl, demoTokens, ensureFreeSeats, failOnRateLimit, type DemoTokenKey } from "../support/services";
+import { appUrl, checkAnswer, databaseUrl, demoTokens, ensureFreeSeats, failOnRateLimit, type DemoTokenKey } from "../support/services";
 import type { Json } from "../support/json";
 import { CALLERS, fitBody, SMALL_RUN, TABLE, type CallerKey, type Entry, type Expect, type Fixtures } from "./authz-table";
 
@@ -57,7 +57,10 @@ async function call(who: CallerKey, method: string, path: string, body?: unknown
     payload = JSON.stringify(body ?? {});
   }
   const res = await fetch(new URL(path, appUrl()), { method, headers, body: payload, redirect: "manual" });
-  return failOnRateLimit(res, `${who} ${method} ${path}`);
+  failOnRateLimit(res, `${who} ${method} ${path}`);
+  // Every answer of the matrix, errors included, must match the API document.
+  await checkAnswer(method, path, res, `${who} ${method} ${path}`);
+  return res;
 }
 
 async function ok<T = Json>(res: Response, what: string): Promise<T> {
@@ -205,10 +208,15 @@ describe("authorization matrix", () => {
     }
   });
 
-  it("public routes: health answers without credentials, webhooks refuse a bad signature with 400", async () => {
+  it("public routes: health and the API document answer without credentials, webhooks refuse a bad signature with 400", async () => {
     const health = await call("anonymous", "GET", "/api/v1/health");
     expect(health.status).toBe(200);
     expect((await health.json()).status).toBe("ok");
+    for (const who of ["anonymous", "revoked", "viewer"] as const) {
+      const doc = await call(who, "GET", "/api/v1/openapi.json");
+      expect(doc.status, who).toBe(200);
+      expect((await doc.json()).openapi, who).toBe("3.1.0");
+    }
     const clerk = await fetch(new URL("/api/webhooks/clerk", appUrl()), {
       method: "POST",
       headers: {

@@ -79,6 +79,7 @@ const seeList = { ...SEE, other: "ok" } as const;
 export const TABLE: Entry[] = [
   // --- health and webhooks: public by design (signatures instead of credentials)
   { route: "v1/health", method: "GET", path: () => "/api/v1/health", expect: { owner: "public" } },
+  { route: "v1/openapi.json", method: "GET", path: () => "/api/v1/openapi.json", expect: { owner: "public" } },
   { route: "webhooks/clerk", method: "POST", path: () => "/api/webhooks/clerk", expect: { owner: "public" } },
   { route: "webhooks/stripe", method: "POST", path: () => "/api/webhooks/stripe", expect: { owner: "public" } },
   // --- any other /api path: 404 JSON for everyone, signed in or not (the catch-all route)

@@ -294,6 +294,7 @@ describe("findings: 4xx JSON instead of 500", () => {
       ["GET", `/api/v1/runs/${UUID}/cancel`, "OPTIONS, POST"],
       ["PROPFIND", "/api/v1/datasets", "GET, HEAD, OPTIONS, POST"],
       ["GET", "/api/webhooks/stripe", "OPTIONS, POST"],
+      ["POST", "/api/v1/openapi.json", "GET, HEAD, OPTIONS"],
     ]) {
       const a = await rawRequest(method, p);
       expect(a.status, `${method} ${p}`).toBe(405);
@@ -323,6 +324,7 @@ describe("findings: 4xx JSON instead of 500", () => {
       }
     }
     expect((await api("/api/v1/health", { as: null })).status).toBe(200);
+    expect((await api("/api/v1/openapi.json", { as: null })).status).toBe(200);
     expect((await api(`/api/v1/networks/${networkId}`)).status).toBe(200);
     // The Stripe webhook still reaches its handler (a missing signature is its own 400).
     const hook = await answer(await fetch(new URL("/api/webhooks/stripe", appUrl()), { method: "POST", body: "{}" }));
@@ -495,7 +497,14 @@ describe("property-based: never a 5xx, always a documented JSON error", () => {
       ),
       fc.integer().map(String),
     );
-    const list = fc.constantFrom<string>(...LISTS, "/api/v1/usage", `/api/v1/networks/${networkId}`, "/api/v1/tokens", "/api/v1/workspace/members");
+    const list = fc.constantFrom<string>(
+      ...LISTS,
+      "/api/v1/usage",
+      `/api/v1/networks/${networkId}`,
+      "/api/v1/tokens",
+      "/api/v1/workspace/members",
+      "/api/v1/openapi.json",
+    );
     await fc.assert(
       fc.asyncProperty(list, fc.array(fc.tuple(key, value), { minLength: 1, maxLength: 4 }), async (url, params) => {
         const q = new URLSearchParams(params).toString();

@@ -1,5 +1,6 @@
 // What scripts/test.sh exports for the integration and browser tests.
 import { readFileSync } from "node:fs";
+import { answerValidator, describeCheck } from "./openapi";
 
 function required(name: string): string {
   const v = process.env[name];
@@ -31,7 +32,10 @@ export function failOnRateLimit(res: Response, what: string): Response {
   return res;
 }
 
-/** fetch against the running app with a demo member's token; a 429 fails the test (failOnRateLimit). */
+/**
+ * fetch against the running app with a demo member's token; a 429 fails the test (failOnRateLimit),
+ * and so does a JSON answer of a known route that does not match the API document (checkAnswer).
+ */
 export async function api(path: string, init: RequestInit & { as?: DemoTokenKey | null; json?: unknown } = {}): Promise<Response> {
   const headers = new Headers(init.headers);
   if (init.as !== null) headers.set("authorization", `Bearer ${demoTokens()[init.as ?? "researcher"]}`);
@@ -40,7 +44,48 @@ export async function api(path: string, init: RequestInit & { as?: DemoTokenKey 
     headers.set("content-type", "application/json");
     body = JSON.stringify(init.json);
   }
-  return failOnRateLimit(await fetch(new URL(path, appUrl()), { ...init, headers, body }), `${init.method ?? "GET"} ${path}`);
+  const sent = `${init.method ?? "GET"} ${path}`;
+  const res = failOnRateLimit(await fetch(new URL(path, appUrl()), { ...init, headers, body }), sent);
+  await checkAnswer(init.method ?? "GET", path, res, sent);
+  return res;
+}
+
+let validator: Promise<ReturnType<typeof answerValidator>> | undefined;
+/** The checker over the document the running app serves (fetched once per test file). */
+export function documentValidator(): Promise<ReturnType<typeof answerValidator>> {
+  validator ??= (async () => {
+    const res = await fetch(new URL("/api/v1/openapi.json", appUrl()));
+    if (res.status !== 200) throw new Error(`GET /api/v1/openapi.json answered ${res.status}: ${await res.text()}`);
+    return answerValidator(await res.json());
+  })();
+  return validator;
+}
+
+/** How many answers of this test file were checked against the API document. */
+export async function checkedAnswers(): Promise<number> {
+  return (await documentValidator()).checkedCount();
+}
+
+/**
+ * Checks a JSON answer of a route the document knows against its schema for that status (a copy of
+ * the body is read; the caller's Response is untouched). A mismatch throws with the route, the
+ * status and ajv's errors.
+ */
+export async function checkAnswer(method: string, path: string, res: Response, sent = `${method} ${path}`): Promise<void> {
+  const v = await documentValidator();
+  if (!v.routeOf(method, new URL(path, appUrl()).pathname)) return;
+  const type = res.headers.get("content-type");
+  let body: unknown = undefined;
+  if (type?.includes("application/json") && method.toUpperCase() !== "HEAD") {
+    const text = await res.clone().text();
+    try {
+      body = JSON.parse(text);
+    } catch {
+      throw new Error(`The answer to ${sent} (${res.status}) says application/json but is not JSON: ${text.slice(0, 200)}`);
+    }
+  }
+  const c = v.check(method, new URL(path, appUrl()).pathname, res.status, type, body);
+  if (c.problems.length) throw new Error(describeCheck(c, sent));
 }
 
 /**

@@ -1,35 +1,13 @@
 // The API contract (src/shared/api/routes.ts) against the route files: every JSON endpoint is in
 // the table and answers through reply()/noContent() with its own name, so the compiler checks its
 // body against the type the browser reads; the browser calls the API only through src/lib/api.ts.
-import { readdirSync, readFileSync, statSync } from "node:fs";
+import { readFileSync } from "node:fs";
 import { join, relative } from "node:path";
 import { describe, expect, it } from "vitest";
 import { FILE_ROUTES, JSON_ROUTES, routeRequest } from "@/shared/api";
+import { SRC as root, endpointsOf, files, routeFiles as findRouteFiles } from "../support/route-files";
 
-const root = join(__dirname, "../../src");
-const apiDir = join(root, "app/api/v1");
-
-function files(dir: string, test: (f: string) => boolean): string[] {
-  return readdirSync(dir).flatMap((name) => {
-    const full = join(dir, name);
-    return statSync(full).isDirectory() ? files(full, test) : test(full) ? [full] : [];
-  });
-}
-
-/** "METHOD /api/v1/..." for every handler a route file exports. */
-function endpointsOf(file: string): { method: string; path: string; source: string }[] {
-  const path =
-    "/api/v1/" +
-    relative(apiDir, join(file, ".."))
-      .split("\\")
-      .join("/")
-      .replace(/\[(\w+)\]/g, "{$1}");
-  const source = readFileSync(file, "utf8");
-  const methods = [...source.matchAll(/^export (?:const|async function) (GET|POST|PUT|PATCH|DELETE)\b/gm)].map((m) => m[1]);
-  return methods.map((method) => ({ method, path: path.replace(/\/$/, ""), source }));
-}
-
-const routeFiles = files(apiDir, (f) => f.endsWith("route.ts"));
+const routeFiles = findRouteFiles();
 const endpoints = routeFiles.flatMap(endpointsOf);
 const json = new Set<string>(JSON_ROUTES);
 const fileRoutes = new Set<string>(FILE_ROUTES);

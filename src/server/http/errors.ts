@@ -17,7 +17,8 @@ export type ApiErrorCode =
   | "unavailable"
   | "internal";
 
-const STATUS: Record<ApiErrorCode, number> = {
+/** The HTTP status of each error code (the API document lists them per status). */
+export const API_ERROR_STATUS: Record<ApiErrorCode, number> = {
   bad_request: 400,
   unauthenticated: 401,
   payment_required: 402,
@@ -42,7 +43,7 @@ export class ApiError extends Error {
     readonly headers?: Record<string, string>,
   ) {
     super(message);
-    this.status = STATUS[code];
+    this.status = API_ERROR_STATUS[code];
   }
 }
 

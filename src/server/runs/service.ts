@@ -163,7 +163,8 @@ export function runDetail(r: RunJoined, plan: Caller["plan"]): RunDetail {
   return { ...runView(r, plan), input: r.run.input, result: r.run.result ?? null };
 }
 
-const listQuery = z.object({
+/** The filters of GET /api/v1/runs (besides limit and cursor). */
+export const runListQuery = z.object({
   status: z.enum(RUN_STATUSES).optional(),
   kind: z.string().min(1).max(40).optional(),
   networkId: z
@@ -180,7 +181,7 @@ const listQuery = z.object({
 /** Newest first. Without sweepId, sweep points are left out unless includeSweepPoints=true. */
 export async function listRuns(caller: Caller, query: URLSearchParams): Promise<RunList> {
   requirePermission(caller, "results.view");
-  const q = listQuery.safeParse(Object.fromEntries([...query.entries()].filter(([k]) => k !== "limit" && k !== "cursor")));
+  const q = runListQuery.safeParse(Object.fromEntries([...query.entries()].filter(([k]) => k !== "limit" && k !== "cursor")));
   if (!q.success) throw zodToApiError(q.error);
   const limit = pageLimit(query.get("limit"));
   const cursor = decodeCursor(query.get("cursor"));

@@ -300,11 +300,12 @@ function resultGrid(axes: ResolvedAxis[], points: { quantities: Record<string, n
   return { shape: gridShape(axes), parameters: axes.map((a) => a.parameter), quantities };
 }
 
-const listQuery = z.object({ status: z.enum(RUN_STATUSES).optional() });
+/** The filter of GET /api/v1/sweeps (besides limit and cursor). */
+export const sweepListQuery = z.object({ status: z.enum(RUN_STATUSES).optional() });
 
 export async function listSweeps(caller: Caller, query: URLSearchParams): Promise<SweepList> {
   requirePermission(caller, "results.view");
-  const q = listQuery.safeParse({ status: query.get("status") ?? undefined });
+  const q = sweepListQuery.safeParse({ status: query.get("status") ?? undefined });
   if (!q.success) throw zodToApiError(q.error);
   const limit = pageLimit(query.get("limit"));
   const cursor = decodeCursor(query.get("cursor"));

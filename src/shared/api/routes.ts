@@ -142,6 +142,8 @@ export const FILE_ROUTES = [
   "GET /api/v1/datasets/{id}/original",
   "GET /api/v1/fits/{id}/curve.csv",
   "GET /api/v1/fits/{id}/profiles.csv",
+  /** The OpenAPI 3.1 document of this API (no credentials needed). */
+  "GET /api/v1/openapi.json",
 ] as const;
 
 /** The names of the `{…}` segments of a route, e.g. "id" for "GET /api/v1/runs/{id}". */

@@ -297,6 +297,13 @@ export default function ManualPage() {
           <p className="font-mono text-micro uppercase tracking-[0.18em] text-accent">model manual · engine schema v1</p>
           <h1 className="mt-2 text-display font-semibold">How Triskel models a network</h1>
           <p className="text-lead text-fg-soft">Every parameter, its unit and range, the conventions the engine follows and the formulas behind each result.</p>
+          <p>
+            From a script: the{" "}
+            <a href="/manual/api" className="text-accent underline">
+              API reference
+            </a>{" "}
+            lists every endpoint of the REST API.
+          </p>
 
           <aside aria-label="Cautions" className="mt-6 rounded-card border border-warm/40 bg-warm-soft p-4 text-warm">
             <p className="font-semibold">Read results as model predictions.</p>

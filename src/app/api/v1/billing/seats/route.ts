@@ -1,9 +1,8 @@
-import { z } from "zod";
 import { reply } from "@/server/http/reply";
 import { getCaller } from "@/server/auth";
 import { getSeats, setSeats } from "@/server/billing/subscriptions";
 import { readJson, route, zodToApiError } from "@/server/http/errors";
-import { PLANS } from "@/shared/plans";
+import { seatsInput } from "@/server/billing/inputs";
 
 export const dynamic = "force-dynamic";
 
@@ -13,20 +12,10 @@ export const GET = route(async (req: Request) => {
   return reply("GET /api/v1/billing/seats", await getSeats(caller));
 });
 
-const body = z
-  .object({
-    seats: z
-      .number({ message: "seats must be a whole number of seats" })
-      .int("seats must be a whole number")
-      .min(1, "seats must be at least 1")
-      .max(PLANS.lab.maxSeats, `seats must be at most ${PLANS.lab.maxSeats}`),
-  })
-  .strict();
-
 /** PUT /api/v1/billing/seats `{ seats }`: buy or give back seats (prorated by Stripe); 409 below members + open invitations. */
 export const PUT = route(async (req: Request) => {
   const caller = await getCaller(req);
-  const parsed = body.safeParse(await readJson(req, 10_000));
+  const parsed = seatsInput.safeParse(await readJson(req, 10_000));
   if (!parsed.success) throw zodToApiError(parsed.error);
   return reply("PUT /api/v1/billing/seats", await setSeats(caller, parsed.data.seats));
 });

@@ -1,7 +1,6 @@
 import { reply } from "@/server/http/reply";
-import { z } from "zod";
 import { can, getCaller } from "@/server/auth";
-import { ROLES } from "@/shared/permissions";
+import { inviteInput } from "@/server/workspaces/inputs";
 import { readJson, route, zodToApiError } from "@/server/http/errors";
 import { invite, listInvitations } from "@/server/workspaces/invitations";
 import { listMembers, seatUse } from "@/server/workspaces/members";
@@ -19,13 +18,6 @@ export const GET = route(async (req: Request) => {
     seats: manages ? await seatUse(caller.workspaceId) : undefined,
   });
 });
-
-const inviteInput = z
-  .object({
-    email: z.string().trim().email("must be an e-mail address").max(320),
-    role: z.enum(ROLES, { message: `must be one of ${ROLES.join(", ")}` }),
-  })
-  .strict();
 
 /** POST /api/v1/workspace/members {email, role}: invite by e-mail (201 with the invitation). */
 export const POST = route(async (req: Request) => {

@@ -1,7 +1,7 @@
 import { reply, noContent } from "@/server/http/reply";
 import { z } from "zod";
 import { getCaller } from "@/server/auth";
-import { ROLES } from "@/shared/permissions";
+import { roleInput } from "@/server/workspaces/inputs";
 import { ApiError, readJson, route, zodToApiError } from "@/server/http/errors";
 import { changeRole, removeMember } from "@/server/workspaces/members";
 
@@ -12,8 +12,6 @@ function memberId(raw: string): string {
   if (!uuid.safeParse(raw).success) throw new ApiError("not_found", `No member with id ${raw} in this group.`);
   return raw;
 }
-
-const roleInput = z.object({ role: z.enum(ROLES, { message: `must be one of ${ROLES.join(", ")}` }) }).strict();
 
 /** PATCH /api/v1/workspace/members/{userId} {role}: change a member's role (Owner only). */
 export const PATCH = route(async (req: Request, ctx: { params: Promise<{ userId: string }> }) => {
