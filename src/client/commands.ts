@@ -6,6 +6,8 @@
 import { writeFileSync } from "node:fs";
 import { createInterface } from "node:readline";
 import { readJsonFile } from "@/engine/cli-input";
+import { refusalLine } from "@/engine/cli";
+import { parseComputeInput } from "@/engine";
 import { FINISHED_JOB_STATUSES, type RunDetail, type SweepDetail } from "@/shared/api";
 import { ClientSetupError, EXIT, EXIT_CODES, RemoteApiError, TriskelClient } from "./api";
 import { describeState, ProgressReporter, type JobState } from "./progress";
@@ -257,6 +259,17 @@ async function submit(flags: Flags, progress: ProgressReporter): Promise<number>
   if (!read.ok) throw new CommandError(read.line);
   const { sweep, body } = submission(read.json);
   if (flags.csv && !sweep) throw new CommandError("submit: --csv writes a scan's results; this file has no sweep member");
+  // an inline network is checked here first, by the engine's own parser: the same line and exit
+  // code 2 as `compute` on the same file, even with the service out of reach
+  if (body.network !== undefined) {
+    try {
+      parseComputeInput({ network: body.network, computation: body.computation });
+    } catch (e) {
+      const refused = refusalLine(e);
+      if (refused !== null) throw new CommandError(refused);
+      throw e;
+    }
+  }
   const client = clientOf(flags, progress);
   if (flags.dryRun) {
     const dry = sweep

@@ -14,6 +14,13 @@ function usage(): never {
   process.exit(2);
 }
 
+/** The one line `compute` prints for input it refuses (exit code 2), or null for any other error. */
+export function refusalLine(e: unknown): string | null {
+  if (e instanceof EngineInputError) return e.message.replace(/\s*\n\s*/g, " ");
+  if (e instanceof EngineLimitError) return `refused: ${e.reason}`;
+  return null;
+}
+
 /** `compute FILE`: the arguments after the command's name. */
 export function computeCommand(args: string[]): void {
   const [file, ...rest] = args;
@@ -28,12 +35,9 @@ export function computeCommand(args: string[]): void {
     const result = compute(input);
     process.stdout.write(`${JSON.stringify(result)}\n`);
   } catch (e) {
-    if (e instanceof EngineInputError) {
-      process.stderr.write(`${e.message.replace(/\s*\n\s*/g, " ")}\n`);
-      process.exit(2);
-    }
-    if (e instanceof EngineLimitError) {
-      process.stderr.write(`refused: ${e.reason}\n`);
+    const refused = refusalLine(e);
+    if (refused !== null) {
+      process.stderr.write(`${refused}\n`);
       process.exit(2);
     }
     process.stderr.write(`error: ${(e as Error).message}\n`);

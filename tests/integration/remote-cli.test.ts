@@ -79,16 +79,25 @@ describe("submit a calculation", () => {
     expect(JSON.parse(f.stdout).conductance.total).toBeCloseTo(compute(p).conductance.total, 12);
   });
 
-  it("the files compute refuses with exit code 2 give 2 from submit too, with one line naming the field", () => {
+  it("the files compute refuses with exit code 2 give 2 from submit too, with compute's line, service up or out of reach", async () => {
     for (const name of ["invalid-unknown-field.json", "invalid-unreachable-node.json", "invalid-odd-cylinder.json"]) {
       const local = cli(["compute", path.join(FIX, name)]);
       expect(local.status, name).toBe(2);
       const r = cli(["submit", path.join(FIX, name)]);
       expect(r.status, `${name}: ${r.stderr}`).toBe(2);
-      expect(r.lines, name).toHaveLength(1);
-      expect(r.lines[0]).toMatch(/\(HTTP 422 invalid_input\)$/);
+      expect(r.lines, name).toEqual(local.lines);
       expect(r.stdout).toBe("");
+      const offline = cli(["submit", path.join(FIX, name)], { env: { TRISKEL_URL: "http://127.0.0.1:45099" } });
+      expect(offline.status, `${name} offline: ${offline.stderr}`).toBe(2);
+      expect(offline.lines, name).toEqual(local.lines);
     }
+    // a body the engine cannot check here (a saved network) is refused by the service: 422, exit code 2
+    const saved = await (
+      await api("/api/v1/networks", { method: "POST", json: { name: "remote-cli invalid computation", network: smallNetwork(4, 4) } })
+    ).json();
+    const bad = cli(["submit", file("saved-bad.json", { networkId: saved.id, computation: { kind: "conductance", energyMeV: "high" } })]);
+    expect(bad.status, bad.stderr).toBe(2);
+    expect(bad.lines).toEqual([expect.stringMatching(/\(HTTP 422 invalid_input\)$/)]);
     const notJson = path.join(dir, "broken.json");
     writeFileSync(notJson, "{ nope");
     const a = cli(["compute", notJson]);
