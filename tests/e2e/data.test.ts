@@ -187,6 +187,15 @@ describe("the measured-data workflow in the browser", () => {
     await expect(page.locator("[data-testid=profile-interval]").innerText()).resolves.toMatch(/^Below the level from 0\.1\d+ ° to 0\.1\d+ °/);
     await expect(page.locator("[data-testid=export-profiles]").getAttribute("href")).resolves.toBe(`/api/v1/fits/${fitId}/profiles.csv`);
     expect(fit.result.profiles[0].points.length).toBe(10);
+    // Inputs and provenance, and the citation: the fit's URL, engine version and input hash.
+    await expect(page.getByTestId("provenance-hash").innerText()).resolves.toBe(fit.inputHash);
+    await expect(page.getByTestId("provenance-engine").innerText()).resolves.toBe(fit.engineVersion);
+    const inputs = await page.getByTestId("inputs-block").innerText();
+    expect(inputs).toContain(fit.dataHash);
+    expect(inputs).toMatch(/Fitted\s+twist angle/i);
+    const cite = (await page.getByTestId("cite-text").innerText()).split("\n");
+    expect(cite[1]).toBe(url(`/fits/${fitId}`));
+    expect(cite[2]).toBe(`Engine version ${fit.engineVersion}; input hash (sha256) ${fit.inputHash}.`);
     await expect(seriousViolations(page)).resolves.toEqual([]);
     await shot("data-fit-report.png");
   }, 200_000);

@@ -5,6 +5,7 @@ import Link from "next/link";
 import { useState } from "react";
 import { api } from "@/lib/api";
 import { XYChart } from "@/components/charts/XYChart";
+import { Provenance } from "@/components/runs/Provenance";
 import { ErrorNote, PageHeader, Skeleton } from "@/components/ui/Page";
 import type { FitIteration, FitResult } from "@/shared/api";
 import { fitParameterInfo, fitParameterName } from "@/shared/fit-parameters";
@@ -255,6 +256,23 @@ export function FitReport({ id }: { id: string }) {
 
         {r?.profiles?.length ? <Profiles result={r} fitId={f.id} /> : null}
       </div>
+      <Provenance
+        title={`Fit of ${f.datasetName ?? "dataset"}`}
+        path={`/fits/${f.id}`}
+        input={{ network: f.settings.network, computation: f.settings.computation }}
+        extra={[
+          { label: "Dataset", value: `${f.datasetName ?? f.datasetId}${d?.synthetic ? " (synthetic)" : ""}` },
+          { label: "Data hash (sha256)", value: f.dataHash },
+          { label: "Measured", value: measured.label },
+          { label: "Swept along", value: fitParameterName(f.settings.sweepParameter) },
+          { label: "Fitted", value: f.settings.fit.map((p) => fitParameterName(p.parameter)).join(", ") },
+        ]}
+        networkId={null}
+        networkVersion={null}
+        engineVersion={f.engineVersion}
+        inputHash={f.inputHash}
+        date={f.finishedAt ?? f.createdAt}
+      />
     </>
   );
 }
