@@ -112,8 +112,10 @@ describe("fits", () => {
     expect(report.dataset.dataHash).toMatch(/^[0-9a-f]{64}$/);
     expect(report.settings.fit).toEqual(LK07_FIT_START);
     expect(report.settings.sweepParameter).toBe("fieldTesla");
-    const csv = await (await api(`/api/v1/fits/${id}/curve.csv`)).text();
-    expect(csv.trim().split("\n")).toHaveLength(122);
+    const csv = (await (await api(`/api/v1/fits/${id}/curve.csv`)).text()).trim().split("\n");
+    // two # lines, the header with units in the names, one row per data point
+    expect(csv).toHaveLength(123);
+    expect(csv[2]).toBe("field_T,model_conductance_e2h,residual_e2h");
     // chi2 profiles of both parameters (on by default), in the report and as CSV: one row per point
     expect(r.profiles.map((p: { parameter: string }) => p.parameter)).toEqual(["node.forward", "contactOhms"]);
     for (const p of r.profiles) {
@@ -129,11 +131,16 @@ describe("fits", () => {
     const profilesCsv = await api(`/api/v1/fits/${id}/profiles.csv`);
     expect(profilesCsv.headers.get("content-type")).toMatch(/text\/csv/);
     const lines = (await profilesCsv.text()).trim().split("\n");
-    expect(lines[1]).toBe("profiledParameter,value,chi2,oneSigmaLevel,fitted:node.forward,fitted:contactOhms");
-    expect(lines.length - 2).toBe(r.profiles[0].points.length + r.profiles[1].points.length);
-    const first = lines[2].split(",");
-    expect(first[0]).toBe("node.forward");
-    expect(Number(first[2])).toBeCloseTo(r.profiles[0].points[0].chi2, 9);
+    // columns by the export rule (units in the names, src/shared/quantities.ts), after 3 # lines
+    expect(lines.slice(0, 3).every((l) => l.startsWith("# "))).toBe(true);
+    expect(lines[0]).toContain(`input sha256 ${report.inputHash}`);
+    expect(lines[3]).toBe("profiled_parameter,profiled_unit,value,chi2_1,one_sigma_level_1,fitted_node_forward_probability_1,fitted_contact_resistance_ohm");
+    expect(lines.length - 4).toBe(r.profiles[0].points.length + r.profiles[1].points.length);
+    const first = lines[4].split(",");
+    expect(first.slice(0, 2)).toEqual(["node.forward", "1"]);
+    expect(Number(first[3])).toBeCloseTo(r.profiles[0].points[0].chi2, 9);
+    const ohms = lines.find((l) => l.startsWith("contactOhms,"))!.split(",");
+    expect(ohms[1]).toBe("ohm");
 
     const list = await (await api(`/api/v1/fits?datasetId=${datasetId}`, { as: "viewer" })).json();
     expect(list.items.map((x: { id: string }) => x.id)).toContain(id);

@@ -7,6 +7,8 @@ import { and, desc, eq, lt } from "drizzle-orm";
 import { z } from "zod";
 import { computeCostUsd } from "@/shared/plans";
 import { Y_MEASURES_INFO, yMeasuresOf } from "@/shared/csv";
+import { MODEL_CAUTION } from "@/shared/exports";
+import { quantity, UNITS } from "@/shared/quantities";
 import type { FitCreated, FitDetail, FitDryRun, FitExport, FitList, FitSettings } from "@/shared/api";
 import type { Caller } from "@/server/auth";
 import { requirePermission } from "@/server/auth";
@@ -349,16 +351,26 @@ export async function exportFit(caller: Caller, id: string): Promise<FitExport> 
   };
 }
 
-/** CSV of the model curve (x in the dataset's stored unit, conductance in e2/h). */
+/** The `#` lines that open a fit's CSV files: the fit, engine, input and dataset hashes, the caution. */
+function fitCsvHeader(id: string, fit: { engineVersion: string | null; inputHash: string; dataHash: string }): string[] {
+  return [`# Triskel fit ${id}; engine ${fit.engineVersion}; input sha256 ${fit.inputHash}; dataset sha256 ${fit.dataHash}`, `# ${MODEL_CAUTION}`];
+}
+
+/**
+ * CSV of the model curve and the residuals at the data's x, the columns named by the export rule
+ * of src/shared/quantities.ts: `field_T,model_conductance_e2h,residual_e2h` (a Hall-bar fit:
+ * `model_longitudinal_resistance_ohm` or `model_hall_resistance_ohm`, `residual_ohm`).
+ */
 export async function fitCurveCsv(caller: Caller, id: string): Promise<{ filename: string; csv: string }> {
   const r = await loadFit(caller, id);
   const result = r.fit.result as { curve?: { x: number[]; y: number[] }; residuals?: number[] } | null;
   if (!result?.curve) throw new ApiError("conflict", `Fit ${id} has no model curve yet (status ${r.fit.status}).`);
+  const x = quantity(r.fit.input.sweepParameter ?? "fieldTesla").column;
   const lines = [
-    `# Triskel fit ${id}; engine ${r.fit.engineVersion}; dataset sha256 ${r.fit.dataHash}`,
+    ...fitCsvHeader(id, r.fit),
     yMeasuresOf({ yMeasures: r.fit.input.measured }) === "twoTerminal"
-      ? "fieldTesla,modelConductanceE2h,residualE2h"
-      : `fieldTesla,model${r.fit.input.measured === "hall" ? "Hall" : "Longitudinal"}ResistanceOhm,residualOhm`,
+      ? `${x},model_conductance_e2h,residual_e2h`
+      : `${x},model_${r.fit.input.measured === "hall" ? "hall" : "longitudinal"}_resistance_ohm,residual_ohm`,
     ...result.curve.x.map((x, i) => `${x},${result.curve!.y[i]},${result.residuals?.[i] ?? ""}`),
   ];
   return { filename: `fit-${id.slice(0, 8)}-model.csv`, csv: lines.join("\n") + "\n" };
@@ -377,11 +389,19 @@ export async function fitProfilesCsv(caller: Caller, id: string): Promise<{ file
     throw new ApiError("conflict", `Fit ${id} has no chi2 profiles (they were turned off with options.profilePoints = 0, or the fit predates them).`);
   const names = result.parameters.map((p) => p.parameter);
   const lines = [
-    `# Triskel fit ${id}; engine ${r.fit.engineVersion}; dataset sha256 ${r.fit.dataHash}; chi2 of the fit ${result.chi2}; model predictions`,
-    ["profiledParameter", "value", "chi2", "oneSigmaLevel", ...names.map((n) => `fitted:${n}`)].join(","),
+    ...fitCsvHeader(id, r.fit),
+    `# chi2 of the fit ${result.chi2}; value is the profiled parameter's, in profiled_unit; fitted_* are every fitted parameter after the refit`,
+    ["profiled_parameter", "profiled_unit", "value", "chi2_1", "one_sigma_level_1", ...names.map((n) => `fitted_${quantity(n).column}`)].join(","),
     ...profiles.flatMap((p) =>
       p.points.map((pt) =>
-        [p.parameter, pt.value, pt.chi2, result.chi2 + p.deltaChi2, ...names.map((n) => (n === p.parameter ? pt.value : (pt.others[n] ?? "")))].join(","),
+        [
+          p.parameter,
+          UNITS[quantity(p.parameter).unit],
+          pt.value,
+          pt.chi2,
+          result.chi2 + p.deltaChi2,
+          ...names.map((n) => (n === p.parameter ? pt.value : (pt.others[n] ?? ""))),
+        ].join(","),
       ),
     ),
   ];
