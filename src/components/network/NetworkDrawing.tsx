@@ -48,9 +48,11 @@ export function NetworkDrawing({ shape, linkNm, height = 420, linkValues, label,
   const { ref: wrapRef, width } = useWidth(640, 240);
   const palette = usePalette(true);
 
+  // valleys belong to the triangular (moiré) network; a square network has one chirality
+  const valleyText = shape.lattice === "triangular" ? `valley ${shape.valley}` : null;
   const description =
-    `${shape.lattice} network, ${shape.columns} × ${shape.rows} nodes, ${links.toLocaleString("en")} links, ` +
-    `valley ${shape.valley}, ${shape.transverse} transverse boundary, leads on the left and right`;
+    `${shape.lattice} network, ${shape.columns} × ${shape.rows} cells, ${links.toLocaleString("en")} links, ` +
+    `${valleyText ? `${valleyText}, ` : ""}${shape.transverse} transverse boundary, leads on the left and right`;
   return (
     <figure className="relative overflow-hidden rounded-card border border-line bg-surface">
       <div ref={wrapRef} style={{ height }} className="relative w-full">
@@ -64,7 +66,7 @@ export function NetworkDrawing({ shape, linkNm, height = 420, linkValues, label,
       </div>
       <figcaption className="flex flex-wrap items-center justify-between gap-2 border-t border-line px-3 py-1.5 text-caption text-fg-faint">
         <span>
-          {shape.columns} × {shape.rows} · {links.toLocaleString("en")} links · valley {shape.valley}
+          {shape.columns} × {shape.rows} cells · {links.toLocaleString("en")} links{valleyText ? ` · ${valleyText}` : ""}
           {linkNm ? ` · link ${linkNm.toFixed(1)} nm` : ""}
           {contacts?.length && mode === "canvas"
             ? ` · contacts (not drawn at this size): ${contacts.map((c) => `${c.name} ${c.edge} ${c.fromColumn}–${c.toColumn}`).join(", ")}`
