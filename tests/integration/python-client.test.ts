@@ -52,7 +52,7 @@ describe("Python client", () => {
     expect(out.estimate.computeSeconds).toBeGreaterThan(0);
     expect(out.sweep.grid[1]).toBeCloseTo(expected.conductance.total, 12);
     expect(out.sweep.csv).toMatch(/^#/);
-    expect(out.sweep.csv).toMatch(/\npointIndex,fieldTesla,status,runId,computeSeconds,/);
+    expect(out.sweep.csv).toMatch(/\npoint_index,field_T,status,run_id,compute_s,/);
     expect(out.cancelled).toMatchObject({ status: null, code: "job_cancelled", jobStatus: "cancelled" });
     expect(out.cancelAgain).toEqual({ status: 409, code: "conflict" });
     expect(out.invalid).toMatchObject({ status: 422, code: "invalid_input", details: { field: "computation.energyMeV" } });

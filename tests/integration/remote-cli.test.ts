@@ -141,9 +141,10 @@ describe("submit a scan", () => {
     for (const line of r.lines.slice(1)) expect(line).toMatch(new RegExp(`^scan ${scan.id}: (queued|running|succeeded) \\d+% \\(\\d of 5 points done\\)$`));
     const csv = readFileSync(csvPath, "utf8");
     const rows = csv.split("\n").filter((l) => l && !l.startsWith("#"));
-    expect(rows[0]).toMatch(/^pointIndex,fieldTesla,status,runId,computeSeconds,/);
+    // the export rule: units in the column names (docs/api.md)
+    expect(rows[0]).toMatch(/^point_index,field_T,status,run_id,compute_s,/);
     expect(rows).toHaveLength(6);
-    expect(csv).toMatch(/fieldTesla \[T\]/);
+    expect(csv).toMatch(/^# axis 1: Magnetic field B \(T\): 5 values from 0 T to 0\.2 T$/m);
     // the last point (fieldTesla = 0.2) against compute on the same input
     const example = JSON.parse(readFileSync(path.join(EXAMPLES, "scan.json"), "utf8"));
     const local = compute(file("scan-point.json", { network: example.network, computation: { ...example.computation, fieldTesla: 0.2 } }));
@@ -152,7 +153,7 @@ describe("submit a scan", () => {
     // fetch of a scan prints the same CSV (but for the time it was generated)
     const f = cli(["fetch", scan.id]);
     expect(f.status).toBe(0);
-    const undated = (text: string) => text.replace(/; generated [^\n]*/, "");
+    const undated = (text: string) => text.replace(/^# exported: .*$/m, "");
     expect(undated(f.stdout)).toBe(undated(csv));
   });
 });

@@ -76,7 +76,7 @@ describe("script examples", () => {
     expect(grid).toHaveLength(5);
     expect(grid.every((g) => g > 0)).toBe(true);
     expect(lines[4]).toMatch(/^422 invalid_input computation\.energyMeV: /);
-    expect(readFileSync(path.join(dir, "scan.csv"), "utf8")).toMatch(/\npointIndex,fieldTesla,/);
+    expect(readFileSync(path.join(dir, "scan.csv"), "utf8")).toMatch(/\npoint_index,field_T,/);
   });
 
   it("the manual's page shows every example file as it is, and the manual links to it and to the client", async () => {
