@@ -22,6 +22,8 @@ export interface Estimate {
 export interface JobError {
   code: string;
   message: string;
+  /** The input the engine refused, as a path into the submitted body (e.g. "computation.temperatureMaxEnergies"), when it named one. */
+  field?: string;
   details?: unknown;
 }
 
